@@ -1,0 +1,11 @@
+/**
+ * Every CLI command registers itself here: one module per command, each exporting
+ * `register(program)`. Keep this list in the order commands appear in `lamella --help`.
+ */
+import type { Command } from 'commander';
+
+export type Register = (program: Command) => void;
+
+export const commandModules: ReadonlyArray<() => Promise<{ register: Register }>> = [
+  // e.g. () => import('./spectrum.js'),
+];

@@ -1,0 +1,46 @@
+/**
+ * CLI entry: builds the commander program from the command modules, runs it, and turns any
+ * error into one line on stderr and a documented exit status (see ./errors.ts).
+ */
+import { Command, CommanderError } from 'commander';
+import { commandModules } from './commands/index.js';
+import { EXIT_OK, EXIT_USAGE, exitCodeFor, oneLine } from './errors.js';
+
+export async function buildProgram(): Promise<Command> {
+  const program = new Command();
+  program
+    .name('lamella')
+    .description(
+      'Thickness maps of thin transparent films (soap films, oxide and nitride layers, coatings) from colour photographs of their interference colours.',
+    )
+    .option('--debug', 'show stack traces on errors')
+    .showHelpAfterError('(run with --help for usage)')
+    .exitOverride()
+    .configureOutput({ outputError: (text, write) => write(text) });
+  for (const load of commandModules) {
+    const mod = await load();
+    mod.register(program);
+  }
+  for (const sub of program.commands) sub.exitOverride();
+  return program;
+}
+
+/** Runs the CLI with a full argv (`process.argv`) and returns the exit status. */
+export async function run(argv: readonly string[]): Promise<number> {
+  const debug = argv.includes('--debug');
+  let program: Command;
+  try {
+    program = await buildProgram();
+    await program.parseAsync([...argv]);
+    return typeof process.exitCode === 'number' ? process.exitCode : EXIT_OK;
+  } catch (error) {
+    if (error instanceof CommanderError) {
+      // Help and version requests end with code 0; commander has printed the reason otherwise.
+      if (error.exitCode === 0 || error.code === 'commander.helpDisplayed' || error.code === 'commander.version') return EXIT_OK;
+      return EXIT_USAGE;
+    }
+    process.stderr.write(`lamella: ${oneLine(error)}\n`);
+    if (debug && error instanceof Error && error.stack) process.stderr.write(`${error.stack}\n`);
+    return exitCodeFor(error);
+  }
+}

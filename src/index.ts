@@ -1,0 +1,2 @@
+/** Library entry point: re-exports the public API of each engine. */
+export * from './optics/types.js';
