@@ -1,0 +1,39 @@
+/**
+ * Encoders from a plain RasterImage to PNG, JPEG or TIFF bytes. 16-bit data stays 16-bit in PNG
+ * and TIFF; JPEG is 8-bit only. Colour images are written as sRGB, one/two channels as grey.
+ */
+import sharp, { type Sharp } from 'sharp';
+import { checkRasterImage } from './checkRasterImage.js';
+import type { RasterImage } from './photo.js';
+
+function pipeline(image: RasterImage): Sharp {
+  checkRasterImage(image);
+  const is16 = image.data instanceof Uint16Array;
+  const grey = image.channels <= 2;
+  const input = is16 ? new Uint16Array(image.data) : new Uint8Array(image.data);
+  return sharp(input, { raw: { width: image.width, height: image.height, channels: image.channels } }).toColourspace(
+    grey ? (is16 ? 'grey16' : 'b-w') : is16 ? 'rgb16' : 'srgb',
+  );
+}
+
+/** Lossless PNG (8- or 16-bit per the data type). */
+export async function encodePng(image: RasterImage): Promise<Buffer> {
+  return pipeline(image).png({ compressionLevel: 6, adaptiveFiltering: false }).toBuffer();
+}
+
+/** Baseline JPEG, 8-bit data only. `quality` 1–100 (default 90), 4:4:4 chroma to keep colours sharp. */
+export async function encodeJpeg(image: RasterImage, quality = 90): Promise<Buffer> {
+  checkRasterImage(image);
+  if (!(image.data instanceof Uint8Array)) {
+    throw new TypeError('JPEG is 8-bit only: image.data must be a Uint8Array, received Uint16Array (write PNG or TIFF for 16-bit)');
+  }
+  if (!Number.isInteger(quality) || quality < 1 || quality > 100) {
+    throw new RangeError(`quality must be an integer from 1 to 100, received ${quality}`);
+  }
+  return pipeline(image).jpeg({ quality, chromaSubsampling: '4:4:4' }).toBuffer();
+}
+
+/** Lossless TIFF (deflate), 8- or 16-bit per the data type. */
+export async function encodeTiff(image: RasterImage): Promise<Buffer> {
+  return pipeline(image).tiff({ compression: 'deflate', predictor: 'horizontal' }).toBuffer();
+}

@@ -1,0 +1,57 @@
+/** Plain records exchanged with the image adapter. Only `src/io` touches the image codec. */
+
+/** Capture time read from EXIF (DateTimeOriginal + SubSecTimeOriginal). */
+export interface PhotoTime {
+  /** EXIF DateTimeOriginal exactly as written, `YYYY:MM:DD HH:MM:SS`. */
+  dateTimeOriginal?: string;
+  /** EXIF SubSecTimeOriginal digits, e.g. `25` meaning 0.25 s. */
+  subSecTimeOriginal?: string;
+  /** Seconds since 1970-01-01, the camera's local time treated as UTC, with sub-seconds. */
+  timestampS?: number;
+}
+
+/** A decoded photograph with upright pixels. */
+export interface Photo {
+  width: number;
+  height: number;
+  /** Interleaved RGB, encoded values scaled to 0..1 (8-bit / 255, 16-bit / 65535). */
+  rgb: Float32Array;
+  bitDepth: 8 | 16;
+  /** Decoder that read the content: 'jpeg' | 'png' | 'tiff' | 'webp' | … (sniffed, not the suffix). */
+  format: string;
+  /** The source had one or two channels (grey, grey + alpha), or all three channels equal everywhere. */
+  isGrey: boolean;
+  hadAlpha: boolean;
+  /** 0..1 per pixel, present when the source had an alpha channel. */
+  alpha?: Float32Array;
+  /** EXIF orientation 1–8 that was applied to make the pixels upright (1 when absent). */
+  orientationApplied: number;
+  exif: PhotoTime;
+}
+
+/** What can be learnt from a photo's header without decoding its pixels. */
+export interface PhotoMetadata {
+  /** Upright size (after EXIF orientation). */
+  width: number;
+  height: number;
+  format: string;
+  bitDepth: 8 | 16;
+  channels: number;
+  hasAlpha: boolean;
+  orientation: number;
+  exif: PhotoTime;
+}
+
+export interface ReadPhotoOptions {
+  /** Refuse images with more pixels than this (default and upper bound: MAX_PIXELS). */
+  maxPixels?: number;
+}
+
+/** Plain raster for writing: interleaved samples, 8-bit (Uint8Array) or 16-bit (Uint16Array). */
+export interface RasterImage {
+  data: Uint8Array | Uint16Array;
+  width: number;
+  height: number;
+  /** 1 grey, 2 grey + alpha, 3 RGB, 4 RGBA. */
+  channels: 1 | 2 | 3 | 4;
+}

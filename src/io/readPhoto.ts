@@ -1,0 +1,92 @@
+/**
+ * Decodes a photograph into upright, interleaved RGB floats scaled 0..1.
+ *
+ * - EXIF orientation is applied (codec auto-orient); the value applied is reported.
+ * - 16-bit PNG/TIFF are read at 16 bits (values / 65535); everything else at 8 bits (/ 255).
+ * - Grey (1 channel) and grey + alpha (2 channels) are expanded to RGB; alpha is kept apart.
+ * - Content is sniffed, so a wrongly named file still reads if it is a real image.
+ * - Colour-managed files (embedded ICC profile) are converted to sRGB by the codec; files without
+ *   a profile are taken as sRGB (common practice for camera JPEGs).
+ */
+import sharp, { type Metadata, type OutputInfo } from 'sharp';
+import { InputError } from '../cli/errors.js';
+import { MAX_PIXELS } from './limits.js';
+import { parseExifTime } from './exifTime.js';
+import { readInputFile } from './readInputFile.js';
+import { decodeInputError } from './decodeErrors.js';
+import { checkMaxPixels } from './checkMaxPixels.js';
+import type { Photo, ReadPhotoOptions } from './photo.js';
+
+export async function readPhoto(path: string, options: ReadPhotoOptions = {}): Promise<Photo> {
+  const maxPixels = checkMaxPixels(options.maxPixels);
+  const bytes = await readInputFile(path);
+  let meta: Metadata;
+  try {
+    meta = await sharp(bytes, { limitInputPixels: maxPixels }).metadata();
+  } catch (error) {
+    throw decodeInputError(path, error, maxPixels);
+  }
+  if (!(meta.width > 0 && meta.height > 0)) throw new InputError(path, 'image has no pixels');
+  if (meta.width * meta.height > maxPixels) {
+    throw new InputError(path, `image has ${meta.width}×${meta.height} pixels, more than the limit of ${maxPixels}; crop or down-sample it first`);
+  }
+  const is16 = meta.depth === 'ushort';
+  const greySource = meta.channels <= 2;
+  // Converting to (16-bit) sRGB expands grey to three equal channels and keeps alpha;
+  // converting to 'b-w' would drop the alpha band of grey + alpha images.
+  const space = is16 ? 'rgb16' : 'srgb';
+  let raw: { data: Buffer; info: OutputInfo };
+  try {
+    raw = await sharp(bytes, { autoOrient: true, limitInputPixels: maxPixels, failOn: 'error' })
+      .toColourspace(space)
+      .raw({ depth: is16 ? 'ushort' : 'uchar' })
+      .toBuffer({ resolveWithObject: true });
+  } catch (error) {
+    throw decodeInputError(path, error, maxPixels);
+  }
+  const { width, height, channels } = raw.info;
+  const pixelCount = width * height;
+  const samples: Uint8Array | Uint16Array = is16
+    ? new Uint16Array(raw.data.buffer, raw.data.byteOffset, raw.data.byteLength / 2)
+    : new Uint8Array(raw.data.buffer, raw.data.byteOffset, raw.data.byteLength);
+  if (samples.length !== pixelCount * channels) {
+    throw new InputError(path, `decoder returned ${samples.length} samples, expected ${pixelCount * channels}`);
+  }
+  const scale = is16 ? 1 / 65535 : 1 / 255;
+  const colourChannels = channels === 2 || channels === 4 ? channels - 1 : channels;
+  const hasAlpha = channels === 2 || channels === 4;
+  const rgb = new Float32Array(pixelCount * 3);
+  const alpha = hasAlpha ? new Float32Array(pixelCount) : undefined;
+  let allEqual = true;
+  for (let i = 0, s = 0, o = 0; i < pixelCount; i++, s += channels, o += 3) {
+    if (colourChannels === 1) {
+      const v = samples[s] * scale;
+      rgb[o] = v;
+      rgb[o + 1] = v;
+      rgb[o + 2] = v;
+    } else {
+      const r = samples[s];
+      const g = samples[s + 1];
+      const b = samples[s + 2];
+      if (allEqual && (r !== g || g !== b)) allEqual = false;
+      rgb[o] = r * scale;
+      rgb[o + 1] = g * scale;
+      rgb[o + 2] = b * scale;
+    }
+    if (alpha) alpha[i] = samples[s + colourChannels] * scale;
+  }
+  const orientation = typeof meta.orientation === 'number' && meta.orientation >= 1 && meta.orientation <= 8 ? meta.orientation : 1;
+  const photo: Photo = {
+    width,
+    height,
+    rgb,
+    bitDepth: is16 ? 16 : 8,
+    format: String(meta.format),
+    isGrey: greySource || colourChannels === 1 || allEqual,
+    hadAlpha: hasAlpha,
+    orientationApplied: orientation,
+    exif: parseExifTime(meta.exif),
+  };
+  if (alpha) photo.alpha = alpha;
+  return photo;
+}

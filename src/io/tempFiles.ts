@@ -1,0 +1,54 @@
+/**
+ * Registry of temporary files that are being written. An interrupt handler (installed by the
+ * CLI, see `removeTempFilesOnSignals`) calls `cleanupTempFiles()` so that Ctrl-C leaves no partial
+ * output behind. The library itself installs no handler unless asked.
+ */
+import { unlinkSync } from 'node:fs';
+
+const inFlight = new Set<string>();
+
+export function registerTempFile(path: string): void {
+  inFlight.add(path);
+}
+
+export function unregisterTempFile(path: string): void {
+  inFlight.delete(path);
+}
+
+/** Paths of temp files currently being written (a copy). */
+export function pendingTempFiles(): string[] {
+  return [...inFlight];
+}
+
+/** Removes every registered temp file (synchronously, safe inside a signal handler). Returns how many were removed. */
+export function cleanupTempFiles(): number {
+  let removed = 0;
+  for (const path of inFlight) {
+    try {
+      unlinkSync(path);
+      removed++;
+    } catch {
+      // Already gone (renamed into place or removed): nothing to do.
+    }
+    inFlight.delete(path);
+  }
+  return removed;
+}
+
+let installed = false;
+
+/**
+ * Installs SIGINT/SIGTERM handlers that remove in-flight temp files and then exit with the
+ * conventional status 128 + signal number (130 for SIGINT, 143 for SIGTERM; common practice).
+ * Idempotent.
+ */
+export function removeTempFilesOnSignals(): void {
+  if (installed) return;
+  installed = true;
+  const handler = (signal: NodeJS.Signals): void => {
+    cleanupTempFiles();
+    process.exit(signal === 'SIGINT' ? 130 : 143);
+  };
+  process.once('SIGINT', handler);
+  process.once('SIGTERM', handler);
+}
