@@ -1,2 +1,3 @@
 /** Library entry point: re-exports the public API of each engine. */
 export * from './optics/types.js';
+export * from './optics/index.js';

@@ -43,6 +43,8 @@ export interface Stack {
   /**
    * Optional: the substrate is a thick slab of this thickness whose back surface, facing
    * `exitMedium`, adds its reflection incoherently (e.g. the back of a glass slide).
+   * `thicknessMm` (optional) sets the slab thickness for absorption in the substrate; without it
+   * the slab is taken as non-absorbing.
    */
-  readonly incoherentBack?: { readonly exitMedium: Material };
+  readonly incoherentBack?: { readonly exitMedium: Material; readonly thicknessMm?: number };
 }
