@@ -1,0 +1,120 @@
+/**
+ * Weighted nonlinear least squares: minimise Σ wᵢ (yᵢ − f(xᵢ; p))² with optional bounds.
+ *
+ * Method (Levenberg 1944, Q. Appl. Math. 2, 164–168; Marquardt 1963, J. SIAM 11, 431–441):
+ *  1. The problem is rewritten in scaled parameters q = p / scale, with residuals multiplied by √w
+ *     and by one constant that makes their initial RMS 1. Weights therefore enter only through our
+ *     residuals: the wrapped library's own `weights` option is left at 1, because in
+ *     ml-levenberg-marquardt 5.1.0 its error sum multiplies residuals² by weights² while its step
+ *     divides by weights² (src/check_options.ts, error_calculation.ts, step.ts), which is
+ *     consistent only for equal weights.
+ *  2. `levenbergMarquardt` from ml-levenberg-marquardt runs in blocks of 10 iterations (every option
+ *     passed explicitly; central differences with a per-parameter step) until a block lowers the
+ *     sum of squares by less than `tolerance` (relative). The library alone stops only on an
+ *     absolute error threshold.
+ *  3. Our own Marquardt-scaled loop (./polishLevenbergMarquardt.ts) finishes the descent and
+ *     decides convergence. The same loop is also run from the initial point (a restart), and the
+ *     lower sum of squares wins: see the comment in the code for why.
+ *  4. Standard errors from the Jacobian at the optimum: cov = s²·(JᵀWJ)⁻¹, s² = RSS/(n − p)
+ *     (./covarianceFromJacobian.ts). Singular or ill-conditioned JᵀWJ → warning and NaN errors.
+ * For vector residuals (e.g. three colour channels per pixel) pass x = observation index and let
+ * the model look up what it needs.
+ */
+import { levenbergMarquardt } from 'ml-levenberg-marquardt';
+import { checkProblem } from './checkProblem.js';
+import { scaledResiduals } from './scaledResiduals.js';
+import { polishLevenbergMarquardt } from './polishLevenbergMarquardt.js';
+import { covarianceFromJacobian } from './covarianceFromJacobian.js';
+import type { LeastSquaresProblem, LeastSquaresResult } from './types.js';
+
+const LIBRARY_BLOCK = 10;
+const STEP = Math.cbrt(Number.EPSILON);
+
+export function fitLeastSquares(problem: LeastSquaresProblem): LeastSquaresResult {
+  const checked = checkProblem(problem);
+  const { x, y, sqrtWeights, scale, maxIterations, tolerance } = checked;
+  const n = x.length;
+  const p = scale.length;
+  const warnings: string[] = [];
+  const plain = scaledResiduals(checked, 1);
+  const work = new Float64Array(n);
+  let q = checked.initial.map((v, k) => v / scale[k]);
+  const rss0 = plain.residuals(q, work);
+  if (!Number.isFinite(rss0)) {
+    throw new RangeError(`model must return finite values at the initial parameters [${checked.initial.join(', ')}], received a non-finite residual sum of squares`);
+  }
+  const c = rss0 > 0 ? 1 / Math.sqrt(rss0 / n) : 1;
+  const normalised = scaledResiduals(checked, c);
+
+  // Phase 2: the wrapped library, in blocks.
+  const index = Float64Array.from({ length: n }, (_, i) => i);
+  const target = Float64Array.from(y, (v, i) => c * sqrtWeights[i] * v);
+  const parameterised = (qs: number[]) => {
+    const f = checked.model(normalised.toParams(qs));
+    return (i: number) => c * sqrtWeights[i] * f(x[i]);
+  };
+  let rss = normalised.residuals(q, work);
+  let iterations = 0;
+  while (iterations < maxIterations && rss > 0) {
+    let out;
+    try {
+      out = levenbergMarquardt({ x: index, y: target }, parameterised, {
+        initialValues: q,
+        weights: 1,
+        damping: 1e-2,
+        dampingStepUp: 11,
+        dampingStepDown: 9,
+        improvementThreshold: 1e-3,
+        gradientDifference: q.map((v) => STEP * Math.max(Math.abs(v), 1)),
+        centralDifference: true,
+        minValues: normalised.lowerQ,
+        maxValues: normalised.upperQ,
+        maxIterations: Math.min(LIBRARY_BLOCK, maxIterations - iterations),
+        errorTolerance: 0,
+      });
+    } catch {
+      break; // e.g. the model threw for a trial point: continue with our own loop
+    }
+    iterations += out.iterations;
+    const next = normalised.residuals(out.parameterValues, work);
+    if (!(Number.isFinite(next) && next < rss)) break;
+    const fall = (rss - next) / rss;
+    q = out.parameterValues.slice();
+    rss = next;
+    if (fall <= tolerance) break;
+  }
+
+  // Phase 3: our own Marquardt loop finishes and judges convergence. It is also run from the
+  // initial point: the library takes every step, even one that raises the sum of squares, and
+  // from NIST's first start of Rat43 and second start of MGH09 it wanders to a worse minimum.
+  // The lower of the two results is kept.
+  const viaLibrary = polishLevenbergMarquardt(normalised, q, maxIterations, tolerance);
+  const direct = polishLevenbergMarquardt(normalised, checked.initial.map((v, k) => v / scale[k]), maxIterations, tolerance);
+  const polished = direct.rss < viaLibrary.rss ? direct : viaLibrary;
+  q = polished.q;
+  iterations += viaLibrary.iterations + direct.iterations;
+  if (!polished.converged) warnings.push(`did not converge within ${maxIterations} iterations; result is the best point found`);
+
+  // Phase 4: statistics in the original parameters (no normalisation, Jacobian columns / scale).
+  const finalRss = plain.residuals(q, work);
+  const jacobian = new Float64Array(n * p);
+  plain.jacobian(q, jacobian);
+  for (let i = 0; i < n; i++) for (let k = 0; k < p; k++) jacobian[i * p + k] /= scale[k];
+  const stats = covarianceFromJacobian(jacobian, n, p, finalRss);
+  if (stats.warning) warnings.push(stats.warning);
+  q.forEach((v, k) => {
+    if (v <= normalised.lowerQ[k] || v >= normalised.upperQ[k]) {
+      warnings.push(`parameter ${k} ended at its ${v <= normalised.lowerQ[k] ? 'lower' : 'upper'} bound; its standard error treats it as free`);
+    }
+  });
+  return {
+    parameters: plain.toParams(q),
+    standardErrors: stats.standardErrors,
+    covariance: stats.covariance,
+    residualSumOfSquares: finalRss,
+    degreesOfFreedom: n - p,
+    iterations,
+    converged: polished.converged,
+    warnings,
+  };
+}

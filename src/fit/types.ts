@@ -1,0 +1,36 @@
+/** Problem and result records of the least-squares fitting layer (see ./fitLeastSquares.ts). */
+
+export interface LeastSquaresProblem {
+  /** Independent variable per observation (for vector residuals: the observation index). */
+  x: ArrayLike<number>;
+  /** Observed value per observation. */
+  y: ArrayLike<number>;
+  /** Weight per observation, w = 1/σ² (default 1 for every observation). */
+  weights?: ArrayLike<number>;
+  /** Model: binds parameters once, returns the prediction for one x. */
+  model: (params: readonly number[]) => (x: number) => number;
+  initial: readonly number[];
+  lower?: readonly number[];
+  upper?: readonly number[];
+  /** Typical magnitude per parameter; the solver works on p / scale (default |initial|, or 1 where 0). */
+  scale?: readonly number[];
+  /** Upper bound on solver iterations (default 200). */
+  maxIterations?: number;
+  /** Relative change of the residual sum of squares that counts as converged (default 1e-12). */
+  tolerance?: number;
+}
+
+export interface LeastSquaresResult {
+  parameters: number[];
+  /** √diag(covariance); NaN where the covariance could not be formed. */
+  standardErrors: number[];
+  /** s² (JᵀWJ)⁻¹ with s² = RSS / (n − p), J the model Jacobian at the optimum. */
+  covariance: number[][];
+  /** Σ wᵢ (yᵢ − f(xᵢ))². */
+  residualSumOfSquares: number;
+  /** n − p. */
+  degreesOfFreedom: number;
+  iterations: number;
+  converged: boolean;
+  warnings: string[];
+}
