@@ -1,0 +1,66 @@
+/**
+ * Expands the INPUT arguments of a series into an ordered list of frames: a file is taken as is,
+ * a folder contributes its image files (not recursive), anything else is a glob pattern
+ * (tinyglobby). Frames are sorted in natural order of their file names (then of their full
+ * paths), and a file named twice is kept once.
+ */
+import { stat, readdir } from 'node:fs/promises';
+import { basename, extname, join, resolve } from 'node:path';
+import { glob } from 'tinyglobby';
+import { compareNatural } from './naturalOrder.js';
+import { isImageFileName } from './imageExtensions.js';
+import type { FrameJob } from './types.js';
+
+export interface ExpandedInputs {
+  readonly frames: FrameJob[];
+  /** Inputs that matched nothing, and duplicates removed, as one-line warnings. */
+  readonly warnings: string[];
+}
+
+async function kindOf(path: string): Promise<'file' | 'dir' | null> {
+  try {
+    const info = await stat(path);
+    return info.isDirectory() ? 'dir' : 'file';
+  } catch {
+    return null;
+  }
+}
+
+export async function expandInputs(inputs: readonly string[], cwd: string = process.cwd()): Promise<ExpandedInputs> {
+  if (!Array.isArray(inputs)) throw new TypeError(`inputs must be an array of strings, received ${typeof inputs}`);
+  const warnings: string[] = [];
+  const found: string[] = [];
+  for (const input of inputs) {
+    if (typeof input !== 'string' || input === '') throw new TypeError(`each input must be a non-empty string, received ${JSON.stringify(input)}`);
+    const absolute = resolve(cwd, input);
+    const kind = await kindOf(absolute);
+    if (kind === 'file') {
+      found.push(absolute);
+    } else if (kind === 'dir') {
+      const names = (await readdir(absolute, { withFileTypes: true }))
+        .filter((entry) => entry.isFile() && isImageFileName(entry.name))
+        .map((entry) => join(absolute, entry.name));
+      if (names.length === 0) warnings.push(`input folder ${input} holds no image files (.jpg, .png, .tif, .webp)`);
+      found.push(...names);
+    } else {
+      const matches = await glob(input, { cwd, absolute: true, onlyFiles: true, expandDirectories: false });
+      if (matches.length === 0) warnings.push(`input ${input} matches no file`);
+      found.push(...matches.map((m) => resolve(m)));
+    }
+  }
+  const unique = [...new Set(found)];
+  if (unique.length < found.length) warnings.push(`${found.length - unique.length} input file(s) named more than once were taken once`);
+  unique.sort((a, b) => compareNatural(basename(a), basename(b)) || compareNatural(a, b));
+  const byStem = new Map<string, string>();
+  const frames = unique.map((path, index) => {
+    const name = basename(path);
+    const stem = name.slice(0, name.length - extname(name).length) || name;
+    const clash = byStem.get(stem);
+    if (clash !== undefined) {
+      throw new RangeError(`input frames ${clash} and ${path} share the name stem "${stem}"; per-frame outputs would collide, rename one`);
+    }
+    byStem.set(stem, path);
+    return { index, path, name, stem };
+  });
+  return { frames, warnings };
+}

@@ -1,0 +1,65 @@
+/**
+ * Maps one chunk of consecutive frames in order, each with the previous frame's map as its order
+ * prior (the chunk's first frame without). Frames already done with the same settings are skipped
+ * and their stored map is read back as the next frame's prior, so a resumed run maps every frame
+ * exactly as an uninterrupted one. A failing frame is reported and the next frame starts afresh.
+ */
+import { readFile } from 'node:fs/promises';
+import { decodeNpyFloat32 } from './npyFloat32.js';
+import { frameNpyPath, isFrameDone } from './frameFiles.js';
+import { frameRecordOf, writeFrameOutputs } from './writeFrameOutputs.js';
+import type { FrameEvent, FrameJob, FrameProcessor } from './types.js';
+
+export interface ChunkContext {
+  readonly outDir: string;
+  readonly settingsHash: string;
+  readonly previews: boolean;
+  /** Size every frame must have (from the series' reference frame), or null to accept any. */
+  readonly expectedSize: { readonly width: number; readonly height: number } | null;
+  readonly isAborted?: () => boolean;
+  readonly onFrame: (event: FrameEvent) => void;
+}
+
+async function storedMap(outDir: string, frame: FrameJob, size: ChunkContext['expectedSize']): Promise<Float32Array | null> {
+  try {
+    const npy = decodeNpyFloat32(await readFile(frameNpyPath(outDir, frame.stem)), frame.stem);
+    if (size && (npy.width !== size.width || npy.height !== size.height)) return null;
+    return npy.data;
+  } catch {
+    return null;
+  }
+}
+
+function messageOf(error: unknown): string {
+  return (error instanceof Error ? error.message : String(error)).replace(/\s*\n\s*/g, ' ');
+}
+
+export async function runChunk(chunk: readonly FrameJob[], processor: FrameProcessor, context: ChunkContext): Promise<void> {
+  const { outDir, settingsHash, previews, expectedSize, onFrame } = context;
+  const writePreviews = previews && processor.writePreviews ? processor.writePreviews.bind(processor) : null;
+  let previous: { frame: FrameJob; map: Float32Array | null; stored: boolean } | null = null;
+  for (const frame of chunk) {
+    if (context.isAborted?.()) return;
+    if (await isFrameDone(outDir, frame.stem, settingsHash, previews)) {
+      previous = { frame, map: null, stored: true };
+      onFrame({ index: frame.index, name: frame.name, outcome: 'skipped' });
+      continue;
+    }
+    try {
+      let prior: Float32Array | null = null;
+      if (previous !== null) prior = previous.stored ? await storedMap(outDir, previous.frame, expectedSize) : previous.map;
+      const priorFrame = prior === null ? null : previous!.frame.name;
+      const result = await processor.map(frame.path, prior);
+      if (expectedSize && (result.width !== expectedSize.width || result.height !== expectedSize.height)) {
+        throw new RangeError(`size ${result.width}x${result.height} differs from the series' ${expectedSize.width}x${expectedSize.height}; skipped`);
+      }
+      const record = frameRecordOf(frame, result, settingsHash, priorFrame);
+      await writeFrameOutputs(outDir, frame, result, record, writePreviews);
+      previous = { frame, map: result.thicknessNm, stored: false };
+      onFrame({ index: frame.index, name: frame.name, outcome: 'mapped' });
+    } catch (error) {
+      previous = null;
+      onFrame({ index: frame.index, name: frame.name, outcome: 'failed', message: `${frame.name}: ${messageOf(error)}` });
+    }
+  }
+}

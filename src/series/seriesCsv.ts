@@ -1,0 +1,50 @@
+/**
+ * `series.csv`: one row per mapped frame, RFC 4180 CSV (comma separated, CRLF-free `\n` line ends
+ * as most tools accept, fields quoted only when they contain a comma, quote or line break).
+ * Fixed decimals: time 3, thicknesses 2, fractions 4, exposure 4; empty cell = no value.
+ */
+import type { SeriesRow } from './seriesRows.js';
+
+export const SERIES_CSV_COLUMNS = [
+  'frame',
+  'time_s',
+  'mean_nm',
+  'median_nm',
+  'min_nm',
+  'max_nm',
+  'std_nm',
+  'thin_fraction',
+  'thin_regions',
+  'coverage',
+  'exposure',
+] as const;
+
+function quote(text: string): string {
+  return /[",\n\r]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
+}
+
+function fixed(value: number | null, decimals: number): string {
+  return value === null || !Number.isFinite(value) ? '' : value.toFixed(decimals);
+}
+
+export function formatSeriesCsv(rows: readonly SeriesRow[]): string {
+  const lines = [SERIES_CSV_COLUMNS.join(',')];
+  for (const r of rows) {
+    lines.push(
+      [
+        quote(r.frame),
+        fixed(r.timeS, 3),
+        fixed(r.meanNm, 2),
+        fixed(r.medianNm, 2),
+        fixed(r.minNm, 2),
+        fixed(r.maxNm, 2),
+        fixed(r.stdNm, 2),
+        fixed(r.thinFraction, 4),
+        String(r.thinRegions),
+        fixed(r.coverage, 4),
+        fixed(r.exposure, 4),
+      ].join(','),
+    );
+  }
+  return `${lines.join('\n')}\n`;
+}

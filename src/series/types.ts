@@ -1,0 +1,68 @@
+/**
+ * Records of the series engine (`src/series`): frames in, per-frame results on disk, aggregated
+ * rows and drainage fits out. Everything that crosses a worker boundary is plain data.
+ */
+import type { MapResult } from '../map/types.js';
+
+/** One input frame after expansion and timing. `index` is its place in the whole, ordered input list. */
+export interface FrameJob {
+  readonly index: number;
+  readonly path: string;
+  /** File name of the input (the `frame` column). */
+  readonly name: string;
+  /** File name without extension: prefix of the per-frame outputs in `frames/`. */
+  readonly stem: string;
+}
+
+/** Maps one frame; bound once to the map settings, called with the previous frame's map as prior. */
+export interface FrameProcessor {
+  map(framePath: string, prior: Float32Array | null): Promise<MapResult>;
+  /** Optional preview writer (`--previews`): writes images for `stem` into `dir`. */
+  writePreviews?(result: MapResult, framePath: string, dir: string, stem: string): Promise<unknown>;
+}
+
+/**
+ * How workers obtain a processor: the URL of an ES module exporting
+ * `createFrameProcessor(config): Promise<FrameProcessor>`, and its JSON-serialisable config.
+ */
+export interface ProcessorSource {
+  readonly moduleUrl: string;
+  readonly config: unknown;
+}
+
+export type FrameOutcome = 'mapped' | 'skipped' | 'failed';
+
+export interface FrameEvent {
+  readonly index: number;
+  readonly name: string;
+  readonly outcome: FrameOutcome;
+  /** For failures: one line naming the frame and the reason. */
+  readonly message?: string;
+}
+
+export interface SeriesProgress {
+  readonly done: number;
+  readonly total: number;
+  readonly mapped: number;
+  readonly skipped: number;
+  readonly failed: number;
+  readonly elapsedMs: number;
+}
+
+/** Contents of `frames/<stem>.json`: written last, so its presence marks a complete frame. */
+export interface FrameRecord {
+  readonly format: 'lamella-series-frame';
+  readonly version: 1;
+  readonly frame: string;
+  readonly stem: string;
+  readonly settingsHash: string;
+  readonly width: number;
+  readonly height: number;
+  /** Name of the frame whose map served as the order prior, or null (first frame of a chunk). */
+  readonly priorFrame: string | null;
+  readonly stats: MapResult['stats'];
+  readonly fitted: MapResult['fitted'];
+  readonly darkLimitNm: number;
+  readonly thinRegions: MapResult['thinRegions'];
+  readonly warnings: readonly string[];
+}

@@ -1,0 +1,55 @@
+/**
+ * Writes one frame's results so that a reader never sees a partial frame: everything goes to a
+ * private `.partial-…` folder first, then each file is renamed into `frames/` (atomic on one
+ * file system, POSIX rename(2)), the record last. An interrupted write leaves only the partial
+ * folder, which `removePartialFrames` deletes.
+ */
+import { mkdir, readdir, rename, rm, writeFile } from 'node:fs/promises';
+import { join } from 'node:path';
+import { threadId } from 'node:worker_threads';
+import type { MapResult } from '../map/types.js';
+import { encodeNpyFloat32 } from './npyFloat32.js';
+import { PARTIAL_PREFIX, framesDir } from './frameFiles.js';
+import type { FrameJob, FrameProcessor, FrameRecord } from './types.js';
+
+export function frameRecordOf(frame: FrameJob, result: MapResult, hash: string, priorFrame: string | null): FrameRecord {
+  return {
+    format: 'lamella-series-frame',
+    version: 1,
+    frame: frame.name,
+    stem: frame.stem,
+    settingsHash: hash,
+    width: result.width,
+    height: result.height,
+    priorFrame,
+    stats: result.stats,
+    fitted: result.fitted,
+    darkLimitNm: result.darkLimitNm,
+    thinRegions: result.thinRegions,
+    warnings: [...result.warnings],
+  };
+}
+
+export async function writeFrameOutputs(
+  outDir: string,
+  frame: FrameJob,
+  result: MapResult,
+  record: FrameRecord,
+  previews: FrameProcessor['writePreviews'] | null,
+): Promise<void> {
+  const dir = framesDir(outDir);
+  const staging = join(dir, `${PARTIAL_PREFIX}${frame.stem}-${process.pid}-${threadId}`);
+  await rm(staging, { recursive: true, force: true });
+  await mkdir(staging, { recursive: true });
+  try {
+    await writeFile(join(staging, `${frame.stem}.thickness.npy`), encodeNpyFloat32(result.thicknessNm, result.height, result.width));
+    if (previews) await previews(result, frame.path, staging, frame.stem);
+    const recordName = `${frame.stem}.json`;
+    await writeFile(join(staging, recordName), `${JSON.stringify(record, null, 2)}\n`);
+    const names = (await readdir(staging)).filter((n) => n !== recordName);
+    for (const name of names) await rename(join(staging, name), join(dir, name));
+    await rename(join(staging, recordName), join(dir, recordName));
+  } finally {
+    await rm(staging, { recursive: true, force: true });
+  }
+}

@@ -1,0 +1,168 @@
+/**
+ * Planning a series: input expansion (files, folders, globs, natural order, duplicates), frame
+ * times from EXIF or a frame rate, shard specs, chunking, settings fingerprints and the .npy
+ * container for per-frame maps.
+ */
+import { describe, expect, it, beforeAll, afterAll } from 'vitest';
+import { mkdtemp, mkdir, rm, writeFile } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { expandInputs } from '../src/series/expandInputs.js';
+import { compareNatural } from '../src/series/naturalOrder.js';
+import { assignFrameTimes } from '../src/series/frameTimes.js';
+import { parseShard } from '../src/series/parseShard.js';
+import { chunkFrames, shardChunks } from '../src/series/chunkFrames.js';
+import { canonicalJson, settingsHash } from '../src/series/settingsHash.js';
+import { decodeNpyFloat32, encodeNpyFloat32 } from '../src/series/npyFloat32.js';
+import type { FrameJob } from '../src/series/types.js';
+
+let dir: string;
+beforeAll(async () => {
+  dir = await mkdtemp(join(tmpdir(), 'lamella-inputs-'));
+  await mkdir(join(dir, 'shots'));
+  for (const name of ['img10.jpg', 'img2.jpg', 'img1.jpg', 'notes.txt', 'IMG3.PNG']) await writeFile(join(dir, 'shots', name), 'x');
+  await mkdir(join(dir, 'shots', 'sub.jpg'));
+  await mkdir(join(dir, 'empty'));
+  await mkdir(join(dir, 'other'));
+  await writeFile(join(dir, 'other', 'img1.jpg'), 'x');
+});
+afterAll(async () => {
+  await rm(dir, { recursive: true, force: true });
+});
+
+describe('compareNatural()', () => {
+  it('orders embedded numbers by value (frame2 before frame10)', () => {
+    expect(['frame10', 'frame2', 'frame1'].sort(compareNatural)).toEqual(['frame1', 'frame2', 'frame10']);
+  });
+});
+
+describe('expandInputs()', () => {
+  it('takes a folder\'s image files (not subfolders, not other files) in natural order', async () => {
+    const { frames } = await expandInputs(['shots'], dir);
+    expect(frames.map((f) => f.name)).toEqual(['img1.jpg', 'img2.jpg', 'IMG3.PNG', 'img10.jpg']);
+    expect(frames.map((f) => f.index)).toEqual([0, 1, 2, 3]);
+    expect(frames[3].stem).toBe('img10');
+  });
+  it('expands glob patterns and removes files named twice', async () => {
+    const { frames, warnings } = await expandInputs(['shots/img*.jpg', 'shots/img2.jpg'], dir);
+    expect(frames.map((f) => f.name)).toEqual(['img1.jpg', 'img2.jpg', 'img10.jpg']);
+    expect(warnings).toEqual(['1 input file(s) named more than once were taken once']);
+  });
+  it('warns about an empty folder and a pattern that matches nothing', async () => {
+    const { frames, warnings } = await expandInputs(['empty', 'nothing*.jpg'], dir);
+    expect(frames).toEqual([]);
+    expect(warnings[0]).toMatch(/^input folder empty holds no image files/);
+    expect(warnings[1]).toBe('input nothing*.jpg matches no file');
+  });
+  it('refuses two frames whose outputs would share a name', async () => {
+    await expect(expandInputs(['shots/img1.jpg', 'other/img1.jpg'], dir)).rejects.toThrow(/share the name stem "img1"/);
+  });
+});
+
+describe('assignFrameTimes()', () => {
+  const named = (times: Array<number | null>) => times.map((t, i) => ({ name: `f${i}.jpg`, exifTimeMs: t }));
+  it('uses EXIF capture times relative to the first frame, with sub-seconds', () => {
+    const result = assignFrameTimes(named([1_000_000_250, 1_000_000_750, 1_000_001_250]));
+    expect(result.timesS).toEqual([0, 0.5, 1]);
+    expect(result.source).toBe('exif');
+    expect(result.warnings).toEqual([]);
+  });
+  it('uses the frame rate when no frame has an EXIF time: t = i / fps', () => {
+    expect(assignFrameTimes(named([null, null, null]), 4).timesS).toEqual([0, 0.25, 0.5]);
+    expect(assignFrameTimes(named([null, null]), null, 1.5).timesS).toEqual([0, 1.5]);
+  });
+  it('fails without EXIF times and without fps or interval', () => {
+    expect(() => assignFrameTimes(named([null, null]))).toThrow(/no frame has an EXIF capture time/);
+  });
+  it('refuses fps and interval together, and non-positive values', () => {
+    expect(() => assignFrameTimes(named([null]), 2, 0.5)).toThrow(/either fps or intervalS/);
+    expect(() => assignFrameTimes(named([null]), 0)).toThrow('fps must be a finite number > 0, received 0');
+    expect(() => assignFrameTimes(named([null]), null, -1)).toThrow('intervalS must be a finite number > 0, received -1');
+  });
+  it('ignores a frame rate when every frame has an EXIF time, with a warning', () => {
+    const result = assignFrameTimes(named([0, 2000]), 10);
+    expect(result.timesS).toEqual([0, 2]);
+    expect(result.warnings[0]).toMatch(/frame rate \/ interval given is ignored/);
+  });
+  it('mixed EXIF and non-EXIF frames with a frame rate: all frames timed by frame rate, missing ones named', () => {
+    const result = assignFrameTimes(named([0, null, 5000]), 2);
+    expect(result.timesS).toEqual([0, 0.5, 1]);
+    expect(result.warnings[0]).toMatch(/without an EXIF capture time: f1\.jpg/);
+  });
+  it('mixed EXIF and non-EXIF frames without a frame rate: missing times interpolated by frame number', () => {
+    const result = assignFrameTimes(named([null, 1000, null, 3000, null]));
+    expect(result.timesS).toEqual([0, 1, 2, 3, 4]);
+    expect(result.source).toBe('exif+interpolated');
+    expect(result.warnings[0]).toMatch(/f0\.jpg, f2\.jpg, f4\.jpg; their times are interpolated/);
+  });
+  it('duplicate EXIF times are kept and named, or replaced by the frame rate when one is given', () => {
+    const kept = assignFrameTimes(named([0, 1000, 1000, 2000]));
+    expect(kept.timesS).toEqual([0, 1, 1, 2]);
+    expect(kept.warnings[0]).toMatch(/same EXIF capture time.*f1\.jpg=f2\.jpg/);
+    const uniform = assignFrameTimes(named([0, 1000, 1000, 2000]), 2);
+    expect(uniform.timesS).toEqual([0, 0.5, 1, 1.5]);
+    expect(uniform.warnings[0]).toMatch(/same EXIF capture time: f1\.jpg=f2\.jpg; all frames timed from the frame rate/);
+  });
+  it('names frames taken earlier than their predecessor in name order', () => {
+    const result = assignFrameTimes(named([0, 3000, 2000]));
+    expect(result.warnings[0]).toMatch(/earlier than the frame before them.*f2\.jpg/);
+  });
+});
+
+describe('parseShard()', () => {
+  it('reads K/N', () => {
+    expect(parseShard('2/5')).toEqual({ index: 2, count: 5 });
+    expect(parseShard('1/1')).toEqual({ index: 1, count: 1 });
+  });
+  it.each(['3/2', '0/2', 'a/b', '1/0', '2', '-1/2', '1.5/2'])('refuses %s with a message naming it', (spec) => {
+    expect(() => parseShard(spec)).toThrow(new RegExp(`shard must be K/N .*received "${spec.replace('.', '\\.')}"`));
+  });
+});
+
+describe('chunkFrames() and shardChunks()', () => {
+  const jobs: FrameJob[] = Array.from({ length: 23 }, (_, i) => ({ index: i, path: `/f${i}`, name: `f${i}`, stem: `f${i}` }));
+  it('cuts every chunkFrames-th frame, independent of workers or shards', () => {
+    expect(chunkFrames(jobs, 10).map((c) => c.length)).toEqual([10, 10, 3]);
+    expect(chunkFrames([], 10)).toEqual([]);
+    expect(() => chunkFrames(jobs, 0)).toThrow('chunkFrames must be a whole number >= 1, received 0');
+  });
+  it('shards are contiguous runs of whole chunks that together cover every frame once', () => {
+    const chunks = chunkFrames(jobs, 4);
+    for (const count of [1, 2, 3, 6, 9]) {
+      const all = Array.from({ length: count }, (_, k) => shardChunks(chunks, { index: k + 1, count }).flat().map((f) => f.index)).flat();
+      expect(all).toEqual(jobs.map((f) => f.index));
+    }
+  });
+});
+
+describe('settingsHash()', () => {
+  it('does not depend on key order and changes with any value', () => {
+    expect(canonicalJson({ b: 1, a: [1, { d: 2, c: 3 }] })).toBe('{"a":[1,{"c":3,"d":2}],"b":1}');
+    expect(settingsHash({ a: 1, b: 'x' })).toBe(settingsHash({ b: 'x', a: 1 }));
+    expect(settingsHash({ a: 1, b: 'x' })).not.toBe(settingsHash({ a: 1, b: 'y' }));
+    expect(settingsHash({})).toMatch(/^[0-9a-f]{16}$/);
+  });
+});
+
+describe('encodeNpyFloat32() / decodeNpyFloat32()', () => {
+  // NumPy format 1.0 (NEP 1; numpy.lib.format): header padded so magic+len+header is a multiple
+  // of 64 bytes. Bytes as written by np.save(np.array([[1.0]], dtype='<f4')), checked against NumPy 2.4.6 on the dev machine.
+  it('writes the header NumPy writes for a 1x1 float32 array', () => {
+    const bytes = encodeNpyFloat32(new Float32Array([1]), 1, 1);
+    expect(bytes.length).toBe(128 + 4);
+    expect(bytes.subarray(0, 10)).toEqual(Buffer.from([0x93, 0x4e, 0x55, 0x4d, 0x50, 0x59, 1, 0, 118, 0]));
+    expect(bytes.subarray(10, 69).toString('latin1')).toBe("{'descr': '<f4', 'fortran_order': False, 'shape': (1, 1), }");
+    expect(bytes[127]).toBe(0x0a);
+    expect(bytes.subarray(128)).toEqual(Buffer.from([0x00, 0x00, 0x80, 0x3f]));
+  });
+  it('round-trips a map with NaN', () => {
+    const data = new Float32Array([1.5, Number.NaN, -3, 1e6, 0, 7]);
+    const back = decodeNpyFloat32(encodeNpyFloat32(data, 2, 3));
+    expect(back.height).toBe(2);
+    expect(back.width).toBe(3);
+    expect([...back.data]).toEqual([...data]);
+  });
+  it('refuses a file that is not .npy', () => {
+    expect(() => decodeNpyFloat32(Buffer.from('hello world'), 'x.npy')).toThrow('x.npy: not a .npy file');
+  });
+});
