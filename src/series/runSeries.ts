@@ -1,0 +1,127 @@
+/**
+ * A photo series from inputs to outputs: expand and order the frames, read their headers and
+ * times, map this run's share of chunks (all of them, or one shard) with resume, then aggregate
+ * every per-frame result present in OUT into `series.csv` and `series.json` (with drainage fits).
+ * Writes files, never prints; progress and problems come back through callbacks and the result.
+ */
+import { mkdir } from 'node:fs/promises';
+import { join, resolve } from 'node:path';
+import { atomicWriteFile } from '../io/atomicWriteFile.js';
+import { expandInputs } from './expandInputs.js';
+import { probeFrames, type ReadFrameHeader } from './probeFrames.js';
+import { assignFrameTimes } from './frameTimes.js';
+import { chunkFrames, shardChunks } from './chunkFrames.js';
+import type { Shard } from './parseShard.js';
+import { settingsHash } from './settingsHash.js';
+import { framesDir, removePartialFrames } from './frameFiles.js';
+import { runFrames } from './runFrames.js';
+import { collectSeriesRows } from './seriesRows.js';
+import { formatSeriesCsv } from './seriesCsv.js';
+import { fitSeriesDrainage } from './fits/fitSeriesDrainage.js';
+import { seriesSummary, type SeriesSummary } from './seriesSummary.js';
+import type { FrameEvent, FrameProcessor, ProcessorSource, SeriesProgress } from './types.js';
+
+export const DEFAULT_CHUNK_FRAMES = 10;
+
+export interface SeriesOptions {
+  readonly inputs: readonly string[];
+  readonly outDir: string;
+  readonly fps?: number | null;
+  readonly intervalS?: number | null;
+  readonly thinBelowNm: number | null;
+  /** Frames per chunk (prior chains restart at each chunk); default DEFAULT_CHUNK_FRAMES. */
+  readonly chunkFrames?: number;
+  /** Worker threads; 0 maps in this thread (needs a FrameProcessor object). */
+  readonly workers: number;
+  readonly shard?: Shard | null;
+  /** Map nothing; only aggregate the per-frame results already in OUT. */
+  readonly aggregateOnly?: boolean;
+  readonly previews?: boolean;
+  /** Everything that shapes a frame's map, JSON-serialisable; hashed into each frame record. */
+  readonly mapSettings: Record<string, unknown>;
+  readonly calibration?: Record<string, unknown> | null;
+  readonly processor: ProcessorSource | FrameProcessor;
+  readonly readHeader?: ReadFrameHeader;
+  readonly cwd?: string;
+  readonly signal?: AbortSignal;
+  readonly onFrame?: (event: FrameEvent, progress: SeriesProgress) => void;
+  /** Called once the frames to map are known (for progress display). */
+  readonly onPlan?: (plan: { readonly frames: number; readonly toVisit: number; readonly chunks: number; readonly workers: number }) => void;
+}
+
+export interface SeriesResult {
+  readonly interrupted: boolean;
+  readonly summary: SeriesSummary | null;
+  /** Per-frame failures of this run and frames rejected before mapping (one line each). */
+  readonly failures: string[];
+  readonly warnings: string[];
+  readonly events: FrameEvent[];
+  readonly outputs: string[];
+}
+
+export async function runSeries(options: SeriesOptions): Promise<SeriesResult> {
+  const outDir = resolve(options.cwd ?? process.cwd(), options.outDir);
+  const chunkSize = options.chunkFrames ?? DEFAULT_CHUNK_FRAMES;
+  const expanded = await expandInputs(options.inputs, options.cwd);
+  if (expanded.frames.length === 0) {
+    throw new RangeError(`inputs: no frames found in ${options.inputs.map((i) => JSON.stringify(i)).join(', ') || '(none given)'}${expanded.warnings.length ? ` (${expanded.warnings.join('; ')})` : ''}`);
+  }
+  const warnings = [...expanded.warnings];
+  const probed = await probeFrames(expanded.frames, options.readHeader);
+  const failures = [...probed.messages];
+  if (probed.readable.length === 0) throw new RangeError(`inputs: none of the ${expanded.frames.length} frames could be read (${failures[0]})`);
+  const timing = assignFrameTimes(
+    probed.readable.map(({ frame, header }) => ({ name: frame.name, exifTimeMs: header.exifTimeMs })),
+    options.fps ?? null,
+    options.intervalS ?? null,
+  );
+  warnings.push(...timing.warnings);
+  const timed = probed.readable.map(({ frame }, i) => ({ frame, timeS: timing.timesS[i] })).filter(({ frame }) => !probed.wrongSize.has(frame.index));
+  const frames = timed.map((t) => t.frame);
+  const hash = settingsHash({ format: 1, chunkFrames: chunkSize, map: options.mapSettings, calibration: options.calibration ?? null });
+  await mkdir(framesDir(outDir), { recursive: true });
+  await removePartialFrames(outDir);
+  const chunks = chunkFrames(frames, chunkSize);
+  const mine = options.shard ? shardChunks(chunks, options.shard) : chunks;
+  const toVisit = options.aggregateOnly ? [] : mine;
+  const visitCount = toVisit.reduce((n, c) => n + c.length, 0);
+  const workers = Math.min(options.workers, toVisit.length);
+  options.onPlan?.({ frames: frames.length, toVisit: visitCount, chunks: toVisit.length, workers });
+  if (options.shard && mine.length === 0) warnings.push(`shard ${options.shard.index}/${options.shard.count} has no frames (${chunks.length} chunk(s) of ${chunkSize} frames)`);
+  const run = await runFrames({
+    chunks: toVisit,
+    outDir,
+    settingsHash: hash,
+    previews: options.previews ?? false,
+    expectedSize: probed.size,
+    workers: options.workers === 0 ? 0 : workers,
+    processor: options.processor,
+    signal: options.signal,
+    onFrame: options.onFrame,
+  });
+  for (const event of run.events) if (event.outcome === 'failed') failures.push(event.message ?? `${event.name}: failed`);
+  if (run.interrupted) return { interrupted: true, summary: null, failures, warnings, events: run.events, outputs: [] };
+  const collected = await collectSeriesRows(outDir, frames, timed.map((t) => t.timeS), hash);
+  if (collected.stale.length > 0) warnings.push(`${collected.stale.length} frame(s) have results from other settings (e.g. ${collected.stale[0]}); they are left out until mapped again`);
+  const drainage = fitSeriesDrainage(collected.rows, options.thinBelowNm);
+  warnings.push(...drainage.warnings);
+  const summary = seriesSummary({
+    settings: { ...options.mapSettings, thinBelowNm: options.thinBelowNm, chunkFrames: chunkSize, timeSource: timing.source, settingsHash: hash },
+    calibration: options.calibration ?? null,
+    frames: frames.length,
+    rows: collected.rows,
+    missing: collected.missing,
+    fits: drainage.fits,
+    size: probed.size,
+    warnings: [...warnings, ...failures],
+  });
+  const csvPath = join(outDir, 'series.csv');
+  const jsonPath = join(outDir, 'series.json');
+  await writeAtomic(csvPath, formatSeriesCsv(collected.rows));
+  await writeAtomic(jsonPath, `${JSON.stringify(summary, null, 2)}\n`);
+  return { interrupted: false, summary, failures, warnings, events: run.events, outputs: [csvPath, jsonPath] };
+}
+
+async function writeAtomic(path: string, text: string): Promise<void> {
+  await atomicWriteFile(path, Buffer.from(text, 'utf8'));
+}

@@ -1,0 +1,54 @@
+/**
+ * `series.json`: the settings and calibration a series was mapped with, its frame count and
+ * coverage, and the drainage fits with their threshold-crossing predictions. Contains no clock
+ * time, so identical inputs give identical files.
+ */
+import type { DrainageFit } from './fits/fitDrainage.js';
+import type { SeriesRow } from './seriesRows.js';
+
+export interface SeriesSummaryInput {
+  readonly settings: Record<string, unknown>;
+  readonly calibration: Record<string, unknown> | null;
+  readonly frames: number;
+  readonly rows: readonly SeriesRow[];
+  readonly missing: readonly string[];
+  readonly fits: readonly DrainageFit[];
+  readonly size: { readonly width: number; readonly height: number } | null;
+  readonly warnings: readonly string[];
+}
+
+export interface SeriesSummary {
+  readonly format: 'lamella-series';
+  readonly version: 1;
+  readonly settings: Record<string, unknown>;
+  readonly calibration: Record<string, unknown> | null;
+  readonly frames: { readonly total: number; readonly withResults: number; readonly missing: readonly string[]; readonly width: number | null; readonly height: number | null };
+  readonly timeRangeS: readonly [number, number] | null;
+  readonly drainageFits: readonly DrainageFit[];
+  readonly caution: string;
+  readonly warnings: readonly string[];
+}
+
+export const SERIES_CAUTION =
+  'Thicknesses and predicted crossing times are estimates from photographs and fitted laws; predictions beyond the last frame are extrapolations. Do not base release or safety decisions on them without qualified metrology.';
+
+export function seriesSummary(input: SeriesSummaryInput): SeriesSummary {
+  const times = input.rows.map((r) => r.timeS);
+  return {
+    format: 'lamella-series',
+    version: 1,
+    settings: input.settings,
+    calibration: input.calibration,
+    frames: {
+      total: input.frames,
+      withResults: input.rows.length,
+      missing: [...input.missing],
+      width: input.size?.width ?? null,
+      height: input.size?.height ?? null,
+    },
+    timeRangeS: times.length > 0 ? [Math.min(...times), Math.max(...times)] : null,
+    drainageFits: [...input.fits],
+    caution: SERIES_CAUTION,
+    warnings: [...input.warnings],
+  };
+}
