@@ -1,3 +1,4 @@
 /** Library entry point: re-exports the public API of each engine. */
 export * from './optics/types.js';
 export * from './optics/index.js';
+export * from './colour/index.js';
