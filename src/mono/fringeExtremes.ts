@@ -1,0 +1,96 @@
+/**
+ * The film's own brightest and darkest fringes: intensity levels Imax and Imin for the
+ * normalisation Δ = (I − Imin)/(Imax − Imin) of the formula of Scheludko.
+ *
+ * A pixel lies on a bright fringe (ridge) when, along one of four directions, the smoothed
+ * intensity is not below its two next neighbours and exceeds the values `distancePx` away on both
+ * sides by a contrast well above the noise; dark fringes (troughs) likewise. A film that only
+ * brightens towards the frame edge has no ridge, so an extreme is never guessed from the edge.
+ * Thickness turning points (a dome or dimple between two extremes) also look like ridges or
+ * troughs, but at intermediate levels: only ridges in the upper half and troughs in the lower half
+ * of the intensity range count. Imax and Imin are medians of the raw intensity at those pixels
+ * (medians are robust to noise; raw values avoid the flattening of peaks by smoothing).
+ */
+
+export interface FringeExtremes {
+  /** True when enough ridge and trough pixels were found to fix the intensity scale. */
+  readonly found: boolean;
+  readonly intensityMax: number;
+  readonly intensityMin: number;
+  readonly ridgePixels: number;
+  readonly troughPixels: number;
+  /** Robust standard deviation of raw − smoothed intensity (pixel noise), linear units. */
+  readonly noise: number;
+}
+
+function quantile(sorted: Float32Array, q: number): number {
+  if (sorted.length === 0) return NaN;
+  const x = q * (sorted.length - 1);
+  const i = Math.floor(x);
+  const j = Math.min(sorted.length - 1, i + 1);
+  return sorted[i] + (x - i) * (sorted[j] - sorted[i]);
+}
+
+const DIRECTIONS: ReadonlyArray<readonly [number, number]> = [[1, 0], [0, 1], [1, 1], [1, -1]];
+
+export function findFringeExtremes(
+  intensity: Float32Array,
+  smoothed: Float32Array,
+  width: number,
+  height: number,
+  usable: Uint8Array,
+  smoothingRadius: number,
+  distancePx = 3,
+): FringeExtremes {
+  const values: number[] = [];
+  const residuals: number[] = [];
+  for (let p = 0; p < usable.length; p++) {
+    if (!usable[p]) continue;
+    values.push(smoothed[p]);
+    residuals.push(Math.abs(intensity[p] - smoothed[p]));
+  }
+  const sorted = Float32Array.from(values).sort();
+  const low = quantile(sorted, 0.005);
+  const high = quantile(sorted, 0.995);
+  const noise = 1.4826 * quantile(Float32Array.from(residuals).sort(), 0.5);
+  const range = high - low;
+  const nothing = { found: false, intensityMax: high, intensityMin: low, ridgePixels: 0, troughPixels: 0, noise };
+  if (!(range > 0)) return nothing;
+  const window = 2 * smoothingRadius + 1;
+  const contrast = Math.max((4 * noise) / window, 0.02 * range);
+  const mid = 0.5 * (low + high);
+  const ridge: number[] = [];
+  const trough: number[] = [];
+  for (let y = distancePx; y < height - distancePx; y++) {
+    for (let x = distancePx; x < width - distancePx; x++) {
+      const p = y * width + x;
+      if (!usable[p]) continue;
+      const s = smoothed[p];
+      let isRidge = false;
+      let isTrough = false;
+      for (const [dx, dy] of DIRECTIONS) {
+        const step = dy * width + dx;
+        const far = distancePx * step;
+        if (!usable[p - far] || !usable[p + far] || !usable[p - step] || !usable[p + step]) continue;
+        const a1 = smoothed[p - step];
+        const b1 = smoothed[p + step];
+        const a = smoothed[p - far];
+        const b = smoothed[p + far];
+        if (s > mid && s >= a1 && s >= b1 && s - a >= contrast && s - b >= contrast) isRidge = true;
+        if (s < mid && s <= a1 && s <= b1 && a - s >= contrast && b - s >= contrast) isTrough = true;
+      }
+      if (isRidge) ridge.push(intensity[p]);
+      if (isTrough) trough.push(intensity[p]);
+    }
+  }
+  const needed = Math.max(8, Math.round(0.001 * values.length));
+  const found = ridge.length >= needed && trough.length >= needed;
+  return {
+    found,
+    intensityMax: ridge.length > 0 ? quantile(Float32Array.from(ridge).sort(), 0.5) : high,
+    intensityMin: trough.length > 0 ? quantile(Float32Array.from(trough).sort(), 0.5) : low,
+    ridgePixels: ridge.length,
+    troughPixels: trough.length,
+    noise,
+  };
+}

@@ -1,0 +1,181 @@
+/**
+ * Photo under one spectral line → thickness map, given the tabulated R(h) at the line.
+ *
+ * 1. Linear intensity per pixel (`lineIntensity.ts`); clipped pixels are `saturated`.
+ * 2. Intensity scale: I = gain · R(h) + offset. From a calibration (exposure × mean white
+ *    balance = intensity of a perfect reflector, mean flare = offset) or from the film's own
+ *    brightest and darkest fringes (`fringeExtremes.ts`) matched to the table's extreme levels.
+ *    With neither, the scale is unknown and the function throws.
+ * 3. Fringe order: zones and bands (`fringeSegments.ts`), counted from anchors, a black film or
+ *    the assumed first order (`zoneBranches.ts`), spread to band pixels (`fillPixelBranches.ts`).
+ * 4. Thickness on the pixel's branch (`lineReflectanceTable.ts`); pixels of a free film darker
+ *    than three noise levels on branch 0 are `dark` (too thin to measure; counted as thin).
+ * Statistics, histogram and thin regions are the colour mode's (`src/map`), so results and
+ * reports are identical in form.
+ */
+import { computeMapStatistics, thicknessHistogram } from '../map/statistics.js';
+import { findThinRegions } from '../map/thinRegions.js';
+import { PixelStatus, type MapOptions, type MapResult } from '../map/types.js';
+import { boxMeanMasked } from './boxMean.js';
+import { filmMaskOf } from './filmMask.js';
+import { fillPixelBranches } from './fillPixelBranches.js';
+import { findFringeExtremes } from './fringeExtremes.js';
+import { classifyLevels, segmentFringes } from './fringeSegments.js';
+import { checkLineWavelength } from './isMonochromaticLight.js';
+import { lineIntensityOf, type MonoPhoto } from './lineIntensity.js';
+import { EXTREME_MIN, thicknessOnBranch, type LineReflectanceTable } from './lineReflectanceTable.js';
+import { anchorSeeds, blackFilmSeeds } from './orderSeeds.js';
+import { NO_BRANCH, solveZoneBranches } from './zoneBranches.js';
+
+/** Normalised level below / above which a pixel belongs to a dark / bright band. */
+export const BAND_LEVEL = 0.12;
+/** Correlation of a colour channel with the mean below which the light looks broadband. */
+export const MIN_CHANNEL_CORRELATION = 0.9;
+
+export interface LineScaleReport {
+  readonly lineNm: number;
+  /** Linear intensity of the brightest and darkest fringe (image or calibration). */
+  readonly intensityMax: number;
+  readonly intensityMin: number;
+  readonly scaleFrom: 'image' | 'calibration';
+  readonly ridgePixels: number;
+  readonly troughPixels: number;
+  /** Pixel noise (linear intensity units). */
+  readonly noise: number;
+  /** How the fringe count was started. */
+  readonly orderFrom: 'anchor' | 'black-film' | 'assumed-first-order';
+  readonly orderConflicts: number;
+}
+
+export type MonoMapResult = MapResult & { readonly line: LineScaleReport };
+
+export function mapLineIntensity(
+  photo: MonoPhoto & { readonly alpha?: Float32Array },
+  options: MapOptions,
+  table: LineReflectanceTable,
+  filmMask: Uint8Array | null = null,
+): MonoMapResult {
+  const lineNm = checkLineWavelength(table.lineNm);
+  const { width, height } = photo;
+  if (!Number.isInteger(width) || !Number.isInteger(height) || width < 1 || height < 1) {
+    throw new RangeError(`photo width and height must be integers >= 1, received ${width}×${height}`);
+  }
+  const n = width * height;
+  const warnings: string[] = [];
+  const film = filmMaskOf(width, height, options, filmMask, photo.alpha ?? null);
+  const light = lineIntensityOf(photo, film);
+  const usable = new Uint8Array(n);
+  let usableCount = 0;
+  for (let p = 0; p < n; p++) if (film[p] && !light.saturated[p]) usable[p] = 1, usableCount++;
+  if (!photo.isGrey && light.worstChannelCorrelation < MIN_CHANNEL_CORRELATION) {
+    warnings.push(
+      `the colour channels disagree (correlation ${light.worstChannelCorrelation.toFixed(2)} < ${MIN_CHANNEL_CORRELATION}): the light may not be monochromatic (line ${lineNm} nm assumed)`,
+    );
+  }
+  const smoothRadius = 2;
+  const smoothed = boxMeanMasked(light.intensity, width, height, usable, smoothRadius);
+  const extremes = findFringeExtremes(light.intensity, smoothed, width, height, usable, smoothRadius);
+  const levelSpan = table.levelMax - table.levelMin;
+  let gain: number;
+  let offset: number;
+  const fixed = options.exposureFixed ?? null;
+  if (fixed !== null) {
+    const wb = fixed.whiteBalance;
+    gain = (fixed.exposure * (wb[0] + wb[1] + wb[2])) / 3;
+    offset = (fixed.flare[0] + fixed.flare[1] + fixed.flare[2]) / 3;
+    if (!(gain > 0)) throw new RangeError(`calibration exposure × white balance must be > 0, received ${gain}`);
+  } else {
+    if (!extremes.found) {
+      throw new Error(
+        `the intensity scale is unknown: no bright and dark fringe extremes found in the film (${extremes.ridgePixels} bright, ${extremes.troughPixels} dark fringe pixels) and no calibration given; photograph a film showing at least one full fringe, or give a calibration`,
+      );
+    }
+    gain = (extremes.intensityMax - extremes.intensityMin) / levelSpan;
+    offset = extremes.intensityMin - gain * table.levelMin;
+    if (!(gain > 0)) throw new Error(`the intensity scale is unknown: bright fringes are not brighter than dark ones`);
+  }
+  const intensityMax = gain * table.levelMax + offset;
+  const intensityMin = gain * table.levelMin + offset;
+  const toLevel = 1 / (intensityMax - intensityMin);
+  const levelSmooth = new Float32Array(n);
+  const levelRaw = new Float32Array(n);
+  const classSmooth = boxMeanMasked(light.intensity, width, height, usable, 1);
+  for (let p = 0; p < n; p++) {
+    levelSmooth[p] = (classSmooth[p] - intensityMin) * toLevel;
+    levelRaw[p] = (light.intensity[p] - intensityMin) * toLevel;
+  }
+  const seg = segmentFringes(classifyLevels(levelSmooth, usable, BAND_LEVEL), width, height, Math.max(6, Math.round(1e-4 * usableCount)));
+  const firstKind = table.boundaryKind[0];
+  const noiseLevel = extremes.noise * toLevel;
+  let seeds = anchorSeeds(options.anchors ?? [], seg, table, width, height, usable, warnings);
+  let orderFrom: LineScaleReport['orderFrom'] = 'anchor';
+  if (seeds.length === 0 && firstKind === EXTREME_MIN) {
+    seeds = blackFilmSeeds(seg, levelRaw, width, usableCount, noiseLevel, warnings);
+    orderFrom = 'black-film';
+  }
+  if (seeds.length === 0) orderFrom = 'assumed-first-order';
+  const zones = solveZoneBranches(seg, firstKind, seeds);
+  if (orderFrom === 'assumed-first-order' && seg.zoneArea.length > 0) {
+    warnings.push('no anchor and no black film: fringes were counted assuming the thinnest part of the film is in the first order; give an anchor to be sure');
+  }
+  for (const z of zones.guessedDirectionZones) {
+    warnings.push(`the direction of the fringe count (thickening or thinning) is a guess in the film part of ${seg.zoneArea[z]}+ px; give an anchor there`);
+  }
+  if (zones.conflicts > 0) {
+    warnings.push(`fringe count ambiguous: ${zones.conflicts} inconsistent count(s) around closed paths (broken or merged fringes); those parts are marked ambiguous`);
+  }
+  const pixels = fillPixelBranches(seg, zones, usable, width, height);
+  const darkLevel = Math.max(0.01, 3 * noiseLevel);
+  const darkLimitNm = firstKind === EXTREME_MIN ? thicknessOnBranch(table, 0, table.levelMin + darkLevel * levelSpan) : 0;
+  const thicknessNm = new Float32Array(n).fill(NaN);
+  const confidence = new Float32Array(n);
+  const status = new Uint8Array(n);
+  let tooThick = 0;
+  for (let p = 0; p < n; p++) {
+    if (!film[p]) status[p] = PixelStatus.excluded;
+    else if (light.saturated[p]) status[p] = PixelStatus.saturated;
+    else if (pixels.branch[p] === NO_BRANCH || zones.zoneAmbiguous[pixels.sourceZone[p]]) status[p] = PixelStatus.ambiguous;
+    else if (pixels.branch[p] >= table.branchCount) (status[p] = PixelStatus.tooThick), tooThick++;
+    else if (firstKind === EXTREME_MIN && pixels.branch[p] === 0 && levelRaw[p] < darkLevel) status[p] = PixelStatus.dark;
+    else {
+      const reflectance = (light.intensity[p] - offset) / gain;
+      thicknessNm[p] = thicknessOnBranch(table, pixels.branch[p], reflectance);
+      const u = Math.min(1, Math.max(0, levelRaw[p]));
+      confidence[p] = 2 * Math.sqrt(u * (1 - u));
+      status[p] = PixelStatus.ok;
+    }
+  }
+  if (tooThick > 0) warnings.push(`${tooThick} px counted beyond the largest thickness considered (${options.maxThicknessNm} nm) are marked too thick`);
+  const thinBelowNm = options.thinBelowNm ?? null;
+  const thin = findThinRegions(thicknessNm, status, width, height, thinBelowNm, options.pixelSizeUm ?? null);
+  const stats = computeMapStatistics(thicknessNm, status, thinBelowNm, thin.regions.length);
+  const slope = light.channelSlope;
+  return {
+    width,
+    height,
+    thicknessNm,
+    confidence,
+    status,
+    fitted: {
+      exposure: gain,
+      whiteBalance: [slope[0], slope[1], slope[2]],
+      flare: [0, 1, 2].map((c) => slope[c] * offset + light.channelIntercept[c]) as [number, number, number],
+    },
+    stats,
+    histogram: thicknessHistogram(thicknessNm, status, stats.min_nm, stats.max_nm),
+    thinRegions: thin.regions,
+    darkLimitNm,
+    warnings,
+    line: {
+      lineNm,
+      intensityMax,
+      intensityMin,
+      scaleFrom: fixed !== null ? 'calibration' : 'image',
+      ridgePixels: extremes.ridgePixels,
+      troughPixels: extremes.troughPixels,
+      noise: extremes.noise,
+      orderFrom,
+      orderConflicts: zones.conflicts,
+    },
+  };
+}

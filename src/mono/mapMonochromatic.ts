@@ -1,0 +1,34 @@
+/**
+ * Entry point of the monochromatic mode: a photo taken under one spectral line (`line:546`, or
+ * a light whose power sits within ~20 nm, see `isMonochromaticLight.ts`) → the same `MapResult`
+ * as the colour mode, plus a `line` record with the intensity scale and how orders were counted.
+ * The method is described in `mapLineIntensity.ts`; the free-film special case is the formula
+ * of Scheludko (`scheludko.ts`).
+ */
+import type { MapOptions } from '../map/types.js';
+import { checkLineWavelength } from './isMonochromaticLight.js';
+import type { MonoPhoto } from './lineIntensity.js';
+import { mapLineIntensity, type MonoMapResult } from './mapLineIntensity.js';
+import { stackLineTable } from './stackLineReflectance.js';
+
+/**
+ * `filmMask`: the decoded `options.maskPath` image (non-zero = film), when a mask is used; the
+ * library does not read files here, so the caller decodes the mask.
+ */
+export function mapMonochromatic(
+  photo: MonoPhoto & { readonly alpha?: Float32Array },
+  options: MapOptions,
+  lineNm: number,
+  filmMask: Uint8Array | null = null,
+): MonoMapResult {
+  checkLineWavelength(lineNm);
+  if (options.maskPath && filmMask === null) {
+    throw new TypeError(`mapMonochromatic: options.maskPath is set (${options.maskPath}) but no decoded filmMask was passed`);
+  }
+  const table = stackLineTable(options.stack, lineNm, {
+    angleRad: options.angleRad,
+    maxThicknessNm: options.maxThicknessNm,
+    filmIndexScale: options.filmIndexScale,
+  });
+  return mapLineIntensity(photo, options, table, filmMask);
+}
