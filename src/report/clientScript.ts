@@ -1,0 +1,181 @@
+/**
+ * The page's own script (inline, no library): decodes the embedded grid, shows thickness and
+ * confidence under the pointer with ORIGINAL-image pixel coordinates, moves the crosshairs,
+ * redraws the column profile on click, highlights thin regions from the table, and steps a
+ * series through its frames. Plain ES2017 that every current browser runs; it reads its data
+ * from `<script type="application/json">` blocks and never makes a request.
+ */
+import { shortestFloat32Text } from './formatNumber.js';
+
+const pageMain = String.raw`
+function readJson(id) {
+  var el = document.getElementById(id);
+  return el ? JSON.parse(el.textContent) : null;
+}
+function decodeFloat32(base64) {
+  var text = atob(base64);
+  var bytes = new Uint8Array(text.length);
+  for (var i = 0; i < text.length; i++) bytes[i] = text.charCodeAt(i);
+  return new Float32Array(bytes.buffer);
+}
+function setText(id, text) {
+  var el = document.getElementById(id);
+  if (el) el.textContent = text;
+}
+function plotMapping(svg) {
+  var g = svg && svg.querySelector('g.plot');
+  if (!g) return null;
+  var d = function (k) { return Number(g.getAttribute('data-' + k)); };
+  var m = { x0: d('x0'), x1: d('x1'), y0: d('y0'), y1: d('y1'), left: d('left'), top: d('top'), width: d('width'), height: d('height'), group: g };
+  m.x = function (v) { return m.left + (v - m.x0) / (m.x1 - m.x0) * m.width; };
+  m.y = function (v) { return m.top + (1 - (v - m.y0) / (m.y1 - m.y0)) * m.height; };
+  return m;
+}
+var svgNs = 'http://www.w3.org/2000/svg';
+function svgEl(name, attrs) {
+  var el = document.createElementNS(svgNs, name);
+  for (var k in attrs) el.setAttribute(k, attrs[k]);
+  return el;
+}
+
+function initMap(data) {
+  var g = data.grid;
+  var thickness = decodeFloat32(g.thicknessB64);
+  var confidence = decodeFloat32(g.confidenceB64);
+  var stages = Array.prototype.slice.call(document.querySelectorAll('.stage'));
+  function pixelFromEvent(ev, stage) {
+    var r = stage.querySelector('img').getBoundingClientRect();
+    if (r.width <= 0 || r.height <= 0) return null;
+    var x = Math.floor((ev.clientX - r.left) / r.width * g.originalWidth);
+    var y = Math.floor((ev.clientY - r.top) / r.height * g.originalHeight);
+    if (x < 0 || y < 0 || x >= g.originalWidth || y >= g.originalHeight) return null;
+    return { x: x, y: y };
+  }
+  function cellOf(p) {
+    var cx = Math.min(g.width - 1, Math.floor(p.x / g.step));
+    var cy = Math.min(g.height - 1, Math.floor(p.y / g.step));
+    return { cx: cx, cy: cy, index: cy * g.width + cx };
+  }
+  function moveCrosshairs(p) {
+    stages.forEach(function (stage) {
+      var h = stage.querySelector('.cross-h'), v = stage.querySelector('.cross-v');
+      if (!h || !v) return;
+      if (!p) { h.setAttribute('visibility', 'hidden'); v.setAttribute('visibility', 'hidden'); return; }
+      h.setAttribute('y1', p.y + 0.5); h.setAttribute('y2', p.y + 0.5);
+      v.setAttribute('x1', p.x + 0.5); v.setAttribute('x2', p.x + 0.5);
+      h.setAttribute('visibility', 'visible'); v.setAttribute('visibility', 'visible');
+    });
+  }
+  function show(p) {
+    var box = document.getElementById('readout');
+    moveCrosshairs(p);
+    if (!p) { if (box) box.classList.remove('active'); return; }
+    var c = cellOf(p);
+    var t = thickness[c.index], q = confidence[c.index];
+    if (box) box.classList.add('active');
+    setText('readout-x', String(p.x));
+    setText('readout-y', String(p.y));
+    setText('readout-thickness', isFinite(t) ? shortestFloat32Text(t) + ' nm' : 'no estimate');
+    setText('readout-confidence', isFinite(q) ? q.toFixed(2) : '—');
+    setText('readout-cell', g.step > 1 ? 'grid cell ' + c.cx + ', ' + c.cy + ' (block of ' + g.step + ' × ' + g.step + ' px)' : 'full resolution');
+    var thin = data.thinBelowNm;
+    var flag = document.getElementById('readout-flag');
+    if (flag) flag.textContent = (thin !== null && isFinite(t) && t < thin) ? 'below thin threshold' : '';
+  }
+  stages.forEach(function (stage) {
+    stage.addEventListener('pointermove', function (ev) { show(pixelFromEvent(ev, stage)); });
+    stage.addEventListener('pointerleave', function () { show(null); });
+    stage.addEventListener('click', function (ev) {
+      var p = pixelFromEvent(ev, stage);
+      if (p) setProfileColumn(p.x);
+    });
+  });
+  function setProfileColumn(xPx) {
+    var chart = document.getElementById('profile-chart');
+    var m = plotMapping(chart);
+    if (!m) return;
+    var cx = Math.min(g.width - 1, Math.floor(xPx / g.step));
+    var d = '', pen = false;
+    for (var cy = 0; cy < g.height; cy++) {
+      var v = thickness[cy * g.width + cx];
+      if (!isFinite(v)) { pen = false; continue; }
+      var yv = Math.max(m.y0, Math.min(m.y1, v));
+      d += (pen ? 'L' : 'M') + m.x(cy * g.step + (g.step - 1) / 2).toFixed(1) + ' ' + m.y(yv).toFixed(1);
+      pen = true;
+    }
+    var path = chart.querySelector('.series-line');
+    if (path) path.setAttribute('d', d || 'M0 0');
+    stages.forEach(function (stage) {
+      var line = stage.querySelector('.profile-line');
+      if (line) { line.setAttribute('x1', xPx + 0.5); line.setAttribute('x2', xPx + 0.5); }
+    });
+    setText('profile-column', String(xPx));
+  }
+  Array.prototype.forEach.call(document.querySelectorAll('tr[data-region]'), function (row) {
+    var id = row.getAttribute('data-region');
+    function mark(on) {
+      Array.prototype.forEach.call(document.querySelectorAll('.region[data-region="' + id + '"]'), function (r) {
+        r.classList.toggle('highlight', on);
+      });
+    }
+    row.addEventListener('mouseenter', function () { mark(true); });
+    row.addEventListener('mouseleave', function () { mark(false); });
+  });
+}
+
+function initSeries(data) {
+  var slider = document.getElementById('frame-slider');
+  if (!slider || data.frames.length === 0) return;
+  var thumbs = Array.prototype.slice.call(document.querySelectorAll('[data-frame-index]'));
+  var charts = Array.prototype.slice.call(document.querySelectorAll('svg.series-chart'));
+  var markers = charts.map(function (svg) {
+    var m = plotMapping(svg);
+    if (!m) return null;
+    var line = svgEl('line', { 'class': 'frame-marker', y1: m.top, y2: m.top + m.height });
+    m.group.querySelector('.overlay').appendChild(line);
+    return { m: m, line: line };
+  });
+  function fmt(v, digits, unit) { return v === null || !isFinite(v) ? '—' : v.toFixed(digits) + unit; }
+  function show(i) {
+    var f = data.frames[i];
+    thumbs.forEach(function (t) { t.hidden = Number(t.getAttribute('data-frame-index')) !== i; });
+    setText('frame-name', f.frame);
+    setText('frame-position', (i + 1) + ' / ' + data.frames.length);
+    setText('frame-time', fmt(f.timeS, 1, ' s'));
+    setText('frame-mean', fmt(f.meanNm, 1, ' nm'));
+    setText('frame-median', fmt(f.medianNm, 1, ' nm'));
+    setText('frame-min', fmt(f.minNm, 1, ' nm'));
+    setText('frame-thin', f.thinFraction === null ? '—' : (f.thinFraction * 100).toFixed(1) + ' %');
+    setText('frame-regions', String(f.thinRegions));
+    setText('frame-coverage', (f.coverage * 100).toFixed(1) + ' %');
+    markers.forEach(function (k) {
+      if (!k) return;
+      var x = k.m.x(f.timeS).toFixed(1);
+      k.line.setAttribute('x1', x); k.line.setAttribute('x2', x);
+    });
+  }
+  slider.addEventListener('input', function () { show(Number(slider.value)); });
+  var play = document.getElementById('frame-play');
+  var timer = null;
+  if (play) play.addEventListener('click', function () {
+    if (timer !== null) { clearInterval(timer); timer = null; play.textContent = 'Play'; return; }
+    play.textContent = 'Pause';
+    timer = setInterval(function () {
+      var next = (Number(slider.value) + 1) % data.frames.length;
+      slider.value = String(next);
+      show(next);
+    }, 450);
+  });
+  show(Number(slider.value));
+}
+
+var mapData = readJson('lamella-map-data');
+if (mapData) initMap(mapData);
+var seriesData = readJson('lamella-series-data');
+if (seriesData) initSeries(seriesData);
+`;
+
+/** The complete inline script: shared pure helpers (from their TypeScript source) + page code. */
+export function pageScript(): string {
+  return `(function () {\n'use strict';\n${shortestFloat32Text.toString()}\n${pageMain}\n})();`;
+}

@@ -1,0 +1,60 @@
+/**
+ * Charts of a photo series against time: mean, median and minimum thickness with the fitted
+ * drainage curves, the thin threshold and each predicted threshold crossing (with its interval,
+ * and marked as extrapolation when it lies beyond the last frame); and the thin fraction.
+ * Both carry the class `series-chart` so the page script can mark the frame shown in the slider.
+ */
+import { formatFixed } from './formatNumber.js';
+import { renderLineChart, type LineSeries, type ReferenceBand, type ReferenceLine } from './svgChart.js';
+import { thresholdColour } from './mapSections.js';
+import type { DrainageFitSummary, SeriesFrameRow } from './types.js';
+
+export const quantityColours = { mean: '#0e6b70', median: '#2f6fb0', min: '#7a3e9d' } as const;
+export const fitColours = ['#d35400', '#a8327a', '#2c7a3f', '#8a6d0b', '#4d5a9c'] as const;
+
+/** Text of a predicted crossing: `143.2 s (extrapolated)`, or why there is none. */
+export function describeCrossing(crossing: DrainageFitSummary['crossing']): string {
+  if (!crossing) return 'not computed';
+  if (crossing.timeS === null) return 'no crossing predicted';
+  const interval = crossing.lowS !== null && crossing.highS !== null
+    ? ` (${formatFixed(crossing.lowS, 1)}–${formatFixed(crossing.highS, 1)} s)` : '';
+  return `${formatFixed(crossing.timeS, 1)} s${interval}${crossing.extrapolated ? ', extrapolated' : ''}`;
+}
+
+export function renderDrainageChart(frames: SeriesFrameRow[], fits: DrainageFitSummary[], thinBelowNm: number | null): string {
+  const series: LineSeries[] = [
+    { label: 'mean', points: frames.map((f) => [f.timeS, f.meanNm]), colour: quantityColours.mean, style: 'both' },
+    { label: 'median', points: frames.map((f) => [f.timeS, f.medianNm]), colour: quantityColours.median, style: 'line' },
+    { label: 'minimum', points: frames.map((f) => [f.timeS, f.minNm]), colour: quantityColours.min, style: 'both' },
+  ];
+  const verticalLines: ReferenceLine[] = [];
+  const bands: ReferenceBand[] = [];
+  fits.forEach((fit, i) => {
+    const colour = fitColours[i % fitColours.length];
+    series.push({ label: `fit: ${fit.model}`, points: fit.curve, colour, dashed: true });
+    const c = fit.crossing;
+    if (c && c.timeS !== null && Number.isFinite(c.timeS)) {
+      verticalLines.push({ value: c.timeS, colour, dashed: true,
+        label: `${c.quantity} reaches threshold at ${formatFixed(c.timeS, 1)} s${c.extrapolated ? ' (extrapolated)' : ''}` });
+      if (c.lowS !== null && c.highS !== null && Number.isFinite(c.lowS) && Number.isFinite(c.highS)) {
+        bands.push({ from: c.lowS, to: c.highS, colour, label: `interval of the ${c.quantity} crossing` });
+      }
+    }
+  });
+  const horizontalLines: ReferenceLine[] = thinBelowNm === null ? []
+    : [{ value: thinBelowNm, label: `thin threshold ${formatFixed(thinBelowNm, 1)} nm`, colour: thresholdColour }];
+  return renderLineChart({
+    title: 'Thickness against time', xLabel: 'Time (s)', yLabel: 'Thickness (nm)', id: 'drainage-chart',
+    series, horizontalLines, verticalLines, verticalBands: bands, heightPx: 360,
+  }).replace('class="chart line-chart"', 'class="chart line-chart series-chart"');
+}
+
+export function renderThinFractionChart(frames: SeriesFrameRow[]): string | null {
+  if (frames.every((f) => f.thinFraction === null)) return null;
+  return renderLineChart({
+    title: 'Thin fraction against time', xLabel: 'Time (s)', yLabel: 'Thin fraction (%)', id: 'thin-chart', heightPx: 260,
+    yDomain: [0, 100],
+    series: [{ label: 'share of film below the thin threshold', colour: thresholdColour, style: 'both',
+      points: frames.map((f) => [f.timeS, f.thinFraction === null ? null : f.thinFraction * 100]) }],
+  }).replace('class="chart line-chart"', 'class="chart line-chart series-chart"');
+}

@@ -1,0 +1,99 @@
+/**
+ * Contract of the HTML report (`src/report`): what `lamella map` and `lamella series` hand over.
+ * Everything is plain data; the report embeds it into one self-contained HTML file.
+ */
+
+export interface ReportGrid {
+  /** Downsampled grid actually embedded (cells). */
+  width: number;
+  height: number;
+  /** Factor from the original image: original pixel (x,y) = grid cell (floor(x/step), floor(y/step)). */
+  step: number;
+  originalWidth: number;
+  originalHeight: number;
+  /** Row-major, nm; NaN = no estimate. */
+  thicknessNm: Float32Array;
+  /** Row-major, 0..1; NaN = no estimate. */
+  confidence: Float32Array;
+}
+
+export interface ThinRegionRow {
+  id: number;
+  areaPx: number;
+  areaUm2?: number;
+  centroidX: number;
+  centroidY: number;
+  minThicknessNm: number | null;
+  /**
+   * Bounding box in ORIGINAL image pixels. Read as `[x, y, width, height]` (as `region` in
+   * `MapOptions`) unless `bboxFormat` says `'corners'` (`[xMin, yMin, xMax, yMax]`, inclusive).
+   */
+  bbox: [number, number, number, number];
+  /** Optional: how to read `bbox`; default `'xywh'`. */
+  bboxFormat?: 'xywh' | 'corners';
+}
+
+export interface MapReportInput {
+  title: string;
+  /** ISO time. */
+  generatedAt: string;
+  /** PNG bytes, already downsampled by the caller to ≤ ~1200 px. */
+  photoPng: Buffer;
+  mapPng: Buffer;
+  colourBar: { minNm: number; maxNm: number; stops: Array<{ nm: number; hex: string }> };
+  grid: ReportGrid;
+  thinBelowNm: number | null;
+  /** mean_nm, median_nm, std_nm, min_nm, max_nm, p05_nm, p95_nm, uniformity, coverage. */
+  stats: Record<string, number | null>;
+  histogram: { edgesNm: number[]; counts: number[] };
+  thinRegions: ThinRegionRow[];
+  settings: Record<string, unknown>;
+  fitted: Record<string, unknown>;
+  calibration?: Record<string, unknown> | null;
+  warnings: string[];
+  downsampleNote?: string;
+  /** Optional: column (original pixels) of the default vertical profile; default the centre. */
+  profileColumn?: number;
+}
+
+export interface SeriesFrameRow {
+  frame: string;
+  timeS: number;
+  meanNm: number | null;
+  medianNm: number | null;
+  minNm: number | null;
+  thinFraction: number | null;
+  thinRegions: number;
+  coverage: number;
+  /** Small thumbnail map for the slider, optional. */
+  mapPng?: Buffer;
+}
+
+export interface DrainageFitSummary {
+  model: string;
+  formula: string;
+  parameters: Record<string, { value: number; uncertainty: number | null }>;
+  rSquared: number | null;
+  /** (time_s, thickness_nm) samples of the fitted curve. */
+  curve: Array<[number, number]>;
+  crossing?: {
+    quantity: 'mean' | 'min';
+    timeS: number | null;
+    lowS: number | null;
+    highS: number | null;
+    extrapolated: boolean;
+  } | null;
+}
+
+export interface SeriesReportInput {
+  title: string;
+  generatedAt: string;
+  frames: SeriesFrameRow[];
+  thinBelowNm: number | null;
+  fits: DrainageFitSummary[];
+  settings: Record<string, unknown>;
+  calibration?: Record<string, unknown> | null;
+  warnings: string[];
+  /** The full map view for the last (or a chosen) frame. */
+  lastMap?: MapReportInput;
+}
