@@ -17,3 +17,4 @@ export { resolveStack, resolveFilmMaterial, type StackOverrides } from './resolv
 export { filmSpectra, type FilmSpectraGrid, type FilmSpectraResult } from './filmSpectra.js';
 export { stackSpectrum, type StackSpectrum } from './stackSpectrum.js';
 export { airyFilm } from './airyFilm.js';
+export { wavelengthGrid, MAX_GRID_POINTS } from './wavelengthGrid.js';

@@ -8,4 +8,5 @@ export type Register = (program: Command) => void;
 
 export const commandModules: ReadonlyArray<() => Promise<{ register: Register }>> = [
   // e.g. () => import('./spectrum.js'),
+  () => import('./spectrum.js'),
 ];
