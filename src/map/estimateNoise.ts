@@ -1,0 +1,81 @@
+/**
+ * Noise level of a photo from itself, as a function of brightness: the median absolute
+ * difference between horizontally adjacent pixels of the green channel, in 16 bins of encoded
+ * luma, scaled to a Gaussian standard deviation (σ = MAD / (0.6745·√2), since the median of
+ * |N(0, 2σ²)| is 0.6745·√2·σ — common practice in robust statistics, e.g. Donoho & Johnstone
+ * 1994). Smooth films dominate the medians, so edges and fringes barely bias them. Brightness
+ * matters: sensor noise is roughly constant in linear units, and the sRGB curve stretches the
+ * shadows, so dark pixels are noisier in encoded units. At most ~400k pairs are sampled.
+ */
+import { lumaOf } from './tableLimits.js';
+
+export const NOISE_BINS = 16;
+
+export interface NoiseProfile {
+  /** σ per luma bin (encoded units); bin b covers luma [b/16, (b+1)/16). */
+  readonly sigmaByLuma: Float32Array;
+  /** Median σ over all pairs. */
+  readonly sigma: number;
+}
+
+export function estimateNoise(rgb: Float32Array, width: number, height: number, film: Uint8Array): NoiseProfile {
+  const floor = 1 / 255 / Math.sqrt(12); // an 8-bit photo cannot be known better than a step/√12
+  const pairs = width > 1 ? (width - 1) * height : 0;
+  const stride = Math.max(1, Math.floor(pairs / 400_000));
+  const capacity = Math.ceil(pairs / stride) + 1;
+  const diffs = new Float32Array(capacity);
+  const bins = new Uint8Array(capacity);
+  let n = 0;
+  for (let p = 0; p < pairs; p += stride) {
+    const y = Math.floor(p / (width - 1));
+    const x = p - y * (width - 1);
+    const i = y * width + x;
+    if (!film[i] || !film[i + 1]) continue;
+    const a = i * 3;
+    const b = (i + 1) * 3;
+    diffs[n] = Math.abs(rgb[a + 1] - rgb[b + 1]);
+    const luma = 0.5 * (lumaOf(rgb[a], rgb[a + 1], rgb[a + 2]) + lumaOf(rgb[b], rgb[b + 1], rgb[b + 2]));
+    bins[n] = Math.min(NOISE_BINS - 1, Math.floor(luma * NOISE_BINS));
+    n++;
+  }
+  const toSigma = (mad: number): number => Math.max(mad / (0.6745 * Math.SQRT2), floor);
+  if (n === 0) return { sigmaByLuma: new Float32Array(NOISE_BINS).fill(1 / 255), sigma: 1 / 255 };
+  const all = diffs.slice(0, n).sort();
+  const sigma = toSigma(all[Math.floor(n / 2)]);
+  const sigmaByLuma = new Float32Array(NOISE_BINS).fill(NaN);
+  for (let bin = 0; bin < NOISE_BINS; bin++) {
+    let m = 0;
+    for (let k = 0; k < n; k++) if (bins[k] === bin) m++;
+    if (m < 50) continue;
+    const values = new Float32Array(m);
+    m = 0;
+    for (let k = 0; k < n; k++) if (bins[k] === bin) values[m++] = diffs[k];
+    values.sort();
+    sigmaByLuma[bin] = toSigma(values[Math.floor(m / 2)]);
+  }
+  // Bins with too few pairs take the nearest measured bin (or the global value).
+  for (let bin = 0; bin < NOISE_BINS; bin++) {
+    if (sigmaByLuma[bin] === sigmaByLuma[bin]) continue;
+    let value = sigma;
+    for (let d = 1; d < NOISE_BINS; d++) {
+      const lo = bin - d;
+      const hi = bin + d;
+      if (lo >= 0 && sigmaByLuma[lo] === sigmaByLuma[lo]) {
+        value = sigmaByLuma[lo];
+        break;
+      }
+      if (hi < NOISE_BINS && sigmaByLuma[hi] === sigmaByLuma[hi]) {
+        value = sigmaByLuma[hi];
+        break;
+      }
+    }
+    sigmaByLuma[bin] = value;
+  }
+  return { sigmaByLuma, sigma };
+}
+
+/** σ (encoded units) expected for a pixel of the given encoded luma. */
+export function sigmaAt(profile: NoiseProfile, luma: number): number {
+  const bin = Math.min(NOISE_BINS - 1, Math.max(0, Math.floor(luma * NOISE_BINS)));
+  return profile.sigmaByLuma[bin];
+}

@@ -1,0 +1,302 @@
+/**
+ * Fits the unknown photo-formation parameters (exposure gain, white-balance gains, flare) from
+ * the photo itself, jointly with the thickness of a sample of pixels, by Levenberg–Marquardt
+ * (Levenberg 1944, Marquardt 1963) through `src/fit`.
+ *
+ * Each pixel's thickness is a nuisance parameter: for given photo parameters it is the
+ * minimiser of the colour distance, so it is projected out (variable projection, Golub &
+ * Pereyra 1973): an outer loop assigns every sample its globally best thickness, an inner LM
+ * fit moves the photo parameters while each sample follows its own local minimum (a downhill
+ * walk from the assigned index, which keeps the residuals continuous in the parameters).
+ * Samples whose residual is far above the median (colour mixtures at steep gradients, clipped
+ * or foreign pixels) are trimmed between outer iterations. A weak prior holds the white-balance
+ * gains near 1 so that a photo with few distinct colours cannot trade them against thickness.
+ */
+import { fitLeastSquares } from '../fit/fitLeastSquares.js';
+import { type ColourTable, predictEncodedTable } from './colourTable.js';
+import { distanceAt } from './candidateCube.js';
+import { refinePosition, walkDownhill } from './matchColour.js';
+import type { ExposureParameters } from './types.js';
+
+export interface PhotoFormationFit {
+  readonly parameters: ExposureParameters;
+  readonly standardErrors: { exposure: number; whiteBalance: [number, number, number]; flare: [number, number, number] };
+  /** Root-mean-square colour residual of the retained samples (encoded units). */
+  readonly rmsResidual: number;
+  readonly samplesUsed: number;
+  readonly warnings: string[];
+}
+
+export interface PhotoFormationOptions {
+  readonly table: ColourTable;
+  /** n × 3 encoded colours of sample pixels. */
+  readonly samples: Float32Array;
+  readonly fitWhiteBalance: boolean;
+  readonly fitFlare: boolean;
+  /** Standard deviation of the photo's noise (encoded units), for the prior's weight. */
+  readonly noiseSigma: number;
+  /** Starting white balance (e.g. from a known camera setting); default 1,1,1. */
+  readonly initialWhiteBalance?: readonly [number, number, number];
+  /** Thickness-table indices to restrict the samples to (e.g. known regions); optional. */
+  readonly fixedIndex?: Int32Array | null;
+}
+
+const WHITE_BALANCE_PRIOR_SIGMA = 0.3;
+const OUTER_ITERATIONS = 4;
+const TRIM_FACTOR = 6;
+
+export function fitPhotoFormation(options: PhotoFormationOptions): PhotoFormationFit {
+  const { table, samples, noiseSigma } = options;
+  const sampleCount = samples.length / 3;
+  const warnings: string[] = [];
+  const initialFlare = estimateFlare(samples, table.encoding);
+  const initialWb = options.initialWhiteBalance ?? [1, 1, 1];
+  const exposure0 = scanExposure(table, samples, initialWb, initialFlare);
+  let current: ExposureParameters = { exposure: exposure0, whiteBalance: [...initialWb], flare: initialFlare };
+  const assigned = new Int32Array(sampleCount);
+  const keep = new Uint8Array(sampleCount).fill(1);
+  const predicted = new Float32Array(table.count * 3);
+  let standardErrors: PhotoFormationFit['standardErrors'] = {
+    exposure: NaN,
+    whiteBalance: [NaN, NaN, NaN],
+    flare: [NaN, NaN, NaN],
+  };
+  let rms = NaN;
+  for (let outer = 0; outer < OUTER_ITERATIONS; outer++) {
+    predictEncodedTable(table, current, predicted);
+    assignGlobalBest(predicted, table.count, samples, assigned, options.fixedIndex ?? null);
+    trimOutliers(predicted, table.count, samples, assigned, keep);
+    const result = innerFit(options, current, assigned, keep);
+    current = result.parameters;
+    standardErrors = result.standardErrors;
+    rms = result.rms;
+    warnings.push(...result.warnings);
+  }
+  let used = 0;
+  for (let i = 0; i < sampleCount; i++) used += keep[i];
+  void noiseSigma;
+  return { parameters: current, standardErrors, rmsResidual: rms, samplesUsed: used, warnings: [...new Set(warnings)] };
+}
+
+/** Flare start: a little below the darkest linear level seen in each channel. */
+function estimateFlare(samples: Float32Array, encoding: 'srgb' | 'linear'): [number, number, number] {
+  const out: [number, number, number] = [0, 0, 0];
+  const n = samples.length / 3;
+  for (let c = 0; c < 3; c++) {
+    const values = new Float32Array(n);
+    for (let i = 0; i < n; i++) values[i] = samples[i * 3 + c];
+    values.sort();
+    const low = values[Math.floor(0.005 * (n - 1))];
+    const linear = encoding === 'linear' ? low : decode(low);
+    out[c] = 0.8 * linear;
+  }
+  return out;
+}
+
+function decode(encoded: number): number {
+  return encoded <= 0.04045 ? encoded / 12.92 : Math.pow((encoded + 0.055) / 1.055, 2.4);
+}
+
+/** Coarse search of the exposure gain on a geometric grid, by the trimmed best-match cost. */
+function scanExposure(
+  table: ColourTable,
+  samples: Float32Array,
+  whiteBalance: readonly [number, number, number],
+  flare: readonly [number, number, number],
+): number {
+  const n = samples.length / 3;
+  const stride = Math.max(1, Math.floor(n / 600));
+  const predicted = new Float32Array(table.count * 3);
+  const costs = new Float64Array(Math.ceil(n / stride));
+  let bestExposure = 1;
+  let bestCost = Infinity;
+  const steps = 56;
+  for (let s = 0; s < steps; s++) {
+    const exposure = 0.1 * Math.pow(10, (s / (steps - 1)) * 2.8);
+    predictEncodedTable(table, { exposure, whiteBalance, flare }, predicted);
+    let m = 0;
+    for (let i = 0; i < n; i += stride) {
+      const r = samples[i * 3];
+      const g = samples[i * 3 + 1];
+      const b = samples[i * 3 + 2];
+      let best = Infinity;
+      for (let t = 0; t < table.count; t += 2) {
+        const d = distanceAt(predicted, t, r, g, b);
+        if (d < best) best = d;
+      }
+      costs[m++] = best;
+    }
+    const sorted = costs.subarray(0, m).sort();
+    let sum = 0;
+    const keepCount = Math.max(1, Math.floor(0.8 * m));
+    for (let i = 0; i < keepCount; i++) sum += sorted[i];
+    if (sum < bestCost) {
+      bestCost = sum;
+      bestExposure = exposure;
+    }
+  }
+  return bestExposure;
+}
+
+function assignGlobalBest(
+  predicted: Float32Array,
+  count: number,
+  samples: Float32Array,
+  assigned: Int32Array,
+  fixedIndex: Int32Array | null,
+): void {
+  const n = assigned.length;
+  for (let i = 0; i < n; i++) {
+    if (fixedIndex && fixedIndex[i] >= 0) {
+      assigned[i] = fixedIndex[i];
+      continue;
+    }
+    const r = samples[i * 3];
+    const g = samples[i * 3 + 1];
+    const b = samples[i * 3 + 2];
+    let best = Infinity;
+    let bestIndex = 0;
+    for (let t = 0; t < count; t++) {
+      const d = distanceAt(predicted, t, r, g, b);
+      if (d < best) {
+        best = d;
+        bestIndex = t;
+      }
+    }
+    assigned[i] = bestIndex;
+  }
+}
+
+function trimOutliers(
+  predicted: Float32Array,
+  count: number,
+  samples: Float32Array,
+  assigned: Int32Array,
+  keep: Uint8Array,
+): void {
+  const n = assigned.length;
+  const costs = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    costs[i] = distanceAt(predicted, assigned[i], samples[i * 3], samples[i * 3 + 1], samples[i * 3 + 2]);
+  }
+  const sorted = Float64Array.from(costs).sort();
+  const median = sorted[Math.floor(n / 2)];
+  const limit = Math.max(TRIM_FACTOR * median, 1e-6);
+  for (let i = 0; i < n; i++) keep[i] = costs[i] <= limit ? 1 : 0;
+  void count;
+}
+
+interface InnerResult {
+  parameters: ExposureParameters;
+  standardErrors: PhotoFormationFit['standardErrors'];
+  rms: number;
+  warnings: string[];
+}
+
+/** Parameter vector: [exposure, wbR, wbB, flareR, flareG, flareB] (wbG ≡ 1, exposure absorbs it). */
+function innerFit(
+  options: PhotoFormationOptions,
+  start: ExposureParameters,
+  assigned: Int32Array,
+  keep: Uint8Array,
+): InnerResult {
+  const { table, samples, fitWhiteBalance, fitFlare, noiseSigma, fixedIndex } = options;
+  const kept: number[] = [];
+  for (let i = 0; i < assigned.length; i++) if (keep[i]) kept.push(i);
+  const m = kept.length;
+  const priorWeight = (Math.sqrt(m) * Math.max(noiseSigma, 1e-3)) / WHITE_BALANCE_PRIOR_SIGMA;
+  const rows = m * 3 + 2;
+  const y = new Float64Array(rows);
+  for (let j = 0; j < m; j++) {
+    const i = kept[j];
+    y[j * 3] = samples[i * 3];
+    y[j * 3 + 1] = samples[i * 3 + 1];
+    y[j * 3 + 2] = samples[i * 3 + 2];
+  }
+  const x = new Float64Array(rows);
+  for (let i = 0; i < rows; i++) x[i] = i;
+  const wbG = start.whiteBalance[1];
+  // Full vector: [exposure, wbR, wbB, flareR, flareG, flareB]; only the active ones are fitted.
+  const full = [start.exposure, start.whiteBalance[0], start.whiteBalance[2], start.flare[0], start.flare[1], start.flare[2]];
+  const lowerFull = [start.exposure * 0.05, 0.25, 0.25, -0.05, -0.05, -0.05];
+  const upperFull = [start.exposure * 20, 4, 4, 0.6, 0.6, 0.6];
+  const scaleFull = [start.exposure, 1, 1, 0.05, 0.05, 0.05];
+  const active = [0, ...(fitWhiteBalance ? [1, 2] : []), ...(fitFlare ? [3, 4, 5] : [])];
+  const expand = (p: readonly number[]): number[] => {
+    const v = full.slice();
+    active.forEach((slot, j) => (v[slot] = p[j]));
+    return v;
+  };
+  const toParameters = (v: readonly number[]): ExposureParameters => ({
+    exposure: v[0],
+    whiteBalance: [v[1], wbG, v[2]],
+    flare: [v[3], v[4], v[5]],
+  });
+  const predicted = new Float32Array(table.count * 3);
+  const modelValues = new Float64Array(rows);
+  const costScratch = new Float64Array(1);
+  let cachedKey = '';
+  const evaluate = (p: readonly number[]): Float64Array => {
+    const key = p.join(',');
+    if (key === cachedKey) return modelValues;
+    cachedKey = key;
+    const v = expand(p);
+    predictEncodedTable(table, toParameters(v), predicted);
+    for (let j = 0; j < m; j++) {
+      const i = kept[j];
+      const r = samples[i * 3];
+      const g = samples[i * 3 + 1];
+      const b = samples[i * 3 + 2];
+      const fixed = fixedIndex !== null && fixedIndex !== undefined && fixedIndex[i] >= 0;
+      const index = fixed ? assigned[i] : walkDownhill(predicted, table.count, r, g, b, assigned[i]);
+      const position = fixed ? index : refinePosition(predicted, table.count, r, g, b, index, costScratch, 0);
+      interpolateColour(predicted, table.count, position, modelValues, j * 3);
+    }
+    modelValues[m * 3] = fitWhiteBalance ? priorWeight * (v[1] - 1) : 0;
+    modelValues[m * 3 + 1] = fitWhiteBalance ? priorWeight * (v[2] - 1) : 0;
+    return modelValues;
+  };
+  const fit = fitLeastSquares({
+    x,
+    y,
+    model: (p) => {
+      const values = evaluate(p);
+      return (row) => values[row];
+    },
+    initial: active.map((slot) => full[slot]),
+    lower: active.map((slot) => lowerFull[slot]),
+    upper: active.map((slot) => upperFull[slot]),
+    scale: active.map((slot) => scaleFull[slot]),
+    maxIterations: 40,
+    tolerance: 1e-9,
+  });
+  const v = expand(fit.parameters);
+  const se = [NaN, 0, 0, 0, 0, 0];
+  active.forEach((slot, j) => (se[slot] = fit.standardErrors[j]));
+  const priorRss = fitWhiteBalance ? (priorWeight * (v[1] - 1)) ** 2 + (priorWeight * (v[2] - 1)) ** 2 : 0;
+  return {
+    parameters: toParameters(v),
+    standardErrors: { exposure: se[0], whiteBalance: [se[1], 0, se[2]], flare: [se[3], se[4], se[5]] },
+    rms: Math.sqrt(Math.max(0, fit.residualSumOfSquares - priorRss) / Math.max(1, m * 3)),
+    warnings: fit.warnings,
+  };
+}
+
+/** Linear interpolation of the predicted encoded colour at a fractional table position. */
+export function interpolateColour(
+  predicted: Float32Array,
+  count: number,
+  position: number,
+  out: Float64Array,
+  offset: number,
+): void {
+  let i = Math.floor(position);
+  if (i < 0) i = 0;
+  if (i >= count - 1) i = count - 2;
+  const f = position - i;
+  const a = i * 3;
+  const b = a + 3;
+  out[offset] = predicted[a] + f * (predicted[b] - predicted[a]);
+  out[offset + 1] = predicted[a + 1] + f * (predicted[b + 1] - predicted[a + 1]);
+  out[offset + 2] = predicted[a + 2] + f * (predicted[b + 2] - predicted[a + 2]);
+}

@@ -1,0 +1,446 @@
+/**
+ * Photo → thickness map, on decoded pixels (no file I/O): the core of `lamella map`.
+ *
+ * 1. Fit exposure, white balance and flare from the photo (fitPhotoFormation), unless fixed.
+ * 2. Predict the encoded colour of every table thickness; read the dark and wash-out limits.
+ * 3. On a grid of cells (pixels, or blocks of a large photo, denoised by averaging), list each
+ *    cell's candidate thicknesses through the colour cube, and resolve interference orders over
+ *    the whole image (resolveOrders).
+ * 4. At full resolution, match every pixel again and keep the candidate that continues the
+ *    resolved field; refine it continuously between table samples; set its status and
+ *    confidence (colour residual × margin to the next-best order).
+ * 5. Statistics, histogram and thin regions.
+ */
+import { createCandidateCube } from './candidateCube.js';
+import { createCandidateField } from './candidateField.js';
+import { type ColourTable, predictEncodedTable, thicknessAt } from './colourTable.js';
+import { estimateNoise, sigmaAt } from './estimateNoise.js';
+import { fitPhotoFormation, type PhotoFormationFit } from './fitPhotoFormation.js';
+import { createMatchScratch, matchColour } from './matchColour.js';
+import { resolveOrders } from './resolveOrders.js';
+import { computeMapStatistics, thicknessHistogram } from './statistics.js';
+import { lumaOf, tableLimits } from './tableLimits.js';
+import { findThinRegions } from './thinRegions.js';
+import { type Anchor, type ExposureParameters, type MapResult, PixelStatus } from './types.js';
+
+export interface MapPixelsInput {
+  readonly rgb: Float32Array;
+  readonly width: number;
+  readonly height: number;
+  /** 1 = film pixel to measure. */
+  readonly film: Uint8Array;
+  readonly table: ColourTable;
+  /** Thickness of one interference order at mid-visible (λ/(2n cosθ)), nm. */
+  readonly orderPeriodNm: number;
+  readonly thinBelowNm: number | null;
+  readonly pixelSizeUm?: number | null;
+  readonly anchors?: readonly Anchor[];
+  readonly prior?: Float32Array | null;
+  readonly exposureFixed?: ExposureParameters | null;
+  readonly fitWhiteBalance?: boolean;
+  readonly initialWhiteBalance?: readonly [number, number, number];
+}
+
+export interface MapPixelsResult extends MapResult {
+  readonly fit: PhotoFormationFit | null;
+  readonly noiseSigma: number;
+  readonly washoutNm: number;
+  /** Why pixels have no estimate: no resolved order nearby, no continuous candidate, poor colour match. */
+  readonly ambiguousReasons: { unresolved: number; discontinuous: number; poorMatch: number };
+}
+
+const PER_CELL = 6;
+const CUBE_LEVELS = 32;
+const MAX_GRID_CELLS = 300_000;
+const SATURATED = 0.996;
+
+export function mapPixels(input: MapPixelsInput): MapPixelsResult {
+  const { rgb, width, height, film, table } = input;
+  const pixels = width * height;
+  const warnings: string[] = [];
+  const status = new Uint8Array(pixels);
+  let saturatedCount = 0;
+  for (let i = 0; i < pixels; i++) {
+    if (!film[i]) status[i] = PixelStatus.excluded;
+    else if (rgb[i * 3] >= SATURATED || rgb[i * 3 + 1] >= SATURATED || rgb[i * 3 + 2] >= SATURATED) {
+      status[i] = PixelStatus.saturated;
+      saturatedCount++;
+    }
+  }
+  const noise = estimateNoise(rgb, width, height, film);
+  const noiseSigma = noise.sigma;
+
+  // 1. Photo-formation parameters.
+  let fit: PhotoFormationFit | null = null;
+  let parameters: ExposureParameters;
+  if (input.exposureFixed) parameters = input.exposureFixed;
+  else {
+    const samples = samplePixels(rgb, status, pixels, 4000);
+    if (samples.length < 3 * 8) throw new RangeError('the photo has too few usable film pixels to fit its exposure');
+    fit = fitPhotoFormation({
+      table,
+      samples,
+      fitWhiteBalance: input.fitWhiteBalance ?? true,
+      fitFlare: true,
+      noiseSigma,
+      initialWhiteBalance: input.initialWhiteBalance,
+    });
+    parameters = fit.parameters;
+    warnings.push(...fit.warnings);
+  }
+
+  // 2. Predicted colours and limits.
+  const predicted = predictEncodedTable(table, parameters);
+  const count = table.count;
+  const periodIndex = input.orderPeriodNm / table.stepNm;
+  const limits = tableLimits(predicted, table.rgbLinear, count, noiseSigma, Math.round(periodIndex));
+  markDarkPixels(rgb, status, width, height, limits.darkLuma);
+
+  // 3. Order resolution on the cell grid.
+  const block = Math.max(1, Math.ceil(Math.sqrt(pixels / MAX_GRID_CELLS)));
+  const gridWidth = Math.ceil(width / block);
+  const gridHeight = Math.ceil(height / block);
+  const cellColour = new Float32Array(gridWidth * gridHeight * 3);
+  const cellDark = new Uint8Array(gridWidth * gridHeight);
+  const usable = averageCells(rgb, status, width, height, block, gridWidth, gridHeight, cellColour, cellDark);
+  const cube = createCandidateCube(CUBE_LEVELS, PER_CELL);
+  const scratch = createMatchScratch(PER_CELL);
+  const field = createCandidateField(gridWidth, gridHeight, PER_CELL);
+  for (let c = 0; c < gridWidth * gridHeight; c++) {
+    if (!usable[c]) continue;
+    const n = matchColour(cube, predicted, count, cellColour[c * 3], cellColour[c * 3 + 1], cellColour[c * 3 + 2], scratch);
+    field.count[c] = n;
+    for (let k = 0; k < n; k++) {
+      field.position[c * PER_CELL + k] = scratch.position[k];
+      field.cost[c * PER_CELL + k] = scratch.cost[k];
+    }
+  }
+  const noiseCost = 3 * noiseSigma * noiseSigma;
+  const maxJump = (block === 1 ? 0.3 : 0.4) * periodIndex;
+  const order = resolveOrders(field, {
+    maxJump,
+    noiseCost: noiseCost / (block === 1 ? 9 : block * block),
+    boundaryWeight: 40 * noiseCost,
+    prior: input.prior ? priorOnGrid(input.prior, width, height, block, gridWidth, gridHeight, table) : null,
+    priorWeight: 4 * noiseCost,
+    dark: cellDark,
+    darkPosition: limits.darkLimitIndex,
+    anchors: (input.anchors ?? []).map((a) => anchorCell(a, width, height, block, gridWidth, table)),
+  });
+
+  fillUnresolved(order.position, field, cellDark, gridWidth, gridHeight, limits.darkLimitIndex, maxJump);
+
+  // 4. Full resolution.
+  const thicknessNm = new Float32Array(pixels).fill(NaN);
+  const confidence = new Float32Array(pixels);
+  // Allowance for model error (dispersion data, camera model) on top of the noise.
+  const modelSlack = 3 * (2 / 255) ** 2;
+  const pixelJump = 0.3 * periodIndex;
+  const reasons = { unresolved: 0, discontinuous: 0, poorMatch: 0 };
+  for (let y = 0; y < height; y++) {
+    for (let x = 0; x < width; x++) {
+      const i = y * width + x;
+      if (status[i] !== PixelStatus.ok) continue;
+      const reference = referenceAt(order.position, x, y, block, gridWidth, gridHeight);
+      if (reference !== reference) {
+        status[i] = PixelStatus.ambiguous;
+        reasons.unresolved++;
+        continue;
+      }
+      const n = matchColour(cube, predicted, count, rgb[i * 3], rgb[i * 3 + 1], rgb[i * 3 + 2], scratch);
+      let best = -1;
+      let bestGap = Infinity;
+      for (let k = 0; k < n; k++) {
+        const gap = Math.abs(scratch.position[k] - reference);
+        if (gap < bestGap) {
+          bestGap = gap;
+          best = k;
+        }
+      }
+      if (best < 0 || bestGap > pixelJump) {
+        status[i] = PixelStatus.ambiguous;
+        reasons.discontinuous++;
+        continue;
+      }
+      const position = scratch.position[best];
+      const cost = scratch.cost[best];
+      const sigma = sigmaAt(noise, lumaOf(rgb[i * 3], rgb[i * 3 + 1], rgb[i * 3 + 2]));
+      const pixelNoiseCost = 3 * sigma * sigma;
+      if (cost > 10 * pixelNoiseCost + modelSlack) {
+        status[i] = PixelStatus.ambiguous;
+        reasons.poorMatch++;
+        continue;
+      }
+      if (position >= limits.washoutIndex) {
+        status[i] = PixelStatus.tooThick;
+        continue;
+      }
+      let alternative = Infinity;
+      for (let k = 0; k < n; k++) {
+        if (Math.abs(scratch.position[k] - position) > pixelJump && scratch.cost[k] < alternative) alternative = scratch.cost[k];
+      }
+      const fitTerm = Math.exp(-cost / (4 * pixelNoiseCost + modelSlack));
+      const marginTerm = alternative === Infinity ? 1 : 1 - Math.exp(-Math.max(0, alternative - cost) / pixelNoiseCost);
+      thicknessNm[i] = thicknessAt(table, position);
+      confidence[i] = fitTerm * marginTerm;
+    }
+  }
+
+  // 5. Summaries.
+  const regions = findThinRegions(thicknessNm, status, width, height, input.thinBelowNm, input.pixelSizeUm ?? null);
+  const stats = computeMapStatistics(thicknessNm, status, input.thinBelowNm, regions.regions.length);
+  const histogram = thicknessHistogram(thicknessNm, status, stats.min_nm, stats.max_nm);
+  if (saturatedCount > 0) warnings.push(`${saturatedCount} pixels are clipped (saturated) and have no estimate`);
+  const washoutNm = thicknessAt(table, Math.min(limits.washoutIndex, count - 1));
+  return {
+    width,
+    height,
+    thicknessNm,
+    confidence,
+    status,
+    fitted: { ...parameters, residualDeltaE: undefined },
+    stats,
+    histogram,
+    thinRegions: regions.regions,
+    darkLimitNm: thicknessAt(table, limits.darkLimitIndex),
+    warnings,
+    fit,
+    noiseSigma,
+    washoutNm,
+    ambiguousReasons: reasons,
+  };
+}
+
+/** Up to `target` film pixels on a regular stride, as n × 3 encoded colours. */
+function samplePixels(rgb: Float32Array, status: Uint8Array, pixels: number, target: number): Float32Array {
+  let eligible = 0;
+  for (let i = 0; i < pixels; i++) if (status[i] === PixelStatus.ok) eligible++;
+  const stride = Math.max(1, Math.floor(eligible / target));
+  const out = new Float32Array(Math.ceil(eligible / stride) * 3);
+  let seen = 0;
+  let n = 0;
+  for (let i = 0; i < pixels; i++) {
+    if (status[i] !== PixelStatus.ok) continue;
+    if (seen++ % stride !== 0) continue;
+    out[n * 3] = rgb[i * 3];
+    out[n * 3 + 1] = rgb[i * 3 + 1];
+    out[n * 3 + 2] = rgb[i * 3 + 2];
+    n++;
+  }
+  return out.subarray(0, n * 3);
+}
+
+/**
+ * Mean colour of each cell over its measurable pixels. With block = 1 a 3×3 neighbourhood is
+ * averaged instead (denoising, and JPEG's half-resolution chroma). Returns usable flags.
+ */
+function averageCells(
+  rgb: Float32Array,
+  status: Uint8Array,
+  width: number,
+  height: number,
+  block: number,
+  gridWidth: number,
+  gridHeight: number,
+  out: Float32Array,
+  dark: Uint8Array,
+): Uint8Array {
+  const usable = new Uint8Array(gridWidth * gridHeight);
+  const radius = block === 1 ? 1 : 0;
+  for (let gy = 0; gy < gridHeight; gy++) {
+    for (let gx = 0; gx < gridWidth; gx++) {
+      const c = gy * gridWidth + gx;
+      const x0 = Math.max(0, gx * block - radius);
+      const y0 = Math.max(0, gy * block - radius);
+      const x1 = Math.min(width, (gx + 1) * block + radius);
+      const y1 = Math.min(height, (gy + 1) * block + radius);
+      let r = 0;
+      let g = 0;
+      let b = 0;
+      let n = 0;
+      let darkCount = 0;
+      let total = 0;
+      for (let y = y0; y < y1; y++) {
+        for (let x = x0; x < x1; x++) {
+          const i = y * width + x;
+          const s = status[i];
+          if (s === PixelStatus.excluded) continue;
+          total++;
+          if (s === PixelStatus.dark) darkCount++;
+          if (s !== PixelStatus.ok) continue;
+          r += rgb[i * 3];
+          g += rgb[i * 3 + 1];
+          b += rgb[i * 3 + 2];
+          n++;
+        }
+      }
+      if (block === 1) {
+        const centre = gy * width + gx;
+        if (status[centre] !== PixelStatus.ok) {
+          if (status[centre] === PixelStatus.dark) dark[c] = 1;
+          continue;
+        }
+      } else if (darkCount * 2 > total && total > 0) dark[c] = 1;
+      if (n === 0 || n * 2 < total) continue;
+      out[c * 3] = r / n;
+      out[c * 3 + 1] = g / n;
+      out[c * 3 + 2] = b / n;
+      usable[c] = 1;
+    }
+  }
+  return usable;
+}
+
+/** Resolved table position for pixel (x, y): the cell's, or bilinear between cell centres. */
+function referenceAt(position: Float32Array, x: number, y: number, block: number, gridWidth: number, gridHeight: number): number {
+  if (block === 1) return position[y * gridWidth + x];
+  const fx = (x + 0.5) / block - 0.5;
+  const fy = (y + 0.5) / block - 0.5;
+  const cx = Math.floor(x / block);
+  const cy = Math.floor(y / block);
+  const own = position[cy * gridWidth + cx];
+  const x0 = Math.max(0, Math.min(gridWidth - 1, Math.floor(fx)));
+  const y0 = Math.max(0, Math.min(gridHeight - 1, Math.floor(fy)));
+  const x1 = Math.min(gridWidth - 1, x0 + 1);
+  const y1 = Math.min(gridHeight - 1, y0 + 1);
+  const tx = Math.max(0, Math.min(1, fx - x0));
+  const ty = Math.max(0, Math.min(1, fy - y0));
+  const v00 = position[y0 * gridWidth + x0];
+  const v10 = position[y0 * gridWidth + x1];
+  const v01 = position[y1 * gridWidth + x0];
+  const v11 = position[y1 * gridWidth + x1];
+  const value = (1 - ty) * ((1 - tx) * v00 + tx * v10) + ty * ((1 - tx) * v01 + tx * v11);
+  return value === value ? value : own;
+}
+
+function priorOnGrid(
+  prior: Float32Array,
+  width: number,
+  height: number,
+  block: number,
+  gridWidth: number,
+  gridHeight: number,
+  table: ColourTable,
+): Float32Array {
+  const out = new Float32Array(gridWidth * gridHeight);
+  const counts = new Uint32Array(gridWidth * gridHeight);
+  for (let y = 0; y < height; y++) {
+    for (let x = 0; x < width; x++) {
+      const v = prior[y * width + x];
+      if (v !== v) continue;
+      const c = Math.floor(y / block) * gridWidth + Math.floor(x / block);
+      out[c] += (v - table.startNm) / table.stepNm;
+      counts[c]++;
+    }
+  }
+  for (let c = 0; c < out.length; c++) out[c] = counts[c] > 0 ? out[c] / counts[c] : NaN;
+  return out;
+}
+
+function anchorCell(
+  anchor: Anchor,
+  width: number,
+  height: number,
+  block: number,
+  gridWidth: number,
+  table: ColourTable,
+): { cell: number; position: number } {
+  if (!(anchor.x >= 0 && anchor.x < width && anchor.y >= 0 && anchor.y < height)) {
+    throw new RangeError(`--anchor ${anchor.x},${anchor.y} lies outside the ${width}×${height} photo`);
+  }
+  return {
+    cell: Math.floor(anchor.y / block) * gridWidth + Math.floor(anchor.x / block),
+    position: (anchor.thicknessNm - table.startNm) / table.stepNm,
+  };
+}
+
+/**
+ * Too-dark pixels: encoded luma, averaged over the 3×3 neighbourhood of film pixels (so that
+ * noise does not speckle the black film), below the dark limit's luma.
+ */
+function markDarkPixels(rgb: Float32Array, status: Uint8Array, width: number, height: number, darkLuma: number): void {
+  const dark = new Uint8Array(width * height);
+  for (let y = 0; y < height; y++) {
+    for (let x = 0; x < width; x++) {
+      const i = y * width + x;
+      if (status[i] !== PixelStatus.ok) continue;
+      let sum = 0;
+      let n = 0;
+      for (let dy = -1; dy <= 1; dy++) {
+        const ny = y + dy;
+        if (ny < 0 || ny >= height) continue;
+        for (let dx = -1; dx <= 1; dx++) {
+          const nx = x + dx;
+          if (nx < 0 || nx >= width) continue;
+          const j = ny * width + nx;
+          if (status[j] === PixelStatus.excluded) continue;
+          sum += lumaOf(rgb[j * 3], rgb[j * 3 + 1], rgb[j * 3 + 2]);
+          n++;
+        }
+      }
+      if (sum / n < darkLuma) dark[i] = 1;
+    }
+  }
+  for (let i = 0; i < dark.length; i++) if (dark[i]) status[i] = PixelStatus.dark;
+}
+
+/**
+ * Cells that growth could not reach (isolated between dark cells, or cut off by conflicts)
+ * take the candidate nearest to a resolved or dark neighbour, in a few sweeps.
+ */
+function fillUnresolved(
+  position: Float32Array,
+  field: ReturnType<typeof createCandidateField>,
+  dark: Uint8Array,
+  gridWidth: number,
+  gridHeight: number,
+  darkPosition: number,
+  maxJump: number,
+): void {
+  const { perCell, count } = field;
+  for (let sweep = 0; sweep < 3; sweep++) {
+    let changed = 0;
+    for (let y = 0; y < gridHeight; y++) {
+      for (let x = 0; x < gridWidth; x++) {
+        const c = y * gridWidth + x;
+        if (count[c] === 0 || position[c] === position[c]) continue;
+        let sum = 0;
+        let n = 0;
+        for (let dy = -1; dy <= 1; dy++) {
+          const ny = y + dy;
+          if (ny < 0 || ny >= gridHeight) continue;
+          for (let dx = -1; dx <= 1; dx++) {
+            const nx = x + dx;
+            if (nx < 0 || nx >= gridWidth || (dx === 0 && dy === 0)) continue;
+            const j = ny * gridWidth + nx;
+            const v = position[j];
+            if (v === v) {
+              sum += v;
+              n++;
+            } else if (dark[j]) {
+              sum += darkPosition;
+              n++;
+            }
+          }
+        }
+        if (n === 0) continue;
+        const reference = sum / n;
+        let best = NaN;
+        let bestGap = maxJump;
+        for (let k = 0; k < count[c]; k++) {
+          const p = field.position[c * perCell + k];
+          const gap = Math.abs(p - reference);
+          if (gap <= bestGap) {
+            bestGap = gap;
+            best = p;
+          }
+        }
+        if (best === best) {
+          position[c] = best;
+          changed++;
+        }
+      }
+    }
+    if (changed === 0) break;
+  }
+}
