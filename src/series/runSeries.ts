@@ -18,6 +18,8 @@ import { runFrames } from './runFrames.js';
 import { collectSeriesRows } from './seriesRows.js';
 import { formatSeriesCsv } from './seriesCsv.js';
 import { fitSeriesDrainage } from './fits/fitSeriesDrainage.js';
+import { renderSeriesReport } from '../report/renderSeriesReport.js';
+import { seriesReportInput } from './seriesReportInput.js';
 import { seriesSummary, type SeriesSummary } from './seriesSummary.js';
 import type { FrameEvent, FrameProcessor, ProcessorSource, SeriesProgress } from './types.js';
 
@@ -46,6 +48,11 @@ export interface SeriesOptions {
   readonly signal?: AbortSignal;
   readonly onFrame?: (event: FrameEvent, progress: SeriesProgress) => void;
   /** Called once the frames to map are known (for progress display). */
+  /** Write `report.html` (default true). */
+  readonly report?: boolean;
+  readonly reportTitle?: string;
+  /** ISO time printed in the report (default: now). */
+  readonly generatedAt?: string;
   readonly onPlan?: (plan: { readonly frames: number; readonly toVisit: number; readonly chunks: number; readonly workers: number }) => void;
 }
 
@@ -119,7 +126,19 @@ export async function runSeries(options: SeriesOptions): Promise<SeriesResult> {
   const jsonPath = join(outDir, 'series.json');
   await writeAtomic(csvPath, formatSeriesCsv(collected.rows));
   await writeAtomic(jsonPath, `${JSON.stringify(summary, null, 2)}\n`);
-  return { interrupted: false, summary, failures, warnings, events: run.events, outputs: [csvPath, jsonPath] };
+  const outputs = [csvPath, jsonPath];
+  if (options.report !== false) {
+    const input = await seriesReportInput(summary, collected.rows, {
+      title: options.reportTitle ?? `Series of ${frames.length} frames`,
+      generatedAt: options.generatedAt ?? new Date().toISOString(),
+      outDir,
+      stems: new Map(frames.map((f) => [f.name, f.stem])),
+    });
+    const reportPath = join(outDir, 'report.html');
+    await writeAtomic(reportPath, renderSeriesReport(input));
+    outputs.push(reportPath);
+  }
+  return { interrupted: false, summary, failures, warnings, events: run.events, outputs };
 }
 
 async function writeAtomic(path: string, text: string): Promise<void> {
