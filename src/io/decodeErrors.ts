@@ -10,7 +10,7 @@ export function decodeInputError(path: string, error: unknown, maxPixels: number
     return new InputError(path, 'is not an image in a readable format (JPEG, PNG, TIFF, WebP, …)');
   }
   if (/pixel limit/i.test(detail)) {
-    return new InputError(path, `image is larger than the limit of ${maxPixels} pixels; crop or down-sample it first`);
+    return new InputError(path, `image has more pixels than the limit of ${maxPixels} pixels; crop or down-sample it first`);
   }
   if (/premature end|truncated|unexpected end|read error|end of file|not enough data|corrupt|invalid|incomplete|failed to read|crc/i.test(detail)) {
     return new InputError(path, `image file is truncated or corrupt (${detail})`);

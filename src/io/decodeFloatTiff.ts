@@ -2,10 +2,13 @@
  * Reader for single-channel 32-bit floating-point TIFF files, uncompressed, in strips, either
  * byte order (TIFF Revision 6.0, Adobe 1992, Sections 2, 3 and 19; see ./encodeFloatTiff.ts).
  * This covers our own output and the usual "float grid" exports of image tools; compressed or
- * tiled float TIFFs are refused with a message saying so.
+ * tiled float TIFFs are handed to the image codec by `decodeFloatTiffAny`/`readFloatTiff`.
  */
+import sharp from 'sharp';
 import { InputError } from '../cli/errors.js';
 import { readInputFile } from './readInputFile.js';
+import { decodeInputError } from './decodeErrors.js';
+import { MAX_PIXELS } from './limits.js';
 
 export interface FloatGrid {
   data: Float32Array;
@@ -72,6 +75,26 @@ export function decodeFloatTiff(bytes: Uint8Array, source = '<tiff>'): FloatGrid
   return { data, width, height };
 }
 
+/**
+ * Decodes a float TIFF, handing compressed or tiled files (which our own reader refuses) to the
+ * image codec, which reads them through libtiff.
+ */
+export async function decodeFloatTiffAny(bytes: Uint8Array, source = '<tiff>'): Promise<FloatGrid> {
+  try {
+    return decodeFloatTiff(bytes, source);
+  } catch (error) {
+    if (!(error instanceof InputError) || !/compressed float TIFF|tiled TIFF/.test(error.message)) throw error;
+  }
+  try {
+    const raw = await sharp(bytes, { limitInputPixels: MAX_PIXELS }).extractChannel(0).raw({ depth: 'float' }).toBuffer({ resolveWithObject: true });
+    const data = new Float32Array(raw.info.width * raw.info.height);
+    data.set(new Float32Array(raw.data.buffer, raw.data.byteOffset, data.length));
+    return { data, width: raw.info.width, height: raw.info.height };
+  } catch (error) {
+    throw decodeInputError(source, error, MAX_PIXELS);
+  }
+}
+
 export async function readFloatTiff(path: string): Promise<FloatGrid> {
-  return decodeFloatTiff(await readInputFile(path), path);
+  return decodeFloatTiffAny(await readInputFile(path), path);
 }

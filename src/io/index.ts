@@ -11,7 +11,7 @@ export { encodeNpy, writeNpy } from './encodeNpy.js';
 export { decodeNpy, readNpy, type NpyArray } from './decodeNpy.js';
 export type { NpyData } from './npyFormat.js';
 export { encodeFloatTiff, writeFloatTiff } from './encodeFloatTiff.js';
-export { decodeFloatTiff, readFloatTiff, type FloatGrid } from './decodeFloatTiff.js';
+export { decodeFloatTiff, decodeFloatTiffAny, readFloatTiff, type FloatGrid } from './decodeFloatTiff.js';
 export { readThicknessGrid, type ReadThicknessGridOptions } from './readThicknessGrid.js';
 export { atomicWriteFile } from './atomicWriteFile.js';
 export { ensureOutputDir, assertNoInputOverwritten, type EnsureOutputDirOptions } from './ensureOutputDir.js';

@@ -28,7 +28,7 @@ export async function readPhoto(path: string, options: ReadPhotoOptions = {}): P
   }
   if (!(meta.width > 0 && meta.height > 0)) throw new InputError(path, 'image has no pixels');
   if (meta.width * meta.height > maxPixels) {
-    throw new InputError(path, `image has ${meta.width}×${meta.height} pixels, more than the limit of ${maxPixels}; crop or down-sample it first`);
+    throw new InputError(path, `image has ${meta.width}×${meta.height} pixels, more than the limit of ${maxPixels} pixels; crop or down-sample it first`);
   }
   const is16 = meta.depth === 'ushort';
   const greySource = meta.channels <= 2;

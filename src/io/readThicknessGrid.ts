@@ -10,7 +10,7 @@ import sharp, { type Metadata } from 'sharp';
 import { InputError } from '../cli/errors.js';
 import { readInputFile } from './readInputFile.js';
 import { decodeNpy } from './decodeNpy.js';
-import { decodeFloatTiff, type FloatGrid } from './decodeFloatTiff.js';
+import { decodeFloatTiffAny, type FloatGrid } from './decodeFloatTiff.js';
 import { decodeInputError } from './decodeErrors.js';
 import { MAX_PIXELS } from './limits.js';
 import { NPY_MAGIC } from './npyFormat.js';
@@ -24,7 +24,7 @@ function isNpy(bytes: Uint8Array): boolean {
   return bytes.length >= 6 && NPY_MAGIC.every((b, i) => bytes[i] === b);
 }
 
-function tiffSampleFormat(bytes: Uint8Array): boolean {
+function isTiff(bytes: Uint8Array): boolean {
   // A TIFF starts with II*\0 or MM\0*.
   return bytes.length >= 4 && ((bytes[0] === 0x49 && bytes[1] === 0x49 && bytes[2] === 42) || (bytes[0] === 0x4d && bytes[1] === 0x4d && bytes[3] === 42));
 }
@@ -71,9 +71,9 @@ export async function readThicknessGrid(path: string, options: ReadThicknessGrid
   }
   const bytes = await readInputFile(path);
   if (isNpy(bytes)) return fromNpy(bytes, path);
-  if (tiffSampleFormat(bytes)) {
+  if (isTiff(bytes)) {
     try {
-      return decodeFloatTiff(bytes, path);
+      return await decodeFloatTiffAny(bytes, path);
     } catch (error) {
       // Not a float TIFF: it may still be a 16-bit integer grid.
       if (!(error instanceof InputError) || !/SampleFormat|BitsPerSample/.test(error.message)) throw error;
