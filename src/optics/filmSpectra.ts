@@ -12,8 +12,11 @@
  * reversed product of layer matrices is the same product with its diagonal swapped), R2, T2 of the
  * substrate/exit interface and a = single-pass intensity transmission of the slab.
  * The inner loop over thicknesses and wavelengths does scalar arithmetic only (no allocation).
+ * The incidence medium is taken as lossless (its k is ignored). Im δ of a layer is capped at
+ * MAX_DECAY (amplitude e^-40 ≈ 4e-18 through it): beyond that a layer is opaque to double precision
+ * and cosh/sinh would overflow.
  */
-import { MIDDLE_STRIDE, prepareStackTerms } from './stackTerms.js';
+import { MAX_DECAY, MIDDLE_STRIDE, prepareStackTerms } from './stackTerms.js';
 import type { Polarisation, Stack } from './types.js';
 
 export interface FilmSpectraGrid {
@@ -85,7 +88,7 @@ export function filmSpectra(stack: Stack, grid: FilmSpectraGrid): FilmSpectraRes
         const t = layerTerms[m];
         if (isFilm[m]) {
           const a = t[o] * d;
-          const b = t[o + 1] * d;
+          const b = Math.min(t[o + 1] * d, MAX_DECAY); // opaque beyond: avoids cosh overflow
           const ca = Math.cos(a);
           const sa = Math.sin(a);
           if (b === 0) {

@@ -47,6 +47,9 @@ export interface StackTerms {
 
 const TINY = 1e-12;
 
+/** Cap on Im δ (see ./filmSpectra.ts): a layer with more decay is opaque at double precision. */
+export const MAX_DECAY = 40;
+
 function complexIndex(material: Material, wavelengthNm: number, scale: number): Complex {
   const { n, k } = material.indexAt(wavelengthNm);
   return [n * scale, k];
@@ -142,7 +145,7 @@ export function prepareStackTerms(stack: Stack, wavelengthsNm: Float64Array, ang
         for (let m = from; m < to; m++) {
           const t = layerTerms[m];
           const d = t.thicknessNm as number;
-          product = matMul(product, layerMatrix([t.phase[0] * d, t.phase[1] * d], t.eta[pol]));
+          product = matMul(product, layerMatrix([t.phase[0] * d, Math.min(t.phase[1] * d, MAX_DECAY)], t.eta[pol]));
         }
         return product;
       };
@@ -174,7 +177,7 @@ export function prepareStackTerms(stack: Stack, wavelengthsNm: Float64Array, ang
       put(terms, o, [t.phase, t.eta[0], cdiv([1, 0], t.eta[0]), t.eta[1], cdiv([1, 0], t.eta[1])]);
       if (!middle[m].isFilm) {
         const d = t.thicknessNm as number;
-        const { cos, sin } = ccosSin([t.phase[0] * d, t.phase[1] * d]);
+        const { cos, sin } = ccosSin([t.phase[0] * d, Math.min(t.phase[1] * d, MAX_DECAY)]);
         put(terms, o + 10, [cos, sin]);
       }
     }
