@@ -54,7 +54,7 @@ describe.skipIf(!hasChromium)(`reports in headless Chromium${hasChromium ? '' : 
   }
 
   async function expectImagesDecoded(page: Page): Promise<number> {
-    const sizes = await page.$$eval('img', (imgs) => imgs.map((i) => (i as HTMLImageElement).naturalWidth));
+    const sizes = await page.$$eval('img', (imgs) => imgs.map((i) => (i as unknown as { naturalWidth: number }).naturalWidth));
     expect(sizes.length).toBeGreaterThan(0);
     for (const w of sizes) expect(w).toBeGreaterThan(0);
     return sizes.length;
@@ -65,8 +65,9 @@ describe.skipIf(!hasChromium)(`reports in headless Chromium${hasChromium ? '' : 
     const box = await page.locator(selector).boundingBox();
     if (!box) throw new Error(`no box for ${selector}`);
     await page.mouse.move(box.x + ((x + 0.5) / W) * box.width, box.y + ((y + 0.5) / H) * box.height);
-    return page.evaluate(() => Object.fromEntries(['x', 'y', 'thickness', 'confidence', 'cell']
-      .map((k) => [k, document.getElementById(`readout-${k}`)?.textContent ?? ''])));
+    const readout: Record<string, string> = {};
+    for (const k of ['x', 'y', 'thickness', 'confidence', 'cell']) readout[k] = (await page.textContent(`#readout-${k}`)) ?? '';
+    return readout;
   }
 
   it('renderMapReport() at full resolution: offline, images decode, charts labelled, readout equals the stored pixel value', async () => {
@@ -129,6 +130,7 @@ describe.skipIf(!hasChromium)(`reports in headless Chromium${hasChromium ? '' : 
     const { page } = loaded;
     await expectImagesDecoded(page);
     await pointAt(page, '.stage.map img', 150, 200, 480, 360);
+    await page.evaluate('window.scrollTo(0, 0)');
     const shot = await page.screenshot({ fullPage: true, path: join(outDir, 'map-demo.png') });
     expect(await distinctColours(shot)).toBeGreaterThan(500);
     expectOffline(loaded);
@@ -152,6 +154,7 @@ describe.skipIf(!hasChromium)(`reports in headless Chromium${hasChromium ? '' : 
     expect(await page.locator('img[data-frame-index="23"]').isVisible()).toBe(false);
     const markerX = await page.getAttribute('#drainage-chart .frame-marker', 'x1');
     expect(Number(markerX)).toBeGreaterThan(64);
+    await page.evaluate('window.scrollTo(0, 0)');
     const shot = await page.screenshot({ fullPage: true, path: join(outDir, 'series-demo.png') });
     expect(await distinctColours(shot)).toBeGreaterThan(500);
     expectOffline(loaded);

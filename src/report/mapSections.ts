@@ -76,7 +76,7 @@ export function renderMapSections(input: MapReportInput, name = 'input', options
     + '<span>thickness <b id="readout-thickness">—</b></span><span>confidence <b id="readout-confidence">—</b></span>'
     + '<span id="readout-cell" class="muted"></span><span id="readout-flag" class="flag"></span></div>'
     + '<p class="note">Point at the photo or the map to read the thickness and confidence stored for that pixel (coordinates in the original photo); click to move the profile to that column.</p>'
-    + renderColourBar({ minNm: input.colourBar.minNm, maxNm: input.colourBar.maxNm, stops }, thin)
+    + renderColourBar({ minNm: input.colourBar.minNm, maxNm: input.colourBar.maxNm, stops }, thin, 1000)
     + notes.map((n) => `<p class="note downsample-note">${escapeHtml(n)}</p>`).join('')
     + '</section>';
 
@@ -84,12 +84,13 @@ export function renderMapSections(input: MapReportInput, name = 'input', options
     title: 'Histogram of thickness', xLabel: 'Thickness (nm)', yLabel: 'Pixels (count)', id: 'histogram-chart',
     edges: input.histogram.edgesNm, counts: input.histogram.counts, colourOf: (nm) => colourAtNm(stops, nm),
     verticalLines: thin === null ? [] : [{ value: thin, label: `thin ${formatFixed(thin, 0)} nm`, colour: thresholdColour }],
+    widthPx: 580, heightPx: 300,
   });
   const range = finiteRange(grid.thicknessNm);
   const yDomain = niceDomain(Math.min(range?.[0] ?? 0, thin ?? Infinity), Math.max(range?.[1] ?? 1, thin ?? -Infinity), 5);
   const profile = renderLineChart({
     title: 'Thickness profile along a column', xLabel: 'Row in the photo, top to bottom (px)', yLabel: 'Thickness (nm)', id: 'profile-chart',
-    xDomain: [0, H], yDomain,
+    xDomain: [0, H], yDomain, widthPx: 580, heightPx: 300,
     series: [{ label: 'thickness along the column', points: columnProfile(grid, column), colour: '#0e6b70' }],
     horizontalLines: thin === null ? [] : [{ value: thin, label: `thin threshold ${formatFixed(thin, 1)} nm`, colour: thresholdColour }],
   });
@@ -129,6 +130,8 @@ export function renderParameterSections(settings: Record<string, unknown>, calib
 <section class="card" id="calibration"><h2>Calibration</h2>${calibration ? renderValueTable(calibration) : '<p class="muted">No calibration file was used.</p>'}</section>`;
 }
 
-export function tile(label: string, value: string, alert = false): string {
-  return `<div class="tile${alert ? ' alert' : ''}"><div class="label">${escapeHtml(label)}</div><div class="value">${escapeHtml(value)}</div></div>`;
+/** A key-figure tile: label, big value, optional small note under it; `alert` gives an amber edge. */
+export function tile(label: string, value: string, alert = false, note = ''): string {
+  return `<div class="tile${alert ? ' alert' : ''}"><div class="label">${escapeHtml(label)}</div><div class="value">${escapeHtml(value)}</div>`
+    + `${note ? `<div class="tile-note">${escapeHtml(note)}</div>` : ''}</div>`;
 }

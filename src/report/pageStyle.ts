@@ -32,6 +32,7 @@ section.card > h2 .sub { font-size: 13px; font-weight: 400; color: var(--muted);
 .tile { background: var(--card); border: 1px solid var(--line); border-left: 4px solid var(--accent); border-radius: 8px; padding: 10px 14px; }
 .tile .label { font-size: 12px; color: var(--muted); text-transform: uppercase; letter-spacing: 0.06em; }
 .tile .value { font-size: 22px; font-weight: 650; color: var(--ink); font-variant-numeric: tabular-nums; }
+.tile .tile-note { font-size: 12.5px; color: var(--muted); }
 .tile.alert { border-left-color: var(--care); }
 .pair { display: grid; grid-template-columns: repeat(auto-fit, minmax(min(100%, 360px), 1fr)); gap: 14px; }
 figure { margin: 0; }
@@ -55,6 +56,7 @@ figcaption { font-size: 13px; color: var(--muted); margin-top: 6px; }
 h2.part { margin: 10px 0 -4px; font-size: 19px; color: var(--ink); border-bottom: 2px solid var(--line); padding-bottom: 6px; }
 .note { font-size: 13px; color: var(--muted); margin: 8px 0 0; }
 svg.chart, svg.colour-bar { display: block; width: 100%; height: auto; font-size: 12px; }
+svg.colour-bar { max-width: 1000px; margin: 8px auto 0; }
 svg text { fill: #44535a; }
 svg .axis-label { font-size: 12.5px; fill: #26343a; font-weight: 600; }
 svg .grid { stroke: #e4e9e5; stroke-width: 1; }
@@ -71,7 +73,7 @@ svg .thin-mark { stroke: #c0392b; stroke-width: 2; }
 svg .thin-mark-label { fill: #c0392b; font-size: 11px; font-weight: 600; }
 table { border-collapse: collapse; width: 100%; font-size: 13.5px; }
 th, td { text-align: left; padding: 5px 8px; border-bottom: 1px solid #e3e8e4; vertical-align: top; }
-thead th { font-size: 12px; color: var(--muted); text-transform: uppercase; letter-spacing: 0.05em; border-bottom: 1.5px solid var(--line); }
+thead th { font-size: 12.5px; color: var(--muted); font-weight: 600; border-bottom: 1.5px solid var(--line); }
 td.num, th.num { text-align: right; font-variant-numeric: tabular-nums; }
 table.values th { width: 38%; font-weight: 600; color: #33444a; word-break: break-word; }
 table.values td { word-break: break-word; }
@@ -88,7 +90,7 @@ tr[data-region]:hover { background: #fff9d6; }
 .frame-viewer { display: grid; grid-template-columns: minmax(0, 3fr) minmax(220px, 2fr); gap: 16px; align-items: start; }
 @media (max-width: 760px) { .frame-viewer { grid-template-columns: 1fr; } }
 .thumb-stage { background: #222; border-radius: 6px; overflow: hidden; line-height: 0; min-height: 80px; display: grid; place-items: center; }
-.thumb-stage img { width: 100%; height: auto; image-rendering: pixelated; }
+.thumb-stage img { width: 100%; height: auto; max-height: 460px; object-fit: contain; image-rendering: pixelated; }
 .thumb-stage .empty { color: #c9d2cf; line-height: 1.5; padding: 30px; font-size: 13px; }
 .controls { display: flex; align-items: center; gap: 12px; margin-top: 10px; }
 .controls input[type=range] { flex: 1; accent-color: var(--accent); }

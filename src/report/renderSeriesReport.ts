@@ -10,9 +10,9 @@ import { renderFrameViewer } from './frameViewer.js';
 import { renderMapSections, renderParameterSections, tile } from './mapSections.js';
 import { renderPage } from './pageShell.js';
 import { checkMapReportInput } from './renderMapReport.js';
-import { describeCrossing, renderDrainageChart, renderThinFractionChart } from './seriesCharts.js';
+import { renderDrainageChart, renderThinFractionChart } from './seriesCharts.js';
 import { renderFitsTable, renderFramesTable } from './seriesTables.js';
-import type { SeriesFrameRow, SeriesReportInput } from './types.js';
+import type { DrainageFitSummary, SeriesFrameRow, SeriesReportInput } from './types.js';
 
 export function checkSeriesReportInput(input: SeriesReportInput): void {
   checkRecord(input, 'input');
@@ -41,6 +41,15 @@ export function checkSeriesReportInput(input: SeriesReportInput): void {
   if (input.lastMap !== undefined && input.lastMap !== null) checkMapReportInput(input.lastMap, 'input.lastMap');
 }
 
+function crossingTile(crossing: DrainageFitSummary['crossing']): string {
+  if (!crossing) return tile('Threshold crossing', '—', false, 'no fit with a crossing');
+  const label = `${crossing.quantity === 'min' ? 'Minimum' : 'Mean'} reaches threshold`;
+  if (crossing.timeS === null) return tile(label, '—', false, 'no crossing predicted');
+  const interval = crossing.lowS !== null && crossing.highS !== null ? `${formatFixed(crossing.lowS, 1)}–${formatFixed(crossing.highS, 1)} s` : '';
+  const note = [interval, crossing.extrapolated ? 'extrapolated beyond the last frame' : 'within the observed frames'].filter(Boolean).join(' · ');
+  return tile(label, `${formatFixed(crossing.timeS, 1)} s`, crossing.extrapolated, note);
+}
+
 /** Full HTML document (UTF-8 text) of a series report. */
 export function renderSeriesReport(input: SeriesReportInput): string {
   checkSeriesReportInput(input);
@@ -52,8 +61,7 @@ export function renderSeriesReport(input: SeriesReportInput): string {
     tile('Time span', frames.length === 0 ? '—' : `${formatFixed(frames[0].timeS, 0)}–${formatFixed(last?.timeS, 0)} s`),
     tile('Last median', formatNm(last?.medianNm ?? null)),
     tile('Last minimum', formatNm(last?.minNm ?? null)),
-    tile(crossingFit?.crossing ? `Threshold crossing (${crossingFit.crossing.quantity})` : 'Threshold crossing',
-      crossingFit ? describeCrossing(crossingFit.crossing) : '—', crossingFit?.crossing?.extrapolated ?? false),
+    crossingTile(crossingFit?.crossing ?? null),
   ];
   const thinChart = renderThinFractionChart(frames);
   const sections = [

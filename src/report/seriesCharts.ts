@@ -34,7 +34,7 @@ export function renderDrainageChart(frames: SeriesFrameRow[], fits: DrainageFitS
     series.push({ label: `fit: ${fit.model}`, points: fit.curve, colour, dashed: true });
     const c = fit.crossing;
     if (c && c.timeS !== null && Number.isFinite(c.timeS)) {
-      verticalLines.push({ value: c.timeS, colour, dashed: true,
+      verticalLines.push({ value: c.timeS, colour, dashed: true, tag: `${formatFixed(c.timeS, 0)} s${c.extrapolated ? ', extrapolated' : ''}`,
         label: `${c.quantity} reaches threshold at ${formatFixed(c.timeS, 1)} s${c.extrapolated ? ' (extrapolated)' : ''}` });
       if (c.lowS !== null && c.highS !== null && Number.isFinite(c.lowS) && Number.isFinite(c.highS)) {
         bands.push({ from: c.lowS, to: c.highS, colour, label: `interval of the ${c.quantity} crossing` });
@@ -45,14 +45,14 @@ export function renderDrainageChart(frames: SeriesFrameRow[], fits: DrainageFitS
     : [{ value: thinBelowNm, label: `thin threshold ${formatFixed(thinBelowNm, 1)} nm`, colour: thresholdColour }];
   return renderLineChart({
     title: 'Thickness against time', xLabel: 'Time (s)', yLabel: 'Thickness (nm)', id: 'drainage-chart',
-    series, horizontalLines, verticalLines, verticalBands: bands, heightPx: 360,
+    series, horizontalLines, verticalLines, verticalBands: bands, widthPx: 1160, heightPx: 400,
   }).replace('class="chart line-chart"', 'class="chart line-chart series-chart"');
 }
 
 export function renderThinFractionChart(frames: SeriesFrameRow[]): string | null {
   if (frames.every((f) => f.thinFraction === null)) return null;
   return renderLineChart({
-    title: 'Thin fraction against time', xLabel: 'Time (s)', yLabel: 'Thin fraction (%)', id: 'thin-chart', heightPx: 260,
+    title: 'Thin fraction against time', xLabel: 'Time (s)', yLabel: 'Thin fraction (%)', id: 'thin-chart', widthPx: 1160, heightPx: 250,
     yDomain: [0, 100],
     series: [{ label: 'share of film below the thin threshold', colour: thresholdColour, style: 'both',
       points: frames.map((f) => [f.timeS, f.thinFraction === null ? null : f.thinFraction * 100]) }],

@@ -22,6 +22,8 @@ export interface ReferenceLine {
   label: string;
   colour: string;
   dashed?: boolean;
+  /** Short text written beside the line inside the plot (vertical lines), e.g. "188 s, extrapolated". */
+  tag?: string;
 }
 
 export interface ReferenceBand {
@@ -76,6 +78,10 @@ export function renderLineChart(spec: LineChartSpec): string {
   for (const line of spec.verticalLines ?? []) {
     const x = px(xToPx(frame, line.value));
     parts.push(`<line class="ref-line" x1="${x}" x2="${x}" y1="${frame.top}" y2="${frame.top + frame.plotHeight}" stroke="${escapeHtml(line.colour)}"${line.dashed ?? true ? ' stroke-dasharray="6 4"' : ''}><title>${escapeHtml(line.label)}</title></line>`);
+    if (line.tag) {
+      const nearRight = xToPx(frame, line.value) > frame.left + frame.plotWidth * 0.75;
+      parts.push(`<text class="ref-label" x="${x}" y="${frame.top + 14}" dx="${nearRight ? -5 : 5}" text-anchor="${nearRight ? 'end' : 'start'}" fill="${escapeHtml(line.colour)}">${escapeHtml(line.tag)}</text>`);
+    }
   }
   for (const s of spec.series) parts.push(renderSeries(frame, s));
   parts.push('</g><g class="overlay"></g></g>');
@@ -117,13 +123,13 @@ function autoDomain(spec: LineChartSpec, axis: 'x' | 'y'): [number, number] {
   return niceDomain(lo, hi, axis === 'x' ? 8 : 5);
 }
 
-/** Splits legend labels into rows that fit `widthPx` (about 6.6 px per character). */
+/** Splits legend labels into rows that fit `widthPx` (about 7.2 px per character). */
 function layoutLegend(labels: string[], widthPx: number): Array<Array<{ index: number; x: number }>> {
   const rows: Array<Array<{ index: number; x: number }>> = [];
   let row: Array<{ index: number; x: number }> = [];
   let x = 0;
   labels.forEach((label, index) => {
-    const w = 30 + label.length * 6.6 + 16;
+    const w = 30 + label.length * 7.2 + 18;
     if (row.length > 0 && x + w > widthPx) { rows.push(row); row = []; x = 0; }
     row.push({ index, x });
     x += w;

@@ -27,20 +27,20 @@ export function renderColourBar(bar: ColourBarSpec, thinBelowNm: number | null, 
     .join('');
   const ticks = niceTicks(bar.minNm, bar.maxNm, 10);
   const parts = [
-    `<svg class="colour-bar" viewBox="0 0 ${widthPx} 70" role="img" aria-label="Colour bar, thickness in nm">`,
+    `<svg class="colour-bar" viewBox="0 0 ${widthPx} 78" role="img" aria-label="Colour bar, thickness in nm">`,
     '<title>Colour bar, thickness in nm</title>',
     `<defs><linearGradient id="colour-bar-gradient" x1="0" x2="1" y1="0" y2="0">${gradient}</linearGradient></defs>`,
-    `<rect class="bar-fill" x="${left}" y="8" width="${right - left}" height="18" fill="url(#colour-bar-gradient)"/>`,
+    `<rect class="bar-fill" x="${left}" y="16" width="${right - left}" height="18" fill="url(#colour-bar-gradient)"/>`,
   ];
   for (const v of ticks.values) {
     const x = px(toPx(v));
-    parts.push(`<line class="tick" x1="${x}" x2="${x}" y1="26" y2="31"/>`,
-      `<text class="tick-label" x="${x}" y="44" text-anchor="middle">${formatTick(v, ticks.decimals)}</text>`);
+    parts.push(`<line class="tick" x1="${x}" x2="${x}" y1="34" y2="39"/>`,
+      `<text class="tick-label" x="${x}" y="52" text-anchor="middle">${formatTick(v, ticks.decimals)}</text>`);
   }
   if (thinBelowNm !== null && thinBelowNm >= bar.minNm && thinBelowNm <= bar.maxNm) {
     const x = px(toPx(thinBelowNm));
-    parts.push(`<path class="thin-mark" d="M${x} 4 v26"/><text class="thin-mark-label" x="${x}" y="4" dx="4" dy="0.6em">thin</text>`);
+    parts.push(`<path class="thin-mark" d="M${x} 12 v26"/><text class="thin-mark-label" x="${x}" y="10" text-anchor="middle">thin</text>`);
   }
-  parts.push(`<text class="axis-label" x="${widthPx / 2}" y="64" text-anchor="middle">Thickness (nm)</text></svg>`);
+  parts.push(`<text class="axis-label" x="${widthPx / 2}" y="73" text-anchor="middle">Thickness (nm)</text></svg>`);
   return parts.join('');
 }
