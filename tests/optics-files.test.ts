@@ -130,6 +130,9 @@ describe('stack files and resolveStack()', () => {
     ['negative k', { ambient: 'air', layers: [{ material: { n: 1.5, k: -0.1 }, thicknessNm: 'film' }], substrate: 'air' }, /layers\[0\]\.material\.k must be a finite number >= 0, received -0\.1/],
     ['bad inline formula', { ambient: 'air', layers: [{ material: { formula: 'sellmeier', coefficients: { B: [1] , C: [] }, valid_range_um: [0.3, 0.9] }, thicknessNm: 'film' }], substrate: 'air' }, /layers\[0\]\.material: coefficients\.C must be a non-empty array/],
   ];
+  it('a stack file that does not exist: DataFileError naming it', () => {
+    expect(() => resolveStack(join(dir, 'missing.json'))).toThrow(/missing\.json: file not found/);
+  });
   for (const [what, record, message] of badStacks) {
     it(`rejects a stack file with ${what}, naming the file and the field`, () => {
       const path = file(`bad-${what.replace(/\s+/g, '-')}.json`, JSON.stringify(record));

@@ -84,5 +84,10 @@ export function register(program: Command): void {
     .option('--to <nm>', 'last wavelength, nm', '780')
     .option('--step <nm>', 'wavelength step, nm', '1')
     .option('--json', 'print a JSON object with the settings and arrays instead of CSV')
+    .addHelpText(
+      'after',
+      '\nValues are computed from published optical constants. Deposited films (oxides, nitrides, polymers)\n' +
+        'often differ from bulk data: confirm with qualified metrology before using numbers for release decisions.',
+    )
     .action((opts: SpectrumOptions) => run(opts));
 }
