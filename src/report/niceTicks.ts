@@ -41,13 +41,17 @@ export function niceTicks(min: number, max: number, count = 5): TickSpec {
   if (step === 0) return { step: 0, values: [lo, hi], decimals: 0 };
   const values: number[] = [];
   if (step >= 1) {
-    const start = Math.ceil(lo / step);
-    const stop = Math.floor(hi / step);
+    let start = Math.ceil(lo / step);
+    let stop = Math.floor(hi / step);
+    if (start * step < lo) start++; // lo / step can underflow or round below the true quotient
+    if (stop * step > hi) stop--;
     for (let i = 0; start + i <= stop; i++) values.push((start + i) * step);
   } else {
     const inverse = Math.round(1 / step);
-    const start = Math.ceil(lo * inverse);
-    const stop = Math.floor(hi * inverse);
+    let start = Math.ceil(lo * inverse);
+    let stop = Math.floor(hi * inverse);
+    if (start / inverse < lo) start++;
+    if (stop / inverse > hi) stop--;
     for (let i = 0; start + i <= stop; i++) values.push((start + i) / inverse);
   }
   return { step, values, decimals: Math.max(0, -Math.floor(Math.log10(step) + 1e-9)) };

@@ -1,0 +1,165 @@
+/**
+ * renderMapReport() / renderSeriesReport() checked as text in Node: the document is self-contained
+ * (every src/href is a data: URI or an in-page anchor, a Content-Security-Policy forbids requests),
+ * input text is escaped, the embedded grid decodes to the input values bit for bit, the cautions
+ * are present, and bad input is refused with errors naming the field. Also the number helpers.
+ * Inputs are synthetic (tests/report-fixtures.ts).
+ */
+import { describe, expect, it, beforeAll } from 'vitest';
+import { decodeFloat32Base64, encodeFloat32Base64 } from '../src/report/encodeFloat32Base64.js';
+import { formatNm, formatPercent, formatSignificant, shortestFloat32Text } from '../src/report/formatNumber.js';
+import { renderMapReport, renderSeriesReport } from '../src/report/index.js';
+import { imageDataUri, sniffImageType } from '../src/report/imageDataUri.js';
+import { cellIndexOfPixel, columnProfile } from '../src/report/reportGrid.js';
+import type { MapReportInput, SeriesReportInput } from '../src/report/types.js';
+import { makeMapInput, makeSeriesInput } from './report-fixtures.js';
+
+function embeddedJson(html: string, id: string): any {
+  const m = new RegExp(`<script type="application/json" id="${id}">([^<]*)</script>`).exec(html);
+  if (!m) throw new Error(`no ${id}`);
+  return JSON.parse(m[1]);
+}
+
+describe('renderMapReport()', () => {
+  let input: MapReportInput;
+  let html: string;
+  beforeAll(async () => {
+    input = await makeMapInput({ originalWidth: 50, originalHeight: 30, step: 1, kind: 'ramp', title: '<script>alert("x")</script> & co' });
+    html = renderMapReport(input);
+  });
+
+  it('returns one HTML document whose every src/href is a data: URI or an in-page anchor', () => {
+    expect(html.startsWith('<!DOCTYPE html>')).toBe(true);
+    const refs = [...html.matchAll(/\s(?:src|href)="([^"]*)"/g)].map((m) => m[1]);
+    expect(refs.length).toBeGreaterThan(3);
+    for (const r of refs) expect(r.startsWith('data:') || r.startsWith('#')).toBe(true);
+    expect(html).not.toMatch(/url\((?!#)/);
+    expect(html).not.toMatch(/@import|<link rel="stylesheet"|<script src/);
+    expect(html).toContain("default-src 'none'; img-src data:");
+  });
+  it('escapes the title everywhere it appears', () => {
+    expect(html).not.toContain('<script>alert');
+    expect(html).toContain('&lt;script&gt;alert(&quot;x&quot;)&lt;/script&gt; &amp; co');
+  });
+  it('embeds thickness and confidence as base64 float32 that decode to the input bit for bit', () => {
+    const data = embeddedJson(html, 'lamella-map-data');
+    const t = decodeFloat32Base64(data.grid.thicknessB64);
+    const q = decodeFloat32Base64(data.grid.confidenceB64);
+    expect(Buffer.from(t.buffer).equals(Buffer.from(input.grid.thicknessNm.buffer))).toBe(true);
+    expect(Buffer.from(q.buffer).equals(Buffer.from(input.grid.confidence.buffer))).toBe(true);
+    expect(data.grid).toMatchObject({ width: 50, height: 30, step: 1, originalWidth: 50, originalHeight: 30 });
+  });
+  it('contains the cautions text, the photo and map images, charts and the thin-region outlines', () => {
+    expect(html).toContain('not a substitute for qualified metrology (ellipsometry, reflectometry, profilometry)');
+    expect(html).toContain('safety data sheets');
+    expect(html).toContain('eye protection');
+    expect(html.match(/<img /g)).toHaveLength(2);
+    expect(html).toContain('id="histogram-chart"');
+    expect(html).toContain('id="profile-chart"');
+    expect(html.match(/class="region" data-region=/g)).toHaveLength(input.thinRegions.length);
+  });
+  it('reads a region box as x, y, width, height by default and as corners when bboxFormat says so', async () => {
+    const a = renderMapReport({ ...input, thinRegions: [{ id: 9, areaPx: 4, centroidX: 1, centroidY: 1, minThicknessNm: 5, bbox: [2, 3, 4, 5] }] });
+    expect(a).toContain('data-region="9" x="2" y="3" width="4" height="5"');
+    const b = renderMapReport({ ...input, thinRegions: [{ id: 9, areaPx: 4, centroidX: 1, centroidY: 1, minThicknessNm: 5, bbox: [2, 3, 4, 5], bboxFormat: 'corners' }] });
+    expect(b).toContain('data-region="9" x="2" y="3" width="3" height="3"');
+  });
+  it('says so when the grid is downsampled, and passes the caller note through escaped', async () => {
+    const small = await makeMapInput({ originalWidth: 41, originalHeight: 21, step: 4, kind: 'ramp' });
+    const text = renderMapReport({ ...small, downsampleNote: 'map <reduced> for the report' });
+    expect(text).toContain('downsampled by 4');
+    expect(text).toContain('map &lt;reduced&gt; for the report');
+  });
+  it('refuses a grid whose arrays do not match width × height, naming the field', () => {
+    const bad = { ...input, grid: { ...input.grid, confidence: new Float32Array(3) } };
+    expect(() => renderMapReport(bad)).toThrow(RangeError);
+    expect(() => renderMapReport(bad)).toThrow(/input.grid.confidence must have width × height = 1500 values, received 3/);
+  });
+  it('refuses a grid width that does not fit originalWidth / step', () => {
+    const bad = { ...input, grid: { ...input.grid, step: 2 } };
+    expect(() => renderMapReport(bad)).toThrow(/input.grid.width must be ceil\(originalWidth \/ step\) = 25, received 50/);
+  });
+  it('refuses photo bytes that are not PNG or JPEG, naming the field', () => {
+    expect(() => renderMapReport({ ...input, photoPng: Buffer.from('GIF89a') })).toThrow(/input.photoPng must hold PNG \(or JPEG\) bytes, received 6 bytes starting 47 49 46 38/);
+  });
+  it('refuses a non-string title and a histogram with mismatched edges', () => {
+    expect(() => renderMapReport({ ...input, title: 5 as unknown as string })).toThrow(/input.title must be a string, received number 5/);
+    expect(() => renderMapReport({ ...input, histogram: { edgesNm: [0, 1], counts: [1, 2] } })).toThrow(/input.histogram: edgesNm must have/);
+  });
+});
+
+describe('renderSeriesReport()', () => {
+  let input: SeriesReportInput;
+  let html: string;
+  beforeAll(async () => {
+    input = await makeSeriesInput(6, false);
+    html = renderSeriesReport(input);
+  });
+  it('escapes frame names in tables and keeps them intact in the embedded data', () => {
+    expect(html).not.toContain('frame_000<&>');
+    expect(html).toContain('frame_000&lt;&amp;&gt;.jpg');
+    expect(embeddedJson(html, 'lamella-series-data').frames[0].frame).toBe('frame_000<&>.jpg');
+  });
+  it('sorts frames by time for the charts and the slider', () => {
+    const shuffled = renderSeriesReport({ ...input, frames: [...input.frames].reverse() });
+    expect(embeddedJson(shuffled, 'lamella-series-data').frames.map((f: { timeS: number }) => f.timeS)).toEqual([0, 10, 20, 30, 40, 50]);
+  });
+  it('marks an extrapolated crossing as such, in the chart and the fits table', () => {
+    expect(html).toContain('188 s, extrapolated');
+    expect(html).toContain('188.4 s (176.2–201.9 s), extrapolated');
+  });
+  it('has one thumbnail per frame, only the last one visible at first, and no map view without lastMap', () => {
+    expect(html.match(/<img data-frame-index=/g)).toHaveLength(6);
+    expect(html.match(/<img data-frame-index="\d+" hidden/g)).toHaveLength(5);
+    expect(html).not.toContain('id="lamella-map-data"');
+  });
+  it('refuses a frame with a non-finite time, naming it', () => {
+    const frames = input.frames.map((f, i) => (i === 2 ? { ...f, timeS: NaN } : f));
+    expect(() => renderSeriesReport({ ...input, frames })).toThrow(/input.frames\[2\].timeS must be a finite number/);
+  });
+  it('renders an empty series without failing', () => {
+    const text = renderSeriesReport({ ...input, frames: [], fits: [] });
+    expect(text).toContain('No frames.');
+  });
+});
+
+describe('number text and grid lookup', () => {
+  it('shortestFloat32Text() prints the shortest text that reads back as the same float32 (Java Float.toString outputs, from memory)', () => {
+    expect(shortestFloat32Text(Math.fround(0.1))).toBe('0.1');
+    expect(shortestFloat32Text(Math.fround(1 / 3))).toBe('0.33333334');
+    expect(shortestFloat32Text(Math.fround(Math.PI))).toBe('3.1415927');
+    expect(shortestFloat32Text(Math.fround(16777217))).toBe('16777216');
+    expect(shortestFloat32Text(Math.fround(100 + 37 + 1000 * 29))).toBe('29137');
+  });
+  it('encodeFloat32Base64() writes IEEE 754 binary32 little-endian (1.0 = 0x3F800000, quiet NaN = 0x7FC00000)', () => {
+    expect(encodeFloat32Base64(new Float32Array([1]))).toBe(Buffer.from([0, 0, 0x80, 0x3f]).toString('base64'));
+    expect(encodeFloat32Base64(new Float32Array([NaN]))).toBe(Buffer.from([0, 0, 0xc0, 0x7f]).toString('base64'));
+    expect(() => encodeFloat32Base64([1] as unknown as Float32Array)).toThrow(/values must be a Float32Array, received Array/);
+  });
+  it('formatNm(), formatPercent(), formatSignificant() print — for missing values', () => {
+    expect(formatNm(12.345)).toBe('12.3 nm');
+    expect(formatNm(null)).toBe('—');
+    expect(formatNm(-0.01)).toBe('0.0 nm');
+    expect(formatPercent(0.125)).toBe('12.5 %');
+    expect(formatPercent(NaN)).toBe('—');
+    expect(formatSignificant(0.000012346)).toBe('1.235e-5');
+    expect(formatSignificant(123.456, 4)).toBe('123.5');
+  });
+  it('cellIndexOfPixel() maps original pixels to cells by floor(x / step), clamping the last partial cell', () => {
+    const grid = { width: 3, height: 2, step: 4, originalWidth: 10, originalHeight: 7, thicknessNm: new Float32Array(6), confidence: new Float32Array(6) };
+    expect(cellIndexOfPixel(grid, 0, 0)).toBe(0);
+    expect(cellIndexOfPixel(grid, 3, 3)).toBe(0);
+    expect(cellIndexOfPixel(grid, 4, 4)).toBe(4);
+    expect(cellIndexOfPixel(grid, 9, 6)).toBe(5);
+  });
+  it('columnProfile() samples one column with cell-centre rows and null for NaN', () => {
+    const grid = { width: 2, height: 3, step: 2, originalWidth: 4, originalHeight: 6,
+      thicknessNm: new Float32Array([1, 2, 3, NaN, 5, 6]), confidence: new Float32Array(6) };
+    expect(columnProfile(grid, 3)).toEqual([[0.5, 2], [2.5, null], [4.5, 6]]);
+  });
+  it('sniffImageType() tells PNG and JPEG from their signatures; imageDataUri() refuses empty bytes', () => {
+    expect(sniffImageType(Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0]))).toBe('image/png');
+    expect(sniffImageType(Buffer.from([0xff, 0xd8, 0xff, 0xe0]))).toBe('image/jpeg');
+    expect(() => imageDataUri(Buffer.alloc(0), 'photoPng')).toThrow(/photoPng must hold PNG \(or JPEG\) bytes, received 0 bytes starting \(empty\)/);
+  });
+});
