@@ -123,6 +123,33 @@ describe('readPhoto() pixel values and bit depth', () => {
   });
 });
 
+describe('readPhoto() and embedded colour profiles', () => {
+  it('16-bit sRGB-tagged PNG is read exactly (no profile round trip), without warning', async () => {
+    const path = join(dir, 'srgb16.png');
+    const codes = [65535, 0, 0, 0, 65535, 0, 30000, 30000, 30000];
+    await sharp(Uint16Array.from(codes), { raw: { width: 3, height: 1, channels: 3 } }).toColourspace('rgb16').withIccProfile('srgb').png().toFile(path);
+    expect((await sharp(path).metadata()).hasProfile).toBe(true);
+    const photo = await readPhoto(path);
+    expect(Array.from(photo.rgb).map((v) => Math.round(v * 65535))).toEqual(codes);
+    expect(photo.warnings).toBeUndefined();
+  });
+
+  it('16-bit file with a non-sRGB profile is read as stored and the profile is named in a warning', async () => {
+    const path = join(dir, 'p316.png');
+    await sharp(Uint16Array.from([1000, 2000, 3000]), { raw: { width: 1, height: 1, channels: 3 } }).toColourspace('rgb16').withIccProfile('p3').png().toFile(path);
+    const photo = await readPhoto(path);
+    expect(Array.from(photo.rgb).map((v) => Math.round(v * 65535))).toEqual([1000, 2000, 3000]);
+    expect(photo.warnings?.join(' ')).toMatch(/colour profile ".*P3.*"; its values are used as if sRGB/);
+  });
+
+  it('8-bit sRGB-tagged file is unchanged by the profile conversion', async () => {
+    const path = join(dir, 'srgb8.png');
+    await raw8([255, 0, 0, 0, 255, 0, 118, 118, 118], 3, 1, 3).withIccProfile('srgb').png().toFile(path);
+    const photo = await readPhoto(path);
+    expect(Array.from(photo.rgb).map((v) => Math.round(v * 255))).toEqual([255, 0, 0, 0, 255, 0, 118, 118, 118]);
+  });
+});
+
 describe('readPhoto() applies EXIF orientation 1–8 (TIFF 6.0 tag 274 / Exif 2.3 §4.6.4)', () => {
   // Stored pattern: 3 rows × 4 columns of 16-px blocks, each its own colour (blocks align with
   // the JPEG 8×8 grid, so colours survive compression within a few codes).

@@ -27,6 +27,8 @@ export interface Photo {
   /** EXIF orientation 1–8 that was applied to make the pixels upright (1 when absent). */
   orientationApplied: number;
   exif: PhotoTime;
+  /** Things the caller should tell the user about this file (e.g. a colour profile not applied). */
+  warnings?: string[];
 }
 
 /** What can be learnt from a photo's header without decoding its pixels. */

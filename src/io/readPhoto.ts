@@ -5,8 +5,11 @@
  * - 16-bit PNG/TIFF are read at 16 bits (values / 65535); everything else at 8 bits (/ 255).
  * - Grey (1 channel) and grey + alpha (2 channels) are expanded to RGB; alpha is kept apart.
  * - Content is sniffed, so a wrongly named file still reads if it is a real image.
- * - Colour-managed files (embedded ICC profile) are converted to sRGB by the codec; files without
- *   a profile are taken as sRGB (common practice for camera JPEGs).
+ * - 8-bit files with an embedded ICC profile are converted to sRGB by the codec; files without a
+ *   profile are taken as sRGB (common practice for camera JPEGs).
+ * - 16-bit files are read with their profile ignored: the codec (sharp 0.35) converts 16-bit
+ *   colour-managed input into Display P3, not sRGB, which would shift every value. An sRGB-tagged
+ *   16-bit file is therefore read exactly; any other profile is named in `photo.warnings`.
  */
 import sharp, { type Metadata, type OutputInfo } from 'sharp';
 import { InputError } from '../cli/errors.js';
@@ -15,6 +18,7 @@ import { parseExifTime } from './exifTime.js';
 import { readInputFile } from './readInputFile.js';
 import { decodeInputError } from './decodeErrors.js';
 import { checkMaxPixels } from './checkMaxPixels.js';
+import { iccDescription, isSrgbDescription } from './iccDescription.js';
 import type { Photo, ReadPhotoOptions } from './photo.js';
 
 export async function readPhoto(path: string, options: ReadPhotoOptions = {}): Promise<Photo> {
@@ -37,7 +41,7 @@ export async function readPhoto(path: string, options: ReadPhotoOptions = {}): P
   const space = is16 ? 'rgb16' : 'srgb';
   let raw: { data: Buffer; info: OutputInfo };
   try {
-    raw = await sharp(bytes, { autoOrient: true, limitInputPixels: maxPixels, failOn: 'error' })
+    raw = await sharp(bytes, { autoOrient: true, limitInputPixels: maxPixels, failOn: 'error', ignoreIcc: is16 })
       .toColourspace(space)
       .raw({ depth: is16 ? 'ushort' : 'uchar' })
       .toBuffer({ resolveWithObject: true });
@@ -88,5 +92,9 @@ export async function readPhoto(path: string, options: ReadPhotoOptions = {}): P
     exif: parseExifTime(meta.exif),
   };
   if (alpha) photo.alpha = alpha;
+  const profile = iccDescription(meta.icc);
+  if (is16 && meta.icc && !isSrgbDescription(profile)) {
+    photo.warnings = [`16-bit image carries the colour profile "${profile ?? 'unnamed'}"; its values are used as if sRGB. Convert it to sRGB first for calibrated results.`];
+  }
   return photo;
 }
