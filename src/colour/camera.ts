@@ -60,13 +60,12 @@ export function buildCamera(options: CameraOptions): Camera {
     };
   }
   const xyz = xyzWeights(light, observer, wavelengthsNm);
-  const adapt = chromaticAdaptationMatrix(whitePointXyz(whiteBalance, observer, grid), SRGB_WHITE_XYZ.map((v) => v * 100), options.adaptation ?? 'bradford');
-  const toRgb: Matrix3 = multiplyMatrix3(XYZ_TO_LINEAR_SRGB, adapt);
+  const toRgb = srgbCameraMatrix(whiteBalance, observer, grid, options.adaptation ?? 'bradford');
   const n = wavelengthsNm.length;
   const weights = new Float64Array(3 * n);
   for (let c = 0; c < 3; c++) {
     for (let j = 0; j < n; j++) {
-      weights[c * n + j] = (toRgb[c * 3] * xyz[j] + toRgb[c * 3 + 1] * xyz[n + j] + toRgb[c * 3 + 2] * xyz[2 * n + j]) / 100;
+      weights[c * n + j] = toRgb[c * 3] * xyz[j] + toRgb[c * 3 + 1] * xyz[n + j] + toRgb[c * 3 + 2] * xyz[2 * n + j];
     }
   }
   return {
@@ -75,6 +74,20 @@ export function buildCamera(options: CameraOptions): Camera {
     encoding: 'srgb',
     description: `sRGB camera under ${light.name} (CIE ${observer} observer), ${wbText}, Bradford adaptation to D65`,
   };
+}
+
+/**
+ * The default camera's matrix from XYZ under the light (Y_white = 100 scale) to linear sRGB:
+ * sRGB matrix · Bradford adaptation from the white-balance light's white to the sRGB D65 white, / 100.
+ */
+export function srgbCameraMatrix(
+  whiteBalance: Light,
+  observer: ObserverName = '1931',
+  grid: GridSpec = DEFAULT_GRID,
+  adaptation: AdaptationMethod = 'bradford',
+): Matrix3 {
+  const adapt = chromaticAdaptationMatrix(whitePointXyz(whiteBalance, observer, grid), SRGB_WHITE_XYZ.map((v) => v * 100), adaptation);
+  return multiplyMatrix3(XYZ_TO_LINEAR_SRGB, adapt).map((v) => v / 100);
 }
 
 function luminanceScale(light: Light, observer: ObserverName, gridNm: Float64Array): number {

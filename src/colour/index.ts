@@ -17,3 +17,6 @@ export * from './xyzWeights.js';
 export * from './camera.js';
 export * from './colourTable.js';
 export * from './filmColourTable.js';
+export * from './srgbEncoderTable.js';
+export * from './exposureModel.js';
+export * from './seededNormal.js';

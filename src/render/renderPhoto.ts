@@ -1,0 +1,126 @@
+/**
+ * Renders a thickness map into the photo a camera would take of the film: per pixel, the linear
+ * camera RGB from a thickness lookup table (./thicknessColourLut.ts, linear interpolation), then
+ * the shared photo model (../colour/exposureModel.ts): exposure · gain_c · rgb_c + flare_c +
+ * Gaussian noise, clamped, encoded (sRGB or linear), quantised to 8 or 16 bits.
+ * Pixels with NaN, negative or infinite thickness are rendered black and counted in a warning.
+ */
+import { buildCamera, type Camera } from '../colour/camera.js';
+import { checkPhotoFormation, encodeLinear, type PhotoFormationInput } from '../colour/exposureModel.js';
+import type { Light } from '../colour/light.js';
+import type { ObserverName } from '../colour/observers.js';
+import { createNormal } from '../colour/seededNormal.js';
+import { createSrgbEncoder } from '../colour/srgbEncoderTable.js';
+import type { Polarisation, Stack } from '../optics/types.js';
+import { thicknessColourLut } from './thicknessColourLut.js';
+
+export interface RenderOptions extends PhotoFormationInput {
+  readonly stack: Stack;
+  readonly light: Light;
+  readonly angleRad?: number;
+  readonly polarisation?: Polarisation;
+  readonly filmIndexScale?: number;
+  readonly observer?: ObserverName;
+  /** Light the camera is white-balanced for (default: `light`). */
+  readonly whiteBalanceLight?: Light;
+  /** A ready camera (e.g. from spectral sensitivities); default: the sRGB camera for the light. */
+  readonly camera?: Camera;
+  /** Gaussian sensor noise, standard deviation in linear units (0..1 scale); default 0. */
+  readonly noiseSigma?: number;
+  /** Seed of the noise generator; default 1. */
+  readonly seed?: number;
+  readonly bitDepth?: 8 | 16;
+  /** Thickness step of the lookup table, nm; default 0.25. */
+  readonly lutStepNm?: number;
+}
+
+export interface RenderResult {
+  readonly data: Uint8Array | Uint16Array;
+  readonly width: number;
+  readonly height: number;
+  readonly channels: 3;
+  readonly camera: Camera;
+  readonly warnings: string[];
+}
+
+function checkSize(thicknessNm: Float32Array, width: number, height: number): void {
+  if (!(thicknessNm instanceof Float32Array)) throw new TypeError(`thicknessNm must be a Float32Array, received ${Object.prototype.toString.call(thicknessNm)}`);
+  if (!Number.isInteger(width) || width < 1) throw new RangeError(`width must be an integer >= 1, received ${width}`);
+  if (!Number.isInteger(height) || height < 1) throw new RangeError(`height must be an integer >= 1, received ${height}`);
+  if (thicknessNm.length !== width * height) {
+    throw new RangeError(`thicknessNm must hold width × height = ${width * height} values, received ${thicknessNm.length}`);
+  }
+}
+
+export function renderPhoto(thicknessNm: Float32Array, width: number, height: number, options: RenderOptions): RenderResult {
+  checkSize(thicknessNm, width, height);
+  const formation = checkPhotoFormation(options);
+  const noiseSigma = options.noiseSigma ?? 0;
+  if (!Number.isFinite(noiseSigma) || noiseSigma < 0) throw new RangeError(`noiseSigma must be a finite number >= 0, received ${noiseSigma}`);
+  const seed = options.seed ?? 1;
+  if (!Number.isInteger(seed)) throw new RangeError(`seed must be an integer, received ${seed}`);
+  const bitDepth = options.bitDepth ?? 8;
+  if (bitDepth !== 8 && bitDepth !== 16) throw new RangeError(`bitDepth must be 8 or 16, received ${String(bitDepth)}`);
+  const camera = options.camera ?? buildCamera({ light: options.light, observer: options.observer, whiteBalance: options.whiteBalanceLight });
+
+  let minNm = Infinity;
+  let maxNm = -Infinity;
+  let nanCount = 0;
+  let badCount = 0;
+  for (let p = 0; p < thicknessNm.length; p++) {
+    const d = thicknessNm[p];
+    if (d !== d) nanCount++;
+    else if (d < 0 || d === Infinity) badCount++;
+    else {
+      if (d < minNm) minNm = d;
+      if (d > maxNm) maxNm = d;
+    }
+  }
+  const warnings: string[] = [];
+  if (nanCount > 0) warnings.push(`${nanCount} pixel${nanCount === 1 ? '' : 's'} with no thickness (NaN) rendered black`);
+  if (badCount > 0) warnings.push(`${badCount} pixel${badCount === 1 ? '' : 's'} with negative or infinite thickness rendered black`);
+
+  const pixels = thicknessNm.length;
+  const data = bitDepth === 8 ? new Uint8Array(pixels * 3) : new Uint16Array(pixels * 3);
+  if (minNm > maxNm) return { data, width, height, channels: 3, camera, warnings };
+
+  const lut = thicknessColourLut(options.stack, camera, minNm, maxNm, options.angleRad ?? 0, {
+    stepNm: options.lutStepNm,
+    polarisation: options.polarisation,
+    filmIndexScale: options.filmIndexScale,
+  });
+  const table = lut.rgbLinear;
+  const last = lut.count - 2;
+  const inverseStep = 1 / lut.stepNm;
+  const from = lut.fromNm;
+  const encode = camera.encoding === 'srgb' ? createSrgbEncoder() : encodeLinear;
+  const scale = bitDepth === 8 ? 255 : 65535;
+  const g0 = formation.exposure * formation.whiteBalance[0];
+  const g1 = formation.exposure * formation.whiteBalance[1];
+  const g2 = formation.exposure * formation.whiteBalance[2];
+  const [f0, f1, f2] = formation.flare;
+  const normal = noiseSigma > 0 ? createNormal(seed) : null;
+
+  for (let p = 0; p < pixels; p++) {
+    const d = thicknessNm[p];
+    if (!(d >= 0) || d === Infinity) continue;
+    const t = (d - from) * inverseStep;
+    let i = t | 0;
+    if (i > last) i = last;
+    const f = t - i;
+    const k = i * 3;
+    let r = g0 * (table[k] + f * (table[k + 3] - table[k])) + f0;
+    let g = g1 * (table[k + 1] + f * (table[k + 4] - table[k + 1])) + f1;
+    let b = g2 * (table[k + 2] + f * (table[k + 5] - table[k + 2])) + f2;
+    if (normal) {
+      r += noiseSigma * normal();
+      g += noiseSigma * normal();
+      b += noiseSigma * normal();
+    }
+    const o = p * 3;
+    data[o] = encode(r) * scale + 0.5;
+    data[o + 1] = encode(g) * scale + 0.5;
+    data[o + 2] = encode(b) * scale + 0.5;
+  }
+  return { data, width, height, channels: 3, camera, warnings };
+}
