@@ -2,3 +2,5 @@
 export * from './optics/types.js';
 export * from './optics/index.js';
 export * from './colour/index.js';
+export * from './io/index.js';
+export * from './fit/index.js';
