@@ -10,6 +10,7 @@ import { decodeFloat32Base64, encodeFloat32Base64 } from '../src/report/encodeFl
 import { formatNm, formatPercent, formatSignificant, shortestFloat32Text } from '../src/report/formatNumber.js';
 import { renderMapReport, renderSeriesReport } from '../src/report/index.js';
 import { imageDataUri, sniffImageType } from '../src/report/imageDataUri.js';
+import { makeReportGrid } from '../src/report/makeReportGrid.js';
 import { cellIndexOfPixel, columnProfile } from '../src/report/reportGrid.js';
 import type { MapReportInput, SeriesReportInput } from '../src/report/types.js';
 import { makeMapInput, makeSeriesInput } from './report-fixtures.js';
@@ -161,5 +162,43 @@ describe('number text and grid lookup', () => {
     expect(sniffImageType(Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0]))).toBe('image/png');
     expect(sniffImageType(Buffer.from([0xff, 0xd8, 0xff, 0xe0]))).toBe('image/jpeg');
     expect(() => imageDataUri(Buffer.alloc(0), 'photoPng')).toThrow(/photoPng must hold PNG \(or JPEG\) bytes, received 0 bytes starting \(empty\)/);
+  });
+});
+
+describe('makeReportGrid()', () => {
+  const full = (w: number, h: number) => {
+    const t = new Float32Array(w * h);
+    const q = new Float32Array(w * h);
+    for (let i = 0; i < t.length; i++) { t[i] = 100 + (i % w) + 1000 * Math.floor(i / w); q[i] = (i % 7) / 7; }
+    return { width: w, height: h, thicknessNm: t, confidence: q };
+  };
+  it('keeps a map within the cell budget unchanged (step 1, equal values)', () => {
+    const m = full(40, 30);
+    const g = makeReportGrid(m, 1200);
+    expect(g.step).toBe(1);
+    expect(Array.from(g.thicknessNm)).toEqual(Array.from(m.thicknessNm));
+    expect(g.thicknessNm).not.toBe(m.thicknessNm);
+  });
+  it('downsamples by the smallest step that fits, each cell holding its top-left pixel', () => {
+    const m = full(1001, 601); // 601 601 pixels → step 2 gives 501 × 301 = 150 801 cells ≤ 250 000
+    const g = makeReportGrid(m);
+    expect(g.step).toBe(2);
+    expect([g.width, g.height]).toEqual([501, 301]);
+    expect(g.width * g.height).toBeLessThanOrEqual(250_000);
+    for (const [cx, cy] of [[0, 0], [500, 300], [123, 77]]) {
+      expect(g.thicknessNm[cy * g.width + cx]).toBe(100 + cx * 2 + 1000 * cy * 2);
+    }
+  });
+  it('refuses arrays of the wrong length, naming them', () => {
+    expect(() => makeReportGrid({ ...full(4, 4), confidence: new Float32Array(3) }))
+      .toThrow(/confidence must be a Float32Array of width × height = 16 values, received 3/);
+  });
+  it('a report embedding a 250 000-cell grid stays under 3 MB of HTML beyond its images', async () => {
+    const small = await makeMapInput({ originalWidth: 20, originalHeight: 10, step: 1, kind: 'ramp' });
+    const grid = makeReportGrid(full(1000, 250));
+    expect([grid.step, grid.width * grid.height]).toEqual([1, 250_000]);
+    const html = renderMapReport({ ...small, grid });
+    const images = small.photoPng.length + small.mapPng.length;
+    expect(html.length - (images * 4) / 3).toBeLessThan(3_000_000);
   });
 });

@@ -9,3 +9,4 @@ export { renderHistogram, type HistogramSpec } from './svgHistogram.js';
 export { niceTicks, niceTickStep, niceDomain, type TickSpec } from './niceTicks.js';
 export { escapeHtml } from './escapeHtml.js';
 export { encodeFloat32Base64, decodeFloat32Base64 } from './encodeFloat32Base64.js';
+export { makeReportGrid, defaultMaxReportCells, type FullResolutionMap } from './makeReportGrid.js';

@@ -5,6 +5,7 @@
  * Both carry the class `series-chart` so the page script can mark the frame shown in the slider.
  */
 import { formatFixed } from './formatNumber.js';
+import { niceDomain } from './niceTicks.js';
 import { renderLineChart, type LineSeries, type ReferenceBand, type ReferenceLine } from './svgChart.js';
 import { thresholdColour } from './mapSections.js';
 import type { DrainageFitSummary, SeriesFrameRow } from './types.js';
@@ -43,8 +44,12 @@ export function renderDrainageChart(frames: SeriesFrameRow[], fits: DrainageFitS
   });
   const horizontalLines: ReferenceLine[] = thinBelowNm === null ? []
     : [{ value: thinBelowNm, label: `thin threshold ${formatFixed(thinBelowNm, 1)} nm`, colour: thresholdColour }];
+  // y range from the observations and the threshold (fitted curves may run off; the plot clips them)
+  const observed = frames.flatMap((f) => [f.meanNm, f.medianNm, f.minNm]).filter((v): v is number => v !== null && Number.isFinite(v));
+  if (thinBelowNm !== null) observed.push(thinBelowNm);
+  const yDomain = observed.length === 0 ? undefined : niceDomain(Math.min(0, ...observed), Math.max(...observed), 5);
   return renderLineChart({
-    title: 'Thickness against time', xLabel: 'Time (s)', yLabel: 'Thickness (nm)', id: 'drainage-chart',
+    title: 'Thickness against time', yDomain, xLabel: 'Time (s)', yLabel: 'Thickness (nm)', id: 'drainage-chart',
     series, horizontalLines, verticalLines, verticalBands: bands, widthPx: 1160, heightPx: 400,
   }).replace('class="chart line-chart"', 'class="chart line-chart series-chart"');
 }

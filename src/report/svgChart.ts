@@ -75,12 +75,13 @@ export function renderLineChart(spec: LineChartSpec): string {
     const y = px(yToPx(frame, line.value));
     parts.push(`<line class="ref-line" x1="${frame.left}" x2="${frame.left + frame.plotWidth}" y1="${y}" y2="${y}" stroke="${escapeHtml(line.colour)}"${line.dashed ?? true ? ' stroke-dasharray="6 4"' : ''}><title>${escapeHtml(line.label)}</title></line>`);
   }
+  let tagRow = 0;
   for (const line of spec.verticalLines ?? []) {
     const x = px(xToPx(frame, line.value));
     parts.push(`<line class="ref-line" x1="${x}" x2="${x}" y1="${frame.top}" y2="${frame.top + frame.plotHeight}" stroke="${escapeHtml(line.colour)}"${line.dashed ?? true ? ' stroke-dasharray="6 4"' : ''}><title>${escapeHtml(line.label)}</title></line>`);
     if (line.tag) {
       const nearRight = xToPx(frame, line.value) > frame.left + frame.plotWidth * 0.75;
-      parts.push(`<text class="ref-label" x="${x}" y="${frame.top + 14}" dx="${nearRight ? -5 : 5}" text-anchor="${nearRight ? 'end' : 'start'}" fill="${escapeHtml(line.colour)}">${escapeHtml(line.tag)}</text>`);
+      parts.push(`<text class="ref-label" x="${x}" y="${frame.top + 14 + 15 * tagRow++}" dx="${nearRight ? -5 : 5}" text-anchor="${nearRight ? 'end' : 'start'}" fill="${escapeHtml(line.colour)}">${escapeHtml(line.tag)}</text>`);
     }
   }
   for (const s of spec.series) parts.push(renderSeries(frame, s));
