@@ -11,6 +11,7 @@
  * of the intensity range count. Imax and Imin are medians of the raw intensity at those pixels
  * (medians are robust to noise; raw values avoid the flattening of peaks by smoothing).
  */
+import { estimatePixelNoise } from './pixelNoise.js';
 
 export interface FringeExtremes {
   /** True when enough ridge and trough pixels were found to fix the intensity scale. */
@@ -19,7 +20,7 @@ export interface FringeExtremes {
   readonly intensityMin: number;
   readonly ridgePixels: number;
   readonly troughPixels: number;
-  /** Robust standard deviation of raw − smoothed intensity (pixel noise), linear units. */
+  /** Pixel noise (standard deviation, linear units; `pixelNoise.ts`). */
   readonly noise: number;
 }
 
@@ -43,16 +44,11 @@ export function findFringeExtremes(
   distancePx = 3,
 ): FringeExtremes {
   const values: number[] = [];
-  const residuals: number[] = [];
-  for (let p = 0; p < usable.length; p++) {
-    if (!usable[p]) continue;
-    values.push(smoothed[p]);
-    residuals.push(Math.abs(intensity[p] - smoothed[p]));
-  }
+  for (let p = 0; p < usable.length; p++) if (usable[p]) values.push(smoothed[p]);
   const sorted = Float32Array.from(values).sort();
   const low = quantile(sorted, 0.005);
   const high = quantile(sorted, 0.995);
-  const noise = 1.4826 * quantile(Float32Array.from(residuals).sort(), 0.5);
+  const noise = estimatePixelNoise(intensity, width, height, usable);
   const range = high - low;
   const nothing = { found: false, intensityMax: high, intensityMin: low, ridgePixels: 0, troughPixels: 0, noise };
   if (!(range > 0)) return nothing;

@@ -6,8 +6,10 @@
  *    balance = intensity of a perfect reflector, mean flare = offset) or from the film's own
  *    brightest and darkest fringes (`fringeExtremes.ts`) matched to the table's extreme levels.
  *    With neither, the scale is unknown and the function throws.
- * 3. Fringe order: zones and bands (`fringeSegments.ts`), counted from anchors, a black film or
- *    the assumed first order (`zoneBranches.ts`), spread to band pixels (`fillPixelBranches.ts`).
+ * 3. Fringe order: pixels whose fringes are too dense to count are set aside as ambiguous
+ *    (`unresolvedFringes.ts`); the rest is split into zones and bands on the raw normalised level
+ *    (`fringeSegments.ts`), counted from anchors, a black film or the assumed first order
+ *    (`zoneBranches.ts`), and spread to band pixels (`fillPixelBranches.ts`).
  * 4. Thickness on the pixel's branch (`lineReflectanceTable.ts`); pixels of a free film darker
  *    than three noise levels on branch 0 are `dark` (too thin to measure; counted as thin).
  * Statistics, histogram and thin regions are the colour mode's (`src/map`), so results and
@@ -20,6 +22,7 @@ import { boxMeanMasked } from './boxMean.js';
 import { filmMaskOf } from './filmMask.js';
 import { fillPixelBranches } from './fillPixelBranches.js';
 import { findFringeExtremes } from './fringeExtremes.js';
+import { findUnresolvedFringes } from './unresolvedFringes.js';
 import { classifyLevels, segmentFringes } from './fringeSegments.js';
 import { checkLineWavelength } from './isMonochromaticLight.js';
 import { lineIntensityOf, type MonoPhoto } from './lineIntensity.js';
@@ -98,19 +101,31 @@ export function mapLineIntensity(
   const intensityMin = gain * table.levelMin + offset;
   const toLevel = 1 / (intensityMax - intensityMin);
   const levelSmooth = new Float32Array(n);
+  const levelWide = new Float32Array(n);
   const levelRaw = new Float32Array(n);
   const classSmooth = boxMeanMasked(light.intensity, width, height, usable, 1);
   for (let p = 0; p < n; p++) {
     levelSmooth[p] = (classSmooth[p] - intensityMin) * toLevel;
+    levelWide[p] = (smoothed[p] - intensityMin) * toLevel;
     levelRaw[p] = (light.intensity[p] - intensityMin) * toLevel;
   }
-  const seg = segmentFringes(classifyLevels(levelSmooth, usable, BAND_LEVEL), width, height, Math.max(6, Math.round(1e-4 * usableCount)));
-  const firstKind = table.boundaryKind[0];
   const noiseLevel = extremes.noise * toLevel;
-  let seeds = anchorSeeds(options.anchors ?? [], seg, table, width, height, usable, warnings);
+  const unresolved = findUnresolvedFringes(levelRaw, levelSmooth, usable, width, height, noiseLevel);
+  const countable = new Uint8Array(n);
+  let unresolvedCount = 0;
+  for (let p = 0; p < n; p++) {
+    if (unresolved[p]) unresolvedCount++;
+    else countable[p] = usable[p];
+  }
+  const seg = segmentFringes(classifyLevels(levelRaw, countable, BAND_LEVEL), width, height, Math.max(6, Math.round(1e-4 * usableCount)));
+  const firstKind = table.boundaryKind[0];
+  if (unresolvedCount > 0) {
+    warnings.push(`${unresolvedCount} px have fringes too dense to count (thickness changes too fast for the pixel size) and are marked ambiguous`);
+  }
+  let seeds = anchorSeeds(options.anchors ?? [], seg, table, width, height, countable, warnings);
   let orderFrom: LineScaleReport['orderFrom'] = 'anchor';
   if (seeds.length === 0 && firstKind === EXTREME_MIN) {
-    seeds = blackFilmSeeds(seg, levelRaw, width, usableCount, noiseLevel, warnings);
+    seeds = blackFilmSeeds(seg, levelWide, width, height, usableCount, noiseLevel, warnings);
     orderFrom = 'black-film';
   }
   if (seeds.length === 0) orderFrom = 'assumed-first-order';
@@ -124,7 +139,7 @@ export function mapLineIntensity(
   if (zones.conflicts > 0) {
     warnings.push(`fringe count ambiguous: ${zones.conflicts} inconsistent count(s) around closed paths (broken or merged fringes); those parts are marked ambiguous`);
   }
-  const pixels = fillPixelBranches(seg, zones, usable, width, height);
+  const pixels = fillPixelBranches(seg, zones, countable, width, height);
   const darkLevel = Math.max(0.01, 3 * noiseLevel);
   const darkLimitNm = firstKind === EXTREME_MIN ? thicknessOnBranch(table, 0, table.levelMin + darkLevel * levelSpan) : 0;
   const thicknessNm = new Float32Array(n).fill(NaN);

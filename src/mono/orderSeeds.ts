@@ -3,9 +3,12 @@
  * a black film (a large, uniformly dark region of a film whose reflectance is a minimum at zero
  * thickness = order 0; common practice in foam-film work).
  *
- * Black-film test (our choice of thresholds): a dark band covering at least 1 % of the film,
- * whose mean normalised level is below 0.03 and whose spread is close to the pixel noise. A dark
- * fringe crossed by a thickness gradient spans levels 0 … ε and fails the spread test.
+ * Black-film test (our choice of thresholds): a dark band covering at least 1 % of the film whose
+ * interior (pixels 3 px or more inside the band) has, in the 5 × 5 smoothed level, a mean below
+ * 0.012 (a Newton black film of ~5 nm reflects ~0.5 % of the peak; thicker black films are not
+ * recognised) and a spread of about the smoothed noise (≤ 0.3 · noise + 0.0015). The interior of a
+ * dark fringe crossed by a gentle thickness gradient climbs from 0 (mean ~0.015 or more) and keeps
+ * a larger spread. The test is a heuristic: give an anchor when it matters.
  */
 import type { Anchor } from '../map/types.js';
 import type { FringeSegments } from './fringeSegments.js';
@@ -73,11 +76,17 @@ export function anchorSeeds(
   return seeds;
 }
 
+const RIM_PROBES: ReadonlyArray<readonly [number, number]> = [
+  [3, 0], [-3, 0], [0, 3], [0, -3], [2, 2], [2, -2], [-2, 2], [-2, -2],
+];
+
 /** Seeds from the largest black film found, with a warning naming where it is; [] if none. */
 export function blackFilmSeeds(
   seg: FringeSegments,
+  /** Normalised level, 5 × 5 smoothed. */
   level: Float32Array,
   width: number,
+  height: number,
   usablePixels: number,
   noiseLevel: number,
   warnings: string[],
@@ -85,23 +94,35 @@ export function blackFilmSeeds(
   const count = seg.bandArea.length;
   const sum = new Float64Array(count);
   const sumSq = new Float64Array(count);
+  const interior = new Float64Array(count);
   const sx = new Float64Array(count);
   const sy = new Float64Array(count);
-  for (let p = 0; p < level.length; p++) {
+  const n = level.length;
+  for (let p = 0; p < n; p++) {
     const b = seg.bandOf[p];
     if (b < 0 || seg.bandKind[b] > 0) continue;
-    sum[b] += level[p];
-    sumSq[b] += level[p] * level[p];
     sx[b] += p % width;
     sy[b] += Math.floor(p / width);
+    // Level statistics from pixels at least 3 px inside the band only: near the rim the 5 × 5
+    // smoothing mixes in the neighbouring film.
+    const x = p % width;
+    const y = (p - x) / width;
+    if (x < 3 || x >= width - 3 || y < 3 || y >= height - 3) continue;
+    let inside = true;
+    for (const [dx, dy] of RIM_PROBES) if (seg.bandOf[p + dy * width + dx] !== b) inside = false;
+    if (!inside) continue;
+    interior[b]++;
+    sum[b] += level[p];
+    sumSq[b] += level[p] * level[p];
   }
   let best = -1;
   for (let b = 0; b < count; b++) {
     const area = seg.bandArea[b];
     if (seg.bandKind[b] > 0 || area < Math.max(25, 0.01 * usablePixels) || seg.bandZones[b].length === 0) continue;
-    const mean = sum[b] / area;
-    const spread = Math.sqrt(Math.max(0, sumSq[b] / area - mean * mean));
-    if (mean > 0.03 || spread > 1.5 * noiseLevel + 0.01) continue;
+    if (interior[b] < 0.25 * area) continue;
+    const mean = sum[b] / interior[b];
+    const spread = Math.sqrt(Math.max(0, sumSq[b] / interior[b] - mean * mean));
+    if (mean > 0.012 || spread > 0.3 * noiseLevel + 0.0015) continue;
     if (best < 0 || area > seg.bandArea[best]) best = b;
   }
   if (best < 0) return [];

@@ -1,0 +1,277 @@
+/**
+ * Round trips (render with our own forward model, invert, compare) on invented thickness fields
+ * of a draining soap film, photographed under the mercury 546.07 nm line (wavelength from memory).
+ * The forward model itself is checked against outside references in mono-scheludko.test.ts and
+ * mono-line.test.ts.
+ */
+import { describe, expect, it } from 'vitest';
+import { branchOfThickness, type LineReflectanceTable } from '../src/mono/lineReflectanceTable.js';
+import { mapLineIntensity, type MonoMapResult } from '../src/mono/mapLineIntensity.js';
+import { mapMonochromatic } from '../src/mono/mapMonochromatic.js';
+import { stackLineTable } from '../src/mono/stackLineReflectance.js';
+import { PixelStatus, type MapOptions } from '../src/map/types.js';
+import { resolveStack } from '../src/optics/resolveStack.js';
+
+const LINE_NM = 546.07;
+const W = 200;
+const H = 150;
+const stack = resolveStack('soap-film');
+const table = stackLineTable(stack, LINE_NM, { angleRad: 0, maxThicknessNm: 1500 });
+
+function options(extra: Partial<MapOptions> = {}): MapOptions {
+  return { stack, angleRad: 0, light: `line:${LINE_NM}`, thinBelowNm: 30, maxThicknessNm: 1500, ...extra };
+}
+
+/** Deterministic normal deviates (mulberry32 + Box–Muller). */
+function normalSource(seed: number): () => number {
+  let a = seed >>> 0;
+  const uniform = (): number => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+  return () => Math.sqrt(-2 * Math.log(1 - uniform())) * Math.cos(2 * Math.PI * uniform());
+}
+
+function encodeSrgb(linear: number): number {
+  const v = Math.min(1, Math.max(0, linear));
+  return v <= 0.0031308 ? 12.92 * v : 1.055 * Math.pow(v, 1 / 2.4) - 0.055;
+}
+
+function reflectanceAt(t: LineReflectanceTable, hNm: number): number {
+  const x = hNm / t.stepNm;
+  const i = Math.min(t.reflectance.length - 2, Math.floor(x));
+  return t.reflectance[i] + (x - i) * (t.reflectance[i + 1] - t.reflectance[i]);
+}
+
+/**
+ * Invented draining film: thin at the top, thickening downwards (h ∝ depth^1.4), a gentle
+ * sideways swell, and optionally a Newton black film (5 nm) where the film would be thinner
+ * than 25 nm. Photo: linear = gain_c · R(h) + flare, Gaussian noise, sRGB encoding, 8-bit.
+ */
+function render(opts: {
+  topNm: number;
+  bottomNm: number;
+  blackFilm: boolean;
+  gains?: [number, number, number];
+  flare?: number;
+  noise?: number;
+  seed?: number;
+  channelTwist?: boolean;
+}) {
+  const truth = new Float32Array(W * H);
+  const rgb = new Float32Array(3 * W * H);
+  const gains = opts.gains ?? [0.62 / table.levelMax, 0.62 / table.levelMax, 0.62 / table.levelMax];
+  const flare = opts.flare ?? 0.015;
+  const noise = opts.noise ?? 0.004;
+  const gauss = normalSource(opts.seed ?? 7);
+  for (let y = 0; y < H; y++) {
+    for (let x = 0; x < W; x++) {
+      const depth = y / (H - 1);
+      let h = opts.topNm + (opts.bottomNm - opts.topNm) * Math.pow(depth, 1.4);
+      h += 18 * Math.sin((2 * Math.PI * x) / W) * depth;
+      if (opts.blackFilm && h < 25) h = 5;
+      const p = y * W + x;
+      truth[p] = h;
+      const R = reflectanceAt(table, h);
+      for (let c = 0; c < 3; c++) {
+        let linear = gains[c] * R + flare;
+        // A broadband light would colour the fringes: let one channel follow a shifted pattern.
+        if (opts.channelTwist && c === 2) linear = gains[c] * reflectanceAt(table, h * 0.8) + flare;
+        linear += noise * gauss();
+        rgb[3 * p + c] = Math.round(255 * encodeSrgb(linear)) / 255;
+      }
+    }
+  }
+  const isGrey = !opts.gains && !opts.channelTwist;
+  if (isGrey) for (let p = 0; p < W * H; p++) rgb[3 * p + 1] = rgb[3 * p + 2] = rgb[3 * p];
+  return { photo: { width: W, height: H, rgb, isGrey }, truth };
+}
+
+/** Distance (nm) from `hNm` to the nearest extreme of R(h) (a branch boundary of the table). */
+function distanceToExtremeNm(hNm: number): number {
+  let best = Infinity;
+  for (const i of table.boundaryIndex) best = Math.min(best, Math.abs(i * table.stepNm - hNm));
+  return best;
+}
+
+/**
+ * Scores against the true field. Fringe order: at a crest or trough of a fringe the intensity
+ * cannot tell the two sides apart, and noise moves the estimate across the extreme; so the order
+ * is scored (a) exactly (same monotonic branch) on pixels more than 25 nm from an extreme, and
+ * (b) on all pixels as "same branch, or within 15 nm of the truth" (a real order error puts the
+ * estimate on another branch, at least twice its distance from the extreme away).
+ */
+function score(result: MonoMapResult, truth: Float32Array) {
+  const thinErrors: number[] = [];
+  let ok = 0;
+  let film = 0;
+  let slopePixels = 0;
+  let slopeRight = 0;
+  let allRight = 0;
+  for (let p = 0; p < truth.length; p++) {
+    if (result.status[p] !== PixelStatus.excluded) film++;
+    if (result.status[p] !== PixelStatus.ok) continue;
+    ok++;
+    const est = result.thicknessNm[p];
+    const err = est - truth[p];
+    if (truth[p] < 100) thinErrors.push(Math.abs(err));
+    const sameBranch = branchOfThickness(table, est) === branchOfThickness(table, truth[p]);
+    if (distanceToExtremeNm(truth[p]) > 25) {
+      slopePixels++;
+      if (sameBranch) slopeRight++;
+    }
+    if (sameBranch || Math.abs(err) < 15) allRight++;
+  }
+  thinErrors.sort((a, b) => a - b);
+  return {
+    medianThinErrorNm: thinErrors[thinErrors.length >> 1],
+    thinCount: thinErrors.length,
+    slopeOrderShare: slopeRight / slopePixels,
+    orderShare: allRight / ok,
+    okShare: ok / film,
+  };
+}
+
+describe('mapLineIntensity() round trip on an invented draining soap film at 546.07 nm', () => {
+  it('finds the black film, counts orders and measures < 100 nm within 2 nm median (no anchor)', () => {
+    const { photo, truth } = render({ topNm: 0, bottomNm: 900, blackFilm: true });
+    const result = mapLineIntensity(photo, options(), table);
+    const s = score(result, truth);
+    expect(result.line.orderFrom).toBe('black-film');
+    expect(result.line.scaleFrom).toBe('image');
+    expect(s.thinCount).toBeGreaterThan(1000);
+    expect(s.medianThinErrorNm).toBeLessThan(2);
+    expect(s.orderShare).toBeGreaterThanOrEqual(0.99);
+    expect(s.slopeOrderShare).toBeGreaterThanOrEqual(0.99);
+    expect(s.okShare).toBeGreaterThan(0.85);
+    // The Newton black film (5 nm) is below the dark limit: counted as dark, i.e. thin.
+    expect(result.status[5 * W + 100]).toBe(PixelStatus.dark);
+    expect(result.darkLimitNm).toBeGreaterThan(5);
+    expect(result.stats.thin_fraction).toBeGreaterThan(0);
+  });
+
+  it('uses an anchor when there is no black film, and recovers gain and flare', () => {
+    const { photo, truth } = render({ topNm: 60, bottomNm: 1000, blackFilm: false, seed: 11 });
+    const anchor = { x: 100, y: 0, thicknessNm: truth[100] };
+    const result = mapLineIntensity(photo, options({ anchors: [anchor] }), table);
+    const s = score(result, truth);
+    expect(result.line.orderFrom).toBe('anchor');
+    expect(s.medianThinErrorNm).toBeLessThan(2);
+    expect(s.orderShare).toBeGreaterThanOrEqual(0.99);
+    expect(s.slopeOrderShare).toBeGreaterThanOrEqual(0.99);
+    expect(s.okShare).toBeGreaterThan(0.85);
+    expect(result.fitted.exposure).toBeCloseTo(0.62 / table.levelMax, -0.5);
+    expect(Math.abs(result.fitted.exposure * table.levelMax - 0.62)).toBeLessThan(0.03);
+    expect(Math.abs(result.fitted.flare[0] - 0.015)).toBeLessThan(0.01);
+  });
+
+  it('without anchor or black film counts from the thinnest part and says so', () => {
+    const { photo, truth } = render({ topNm: 60, bottomNm: 1000, blackFilm: false, seed: 12 });
+    const result = mapLineIntensity(photo, options(), table);
+    expect(result.line.orderFrom).toBe('assumed-first-order');
+    expect(result.warnings.join(' ')).toMatch(/thinnest part of the film is in the first order/);
+    const s = score(result, truth);
+    expect(s.orderShare).toBeGreaterThanOrEqual(0.99);
+    expect(s.slopeOrderShare).toBeGreaterThanOrEqual(0.99);
+  });
+
+  it('a colour photo under the line (unequal channel gains) works without a warning', () => {
+    const g = 0.7 / table.levelMax;
+    const { photo, truth } = render({ topNm: 0, bottomNm: 900, blackFilm: true, gains: [g, 0.8 * g, 0.15 * g], seed: 3 });
+    const result = mapLineIntensity(photo, options(), table);
+    expect(result.warnings.join(' ')).not.toMatch(/may not be monochromatic/);
+    expect(score(result, truth).medianThinErrorNm).toBeLessThan(2);
+  });
+
+  it('warns when colour channels disagree (light may not be monochromatic)', () => {
+    const g = 0.6 / table.levelMax;
+    const { photo } = render({ topNm: 0, bottomNm: 900, blackFilm: true, gains: [g, g, g], channelTwist: true });
+    const result = mapLineIntensity(photo, options(), table);
+    expect(result.warnings.join(' ')).toMatch(/light may not be monochromatic/);
+  });
+});
+
+describe('mapLineIntensity() fringe-order checks that must be able to fail', () => {
+  it('an anchor one branch off (wrong order) gives wrong orders almost everywhere', () => {
+    const { photo, truth } = render({ topNm: 60, bottomNm: 1000, blackFilm: false, seed: 11 });
+    // True thickness at the anchor ~60 nm (branch 0); claim the mirror value on branch 1.
+    const wrong = { x: 100, y: 0, thicknessNm: 2 * (table.boundaryIndex[1] * table.stepNm) - truth[100] };
+    const result = mapLineIntensity(photo, options({ anchors: [wrong] }), table);
+    expect(score(result, truth).slopeOrderShare).toBeLessThan(0.2);
+  });
+
+  it('marks fringes too dense to count as ambiguous and keeps the count right elsewhere', () => {
+    // Invented field: 5 nm/px downwards, plus 60 nm/px sideways right of x = 120 (fringe period ~3 px).
+    const truth = new Float32Array(W * H);
+    const rgb = new Float32Array(3 * W * H);
+    const gauss = normalSource(3);
+    for (let y = 0; y < H; y++) {
+      for (let x = 0; x < W; x++) {
+        const p = y * W + x;
+        const h = Math.min(1450, 40 + 5 * y + Math.max(0, x - 120) * 60);
+        truth[p] = h;
+        const v = Math.round(255 * encodeSrgb((0.62 / table.levelMax) * reflectanceAt(table, h) + 0.015 + 0.004 * gauss())) / 255;
+        rgb[3 * p] = rgb[3 * p + 1] = rgb[3 * p + 2] = v;
+      }
+    }
+    const result = mapLineIntensity({ width: W, height: H, rgb, isGrey: true }, options({ anchors: [{ x: 10, y: 0, thicknessNm: 40 }] }), table);
+    expect(result.warnings.join(' ')).toMatch(/fringes too dense to count/);
+    let ambiguousRight = 0;
+    let leftWrong = 0;
+    let leftOk = 0;
+    for (let y = 0; y < H; y++) {
+      for (let x = 0; x < W; x++) {
+        const p = y * W + x;
+        if (x > 125 && x < 140 && result.status[p] === PixelStatus.ambiguous) ambiguousRight++;
+        if (x < 110 && result.status[p] === PixelStatus.ok) {
+          leftOk++;
+          if (Math.abs(result.thicknessNm[p] - truth[p]) > 15) leftWrong++;
+        }
+      }
+    }
+    expect(ambiguousRight).toBeGreaterThan(0.9 * 14 * H);
+    expect(leftOk).toBeGreaterThan(0.95 * 110 * H);
+    expect(leftWrong / leftOk).toBeLessThan(0.01);
+  });
+});
+
+describe('mapLineIntensity() intensity scale', () => {
+  const thin = render({ topNm: 10, bottomNm: 85, blackFilm: false, seed: 5 });
+  it('throws when no fringe extreme is visible and no calibration is given', () => {
+    expect(() => mapLineIntensity(thin.photo, options(), table)).toThrow(/intensity scale is unknown/);
+  });
+  it('measures a film without extremes from a calibration (exposure, flare)', () => {
+    const gain = 0.62 / table.levelMax;
+    const result = mapLineIntensity(
+      thin.photo,
+      options({ exposureFixed: { exposure: gain, whiteBalance: [1, 1, 1], flare: [0.015, 0.015, 0.015] }, anchors: [{ x: 0, y: 0, thicknessNm: 10 }] }),
+      table,
+    );
+    expect(result.line.scaleFrom).toBe('calibration');
+    const s = score(result, thin.truth);
+    expect(s.medianThinErrorNm).toBeLessThan(2);
+    expect(s.okShare).toBeGreaterThan(0.9);
+  });
+});
+
+describe('mapMonochromatic() entry point', () => {
+  it('rejects a line outside 380–780 nm', () => {
+    const { photo } = render({ topNm: 0, bottomNm: 900, blackFilm: true });
+    expect(() => mapMonochromatic(photo, options(), 300)).toThrow(/between 380 and 780 nm \(visible light\), received 300/);
+  });
+  it('marks pixels outside the region as excluded and clipped pixels as saturated', () => {
+    const { photo } = render({ topNm: 0, bottomNm: 900, blackFilm: true });
+    photo.rgb[3 * (140 * W + 50)] = 1;
+    const result = mapMonochromatic(photo, options({ region: [0, 0, W, 145] }), LINE_NM);
+    expect(result.status[146 * W + 10]).toBe(PixelStatus.excluded);
+    expect(result.status[140 * W + 50]).toBe(PixelStatus.saturated);
+    expect(Number.isNaN(result.thicknessNm[146 * W + 10])).toBe(true);
+  });
+  it('rejects an anchor outside the photo with a message naming it', () => {
+    const { photo } = render({ topNm: 0, bottomNm: 900, blackFilm: true });
+    expect(() => mapMonochromatic(photo, options({ anchors: [{ x: 500, y: 2, thicknessNm: 10 }] }), LINE_NM)).toThrow(/anchor 500,2=10/);
+  });
+});
