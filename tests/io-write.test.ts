@@ -3,7 +3,7 @@
  * atomicWriteFile(), ensureOutputDir(), the temp-file registry. Files are read back with the
  * image codec's own reader (sharp), not with our readPhoto, so the loop is not closed on itself.
  */
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { mkdir, mkdtemp, readdir, readFile, rm, stat, writeFile } from 'node:fs/promises';
 import { existsSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -17,6 +17,7 @@ import {
   ensureOutputDir,
   pendingTempFiles,
   rasteriseSvg,
+  removeTempFilesOnSignals,
   writeImage,
 } from '../src/io/index.js';
 import { registerTempFile } from '../src/io/tempFiles.js';
@@ -189,6 +190,30 @@ describe('cleanupTempFiles() removes registered in-flight files (what the interr
     expect(cleanupTempFiles()).toBe(1);
     expect(existsSync(a)).toBe(false);
     expect(pendingTempFiles()).toEqual([]);
+  });
+});
+
+describe('removeTempFilesOnSignals() installs an interrupt handler that removes partial files', () => {
+  it('on SIGINT the handler deletes in-flight temp files and exits with 130 (128 + signal 2, common practice)', async () => {
+    const before = new Set(process.listeners('SIGINT'));
+    const beforeTerm = new Set(process.listeners('SIGTERM'));
+    removeTempFilesOnSignals();
+    removeTempFilesOnSignals(); // idempotent: one handler only
+    const added = process.listeners('SIGINT').filter((l) => !before.has(l));
+    expect(added.length).toBe(1);
+    const partial = join(dir, '.partial.tmp');
+    await writeFile(partial, 'half a file');
+    registerTempFile(partial);
+    const exit = vi.spyOn(process, 'exit').mockImplementation((() => undefined) as never);
+    try {
+      (added[0] as (signal: NodeJS.Signals) => void)('SIGINT');
+      expect(existsSync(partial)).toBe(false);
+      expect(exit).toHaveBeenCalledWith(130);
+    } finally {
+      exit.mockRestore();
+      for (const l of added) process.removeListener('SIGINT', l);
+      for (const l of process.listeners('SIGTERM').filter((l) => !beforeTerm.has(l))) process.removeListener('SIGTERM', l);
+    }
   });
 });
 
