@@ -99,6 +99,19 @@ describe.skipIf(!hasChromium)(`reports in headless Chromium${hasChromium ? '' : 
     const box = (await page.locator('.stage.map img').boundingBox())!;
     await page.mouse.click(box.x + (20.5 / W) * box.width, box.y + box.height / 2);
     expect(await page.textContent('#profile-column')).toBe('20');
+    // pointing along the profile chart reads that column at the row under the pointer
+    const plot = page.locator('#profile-chart g.plot');
+    const attrs = await plot.evaluate((el) => ['x0', 'x1', 'left', 'width'].map((k) => Number(el.getAttribute(`data-${k}`))));
+    const [x0, x1, left, width] = attrs;
+    await page.locator('#profile-chart').evaluate((el) => el.scrollIntoView({ block: 'center' }));
+    const chartBox = (await page.locator('#profile-chart').boundingBox())!;
+    const viewWidth = 580; // viewBox width of the profile chart
+    const row = 17;
+    const sx = left + ((row + 0.5 - x0) / (x1 - x0)) * width;
+    await page.mouse.move(chartBox.x + (sx / viewWidth) * chartBox.width, chartBox.y + chartBox.height / 2);
+    expect(await page.textContent('#readout-x')).toBe('20');
+    expect(await page.textContent('#readout-y')).toBe(String(row));
+    expect(await page.textContent('#readout-thickness')).toBe(`${100 + 20 + 1000 * row} nm`);
     expectOffline(loaded);
     await page.close();
   });

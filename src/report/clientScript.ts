@@ -66,9 +66,23 @@ function initMap(data) {
       h.setAttribute('visibility', 'visible'); v.setAttribute('visibility', 'visible');
     });
   }
+  var profileChart = document.getElementById('profile-chart');
+  var profileMap = plotMapping(profileChart);
+  var profileX = Number(data.profileColumn);
+  var rowMarker = null;
+  if (profileMap) {
+    rowMarker = svgEl('line', { 'class': 'frame-marker', y1: profileMap.top, y2: profileMap.top + profileMap.height, visibility: 'hidden' });
+    profileMap.group.querySelector('.overlay').appendChild(rowMarker);
+  }
   function show(p) {
     var box = document.getElementById('readout');
     moveCrosshairs(p);
+    if (rowMarker) {
+      if (p) {
+        var rx = profileMap.x(p.y + 0.5).toFixed(1);
+        rowMarker.setAttribute('x1', rx); rowMarker.setAttribute('x2', rx); rowMarker.setAttribute('visibility', 'visible');
+      } else rowMarker.setAttribute('visibility', 'hidden');
+    }
     if (!p) { if (box) box.classList.remove('active'); return; }
     var c = cellOf(p);
     var t = thickness[c.index], q = confidence[c.index];
@@ -90,7 +104,18 @@ function initMap(data) {
       if (p) setProfileColumn(p.x);
     });
   });
+  if (profileChart && profileMap) {
+    profileChart.addEventListener('pointermove', function (ev) {
+      var r = profileChart.getBoundingClientRect();
+      var vb = profileChart.viewBox.baseVal;
+      var sx = (ev.clientX - r.left) / r.width * vb.width;
+      var row = Math.floor(profileMap.x0 + (sx - profileMap.left) / profileMap.width * (profileMap.x1 - profileMap.x0));
+      show(row >= 0 && row < g.originalHeight ? { x: profileX, y: row } : null);
+    });
+    profileChart.addEventListener('pointerleave', function () { show(null); });
+  }
   function setProfileColumn(xPx) {
+    profileX = xPx;
     var chart = document.getElementById('profile-chart');
     var m = plotMapping(chart);
     if (!m) return;

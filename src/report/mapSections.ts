@@ -75,7 +75,7 @@ export function renderMapSections(input: MapReportInput, name = 'input', options
     + '<span>x <b id="readout-x">—</b> y <b id="readout-y">—</b> px</span>'
     + '<span>thickness <b id="readout-thickness">—</b></span><span>confidence <b id="readout-confidence">—</b></span>'
     + '<span id="readout-cell" class="muted"></span><span id="readout-flag" class="flag"></span></div>'
-    + '<p class="note">Point at the photo or the map to read the thickness and confidence stored for that pixel (coordinates in the original photo); click to move the profile to that column.</p>'
+    + '<p class="note">Point at the photo or the map to read the thickness and confidence stored for that pixel (coordinates in the original photo); click to move the profile to that column; point along the profile chart to follow that column on the images.</p>'
     + renderColourBar({ minNm: input.colourBar.minNm, maxNm: input.colourBar.maxNm, stops }, thin, 1000)
     + notes.map((n) => `<p class="note downsample-note">${escapeHtml(n)}</p>`).join('')
     + '</section>';
@@ -115,6 +115,7 @@ ${options.parameterTables ? renderParameterSections(input.settings, input.calibr
     data: {
       'lamella-map-data': {
         thinBelowNm: thin,
+        profileColumn: column,
         grid: {
           width: grid.width, height: grid.height, step: grid.step, originalWidth: W, originalHeight: H,
           thicknessB64: encodeFloat32Base64(grid.thicknessNm), confidenceB64: encodeFloat32Base64(grid.confidence),
