@@ -287,3 +287,17 @@ describe('readThicknessGrid() reads .npy, float TIFF and scaled 16-bit PNG by co
     await expect(readThicknessGrid(join(dir, 'grid16.png'), { pngScaleNm: -1 })).rejects.toThrow(RangeError);
   });
 });
+
+describe('typed views on codec buffers', () => {
+  it('uint16View()/float32View() copy when the byte offset is not aligned, and view otherwise', async () => {
+    const { uint16View, float32View } = await import('../src/io/typedView.js');
+    const backing = new ArrayBuffer(9);
+    const odd = Buffer.from(backing, 1, 8);
+    odd.writeUInt16LE(513, 0);
+    odd.writeFloatLE(1.5, 4);
+    expect(uint16View(odd)[0]).toBe(513);
+    expect(float32View(odd)[1]).toBe(1.5);
+    const aligned = Buffer.from(new ArrayBuffer(8));
+    expect(float32View(aligned).buffer).toBe(aligned.buffer);
+  });
+});

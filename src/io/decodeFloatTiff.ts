@@ -9,6 +9,7 @@ import { InputError } from '../cli/errors.js';
 import { readInputFile } from './readInputFile.js';
 import { decodeInputError } from './decodeErrors.js';
 import { MAX_PIXELS } from './limits.js';
+import { float32View } from './typedView.js';
 
 export interface FloatGrid {
   data: Float32Array;
@@ -88,7 +89,7 @@ export async function decodeFloatTiffAny(bytes: Uint8Array, source = '<tiff>'): 
   try {
     const raw = await sharp(bytes, { limitInputPixels: MAX_PIXELS }).extractChannel(0).raw({ depth: 'float' }).toBuffer({ resolveWithObject: true });
     const data = new Float32Array(raw.info.width * raw.info.height);
-    data.set(new Float32Array(raw.data.buffer, raw.data.byteOffset, data.length));
+    data.set(float32View(raw.data).subarray(0, data.length));
     return { data, width: raw.info.width, height: raw.info.height };
   } catch (error) {
     throw decodeInputError(source, error, MAX_PIXELS);

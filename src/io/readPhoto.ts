@@ -18,6 +18,7 @@ import { parseExifTime } from './exifTime.js';
 import { readInputFile } from './readInputFile.js';
 import { decodeInputError } from './decodeErrors.js';
 import { checkMaxPixels } from './checkMaxPixels.js';
+import { uint16View } from './typedView.js';
 import { iccDescription, isSrgbDescription } from './iccDescription.js';
 import type { Photo, ReadPhotoOptions } from './photo.js';
 
@@ -51,7 +52,7 @@ export async function readPhoto(path: string, options: ReadPhotoOptions = {}): P
   const { width, height, channels } = raw.info;
   const pixelCount = width * height;
   const samples: Uint8Array | Uint16Array = is16
-    ? new Uint16Array(raw.data.buffer, raw.data.byteOffset, raw.data.byteLength / 2)
+    ? uint16View(raw.data)
     : new Uint8Array(raw.data.buffer, raw.data.byteOffset, raw.data.byteLength);
   if (samples.length !== pixelCount * channels) {
     throw new InputError(path, `decoder returned ${samples.length} samples, expected ${pixelCount * channels}`);

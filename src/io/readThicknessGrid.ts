@@ -14,6 +14,7 @@ import { decodeFloatTiffAny, type FloatGrid } from './decodeFloatTiff.js';
 import { decodeInputError } from './decodeErrors.js';
 import { MAX_PIXELS } from './limits.js';
 import { NPY_MAGIC } from './npyFormat.js';
+import { uint16View } from './typedView.js';
 
 export interface ReadThicknessGridOptions {
   /** Nanometres per count for 16-bit PNG/TIFF grids (e.g. 0.1 → 65535 counts = 6553.5 nm). */
@@ -57,7 +58,7 @@ async function fromScaledImage(bytes: Uint8Array, path: string, pngScaleNm: numb
   } catch (error) {
     throw decodeInputError(path, error, MAX_PIXELS);
   }
-  const counts = new Uint16Array(raw.data.buffer, raw.data.byteOffset, raw.data.byteLength / 2);
+  const counts = uint16View(raw.data);
   const { width, height, channels } = raw.info;
   const data = new Float32Array(width * height);
   for (let i = 0; i < data.length; i++) data[i] = counts[i * channels] * pngScaleNm;
