@@ -10,4 +10,5 @@ export const commandModules: ReadonlyArray<() => Promise<{ register: Register }>
   // e.g. () => import('./spectrum.js'),
   () => import('./spectrum.js'),
   () => import('./chart.js'),
+  () => import('./render.js'),
 ];
