@@ -71,6 +71,23 @@ describe('renderMapReport()', () => {
     expect(text).toContain('downsampled by 4');
     expect(text).toContain('map &lt;reduced&gt; for the report');
   });
+  it('renders a map with no estimates at all (all-NaN grid, null statistics, empty histogram, no threshold, no regions)', () => {
+    const n = input.grid.width * input.grid.height;
+    const empty: MapReportInput = {
+      ...input, thinBelowNm: null, thinRegions: [], histogram: { edgesNm: [], counts: [] }, calibration: null, warnings: [],
+      stats: { mean_nm: null, median_nm: null, coverage: 0 }, colourBar: { ...input.colourBar, minNm: 500, maxNm: 500 },
+      grid: { ...input.grid, thicknessNm: new Float32Array(n).fill(NaN), confidence: new Float32Array(n).fill(NaN) },
+    };
+    const text = renderMapReport(empty);
+    expect(text).toContain('No thin regions.');
+    expect(text).toContain('no thin threshold set');
+    expect(text).toContain('No calibration file was used.');
+    expect(text).not.toContain('id="warnings"');
+  });
+  it('refuses a colour bar whose maximum is below its minimum', () => {
+    expect(() => renderMapReport({ ...input, colourBar: { ...input.colourBar, minNm: 10, maxNm: 5 } }))
+      .toThrow(/colourBar: minNm and maxNm must be finite with minNm <= maxNm, received 10 and 5/);
+  });
   it('refuses a grid whose arrays do not match width × height, naming the field', () => {
     const bad = { ...input, grid: { ...input.grid, confidence: new Float32Array(3) } };
     expect(() => renderMapReport(bad)).toThrow(RangeError);
@@ -117,6 +134,13 @@ describe('renderSeriesReport()', () => {
   it('refuses a frame with a non-finite time, naming it', () => {
     const frames = input.frames.map((f, i) => (i === 2 ? { ...f, timeS: NaN } : f));
     expect(() => renderSeriesReport({ ...input, frames })).toThrow(/input.frames\[2\].timeS must be a finite number/);
+  });
+  it('renders frames without estimates and fits without curve or crossing', () => {
+    const frames = input.frames.map((f) => ({ ...f, meanNm: null, medianNm: null, minNm: null, thinFraction: null }));
+    const text = renderSeriesReport({ ...input, thinBelowNm: null, frames,
+      fits: [{ model: 'power law', formula: 'h = a·t^b', parameters: {}, rSquared: null, curve: [], crossing: null }] });
+    expect(text).toContain('No thin fraction: no thin threshold was set.');
+    expect(text).toContain('not computed');
   });
   it('renders an empty series without failing', () => {
     const text = renderSeriesReport({ ...input, frames: [], fits: [] });

@@ -14,9 +14,10 @@ export interface ColourBarSpec {
 }
 
 export function renderColourBar(bar: ColourBarSpec, thinBelowNm: number | null, widthPx = 720): string {
-  if (!Number.isFinite(bar.minNm) || !Number.isFinite(bar.maxNm) || !(bar.maxNm > bar.minNm)) {
-    throw new RangeError(`colourBar: minNm and maxNm must be finite with minNm < maxNm, received ${bar.minNm} and ${bar.maxNm}`);
+  if (!Number.isFinite(bar.minNm) || !Number.isFinite(bar.maxNm) || bar.maxNm < bar.minNm) {
+    throw new RangeError(`colourBar: minNm and maxNm must be finite with minNm <= maxNm, received ${bar.minNm} and ${bar.maxNm}`);
   }
+  if (bar.maxNm === bar.minNm) bar = { ...bar, minNm: bar.minNm - 1, maxNm: bar.maxNm + 1 }; // a flat map still gets a bar
   const stops = checkColourStops(bar.stops);
   const left = 24;
   const right = widthPx - 24;
