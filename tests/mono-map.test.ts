@@ -49,7 +49,8 @@ function reflectanceAt(t: LineReflectanceTable, hNm: number): number {
 /**
  * Invented draining film: thin at the top, thickening downwards (h ∝ depth^1.4), a gentle
  * sideways swell, and optionally a Newton black film (5 nm) where the film would be thinner
- * than 25 nm. Photo: linear = gain_c · R(h) + flare, Gaussian noise, sRGB encoding, 8-bit.
+ * than 25 nm. Photo: linear = gain_c · (1 − vignette · r²) · R(h) + flare, Gaussian noise, sRGB
+ * encoding, 8-bit.
  */
 function render(opts: {
   topNm: number;
@@ -60,6 +61,7 @@ function render(opts: {
   noise?: number;
   seed?: number;
   channelTwist?: boolean;
+  vignette?: number;
 }) {
   const truth = new Float32Array(W * H);
   const rgb = new Float32Array(3 * W * H);
@@ -77,7 +79,9 @@ function render(opts: {
       truth[p] = h;
       const R = reflectanceAt(table, h);
       for (let c = 0; c < 3; c++) {
-        let linear = gains[c] * R + flare;
+        // Uneven lighting: the gain falls by `vignette` from the centre to the corners.
+        const r2 = ((x - W / 2) ** 2 + (y - H / 2) ** 2) / ((W / 2) ** 2 + (H / 2) ** 2);
+        let linear = gains[c] * (1 - (opts.vignette ?? 0) * r2) * R + flare;
         // A broadband light would colour the fringes: let one channel follow a shifted pattern.
         if (opts.channelTwist && c === 2) linear = gains[c] * reflectanceAt(table, h * 0.8) + flare;
         linear += noise * gauss();
@@ -151,6 +155,14 @@ describe('mapLineIntensity() round trip on an invented draining soap film at 546
     expect(result.status[5 * W + 100]).toBe(PixelStatus.dark);
     expect(result.darkLimitNm).toBeGreaterThan(5);
     expect(result.stats.thin_fraction).toBeGreaterThan(0);
+  });
+
+  it('follows uneven lighting (gain 25 % lower in the corners) with the local fringe envelope', () => {
+    const { photo, truth } = render({ topNm: 0, bottomNm: 900, blackFilm: true, vignette: 0.25, seed: 21 });
+    const s = score(mapLineIntensity(photo, options(), table), truth);
+    expect(s.medianThinErrorNm).toBeLessThan(2);
+    expect(s.orderShare).toBeGreaterThanOrEqual(0.99);
+    expect(s.slopeOrderShare).toBeGreaterThanOrEqual(0.99);
   });
 
   it('uses an anchor when there is no black film, and recovers gain and flare', () => {

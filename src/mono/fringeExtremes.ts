@@ -22,6 +22,9 @@ export interface FringeExtremes {
   readonly troughPixels: number;
   /** Pixel noise (standard deviation, linear units; `pixelNoise.ts`). */
   readonly noise: number;
+  /** Pixel indices of the bright and dark fringe pixels found (for a local envelope). */
+  readonly ridgeIndex: Int32Array;
+  readonly troughIndex: Int32Array;
 }
 
 function quantile(sorted: Float32Array, q: number): number {
@@ -50,13 +53,16 @@ export function findFringeExtremes(
   const high = quantile(sorted, 0.995);
   const noise = estimatePixelNoise(intensity, width, height, usable);
   const range = high - low;
-  const nothing = { found: false, intensityMax: high, intensityMin: low, ridgePixels: 0, troughPixels: 0, noise };
+  const none = new Int32Array(0);
+  const nothing = { found: false, intensityMax: high, intensityMin: low, ridgePixels: 0, troughPixels: 0, noise, ridgeIndex: none, troughIndex: none };
   if (!(range > 0)) return nothing;
   const window = 2 * smoothingRadius + 1;
   const contrast = Math.max((4 * noise) / window, 0.02 * range);
   const mid = 0.5 * (low + high);
   const ridge: number[] = [];
   const trough: number[] = [];
+  const ridgeIndex: number[] = [];
+  const troughIndex: number[] = [];
   for (let y = distancePx; y < height - distancePx; y++) {
     for (let x = distancePx; x < width - distancePx; x++) {
       const p = y * width + x;
@@ -75,8 +81,8 @@ export function findFringeExtremes(
         if (s > mid && s >= a1 && s >= b1 && s - a >= contrast && s - b >= contrast) isRidge = true;
         if (s < mid && s <= a1 && s <= b1 && a - s >= contrast && b - s >= contrast) isTrough = true;
       }
-      if (isRidge) ridge.push(intensity[p]);
-      if (isTrough) trough.push(intensity[p]);
+      if (isRidge) ridge.push(intensity[p]), ridgeIndex.push(p);
+      if (isTrough) trough.push(intensity[p]), troughIndex.push(p);
     }
   }
   const needed = Math.max(8, Math.round(0.001 * values.length));
@@ -88,5 +94,7 @@ export function findFringeExtremes(
     ridgePixels: ridge.length,
     troughPixels: trough.length,
     noise,
+    ridgeIndex: Int32Array.from(ridgeIndex),
+    troughIndex: Int32Array.from(troughIndex),
   };
 }

@@ -4,8 +4,10 @@
  * 1. Linear intensity per pixel (`lineIntensity.ts`); clipped pixels are `saturated`.
  * 2. Intensity scale: I = gain · R(h) + offset. From a calibration (exposure × mean white
  *    balance = intensity of a perfect reflector, mean flare = offset) or from the film's own
- *    brightest and darkest fringes (`fringeExtremes.ts`) matched to the table's extreme levels.
- *    With neither, the scale is unknown and the function throws.
+ *    brightest and darkest fringes (`fringeExtremes.ts`) matched to the table's extreme levels,
+ *    as a local envelope across the frame (`intensityEnvelope.ts`) so uneven lighting is
+ *    followed; the reported gain and offset are the whole-film medians. With neither, the scale
+ *    is unknown and the function throws.
  * 3. Fringe order: pixels whose fringes are too dense to count are set aside as ambiguous
  *    (`unresolvedFringes.ts`); the rest is split into zones and bands on the raw normalised level
  *    (`fringeSegments.ts`), counted from anchors, a black film or the assumed first order
@@ -22,6 +24,7 @@ import { boxMeanMasked } from './boxMean.js';
 import { filmMaskOf } from './filmMask.js';
 import { fillPixelBranches } from './fillPixelBranches.js';
 import { findFringeExtremes } from './fringeExtremes.js';
+import { intensityEnvelope } from './intensityEnvelope.js';
 import { findUnresolvedFringes } from './unresolvedFringes.js';
 import { classifyLevels, segmentFringes } from './fringeSegments.js';
 import { checkLineWavelength } from './isMonochromaticLight.js';
@@ -100,17 +103,33 @@ export function mapLineIntensity(
   const intensityMax = gain * table.levelMax + offset;
   const intensityMin = gain * table.levelMin + offset;
   const toLevel = 1 / (intensityMax - intensityMin);
+  const noiseLevel = extremes.noise * toLevel;
   const levelSmooth = new Float32Array(n);
   const levelWide = new Float32Array(n);
   const levelRaw = new Float32Array(n);
   const classSmooth = boxMeanMasked(light.intensity, width, height, usable, 1);
-  for (let p = 0; p < n; p++) {
-    levelSmooth[p] = (classSmooth[p] - intensityMin) * toLevel;
-    levelWide[p] = (smoothed[p] - intensityMin) * toLevel;
-    levelRaw[p] = (light.intensity[p] - intensityMin) * toLevel;
-  }
-  const noiseLevel = extremes.noise * toLevel;
+  const fillLevels = (envelopeMin: Float32Array | null, envelopeMax: Float32Array | null): void => {
+    for (let p = 0; p < n; p++) {
+      const lo = envelopeMin === null ? intensityMin : envelopeMin[p];
+      const hi = envelopeMax === null ? intensityMax : envelopeMax[p];
+      const toLevelHere = hi > lo ? 1 / (hi - lo) : toLevel;
+      levelSmooth[p] = (classSmooth[p] - lo) * toLevelHere;
+      levelWide[p] = (smoothed[p] - lo) * toLevelHere;
+      levelRaw[p] = (light.intensity[p] - lo) * toLevelHere;
+    }
+  };
+  // Dense (unresolved) fringes are found on the whole-film scale; then, unless a calibration fixes
+  // the scale, a local envelope from the fringe pixels outside them follows uneven lighting.
+  fillLevels(null, null);
   const unresolved = findUnresolvedFringes(levelRaw, levelSmooth, usable, width, height, noiseLevel);
+  if (fixed === null) {
+    const cellPx = Math.max(24, Math.round(Math.max(width, height) / 5));
+    const resolved = (list: Int32Array): Int32Array => list.filter((p) => !unresolved[p]);
+    fillLevels(
+      intensityEnvelope(resolved(extremes.troughIndex), light.intensity, width, height, cellPx, intensityMin),
+      intensityEnvelope(resolved(extremes.ridgeIndex), light.intensity, width, height, cellPx, intensityMax),
+    );
+  }
   const countable = new Uint8Array(n);
   let unresolvedCount = 0;
   for (let p = 0; p < n; p++) {
@@ -153,7 +172,7 @@ export function mapLineIntensity(
     else if (pixels.branch[p] >= table.branchCount) (status[p] = PixelStatus.tooThick), tooThick++;
     else if (firstKind === EXTREME_MIN && pixels.branch[p] === 0 && levelRaw[p] < darkLevel) status[p] = PixelStatus.dark;
     else {
-      const reflectance = (light.intensity[p] - offset) / gain;
+      const reflectance = table.levelMin + levelRaw[p] * levelSpan;
       thicknessNm[p] = thicknessOnBranch(table, pixels.branch[p], reflectance);
       const u = Math.min(1, Math.max(0, levelRaw[p]));
       confidence[p] = 2 * Math.sqrt(u * (1 - u));
