@@ -1,7 +1,6 @@
 /**
  * Planning a series: input expansion (files, folders, globs, natural order, duplicates), frame
- * times from EXIF or a frame rate, shard specs, chunking, settings fingerprints and the .npy
- * container for per-frame maps.
+ * times from EXIF or a frame rate, shard specs, chunking, and settings fingerprints.
  */
 import { describe, expect, it, beforeAll, afterAll } from 'vitest';
 import { mkdtemp, mkdir, rm, writeFile } from 'node:fs/promises';
@@ -13,7 +12,6 @@ import { assignFrameTimes } from '../src/series/frameTimes.js';
 import { parseShard } from '../src/series/parseShard.js';
 import { chunkFrames, shardChunks } from '../src/series/chunkFrames.js';
 import { canonicalJson, settingsHash } from '../src/series/settingsHash.js';
-import { decodeNpyFloat32, encodeNpyFloat32 } from '../src/series/npyFloat32.js';
 import type { FrameJob } from '../src/series/types.js';
 
 let dir: string;
@@ -141,28 +139,5 @@ describe('settingsHash()', () => {
     expect(settingsHash({ a: 1, b: 'x' })).toBe(settingsHash({ b: 'x', a: 1 }));
     expect(settingsHash({ a: 1, b: 'x' })).not.toBe(settingsHash({ a: 1, b: 'y' }));
     expect(settingsHash({})).toMatch(/^[0-9a-f]{16}$/);
-  });
-});
-
-describe('encodeNpyFloat32() / decodeNpyFloat32()', () => {
-  // NumPy format 1.0 (NEP 1; numpy.lib.format): header padded so magic+len+header is a multiple
-  // of 64 bytes. Bytes as written by np.save(np.array([[1.0]], dtype='<f4')), checked against NumPy 2.4.6 on the dev machine.
-  it('writes the header NumPy writes for a 1x1 float32 array', () => {
-    const bytes = encodeNpyFloat32(new Float32Array([1]), 1, 1);
-    expect(bytes.length).toBe(128 + 4);
-    expect(bytes.subarray(0, 10)).toEqual(Buffer.from([0x93, 0x4e, 0x55, 0x4d, 0x50, 0x59, 1, 0, 118, 0]));
-    expect(bytes.subarray(10, 69).toString('latin1')).toBe("{'descr': '<f4', 'fortran_order': False, 'shape': (1, 1), }");
-    expect(bytes[127]).toBe(0x0a);
-    expect(bytes.subarray(128)).toEqual(Buffer.from([0x00, 0x00, 0x80, 0x3f]));
-  });
-  it('round-trips a map with NaN', () => {
-    const data = new Float32Array([1.5, Number.NaN, -3, 1e6, 0, 7]);
-    const back = decodeNpyFloat32(encodeNpyFloat32(data, 2, 3));
-    expect(back.height).toBe(2);
-    expect(back.width).toBe(3);
-    expect([...back.data]).toEqual([...data]);
-  });
-  it('refuses a file that is not .npy', () => {
-    expect(() => decodeNpyFloat32(Buffer.from('hello world'), 'x.npy')).toThrow('x.npy: not a .npy file');
   });
 });

@@ -227,7 +227,7 @@ describe('runSeries() with a test-double mapper', () => {
   });
 
   it('throws a RangeError naming the inputs when they hold no frames', async () => {
-    await expect(runSeries(options(double([])))).rejects.toThrow(/inputs: no frames found in ".*in"/);
+    await expect(runSeries(options(double([])))).rejects.toThrow(/^inputs \/.*\/in: no image frames found \(input folder .*in holds no image files/);
   });
 
   it('throws a RangeError when frames have no EXIF time and neither fps nor interval is given', async () => {

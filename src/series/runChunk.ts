@@ -5,7 +5,7 @@
  * exactly as an uninterrupted one. A failing frame is reported and the next frame starts afresh.
  */
 import { readFile } from 'node:fs/promises';
-import { decodeNpyFloat32 } from './npyFloat32.js';
+import { decodeNpy } from '../io/decodeNpy.js';
 import { frameNpyPath, isFrameDone } from './frameFiles.js';
 import { frameRecordOf, writeFrameOutputs } from './writeFrameOutputs.js';
 import type { FrameEvent, FrameJob, FrameProcessor } from './types.js';
@@ -22,8 +22,10 @@ export interface ChunkContext {
 
 async function storedMap(outDir: string, frame: FrameJob, size: ChunkContext['expectedSize']): Promise<Float32Array | null> {
   try {
-    const npy = decodeNpyFloat32(await readFile(frameNpyPath(outDir, frame.stem)), frame.stem);
-    if (size && (npy.width !== size.width || npy.height !== size.height)) return null;
+    const npy = decodeNpy(await readFile(frameNpyPath(outDir, frame.stem)), frame.stem);
+    const [height, width] = npy.shape;
+    if (!(npy.data instanceof Float32Array) || npy.shape.length !== 2) return null;
+    if (size && (width !== size.width || height !== size.height)) return null;
     return npy.data;
   } catch {
     return null;

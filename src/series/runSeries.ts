@@ -71,12 +71,13 @@ export async function runSeries(options: SeriesOptions): Promise<SeriesResult> {
   const chunkSize = options.chunkFrames ?? DEFAULT_CHUNK_FRAMES;
   const expanded = await expandInputs(options.inputs, options.cwd);
   if (expanded.frames.length === 0) {
-    throw new RangeError(`inputs: no frames found in ${options.inputs.map((i) => JSON.stringify(i)).join(', ') || '(none given)'}${expanded.warnings.length ? ` (${expanded.warnings.join('; ')})` : ''}`);
+    const list = options.inputs.join(' ') || '(none given)';
+    throw new RangeError(`inputs ${list}: no image frames found${expanded.warnings.length ? ` (${expanded.warnings.join('; ')})` : ''}`);
   }
   const warnings = [...expanded.warnings];
   const probed = await probeFrames(expanded.frames, options.readHeader);
   const failures = [...probed.messages];
-  if (probed.readable.length === 0) throw new RangeError(`inputs: none of the ${expanded.frames.length} frames could be read (${failures[0]})`);
+  if (probed.readable.length === 0) throw new RangeError(`inputs ${options.inputs.join(' ')}: none of the ${expanded.frames.length} frames could be read (${failures[0]})`);
   const timing = assignFrameTimes(
     probed.readable.map(({ frame, header }) => ({ name: frame.name, exifTimeMs: header.exifTimeMs })),
     options.fps ?? null,

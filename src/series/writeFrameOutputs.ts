@@ -8,7 +8,7 @@ import { mkdir, readdir, rename, rm, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import { threadId } from 'node:worker_threads';
 import type { MapResult } from '../map/types.js';
-import { encodeNpyFloat32 } from './npyFloat32.js';
+import { encodeNpy } from '../io/encodeNpy.js';
 import { PARTIAL_PREFIX, framesDir } from './frameFiles.js';
 import type { FrameJob, FrameProcessor, FrameRecord } from './types.js';
 
@@ -42,7 +42,7 @@ export async function writeFrameOutputs(
   await rm(staging, { recursive: true, force: true });
   await mkdir(staging, { recursive: true });
   try {
-    await writeFile(join(staging, `${frame.stem}.thickness.npy`), encodeNpyFloat32(result.thicknessNm, result.height, result.width));
+    await writeFile(join(staging, `${frame.stem}.thickness.npy`), encodeNpy(result.thicknessNm, [result.height, result.width]));
     if (previews) await previews(result, frame.path, staging, frame.stem);
     const recordName = `${frame.stem}.json`;
     await writeFile(join(staging, recordName), `${JSON.stringify(record, null, 2)}\n`);

@@ -1,0 +1,151 @@
+/**
+ * `lamella series INPUT… --stack S --out OUT`: maps a photo series on worker threads with
+ * resume and shards, then aggregates `series.csv`, `series.json` (drainage fits) and `report.html`.
+ * Exit status 3 when any frame failed, 130/143 when interrupted by SIGINT/SIGTERM.
+ */
+import { availableParallelism } from 'node:os';
+import { Option, type Command } from 'commander';
+import { InputError, UsageError, EXIT_INPUT } from '../errors.js';
+import { addStackOptions, parseNumberOption, stackFromOptions, type StackCliOptions } from '../stackOptions.js';
+import { parseShard } from '../../series/parseShard.js';
+import { runSeries, DEFAULT_CHUNK_FRAMES } from '../../series/runSeries.js';
+import { readCalibration } from '../../series/readCalibration.js';
+import { MAP_FRAME_PROCESSOR_URL, type MapFrameConfig } from '../../series/mapFrameConfig.js';
+import { formatProgressBar, formatProgressLine } from '../../series/progressText.js';
+import { formatSeriesSummary } from '../../series/summaryText.js';
+import type { SeriesProgress } from '../../series/types.js';
+
+interface SeriesCliOptions extends StackCliOptions {
+  light: string;
+  fps?: string;
+  interval?: string;
+  calibration?: string;
+  thinBelow?: string;
+  maxThickness: string;
+  workers: string;
+  shard?: string;
+  chunkFrames: string;
+  aggregateOnly?: boolean;
+  previews?: boolean;
+  quiet?: boolean;
+  report: boolean;
+  out: string;
+}
+
+function positive(value: string | undefined, option: string, integer = false): number | null {
+  if (value === undefined) return null;
+  const n = parseNumberOption(value, option, integer ? 'a whole number >= 1' : 'a number > 0');
+  if (n <= 0 || (integer && !Number.isInteger(n))) throw new UsageError(`${option} must be ${integer ? 'a whole number >= 1' : 'a number > 0'}, received ${value}`);
+  return n;
+}
+
+function progressWriter(quiet: boolean): (p: SeriesProgress) => void {
+  if (quiet) return () => undefined;
+  const tty = process.stderr.isTTY === true;
+  let last = 0;
+  return (p) => {
+    const now = Date.now();
+    const final = p.done === p.total;
+    if (!final && now - last < (tty ? 100 : 5000)) return;
+    last = now;
+    if (tty) process.stderr.write(`\r${formatProgressBar(p)}${final ? '\n' : ''}`);
+    else process.stderr.write(`${formatProgressLine(p)}\n`);
+  };
+}
+
+async function run(inputs: string[], opts: SeriesCliOptions): Promise<void> {
+  const warn = (m: string) => !opts.quiet && process.stderr.write(`lamella: warning: ${m}\n`);
+  const fps = positive(opts.fps, '--fps');
+  const intervalS = positive(opts.interval, '--interval');
+  if (fps !== null && intervalS !== null) throw new UsageError('give --fps or --interval, not both');
+  const thinBelowNm = opts.thinBelow === undefined ? null : positive(opts.thinBelow, '--thin-below');
+  const maxThicknessNm = positive(opts.maxThickness, '--max-thickness')!;
+  const workers = positive(opts.workers, '--workers', true)!;
+  const chunkFrames = positive(opts.chunkFrames, '--chunk-frames', true)!;
+  let shard = null;
+  if (opts.shard !== undefined) {
+    try {
+      shard = parseShard(opts.shard);
+    } catch (error) {
+      throw new UsageError(`--shard ${(error as Error).message.replace(/^shard /, '')}`);
+    }
+  }
+  stackFromOptions(opts, { onWarning: warn });
+  const calibration = opts.calibration === undefined ? null : await readCalibration(opts.calibration);
+  const stackOptions: StackCliOptions = { stack: opts.stack, filmIndex: opts.filmIndex, angle: opts.angle, extrapolate: opts.extrapolate };
+  const config: MapFrameConfig = {
+    stackOptions,
+    light: opts.light,
+    whiteBalanceLight: null,
+    thinBelowNm,
+    maxThicknessNm,
+    filmIndexScale: calibration?.filmIndexScale ?? null,
+    exposureFixed: calibration?.exposureFixed ?? null,
+  };
+  const controller = new AbortController();
+  let signalName: NodeJS.Signals | null = null;
+  const onSignal = (name: NodeJS.Signals) => {
+    signalName = name;
+    controller.abort();
+  };
+  process.once('SIGINT', onSignal);
+  process.once('SIGTERM', onSignal);
+  const progress = progressWriter(opts.quiet === true);
+  let result;
+  try {
+    result = await runSeries({
+      inputs, outDir: opts.out, fps, intervalS, thinBelowNm, chunkFrames, workers, shard,
+      aggregateOnly: opts.aggregateOnly === true, previews: opts.previews === true, report: opts.report,
+      mapSettings: { ...stackOptions, light: opts.light, thinBelowNm, maxThicknessNm },
+      calibration: calibration?.raw ?? null,
+      processor: { moduleUrl: MAP_FRAME_PROCESSOR_URL, config },
+      signal: controller.signal,
+      onFrame: (event, p) => {
+        if (event.outcome === 'failed' && !opts.quiet) process.stderr.write(`${process.stderr.isTTY ? '\n' : ''}lamella: ${event.message}\n`);
+        progress(p);
+      },
+    });
+  } catch (error) {
+    if (error instanceof RangeError && error.message.startsWith(`inputs ${inputs.join(' ')}: `)) {
+      throw new InputError(inputs.join(' '), error.message.slice(`inputs ${inputs.join(' ')}: `.length));
+    }
+    if (error instanceof RangeError && /^frame times:/.test(error.message)) throw new UsageError(`${error.message.replace(/fps or intervalS$/, '--fps or --interval')}`);
+    throw error;
+  } finally {
+    process.off('SIGINT', onSignal);
+    process.off('SIGTERM', onSignal);
+  }
+  if (result.interrupted) {
+    process.stderr.write(`\nlamella: series interrupted by ${signalName ?? 'a signal'}; finished frames are kept, rerun the same command to resume\n`);
+    process.exitCode = signalName === 'SIGTERM' ? 143 : 130;
+    return;
+  }
+  const failedNow = new Set(result.events.filter((e) => e.outcome === 'failed').map((e) => e.message));
+  for (const w of result.warnings) warn(w);
+  for (const f of result.failures) if (!failedNow.has(f) && !opts.quiet) process.stderr.write(`lamella: ${f}\n`);
+  if (!opts.quiet) process.stdout.write(`${formatSeriesSummary(result).join('\n')}\n`);
+  if (result.failures.length > 0) process.exitCode = EXIT_INPUT;
+}
+
+export function register(program: Command): void {
+  const command = program
+    .command('series')
+    .description('thickness maps of a photo series (worker threads, resumable, shardable), drainage fits and a report')
+    .argument('<inputs...>', 'photos, folders of photos, or glob patterns; frames are taken in natural order of their names');
+  addStackOptions(command)
+    .option('--light <spec>', 'light the film is viewed under: D65, F11, blackbody:3200, line:546, or an SPD file', 'D65')
+    .option('--fps <n>', 'frames per second, for frames without an EXIF capture time')
+    .option('--interval <s>', 'seconds between frames, for frames without an EXIF capture time')
+    .option('--calibration <file>', 'JSON with fixed exposure, white balance and flare (skips their fit per frame)')
+    .option('--thin-below <nm>', 'thin threshold in nm for thin fraction, thin regions and predicted crossing times')
+    .option('--max-thickness <nm>', 'largest thickness considered, nm', '2000')
+    .option('--workers <n>', 'worker threads', String(availableParallelism()))
+    .option('--shard <K/N>', 'map only the K-th of N contiguous parts of the series (1-based), then aggregate what OUT holds')
+    .option('--chunk-frames <n>', 'frames per chunk: each chunk starts without a prior map; keep equal across shards', String(DEFAULT_CHUNK_FRAMES))
+    .option('--aggregate-only', 'map nothing; aggregate the per-frame results already in OUT (after shard runs)')
+    .option('--previews', 'also write <frame>.map.png and <frame>.flags.png per frame')
+    .option('--quiet', 'no progress display and no warnings')
+    .addOption(new Option('--no-report', 'do not write report.html'))
+    .requiredOption('--out <dir>', 'output folder')
+    .action((inputs: string[], opts: SeriesCliOptions) => run(inputs, opts));
+}

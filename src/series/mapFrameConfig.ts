@@ -1,0 +1,20 @@
+/**
+ * Settings of the real frame processor (./mapFrameProcessor.ts) as plain JSON, and the URL
+ * worker threads load it from. A stack holds functions and cannot cross a thread boundary, so
+ * each worker rebuilds it from the same CLI stack options.
+ */
+import type { StackCliOptions } from '../cli/stackOptions.js';
+import type { ExposureParameters } from '../map/types.js';
+
+export interface MapFrameConfig {
+  readonly stackOptions: StackCliOptions;
+  readonly light: string;
+  readonly whiteBalanceLight: string | null;
+  readonly thinBelowNm: number | null;
+  readonly maxThicknessNm: number;
+  readonly filmIndexScale: number | null;
+  readonly exposureFixed: ExposureParameters | null;
+}
+
+/** Module URL of the real processor, for `ProcessorSource.moduleUrl`. */
+export const MAP_FRAME_PROCESSOR_URL: string = new URL('./mapFrameProcessor.js', import.meta.url).href;
