@@ -48,6 +48,8 @@ export function renderMapSections(input: MapReportInput, name = 'input', options
   const cross = `<line class="cross-h" x1="0" x2="${W}" y1="0" y2="0" visibility="hidden"/><line class="cross-v" x1="0" x2="0" y1="0" y2="${H}" visibility="hidden"/>`;
   const profileLine = `<line class="profile-line" x1="${column + 0.5}" x2="${column + 0.5}" y1="0" y2="${H}"/>`;
   const marks = (inner: string) => `<svg class="marks" viewBox="0 0 ${W} ${H}" preserveAspectRatio="none" aria-hidden="true">${inner}</svg>`;
+  // keep a tall (portrait) photo within about one screen height
+  const fit = ` style="max-width: calc(78vh * ${(W / H).toFixed(4)})"`;
   const thinText = thin === null ? 'no thin threshold set' : `thin below ${formatNm(thin)}`;
 
   const notes: string[] = [];
@@ -67,8 +69,8 @@ export function renderMapSections(input: MapReportInput, name = 'input', options
 
   const view = `<section class="card" id="map-view"><h2>Photo and thickness map <span class="sub">${W} × ${H} px · ${escapeHtml(thinText)}</span></h2>
 <div class="pair">
-<figure><div class="stage photo"><img src="${photoUri}" alt="Photo"/>${marks(profileLine + cross)}</div><figcaption>Photo</figcaption></figure>
-<figure><div class="stage map"><img src="${mapUri}" alt="Thickness map"/>${marks(renderThinRegionOutlines(input.thinRegions) + profileLine + cross)}</div>`
+<figure${fit}><div class="stage photo"><img src="${photoUri}" alt="Photo"/>${marks(profileLine + cross)}</div><figcaption>Photo</figcaption></figure>
+<figure${fit}><div class="stage map"><img src="${mapUri}" alt="Thickness map"/>${marks(renderThinRegionOutlines(input.thinRegions) + profileLine + cross)}</div>`
     + `<figcaption>Thickness map; thin regions outlined; dashed line: profile column</figcaption></figure>
 </div>
 <div class="readout" id="readout" aria-live="polite"><span class="hint">Under the pointer:</span>`

@@ -25,7 +25,7 @@ nav.sections a { color: var(--accent); text-decoration: none; }
 nav.sections a:hover { text-decoration: underline; }
 main { max-width: 1280px; margin: 0 auto; padding: 18px 20px 40px; display: grid; gap: 18px; }
 section.card { background: var(--card); border: 1px solid var(--line); border-radius: 10px; padding: 16px 20px 18px; min-width: 0; }
-section.card > h2 { margin: 0 0 12px; font-size: 17px; font-weight: 650; color: var(--ink); display: flex; align-items: baseline; gap: 10px; }
+section.card > h2 { margin: 0 0 12px; font-size: 17px; font-weight: 650; color: var(--ink); display: flex; flex-wrap: wrap; align-items: baseline; gap: 2px 10px; }
 section.card > h2 .sub { font-size: 13px; font-weight: 400; color: var(--muted); }
 .two-col { display: grid; grid-template-columns: repeat(auto-fit, minmax(min(100%, 480px), 1fr)); gap: 18px; }
 .tiles { display: grid; grid-template-columns: repeat(auto-fit, minmax(150px, 1fr)); gap: 10px; }
@@ -36,6 +36,7 @@ section.card > h2 .sub { font-size: 13px; font-weight: 400; color: var(--muted);
 .tile.alert { border-left-color: var(--care); }
 .pair { display: grid; grid-template-columns: repeat(auto-fit, minmax(min(100%, 360px), 1fr)); gap: 14px; }
 figure { margin: 0; }
+.pair figure { width: 100%; margin: 0 auto; }
 figcaption { font-size: 13px; color: var(--muted); margin-top: 6px; }
 .stage { position: relative; line-height: 0; cursor: crosshair; background: #222; box-shadow: 0 1px 3px rgba(0, 0, 0, 0.25); }
 .stage img { display: block; width: 100%; height: auto; }
