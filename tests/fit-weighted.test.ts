@@ -154,6 +154,14 @@ describe('fitLeastSquares() degenerate problems and bounds', () => {
     expect(fit.warnings.join(' ')).toMatch(/parameter 1 ended at its upper bound/);
   });
 
+  it('says so when the iteration budget runs out (converged false plus a warning)', () => {
+    const x = Array.from({ length: 30 }, (_, i) => i / 3);
+    const y = x.map((v) => 5 * Math.exp(-v / 2) + 1);
+    const fit = fitLeastSquares({ x, y, model: (b) => (v) => b[0] * Math.exp(-v / b[1]) + b[2], initial: [1, 20, 0], maxIterations: 1 });
+    expect(fit.converged).toBe(false);
+    expect(fit.warnings.join(' ')).toMatch(/did not converge within 1 iterations/);
+  });
+
   it('reaches an exact fit with zero residual', () => {
     const x = [0, 1, 2, 3];
     const fit = fitLeastSquares({ x, y: x.map((v) => 3 - v), model: line, initial: [1, 1] });

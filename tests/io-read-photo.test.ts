@@ -11,7 +11,7 @@ import { tmpdir } from 'node:os';
 import { crc32, deflateSync } from 'node:zlib';
 import { join } from 'node:path';
 import sharp from 'sharp';
-import { MAX_PIXELS, readPhoto, readPhotoMetadata } from '../src/io/index.js';
+import { MAX_PIXELS, parseExifTime, readPhoto, readPhotoMetadata } from '../src/io/index.js';
 import { InputError } from '../src/cli/errors.js';
 
 let dir: string;
@@ -227,6 +227,21 @@ describe('readPhoto() and readPhotoMetadata() read the EXIF capture time', () =>
     const path = join(dir, 'untimed.png');
     await raw8([1, 2, 3], 1, 1, 3).png().toFile(path);
     expect((await readPhoto(path)).exif).toEqual({});
+  });
+});
+
+describe('readPhotoMetadata() errors and parseExifTime() robustness', () => {
+  it('readPhotoMetadata() names missing, empty and non-image files', async () => {
+    await expect(readPhotoMetadata(join(dir, 'absent.jpg'))).rejects.toThrow(/absent\.jpg: file not found/);
+    await writeFile(join(dir, 'zero.jpg'), '');
+    await expect(readPhotoMetadata(join(dir, 'zero.jpg'))).rejects.toThrow(/zero\.jpg: file is empty/);
+    await writeFile(join(dir, 'words.jpg'), 'not an image at all');
+    await expect(readPhotoMetadata(join(dir, 'words.jpg'))).rejects.toThrow(/words\.jpg: is not an image/);
+  });
+  it('parseExifTime() gives an empty record for absent or malformed EXIF instead of failing', () => {
+    expect(parseExifTime(undefined)).toEqual({});
+    expect(parseExifTime(Buffer.alloc(0))).toEqual({});
+    expect(parseExifTime(Buffer.from('Exif\0\0garbage that is not a TIFF header'))).toEqual({});
   });
 });
 
