@@ -12,7 +12,8 @@ import { renderMapReport, renderSeriesReport } from '../src/report/index.js';
 import { imageDataUri, sniffImageType } from '../src/report/imageDataUri.js';
 import { makeReportGrid } from '../src/report/makeReportGrid.js';
 import { cellIndexOfPixel, columnProfile } from '../src/report/reportGrid.js';
-import type { MapReportInput, SeriesReportInput } from '../src/report/types.js';
+import type { ThinRegion } from '../src/map/types.js';
+import type { MapReportInput, SeriesReportInput, ThinRegionRow } from '../src/report/types.js';
 import { makeMapInput, makeSeriesInput } from './report-fixtures.js';
 
 function embeddedJson(html: string, id: string): any {
@@ -64,6 +65,15 @@ describe('renderMapReport()', () => {
     expect(a).toContain('data-region="9" x="2" y="3" width="4" height="5"');
     const b = renderMapReport({ ...input, thinRegions: [{ id: 9, areaPx: 4, centroidX: 1, centroidY: 1, minThicknessNm: 5, bbox: [2, 3, 4, 5], bboxFormat: 'corners' }] });
     expect(b).toContain('data-region="9" x="2" y="3" width="3" height="3"');
+  });
+  it('accepts the map engine\'s ThinRegion records as rows (null area, readonly box) and prints — for the missing area', () => {
+    const fromMap: ThinRegion = { id: 4, areaPx: 12, areaUm2: null, centroidX: 5, centroidY: 6, minThicknessNm: 20, bbox: [3, 4, 5, 6] };
+    const withArea: ThinRegion = { ...fromMap, id: 5, areaUm2: 48 };
+    const rows: ThinRegionRow[] = [fromMap, withArea];
+    const text = renderMapReport({ ...input, thinRegions: rows });
+    expect(text).toContain('<th class="num">Area (µm²)</th>');
+    expect(text).toMatch(/<tr data-region="4">.*?<td class="num">—<\/td>/);
+    expect(text).toContain('data-region="5" x="3" y="4" width="5" height="6"');
   });
   it('says so when the grid is downsampled, and passes the caller note through escaped', async () => {
     const small = await makeMapInput({ originalWidth: 41, originalHeight: 21, step: 4, kind: 'ramp' });

@@ -73,7 +73,7 @@ export function renderMapSections(input: MapReportInput, name = 'input', options
 <figure${fit}><div class="stage map"><img src="${mapUri}" alt="Thickness map"/>${marks(renderThinRegionOutlines(input.thinRegions) + profileLine + cross)}</div>`
     + `<figcaption>Thickness map; thin regions outlined; dashed line: profile column</figcaption></figure>
 </div>
-<div class="readout" id="readout" aria-live="polite"><span class="hint">Under the pointer:</span>`
+<div class="readout" id="readout"><span class="hint">Under the pointer:</span>`
     + '<span>x <b id="readout-x">—</b> y <b id="readout-y">—</b> px</span>'
     + '<span>thickness <b id="readout-thickness">—</b></span><span>confidence <b id="readout-confidence">—</b></span>'
     + '<span id="readout-cell" class="muted"></span><span id="readout-flag" class="flag"></span></div>'

@@ -20,7 +20,8 @@ export interface ReportGrid {
 export interface ThinRegionRow {
   id: number;
   areaPx: number;
-  areaUm2?: number;
+  /** Widened from the brief's `number` to accept the map's `null` (no pixel size). */
+  areaUm2?: number | null;
   centroidX: number;
   centroidY: number;
   minThicknessNm: number | null;
@@ -28,7 +29,7 @@ export interface ThinRegionRow {
    * Bounding box in ORIGINAL image pixels. Read as `[x, y, width, height]` (as `region` in
    * `MapOptions`) unless `bboxFormat` says `'corners'` (`[xMin, yMin, xMax, yMax]`, inclusive).
    */
-  bbox: [number, number, number, number];
+  bbox: readonly [number, number, number, number];
   /** Optional: how to read `bbox`; default `'xywh'`. */
   bboxFormat?: 'xywh' | 'corners';
 }
