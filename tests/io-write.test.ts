@@ -21,6 +21,7 @@ import {
   writeImage,
 } from '../src/io/index.js';
 import { registerTempFile } from '../src/io/tempFiles.js';
+import { composeImagePng } from '../src/io/composeImage.js';
 import { InputError } from '../src/cli/errors.js';
 
 let dir: string;
@@ -112,6 +113,26 @@ describe('encodePng()/encodeJpeg() for embedding', () => {
     expect([...png.subarray(0, 8)]).toEqual([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]);
     const jpeg = await encodeJpeg(image, 80);
     expect([jpeg[0], jpeg[1]]).toEqual([0xff, 0xd8]);
+  });
+});
+
+describe('composeImagePng() places a raster on a canvas and draws SVG overlays on top', () => {
+  it('image at its offset, background elsewhere, overlay over both', async () => {
+    const image = { data: new Uint8Array(4 * 2 * 3).fill(0).map((_, i) => (i % 3 === 1 ? 200 : 0)), width: 4, height: 2, channels: 3 as const };
+    const overlay = '<svg xmlns="http://www.w3.org/2000/svg" width="10" height="6"><rect x="0" y="5" width="10" height="1" fill="#0000ff"/></svg>';
+    const png = await composeImagePng({ canvasWidth: 10, canvasHeight: 6, background: '#ffffff', image, imageLeft: 3, imageTop: 1, overlays: [overlay] });
+    const { data, info } = await sharp(png).removeAlpha().raw().toBuffer({ resolveWithObject: true });
+    expect([info.width, info.height]).toEqual([10, 6]);
+    const at = (x: number, y: number) => Array.from(data.subarray((y * 10 + x) * 3, (y * 10 + x) * 3 + 3));
+    expect(at(0, 0)).toEqual([255, 255, 255]);
+    expect(at(3, 1)).toEqual([0, 200, 0]);
+    expect(at(6, 2)).toEqual([0, 200, 0]);
+    expect(at(7, 2)).toEqual([255, 255, 255]);
+    expect(at(4, 5)).toEqual([0, 0, 255]);
+  });
+  it('refuses 16-bit data', async () => {
+    const image = { data: new Uint16Array(3), width: 1, height: 1, channels: 3 as const };
+    await expect(composeImagePng({ canvasWidth: 2, canvasHeight: 2, background: '#000', image, imageLeft: 0, imageTop: 0, overlays: [] })).rejects.toThrow(/8-bit images/);
   });
 });
 

@@ -22,6 +22,9 @@ export interface ComposeRequest {
 export async function composeImagePng(request: ComposeRequest): Promise<Buffer> {
   const { image } = request;
   checkRasterImage(image);
+  if (!(image.data instanceof Uint8Array)) {
+    throw new TypeError('composeImagePng() takes 8-bit images: image.data must be a Uint8Array, received Uint16Array');
+  }
   const picture = await sharp(new Uint8Array(image.data), {
     raw: { width: image.width, height: image.height, channels: image.channels },
   })

@@ -16,3 +16,4 @@ export { readThicknessGrid, type ReadThicknessGridOptions } from './readThicknes
 export { atomicWriteFile } from './atomicWriteFile.js';
 export { ensureOutputDir, assertNoInputOverwritten, type EnsureOutputDirOptions } from './ensureOutputDir.js';
 export { cleanupTempFiles, pendingTempFiles, removeTempFilesOnSignals } from './tempFiles.js';
+export { composeImagePng, type ComposeRequest } from './composeImage.js';
