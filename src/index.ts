@@ -4,3 +4,5 @@ export * from './optics/index.js';
 export * from './colour/index.js';
 export * from './io/index.js';
 export * from './fit/index.js';
+export { renderMapReport, renderSeriesReport, makeReportGrid } from './report/index.js';
+export type { MapReportInput, SeriesReportInput, ReportGrid, ThinRegionRow, SeriesFrameRow, DrainageFitSummary } from './report/index.js';
