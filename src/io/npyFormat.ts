@@ -7,8 +7,10 @@
  *   header: an ASCII (v3.0: UTF-8) Python dict literal with keys 'descr', 'fortran_order', 'shape',
  *   ended by '\n' and padded with spaces ·
  *   the array data, C order unless fortran_order is True.
- * Alignment: NEP 1 asked for the header to be padded so the data start at a multiple of 16 bytes;
- * NumPy since 1.14 pads to a multiple of 64 (format.py `ARRAY_ALIGN = 64`) and its docs now say 64.
+ * Alignment: NEP 1 asked for the header to be padded so the data start at a multiple of 16 bytes.
+ * The current format description (NumPy 2.4, numpy/lib/_format_impl.py, checked on the copy
+ * installed on our build machine) says "evenly divisible by 64" and sets ARRAY_ALIGN = 64; the
+ * release that moved from 16 to 64 was around 1.14 (from memory).
  * We WRITE 64-byte alignment (a multiple of 16 too, so both readings are met) and READ any padding.
  */
 
