@@ -112,6 +112,9 @@ describe.skipIf(!hasChromium)(`reports in headless Chromium${hasChromium ? '' : 
     expect(await page.textContent('#readout-x')).toBe('20');
     expect(await page.textContent('#readout-y')).toBe(String(row));
     expect(await page.textContent('#readout-thickness')).toBe(`${100 + 20 + 1000 * row} nm`);
+    // hovering a thin-region row highlights its outline on the map
+    await page.hover('tr[data-region="1"]');
+    expect(await page.getAttribute('.marks .region[data-region="1"]', 'class')).toContain('highlight');
     expectOffline(loaded);
     await page.close();
   });
