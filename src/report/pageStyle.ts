@@ -64,7 +64,7 @@ svg .grid { stroke: #e4e9e5; stroke-width: 1; }
 svg .axis, svg .tick { stroke: #56656b; stroke-width: 1; }
 svg .series-line { fill: none; stroke-width: 2; stroke-linejoin: round; }
 svg .ref-line { stroke-width: 1.5; }
-svg .ref-label { font-size: 11.5px; }
+svg .ref-label { font-size: 11.5px; paint-order: stroke; stroke: #fbfcfa; stroke-width: 3px; stroke-linejoin: round; }
 svg .band { opacity: 0.16; }
 svg .legend line { stroke-width: 2.5; }
 svg .legend text { font-size: 12px; fill: #26343a; }

@@ -47,7 +47,7 @@ export function renderHistogram(spec: HistogramSpec): string {
   const xDomain: [number, number] = n > 0 ? [Math.min(...xs), Math.max(...xs)] : [0, 1];
   const maxCount = n > 0 ? Math.max(...spec.counts) : 0;
   const yDomain = niceDomain(0, maxCount > 0 ? maxCount : 1, 5);
-  const frame = makeFrame(widthPx, heightPx, xDomain, [0, yDomain[1]]);
+  const frame = makeFrame(widthPx, heightPx, xDomain, [0, yDomain[1]], { left: 64, right: 18, top: 20, bottom: 48 });
   const parts = [openSvg(frame, spec.title, 'chart histogram', spec.id), renderAxes(frame, spec.xLabel, spec.yLabel), openPlotGroup(frame)];
   const base = yToPx(frame, 0);
   for (let i = 0; i < n; i++) {
@@ -61,7 +61,7 @@ export function renderHistogram(spec: HistogramSpec): string {
   for (const line of spec.verticalLines ?? []) {
     const x = px(xToPx(frame, line.value));
     parts.push(`<line class="ref-line" x1="${x}" x2="${x}" y1="${frame.top}" y2="${frame.top + frame.plotHeight}" stroke="${escapeHtml(line.colour)}" stroke-dasharray="6 4"/>`,
-      `<text class="ref-label" x="${x}" y="${frame.top + 12}" dx="4" fill="${escapeHtml(line.colour)}">${escapeHtml(line.label)}</text>`);
+      `<text class="ref-label" x="${x}" y="${frame.top - 3}" dx="4" fill="${escapeHtml(line.colour)}">${escapeHtml(line.label)}</text>`);
   }
   parts.push('</g></svg>');
   return parts.join('');
