@@ -43,7 +43,17 @@ function formatNm(value: number): string {
   return Number.isInteger(value) ? String(value) : value.toFixed(1);
 }
 
-export function chartSvg(table: ChartTable, labels: ChartLabels): string {
+interface ChartLayout {
+  readonly fromNm: number;
+  readonly toNm: number;
+  readonly stepNm: number;
+  readonly perRow: number;
+  readonly rows: number;
+  readonly pxPerNm: number;
+  readonly headerHeight: number;
+}
+
+function chartLayout(table: ChartTable, detailLines: number): ChartLayout {
   const d = table.thicknessesNm;
   const n = d.length;
   const fromNm = d[0];
@@ -51,10 +61,22 @@ export function chartSvg(table: ChartTable, labels: ChartLabels): string {
   const toNm = n > 1 ? d[n - 1] : fromNm + 1;
   const perRow = nmPerChartRow(toNm - fromNm);
   const rows = Math.max(1, Math.ceil((toNm - fromNm) / perRow - 1e-9));
-  const pxPerNm = BAND_WIDTH / perRow;
+  return { fromNm, toNm, stepNm, perRow, rows, pxPerNm: BAND_WIDTH / perRow, headerHeight: 66 + 20 * detailLines };
+}
+
+/** Pixel position (at density 72) of the middle of the swatch for `thicknessNm`: for tests and overlays. */
+export function chartSwatchCentre(table: ChartTable, detailLines: number, thicknessNm: number): { x: number; y: number } {
+  const { fromNm, perRow, rows, pxPerNm, headerHeight } = chartLayout(table, detailLines);
+  const row = Math.min(rows - 1, Math.floor((thicknessNm - fromNm) / perRow));
+  return { x: BAND_X + (thicknessNm - fromNm - row * perRow) * pxPerNm, y: headerHeight + row * ROW_HEIGHT + 30 + BAND_HEIGHT / 2 };
+}
+
+export function chartSvg(table: ChartTable, labels: ChartLabels): string {
+  const d = table.thicknessesNm;
+  const n = d.length;
+  const { fromNm, toNm, stepNm, perRow, rows, pxPerNm, headerHeight } = chartLayout(table, labels.details.length);
   const major = perRow / 5;
   const minor = major / 5;
-  const headerHeight = 66 + 20 * labels.details.length;
   const footerLines = [
     `Orders begin at successive minima of the luminance Y of the reflected light. Swatch colours are sRGB (IEC 61966-2-1), from a transfer-matrix film model.`,
     `Printers and screens shift colours: compare under the stated light and viewing angle. A visual chart is an estimate, not calibrated metrology;`,

@@ -1,0 +1,163 @@
+import { describe, expect, it } from 'vitest';
+import {
+  buildCamera,
+  checkPhotoFormation,
+  createNormal,
+  createSrgbEncoder,
+  encodeSrgb,
+  filmColourTable,
+  linearToSrgb8,
+  predictEncodedPixel,
+  resolveLight,
+  srgb8ToLinear,
+} from '../src/colour/index.js';
+import { resolveStack } from '../src/optics/index.js';
+import { chartTable } from '../src/render/chartTable.js';
+import { renderPhoto } from '../src/render/renderPhoto.js';
+
+const stack = resolveStack('oxide-on-silicon');
+const light = resolveLight('F11');
+
+describe('renderPhoto() against chartTable() (round trip within our own forward model)', () => {
+  it('a thickness ramp 0–1000 nm renders exactly the chart colours (8-bit codes within 1)', () => {
+    const width = 1001;
+    const ramp = new Float32Array(width).map((_, i) => i);
+    const { data, warnings } = renderPhoto(ramp, width, 1, { stack, light, angleRad: 0 });
+    const chart = chartTable({ stack, light, angleRad: 0, fromNm: 0, toNm: 1000, stepNm: 1 });
+    expect(warnings).toEqual([]);
+    let worst = 0;
+    for (let i = 0; i < width * 3; i++) worst = Math.max(worst, Math.abs(data[i] - chart.srgb8[i]));
+    expect(worst).toBeLessThanOrEqual(1);
+  });
+  it('between table rows the lookup matches a direct spectral computation within 0.5 of an 8-bit code', () => {
+    const thicknesses = [123.37, 456.789, 987.01];
+    const { data } = renderPhoto(Float32Array.from(thicknesses), 3, 1, { stack, light, angleRad: 0, bitDepth: 16 });
+    const camera = buildCamera({ light });
+    const direct = filmColourTable(stack, camera, Float64Array.from(thicknesses, (d) => Math.fround(d)), 0);
+    for (let i = 0; i < 9; i++) expect(Math.abs(data[i] / 257 - encodeSrgb(Math.min(1, Math.max(0, direct[i]))) * 255)).toBeLessThan(0.5);
+  });
+});
+
+describe('renderPhoto() edge cases', () => {
+  it('NaN pixels are black and counted in a warning', () => {
+    const map = Float32Array.of(100, Number.NaN, 200, Number.NaN);
+    const { data, warnings } = renderPhoto(map, 2, 2, { stack, light });
+    expect(warnings).toEqual(['2 pixels with no thickness (NaN) rendered black']);
+    expect(Array.from(data.slice(3, 6))).toEqual([0, 0, 0]);
+    expect(data[0] + data[1] + data[2]).toBeGreaterThan(0);
+  });
+  it('negative and infinite thicknesses are black and counted separately', () => {
+    const { warnings } = renderPhoto(Float32Array.of(-5, Number.POSITIVE_INFINITY, 50), 3, 1, { stack, light });
+    expect(warnings).toEqual(['2 pixels with negative or infinite thickness rendered black']);
+  });
+  it('an all-NaN map renders black without building a table', () => {
+    const { data, warnings } = renderPhoto(Float32Array.of(Number.NaN), 1, 1, { stack, light });
+    expect(Array.from(data)).toEqual([0, 0, 0]);
+    expect(warnings).toHaveLength(1);
+  });
+  it('a 1×1 map of one thickness works', () => {
+    const { data } = renderPhoto(Float32Array.of(300), 1, 1, { stack, light });
+    expect(data.length).toBe(3);
+  });
+  it('a size mismatch names the sizes', () => {
+    expect(() => renderPhoto(new Float32Array(5), 2, 2, { stack, light })).toThrow('thicknessNm must hold width × height = 4 values, received 5');
+  });
+  it('a Float64Array is refused with a TypeError', () => {
+    expect(() => renderPhoto(new Float64Array(4) as unknown as Float32Array, 2, 2, { stack, light })).toThrow(TypeError);
+  });
+  it('16-bit output agrees with 8-bit output (code/257 within 0.5 + rounding)', () => {
+    const ramp = new Float32Array(200).map((_, i) => i * 3);
+    const eight = renderPhoto(ramp, 200, 1, { stack, light }).data;
+    const sixteen = renderPhoto(ramp, 200, 1, { stack, light, bitDepth: 16 }).data;
+    expect(sixteen).toBeInstanceOf(Uint16Array);
+    for (let i = 0; i < eight.length; i++) expect(Math.abs(sixteen[i] / 257 - eight[i])).toBeLessThanOrEqual(0.51);
+  });
+});
+
+describe('photo formation (exposure, flare, white-balance gains, noise)', () => {
+  const flat = new Float32Array(40000).fill(250);
+  const base = renderPhoto(Float32Array.of(250), 1, 1, { stack, light, bitDepth: 16 }).data;
+  const linear = Array.from(base, (v) => srgb8ToLinear(v / 257));
+  it('exposure 0.5 halves every linear channel', () => {
+    const half = renderPhoto(Float32Array.of(250), 1, 1, { stack, light, bitDepth: 16, exposure: 0.5 }).data;
+    for (let c = 0; c < 3; c++) expect(srgb8ToLinear(half[c] / 257)).toBeCloseTo(linear[c] / 2, 4);
+  });
+  it('flare adds per channel in linear units', () => {
+    const lit = renderPhoto(Float32Array.of(250), 1, 1, { stack, light, bitDepth: 16, flare: [0.05, 0, 0.02] }).data;
+    expect(srgb8ToLinear(lit[0] / 257)).toBeCloseTo(linear[0] + 0.05, 4);
+    expect(srgb8ToLinear(lit[1] / 257)).toBeCloseTo(linear[1], 4);
+    expect(srgb8ToLinear(lit[2] / 257)).toBeCloseTo(linear[2] + 0.02, 4);
+  });
+  it('white-balance gains multiply each channel', () => {
+    const gained = renderPhoto(Float32Array.of(250), 1, 1, { stack, light, bitDepth: 16, whiteBalance: [1.2, 1, 0.8] }).data;
+    expect(srgb8ToLinear(gained[0] / 257)).toBeCloseTo(linear[0] * 1.2, 4);
+    expect(srgb8ToLinear(gained[2] / 257)).toBeCloseTo(linear[2] * 0.8, 4);
+  });
+  it('noise of σ = 0.01 gives a sample standard deviation of 0.01 ± 5 % in linear units; same seed, same image', () => {
+    const a = renderPhoto(flat, 200, 200, { stack, light, bitDepth: 16, noiseSigma: 0.01, seed: 7 }).data;
+    const b = renderPhoto(flat, 200, 200, { stack, light, bitDepth: 16, noiseSigma: 0.01, seed: 7 }).data;
+    const c = renderPhoto(flat, 200, 200, { stack, light, bitDepth: 16, noiseSigma: 0.01, seed: 8 }).data;
+    expect(Buffer.from(a.buffer).equals(Buffer.from(b.buffer))).toBe(true);
+    expect(Buffer.from(a.buffer).equals(Buffer.from(c.buffer))).toBe(false);
+    let sum = 0;
+    let sumSq = 0;
+    const n = flat.length;
+    for (let p = 0; p < n; p++) {
+      const v = srgb8ToLinear(a[p * 3 + 1] / 257);
+      sum += v;
+      sumSq += v * v;
+    }
+    const sd = Math.sqrt(sumSq / n - (sum / n) ** 2);
+    expect(Math.abs(sd / 0.01 - 1)).toBeLessThan(0.05);
+    expect(Math.abs(sum / n - linear[1])).toBeLessThan(0.0005);
+  });
+  it('checkPhotoFormation() fills defaults and names bad values', () => {
+    expect(checkPhotoFormation({})).toEqual({ exposure: 1, whiteBalance: [1, 1, 1], flare: [0, 0, 0] });
+    expect(checkPhotoFormation({ flare: 0.1 }).flare).toEqual([0.1, 0.1, 0.1]);
+    expect(() => checkPhotoFormation({ exposure: -1 })).toThrow('exposure must be a finite number > 0, received -1');
+    expect(() => checkPhotoFormation({ whiteBalance: [1, 0, 1] })).toThrow(/whiteBalance must be three finite gains > 0/);
+  });
+  it('predictEncodedPixel() is encode(clamp(exposure·gain·rgb + flare))', () => {
+    const out = new Float64Array(3);
+    const p = checkPhotoFormation({ exposure: 2, whiteBalance: [1, 1, 0.5], flare: [0, 0.1, 0] });
+    predictEncodedPixel([0.2, 0.3, 0.8], p, encodeSrgb, out);
+    expect(out[0]).toBeCloseTo(encodeSrgb(0.4), 12);
+    expect(out[1]).toBeCloseTo(encodeSrgb(0.7), 12);
+    expect(out[2]).toBeCloseTo(encodeSrgb(0.8), 12);
+  });
+});
+
+describe('createSrgbEncoder() (tabulated IEC 61966-2-1 curve)', () => {
+  it('agrees with the exact curve within 1e-6 everywhere (largest at the 0.0031308 junction), including the linear toe', () => {
+    const fast = createSrgbEncoder();
+    let worst = 0;
+    for (let i = 0; i <= 200000; i++) {
+      const v = i / 200000;
+      worst = Math.max(worst, Math.abs(fast(v) - encodeSrgb(v)));
+    }
+    for (let i = 0; i <= 10000; i++) worst = Math.max(worst, Math.abs(fast(i * 1e-6) - encodeSrgb(i * 1e-6)));
+    expect(worst).toBeLessThan(1e-6);
+  });
+  it('clamps below 0 and above 1', () => {
+    const fast = createSrgbEncoder();
+    expect(fast(-0.3)).toBe(0);
+    expect(fast(4)).toBeCloseTo(1, 12);
+    expect(linearToSrgb8(1)).toBe(255);
+  });
+});
+
+describe('createNormal() (Mulberry32 + Box–Muller)', () => {
+  it('has mean 0 and standard deviation 1 within sampling error over 100 000 draws', () => {
+    const normal = createNormal(42);
+    let sum = 0;
+    let sumSq = 0;
+    const n = 100000;
+    for (let i = 0; i < n; i++) {
+      const x = normal();
+      sum += x;
+      sumSq += x * x;
+    }
+    expect(Math.abs(sum / n)).toBeLessThan(0.015); // 4.7 standard errors
+    expect(Math.abs(Math.sqrt(sumSq / n) - 1)).toBeLessThan(0.01);
+  });
+});
