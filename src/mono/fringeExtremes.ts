@@ -3,8 +3,8 @@
  * normalisation Δ = (I − Imin)/(Imax − Imin) of the formula of Scheludko.
  *
  * A pixel lies on a bright fringe (ridge) when, along one of four directions, the smoothed
- * intensity is not below its two next neighbours and exceeds the values `distancePx` away on both
- * sides by a contrast well above the noise; dark fringes (troughs) likewise. A film that only
+ * intensity is not below its two next neighbours and exceeds the values 3 or 8 px away on both
+ * sides (two scales, for narrow and broad fringes) by a contrast well above the noise; dark fringes (troughs) likewise. A film that only
  * brightens towards the frame edge has no ridge, so an extreme is never guessed from the edge.
  * Thickness turning points (a dome or dimple between two extremes) also look like ridges or
  * troughs, but at intermediate levels: only ridges in the upper half and troughs in the lower half
@@ -44,7 +44,7 @@ export function findFringeExtremes(
   height: number,
   usable: Uint8Array,
   smoothingRadius: number,
-  distancePx = 3,
+  distancesPx: readonly number[] = [3, 8],
 ): FringeExtremes {
   const values: number[] = [];
   for (let p = 0; p < usable.length; p++) if (usable[p]) values.push(smoothed[p]);
@@ -63,8 +63,8 @@ export function findFringeExtremes(
   const trough: number[] = [];
   const ridgeIndex: number[] = [];
   const troughIndex: number[] = [];
-  for (let y = distancePx; y < height - distancePx; y++) {
-    for (let x = distancePx; x < width - distancePx; x++) {
+  for (let y = 1; y < height - 1; y++) {
+    for (let x = 1; x < width - 1; x++) {
       const p = y * width + x;
       if (!usable[p]) continue;
       const s = smoothed[p];
@@ -72,14 +72,22 @@ export function findFringeExtremes(
       let isTrough = false;
       for (const [dx, dy] of DIRECTIONS) {
         const step = dy * width + dx;
-        const far = distancePx * step;
-        if (!usable[p - far] || !usable[p + far] || !usable[p - step] || !usable[p + step]) continue;
+        if (!usable[p - step] || !usable[p + step]) continue;
         const a1 = smoothed[p - step];
         const b1 = smoothed[p + step];
-        const a = smoothed[p - far];
-        const b = smoothed[p + far];
-        if (s > mid && s >= a1 && s >= b1 && s - a >= contrast && s - b >= contrast) isRidge = true;
-        if (s < mid && s <= a1 && s <= b1 && a - s >= contrast && b - s >= contrast) isTrough = true;
+        const crest = s > mid && s >= a1 && s >= b1;
+        const bottom = s < mid && s <= a1 && s <= b1;
+        if (!crest && !bottom) continue;
+        // Broad fringes (gentle thickness gradients) only show their contrast further out.
+        for (const d of distancesPx) {
+          if (x - d * dx < 0 || x + d * dx >= width || y - d * Math.abs(dy) < 0 || y + d * Math.abs(dy) >= height) continue;
+          const far = d * step;
+          if (!usable[p - far] || !usable[p + far]) continue;
+          const a = smoothed[p - far];
+          const b = smoothed[p + far];
+          if (crest && s - a >= contrast && s - b >= contrast) isRidge = true;
+          if (bottom && a - s >= contrast && b - s >= contrast) isTrough = true;
+        }
       }
       if (isRidge) ridge.push(intensity[p]), ridgeIndex.push(p);
       if (isTrough) trough.push(intensity[p]), troughIndex.push(p);

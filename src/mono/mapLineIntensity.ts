@@ -25,7 +25,7 @@ import { filmMaskOf } from './filmMask.js';
 import { fillPixelBranches } from './fillPixelBranches.js';
 import { findFringeExtremes } from './fringeExtremes.js';
 import { intensityEnvelope } from './intensityEnvelope.js';
-import { findUnresolvedFringes } from './unresolvedFringes.js';
+import { denseFringesOnRange } from './unresolvedFringes.js';
 import { classifyLevels, segmentFringes } from './fringeSegments.js';
 import { checkLineWavelength } from './isMonochromaticLight.js';
 import { lineIntensityOf, type MonoPhoto } from './lineIntensity.js';
@@ -80,7 +80,17 @@ export function mapLineIntensity(
   }
   const smoothRadius = 2;
   const smoothed = boxMeanMasked(light.intensity, width, height, usable, smoothRadius);
-  const extremes = findFringeExtremes(light.intensity, smoothed, width, height, usable, smoothRadius);
+  const classSmooth = boxMeanMasked(light.intensity, width, height, usable, 1);
+  // Dense (unresolved) fringes first, on the robust range of the film's intensities, so their
+  // noise-like crests and troughs never enter the intensity scale.
+  const unresolved = denseFringesOnRange(light.intensity, classSmooth, smoothed, usable, width, height);
+  const countable = new Uint8Array(n);
+  let unresolvedCount = 0;
+  for (let p = 0; p < n; p++) {
+    if (unresolved[p]) unresolvedCount++;
+    else countable[p] = usable[p];
+  }
+  const extremes = findFringeExtremes(light.intensity, smoothed, width, height, countable, smoothRadius);
   const levelSpan = table.levelMax - table.levelMin;
   let gain: number;
   let offset: number;
@@ -104,37 +114,17 @@ export function mapLineIntensity(
   const intensityMin = gain * table.levelMin + offset;
   const toLevel = 1 / (intensityMax - intensityMin);
   const noiseLevel = extremes.noise * toLevel;
-  const levelSmooth = new Float32Array(n);
+  // Local envelope of the fringes (uneven lighting), unless a calibration fixes the scale.
+  const envelopeMin = fixed === null ? intensityEnvelope(extremes.troughIndex, light.intensity, width, height, intensityMin) : null;
+  const envelopeMax = fixed === null ? intensityEnvelope(extremes.ridgeIndex, light.intensity, width, height, intensityMax) : null;
   const levelWide = new Float32Array(n);
   const levelRaw = new Float32Array(n);
-  const classSmooth = boxMeanMasked(light.intensity, width, height, usable, 1);
-  const fillLevels = (envelopeMin: Float32Array | null, envelopeMax: Float32Array | null): void => {
-    for (let p = 0; p < n; p++) {
-      const lo = envelopeMin === null ? intensityMin : envelopeMin[p];
-      const hi = envelopeMax === null ? intensityMax : envelopeMax[p];
-      const toLevelHere = hi > lo ? 1 / (hi - lo) : toLevel;
-      levelSmooth[p] = (classSmooth[p] - lo) * toLevelHere;
-      levelWide[p] = (smoothed[p] - lo) * toLevelHere;
-      levelRaw[p] = (light.intensity[p] - lo) * toLevelHere;
-    }
-  };
-  // Dense (unresolved) fringes are found on the whole-film scale; then, unless a calibration fixes
-  // the scale, a local envelope from the fringe pixels outside them follows uneven lighting.
-  fillLevels(null, null);
-  const unresolved = findUnresolvedFringes(levelRaw, levelSmooth, usable, width, height, noiseLevel);
-  if (fixed === null) {
-    const cellPx = Math.max(24, Math.round(Math.max(width, height) / 5));
-    const resolved = (list: Int32Array): Int32Array => list.filter((p) => !unresolved[p]);
-    fillLevels(
-      intensityEnvelope(resolved(extremes.troughIndex), light.intensity, width, height, cellPx, intensityMin),
-      intensityEnvelope(resolved(extremes.ridgeIndex), light.intensity, width, height, cellPx, intensityMax),
-    );
-  }
-  const countable = new Uint8Array(n);
-  let unresolvedCount = 0;
   for (let p = 0; p < n; p++) {
-    if (unresolved[p]) unresolvedCount++;
-    else countable[p] = usable[p];
+    const lo = envelopeMin === null ? intensityMin : envelopeMin[p];
+    const hi = envelopeMax === null ? intensityMax : envelopeMax[p];
+    const toLevelHere = hi > lo ? 1 / (hi - lo) : toLevel;
+    levelWide[p] = (smoothed[p] - lo) * toLevelHere;
+    levelRaw[p] = (light.intensity[p] - lo) * toLevelHere;
   }
   const seg = segmentFringes(classifyLevels(levelRaw, countable, BAND_LEVEL), width, height, Math.max(6, Math.round(1e-4 * usableCount)));
   const firstKind = table.boundaryKind[0];

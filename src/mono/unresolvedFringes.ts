@@ -8,6 +8,7 @@
  * cut every path between zones through them. Threshold: our choice.
  */
 import { boxMeanMasked } from './boxMean.js';
+import { estimatePixelNoise } from './pixelNoise.js';
 
 export function findUnresolvedFringes(
   levelRaw: Float32Array,
@@ -38,4 +39,35 @@ export function findUnresolvedFringes(
     }
   }
   return widened;
+}
+
+/**
+ * Dense fringes found before the intensity scale is known: levels are taken on the robust range
+ * of the film (0.5th to 99.5th percentile of the 5 × 5 smoothed intensity).
+ */
+export function denseFringesOnRange(
+  intensity: Float32Array,
+  smoothed3: Float32Array,
+  smoothed5: Float32Array,
+  usable: Uint8Array,
+  width: number,
+  height: number,
+): Uint8Array {
+  const n = width * height;
+  const values: number[] = [];
+  for (let p = 0; p < n; p++) if (usable[p]) values.push(smoothed5[p]);
+  if (values.length === 0) return new Uint8Array(n);
+  const sorted = Float32Array.from(values).sort();
+  const low = sorted[Math.floor(0.005 * (sorted.length - 1))];
+  const high = sorted[Math.ceil(0.995 * (sorted.length - 1))];
+  if (!(high > low)) return new Uint8Array(n);
+  const scale = 1 / (high - low);
+  const levelRaw = new Float32Array(n);
+  const levelSmooth = new Float32Array(n);
+  for (let p = 0; p < n; p++) {
+    levelRaw[p] = (intensity[p] - low) * scale;
+    levelSmooth[p] = (smoothed3[p] - low) * scale;
+  }
+  const noiseLevel = estimatePixelNoise(intensity, width, height, usable) * scale;
+  return findUnresolvedFringes(levelRaw, levelSmooth, usable, width, height, noiseLevel);
 }
