@@ -5,6 +5,7 @@
 import { Command, CommanderError } from 'commander';
 import { commandModules } from './commands/index.js';
 import { EXIT_OK, EXIT_USAGE, exitCodeFor, oneLine } from './errors.js';
+import { removeTempFilesOnSignals } from '../io/tempFiles.js';
 
 export async function buildProgram(): Promise<Command> {
   const program = new Command();
@@ -28,6 +29,8 @@ export async function buildProgram(): Promise<Command> {
 /** Runs the CLI with a full argv (`process.argv`) and returns the exit status. */
 export async function run(argv: readonly string[]): Promise<number> {
   const debug = argv.includes('--debug');
+  // Ctrl-C / SIGTERM: remove half-written temp files, so no partial output is left behind.
+  removeTempFilesOnSignals();
   let program: Command;
   try {
     program = await buildProgram();

@@ -39,14 +39,16 @@ let installed = false;
 
 /**
  * Installs SIGINT/SIGTERM handlers that remove in-flight temp files and then exit with the
- * conventional status 128 + signal number (130 for SIGINT, 143 for SIGTERM; common practice).
- * Idempotent.
+ * conventional status 128 + signal number (130 for SIGINT, 143 for SIGTERM; common practice),
+ * unless another handler for the signal is installed (it then decides). Idempotent.
  */
 export function removeTempFilesOnSignals(): void {
   if (installed) return;
   installed = true;
   const handler = (signal: NodeJS.Signals): void => {
     cleanupTempFiles();
+    // A command with its own handler (e.g. series, which stops its workers first) exits itself.
+    if (process.listenerCount(signal) > 0) return;
     process.exit(signal === 'SIGINT' ? 130 : 143);
   };
   process.once('SIGINT', handler);

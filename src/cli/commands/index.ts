@@ -9,6 +9,7 @@ export type Register = (program: Command) => void;
 export const commandModules: ReadonlyArray<() => Promise<{ register: Register }>> = [
   // e.g. () => import('./spectrum.js'),
   () => import('./spectrum.js'),
+  () => import('./map.js'),
   () => import('./series.js'),
   () => import('./chart.js'),
   () => import('./render.js'),

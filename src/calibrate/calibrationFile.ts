@@ -1,0 +1,91 @@
+/**
+ * The calibration file written by `lamella calibrate` and read by `map` and `series`
+ * (`--calibration CAL.json`). Shape (JSON object):
+ *   lamella_calibration: 1
+ *   applies_to: { stack, light, white_balance_light, angle_deg, camera }
+ *   fitted: { exposure, whiteBalance: [r,g,b], flare: [r,g,b], filmIndexScale, angleDeg }
+ *   filmIndexScale (top level, same value), uncertainty, known_regions, photo, photo_size_px, warnings
+ * A calibration made for another stack or light is refused unless the user overrides.
+ */
+import { readFile } from 'node:fs/promises';
+import { InputError, UsageError } from '../cli/errors.js';
+import type { ExposureParameters } from '../map/types.js';
+
+export const CALIBRATION_VERSION = 1;
+
+export interface CalibrationForRun {
+  readonly exposureFixed: ExposureParameters;
+  readonly filmIndexScale: number | null;
+  readonly angleDeg: number | null;
+  readonly raw: Record<string, unknown>;
+}
+
+function finite(file: string, field: string, value: unknown, positive = false): number {
+  if (typeof value !== 'number' || !Number.isFinite(value) || (positive && value <= 0)) {
+    throw new InputError(file, `${field} must be a finite number${positive ? ' > 0' : ''}, received ${JSON.stringify(value)}`);
+  }
+  return value;
+}
+
+function triple(file: string, field: string, value: unknown): [number, number, number] {
+  if (!Array.isArray(value) || value.length !== 3) {
+    throw new InputError(file, `${field} must be an array of 3 finite numbers, received ${JSON.stringify(value)}`);
+  }
+  return [finite(file, `${field}[0]`, value[0]), finite(file, `${field}[1]`, value[1]), finite(file, `${field}[2]`, value[2])];
+}
+
+export async function readCalibrationFile(file: string): Promise<CalibrationForRun & { appliesTo: Record<string, unknown> }> {
+  let text: string;
+  try {
+    text = await readFile(file, 'utf8');
+  } catch (error) {
+    throw new InputError(file, `cannot read calibration file (${(error as NodeJS.ErrnoException).code ?? String(error)})`);
+  }
+  let raw: unknown;
+  try {
+    raw = JSON.parse(text);
+  } catch (error) {
+    throw new InputError(file, `calibration file is not valid JSON (${error instanceof Error ? error.message : String(error)})`);
+  }
+  if (raw === null || typeof raw !== 'object' || Array.isArray(raw)) throw new InputError(file, 'calibration must be a JSON object');
+  const record = raw as Record<string, unknown>;
+  const fitted = record.fitted;
+  if (fitted === null || typeof fitted !== 'object') throw new InputError(file, 'missing field "fitted" (an object with exposure, whiteBalance, flare)');
+  const f = fitted as Record<string, unknown>;
+  const scale = f.filmIndexScale ?? record.filmIndexScale;
+  const appliesTo = record.applies_to;
+  if (appliesTo === null || typeof appliesTo !== 'object') throw new InputError(file, 'missing field "applies_to" (stack, light, angle_deg)');
+  return {
+    exposureFixed: {
+      exposure: finite(file, 'fitted.exposure', f.exposure, true),
+      whiteBalance: triple(file, 'fitted.whiteBalance', f.whiteBalance),
+      flare: triple(file, 'fitted.flare', f.flare),
+    },
+    filmIndexScale: scale === undefined || scale === null ? null : finite(file, 'fitted.filmIndexScale', scale, true),
+    angleDeg: f.angleDeg === undefined || f.angleDeg === null ? null : finite(file, 'fitted.angleDeg', f.angleDeg),
+    raw: record,
+    appliesTo: appliesTo as Record<string, unknown>,
+  };
+}
+
+/** Reads a calibration and checks it was made for this stack and light. */
+export async function loadCalibrationForRun(
+  file: string,
+  run: { stack: string; light: string; angleRad: number; ignoreMismatch: boolean },
+): Promise<CalibrationForRun> {
+  const calibration = await readCalibrationFile(file);
+  const { appliesTo } = calibration;
+  if (!run.ignoreMismatch) {
+    if (appliesTo.stack !== run.stack) {
+      throw new UsageError(
+        `--calibration ${file} was made for stack '${String(appliesTo.stack)}', not '${run.stack}' (add --ignore-calibration-mismatch to use it anyway)`,
+      );
+    }
+    if (appliesTo.light !== run.light) {
+      throw new UsageError(
+        `--calibration ${file} was made for light '${String(appliesTo.light)}', not '${run.light}' (add --ignore-calibration-mismatch to use it anyway)`,
+      );
+    }
+  }
+  return calibration;
+}

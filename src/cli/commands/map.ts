@@ -1,0 +1,157 @@
+/**
+ * `lamella map PHOTO... --stack S --out DIR`: thickness maps from photos. Each photo is mapped
+ * and its outputs written atomically; a bad photo is reported and the others go on (exit 3 at
+ * the end). `--fail-if-thin` turns a thin region into exit status 1.
+ */
+import { Option, type Command } from 'commander';
+import { basename, extname, join } from 'node:path';
+import { EXIT_FINDING, EXIT_INPUT, oneLine } from '../errors.js';
+import { addStackOptions, parseNumberOption, stackFromOptions, type StackCliOptions } from '../stackOptions.js';
+import { collect, parseAnchor, parseRegion } from '../parseGeometry.js';
+import { UsageError } from '../errors.js';
+import { ensureOutputDir, assertNoInputOverwritten } from '../../io/ensureOutputDir.js';
+import { atomicWriteFile } from '../../io/atomicWriteFile.js';
+import { mapPhotoFile, writeMapOutputs, mapResultJson } from '../../map/mapPhoto.js';
+import { mapReportInput } from '../../map/mapReportInput.js';
+import { renderMapReport } from '../../report/index.js';
+import type { MapOptions } from '../../map/types.js';
+import { loadCalibrationForRun } from '../../calibrate/calibrationFile.js';
+import { mapIndexPage } from '../../map/mapIndexPage.js';
+
+interface MapCliOptions extends StackCliOptions {
+  light: string;
+  whiteBalance?: string;
+  thinBelow?: string;
+  region?: string;
+  mask?: string;
+  anchor?: string[];
+  maxThickness: string;
+  pixelSize?: string;
+  calibration?: string;
+  ignoreCalibrationMismatch?: boolean;
+  out: string;
+  json?: boolean;
+  report: boolean;
+  failIfThin?: boolean;
+  quiet?: boolean;
+}
+
+export const OUTPUT_SUFFIXES = ['.thickness.npy', '.thickness.tif', '.confidence.npy', '.map.png', '.flags.png', '.json', '.report.html'];
+
+export function register(program: Command): void {
+  const command = program
+    .command('map')
+    .description('map film thickness from colour photos; writes .npy/.tif maps, confidence, previews, JSON and an HTML report per photo')
+    .argument('<photo...>', 'photos (JPEG, PNG, TIFF; 8 or 16 bit)');
+  addStackOptions(command);
+  command
+    .option('--light <light>', 'light: D65, D50, A, F2, F7, F11, LED-B1…, blackbody:<K>, line:<nm>, or an SPD CSV file', 'D65')
+    .option('--white-balance <light>', 'the light the camera was white-balanced for, if not the light itself')
+    .option('--thin-below <nm>', 'thin (rupture-risk) threshold in nm (default 50 for soap-film, none otherwise)')
+    .addOption(new Option('--region <x,y,w,h>', 'measure only this rectangle (pixels)').conflicts('mask'))
+    .option('--mask <file>', 'measure only where this mask image is non-zero')
+    .option('--anchor <x,y=nm>', 'a pixel of known thickness (repeatable)', collect)
+    .option('--max-thickness <nm>', 'largest thickness considered', '2000')
+    .option('--pixel-size <um>', 'size of one pixel on the sample, micrometres (for areas and a scale bar)')
+    .option('--calibration <file>', 'photo-formation parameters from `lamella calibrate` instead of fitting them')
+    .option('--ignore-calibration-mismatch', 'use a calibration made for another stack or light')
+    .requiredOption('--out <dir>', 'output folder (created if missing)')
+    .option('--json', 'print the JSON record(s) on stdout')
+    .option('--no-report', 'do not write the HTML report')
+    .option('--fail-if-thin', 'exit with status 1 when any photo has a thin region')
+    .option('--quiet', 'print nothing but errors')
+    .action(async (photos: string[], opts: MapCliOptions) => {
+      process.exitCode = await runMap(photos, opts);
+    });
+}
+
+async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
+  const warn = (message: string): void => {
+    if (!opts.quiet) process.stderr.write(`lamella: warning: ${message}\n`);
+  };
+  const { stack, angleRad } = stackFromOptions(opts, { onWarning: warn });
+  const maxThicknessNm = parseNumberOption(opts.maxThickness, '--max-thickness', 'a number of nm > 0');
+  if (maxThicknessNm <= 0 || maxThicknessNm > 20000) throw new UsageError(`--max-thickness must be a number of nm in (0, 20000], received ${opts.maxThickness}`);
+  const thinBelowNm =
+    opts.thinBelow !== undefined
+      ? parseNumberOption(opts.thinBelow, '--thin-below', 'a number of nm >= 0')
+      : opts.stack === 'soap-film'
+        ? 50
+        : null;
+  if (thinBelowNm !== null && thinBelowNm < 0) throw new UsageError(`--thin-below must be a number of nm >= 0, received ${opts.thinBelow}`);
+  const pixelSizeUm = opts.pixelSize !== undefined ? parseNumberOption(opts.pixelSize, '--pixel-size', 'a number of micrometres > 0') : null;
+  if (pixelSizeUm !== null && pixelSizeUm <= 0) throw new UsageError(`--pixel-size must be a number of micrometres > 0, received ${opts.pixelSize}`);
+  const calibration = opts.calibration
+    ? await loadCalibrationForRun(opts.calibration, {
+        stack: opts.stack ?? '',
+        light: opts.light,
+        angleRad,
+        ignoreMismatch: opts.ignoreCalibrationMismatch === true,
+      })
+    : null;
+  const options: MapOptions = {
+    stack,
+    angleRad,
+    light: opts.light,
+    whiteBalanceLight: opts.whiteBalance ?? null,
+    filmIndexScale: calibration?.filmIndexScale ?? undefined,
+    thinBelowNm,
+    region: opts.region ? parseRegion(opts.region) : null,
+    maskPath: opts.mask ?? null,
+    anchors: (opts.anchor ?? []).map(parseAnchor),
+    maxThicknessNm,
+    pixelSizeUm,
+    exposureFixed: calibration?.exposureFixed ?? null,
+  };
+  const stems = photos.map((p) => basename(p, extname(p)));
+  const duplicate = stems.find((s, i) => stems.indexOf(s) !== i);
+  if (duplicate) throw new UsageError(`two photos share the name '${duplicate}': their outputs would collide; map them into different --out folders`);
+  const outDir = await ensureOutputDir(opts.out, {
+    inputs: [...photos, ...(opts.mask ? [opts.mask] : [])],
+    outputs: stems.flatMap((stem) => OUTPUT_SUFFIXES.map((suffix) => join(opts.out, stem + suffix))).concat(join(opts.out, 'report.html')),
+  });
+  assertNoInputOverwritten(photos, []);
+  let failed = 0;
+  let thin = 0;
+  const records: Record<string, unknown>[] = [];
+  const reports: Array<{ stem: string; file: string }> = [];
+  for (const [index, photo] of photos.entries()) {
+    const stem = stems[index];
+    try {
+      const result = await mapPhotoFile(photo, options);
+      await writeMapOutputs(result, photo, outDir, stem, { images: true, json: true, npy: true, tiff: true }, options);
+      if (opts.report) {
+        const html = renderMapReport({ ...(await mapReportInput(result, options, photo)), calibration: calibration?.raw ?? null });
+        const file = `${stem}.report.html`;
+        await atomicWriteFile(join(outDir, file), Buffer.from(html, 'utf8'));
+        reports.push({ stem, file });
+        if (photos.length === 1) await atomicWriteFile(join(outDir, 'report.html'), Buffer.from(html, 'utf8'));
+      }
+      const record = mapResultJson(result, options, photo);
+      records.push(record);
+      if (result.thinRegions.length > 0) thin++;
+      for (const warning of result.warnings) warn(`${photo}: ${warning}`);
+      if (!opts.json && !opts.quiet) process.stdout.write(`${summaryLine(photo, result)}\n`);
+    } catch (error) {
+      failed++;
+      process.stderr.write(`lamella: ${oneLine(error).startsWith(photo) ? '' : `${photo}: `}${oneLine(error)}\n`);
+    }
+  }
+  if (opts.report && photos.length > 1 && reports.length > 0) {
+    await atomicWriteFile(join(outDir, 'report.html'), Buffer.from(mapIndexPage(reports), 'utf8'));
+  }
+  if (opts.json) process.stdout.write(`${JSON.stringify(photos.length === 1 ? (records[0] ?? null) : records, null, 2)}\n`);
+  if (failed > 0) {
+    process.stderr.write(`lamella: ${failed} of ${photos.length} photo(s) failed\n`);
+    return EXIT_INPUT;
+  }
+  if (opts.failIfThin && thin > 0) return EXIT_FINDING;
+  return 0;
+}
+
+function summaryLine(photo: string, result: Awaited<ReturnType<typeof mapPhotoFile>>): string {
+  const s = result.stats;
+  const f = (v: number | null, d = 1): string => (v === null ? '–' : v.toFixed(d));
+  const thin = s.thin_fraction === null ? '' : `, thin ${f(s.thin_fraction * 100)} %`;
+  return `${photo}: median ${f(s.median_nm)} nm (p05 ${f(s.p05_nm)}, p95 ${f(s.p95_nm)}), coverage ${f(s.coverage * 100)} %${thin}, ${result.thinRegions.length} thin region(s), exposure ×${result.fitted.exposure.toFixed(2)}`;
+}

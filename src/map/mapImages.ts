@@ -1,0 +1,236 @@
+/**
+ * The two picture outputs of a map:
+ * - `<stem>.map.png`: the thickness map in the "strata" colour scale (colourScale.ts), with a
+ *   colour bar in nm beside it and, when the pixel size is known, a scale bar; too-dark pixels
+ *   ("thinner than the dark limit, or no film") are black, pixels without an estimate a flat grey;
+ * - `<stem>.flags.png`: the photo with the thin regions outlined in a saturated orange-red with
+ *   a dark edge, a pair that stands out on interference colours of any hue.
+ */
+import { composeImagePng } from '../io/composeImage.js';
+import { colourScaleBytes, SCALE_ENTRIES } from './colourScale.js';
+import { type MapResult, PixelStatus } from './types.js';
+
+const NO_ESTIMATE: readonly [number, number, number] = [128, 128, 128];
+const TOO_DARK: readonly [number, number, number] = [0, 0, 0];
+
+export interface ScaleRange {
+  readonly minNm: number;
+  readonly maxNm: number;
+}
+
+/** Colour-bar range: the 0.5th–99.5th percentile of the estimates, widened to round numbers. */
+export function scaleRangeOf(result: MapResult): ScaleRange {
+  const { thicknessNm, status } = result;
+  let n = 0;
+  for (let i = 0; i < status.length; i++) if (status[i] === PixelStatus.ok) n++;
+  if (n === 0) return { minNm: 0, maxNm: 100 };
+  const values = new Float32Array(n);
+  n = 0;
+  for (let i = 0; i < status.length; i++) if (status[i] === PixelStatus.ok) values[n++] = thicknessNm[i];
+  values.sort();
+  const lo = values[Math.floor(0.005 * (n - 1))];
+  const hi = values[Math.ceil(0.995 * (n - 1))];
+  const step = niceStep(Math.max(hi - lo, 1) / 5);
+  const minNm = Math.floor(lo / step) * step;
+  let maxNm = Math.ceil(hi / step) * step;
+  if (maxNm <= minNm) maxNm = minNm + step;
+  return { minNm, maxNm };
+}
+
+export function niceStep(raw: number): number {
+  const magnitude = Math.pow(10, Math.floor(Math.log10(raw)));
+  for (const f of [1, 2, 2.5, 5, 10]) if (f * magnitude >= raw) return f * magnitude;
+  return 10 * magnitude;
+}
+
+/** RGB bytes of the thickness map alone (no annotations). */
+export function mapRaster(result: MapResult, range: ScaleRange): Uint8Array {
+  const { thicknessNm, status } = result;
+  const scale = colourScaleBytes();
+  const out = new Uint8Array(status.length * 3);
+  const span = range.maxNm - range.minNm;
+  for (let i = 0; i < status.length; i++) {
+    const s = status[i];
+    let r: number;
+    let g: number;
+    let b: number;
+    if (s === PixelStatus.ok) {
+      let t = ((thicknessNm[i] - range.minNm) / span) * (SCALE_ENTRIES - 1);
+      t = t < 0 ? 0 : t > SCALE_ENTRIES - 1 ? SCALE_ENTRIES - 1 : t;
+      const k = Math.round(t) * 3;
+      r = scale[k];
+      g = scale[k + 1];
+      b = scale[k + 2];
+    } else if (s === PixelStatus.dark) [r, g, b] = TOO_DARK;
+    else if (s === PixelStatus.excluded) [r, g, b] = [255, 255, 255];
+    else [r, g, b] = NO_ESTIMATE;
+    out[i * 3] = r;
+    out[i * 3 + 1] = g;
+    out[i * 3 + 2] = b;
+  }
+  return out;
+}
+
+export async function renderMapPng(result: MapResult, range: ScaleRange, pixelSizeUm: number | null, title: string): Promise<Buffer> {
+  const { width, height } = result;
+  const unit = Math.max(12, Math.round(Math.min(width, height) / 28));
+  const margin = Math.round(unit * 0.8);
+  const barWidth = Math.round(unit * 1.4);
+  const panel = margin * 2 + barWidth + unit * 8;
+  const top = unit * 2;
+  const canvasWidth = width + margin + panel;
+  const canvasHeight = Math.max(height + top + margin, unit * 16);
+  const overlays = [colourBarSvg(canvasWidth, canvasHeight, width + margin * 2, top, barWidth, height, range, unit, result.darkLimitNm, title)];
+  if (pixelSizeUm !== null && pixelSizeUm > 0) overlays.push(scaleBarSvg(canvasWidth, canvasHeight, margin, top, width, height, pixelSizeUm, unit));
+  return composeImagePng({
+    canvasWidth,
+    canvasHeight,
+    background: '#ffffff',
+    image: { data: mapRaster(result, range), width, height, channels: 3 },
+    imageLeft: margin,
+    imageTop: top,
+    overlays,
+  });
+}
+
+function colourBarSvg(
+  canvasWidth: number,
+  canvasHeight: number,
+  left: number,
+  top: number,
+  barWidth: number,
+  barHeight: number,
+  range: ScaleRange,
+  unit: number,
+  darkLimitNm: number,
+  title: string,
+): string {
+  const scale = colourScaleBytes();
+  const stops: string[] = [];
+  // Top of the bar = thickest; SVG gradient stops must come in increasing offset.
+  for (let s = 32; s >= 0; s--) {
+    const k = Math.round((s / 32) * (SCALE_ENTRIES - 1)) * 3;
+    const hex = `#${[scale[k], scale[k + 1], scale[k + 2]].map((v) => v.toString(16).padStart(2, '0')).join('')}`;
+    stops.push(`<stop offset="${(100 - (s / 32) * 100).toFixed(2)}%" stop-color="${hex}"/>`);
+  }
+  const step = niceStep((range.maxNm - range.minNm) / 6);
+  const ticks: string[] = [];
+  const first = Math.ceil(range.minNm / step);
+  for (let i = first; i * step <= range.maxNm + 1e-9; i++) {
+    const nm = i * step;
+    const y = top + barHeight - ((nm - range.minNm) / (range.maxNm - range.minNm)) * barHeight;
+    ticks.push(
+      `<line x1="${left + barWidth}" y1="${y.toFixed(1)}" x2="${left + barWidth + unit * 0.4}" y2="${y.toFixed(1)}" stroke="#222" stroke-width="1"/>` +
+        `<text x="${left + barWidth + unit * 0.6}" y="${(y + unit * 0.35).toFixed(1)}">${formatNm(nm)}</text>`,
+    );
+  }
+  const legendY = Math.min(canvasHeight - unit * 1.2, top + barHeight + unit * 1.4);
+  const escapedTitle = escapeXml(title);
+  return `<svg xmlns="http://www.w3.org/2000/svg" width="${canvasWidth}" height="${canvasHeight}" font-family="DejaVu Sans, sans-serif" font-size="${unit * 0.8}" fill="#222">
+<defs><linearGradient id="bar" x1="0" y1="0" x2="0" y2="1">${stops.join('')}</linearGradient></defs>
+<text x="${unit * 0.8}" y="${unit * 1.3}" font-size="${unit}" font-weight="bold">${escapedTitle}</text>
+<rect x="${left}" y="${top}" width="${barWidth}" height="${barHeight}" fill="url(#bar)" stroke="#222" stroke-width="1"/>
+<text x="${left}" y="${top - unit * 0.4}">nm</text>
+${ticks.join('\n')}
+<rect x="${left}" y="${legendY - unit * 0.7}" width="${unit * 0.8}" height="${unit * 0.8}" fill="#000"/>
+<text x="${left + unit}" y="${legendY}" font-size="${unit * 0.6}">&lt; ${formatNm(darkLimitNm)} nm or no film</text>
+<rect x="${left}" y="${legendY + unit * 0.4}" width="${unit * 0.8}" height="${unit * 0.8}" fill="rgb(128,128,128)"/>
+<text x="${left + unit}" y="${legendY + unit * 1.1}" font-size="${unit * 0.6}">no estimate</text>
+</svg>`;
+}
+
+function scaleBarSvg(
+  canvasWidth: number,
+  canvasHeight: number,
+  left: number,
+  top: number,
+  width: number,
+  height: number,
+  pixelSizeUm: number,
+  unit: number,
+): string {
+  const targetUm = (width * pixelSizeUm) / 5;
+  const lengthUm = niceStep(targetUm);
+  const lengthPx = lengthUm / pixelSizeUm;
+  const label = lengthUm >= 1000 ? `${formatNm(lengthUm / 1000)} mm` : `${formatNm(lengthUm)} µm`;
+  const x = left + unit * 0.6;
+  const y = top + height - unit * 0.9;
+  return `<svg xmlns="http://www.w3.org/2000/svg" width="${canvasWidth}" height="${canvasHeight}" font-family="DejaVu Sans, sans-serif" font-size="${unit * 0.7}">
+<rect x="${x - unit * 0.3}" y="${y - unit * 1.2}" width="${lengthPx + unit * 0.6}" height="${unit * 1.7}" fill="#ffffff" fill-opacity="0.8" rx="3"/>
+<rect x="${x}" y="${y}" width="${lengthPx.toFixed(1)}" height="${Math.max(3, unit * 0.25)}" fill="#111"/>
+<text x="${x}" y="${y - unit * 0.25}" fill="#111">${label}</text>
+</svg>`;
+}
+
+function formatNm(value: number): string {
+  return Number.isInteger(value) ? String(value) : value.toFixed(Math.abs(value) < 10 ? 1 : 0);
+}
+
+function escapeXml(text: string): string {
+  return text.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
+}
+
+/** The photo (encoded 0..1 RGB) with the outlines of labelled thin regions. */
+export async function renderFlagsPng(rgb: Float32Array, width: number, height: number, labels: Int32Array): Promise<Buffer> {
+  const out = new Uint8Array(width * height * 3);
+  for (let i = 0; i < width * height * 3; i++) out[i] = Math.round(rgb[i] * 255);
+  const thickness = Math.max(1, Math.round(Math.min(width, height) / 300));
+  const edge = new Uint8Array(width * height);
+  for (let y = 0; y < height; y++) {
+    for (let x = 0; x < width; x++) {
+      const i = y * width + x;
+      if (labels[i] === 0) continue;
+      const l = labels[i];
+      if (
+        x === 0 || y === 0 || x === width - 1 || y === height - 1 ||
+        labels[i - 1] !== l || labels[i + 1] !== l || labels[i - width] !== l || labels[i + width] !== l
+      ) edge[i] = 1;
+    }
+  }
+  // Dilate the edge by `thickness` pixels outwards and inwards; dark rim one pixel further.
+  const paint = (i: number, r: number, g: number, b: number): void => {
+    out[i * 3] = r;
+    out[i * 3 + 1] = g;
+    out[i * 3 + 2] = b;
+  };
+  const rim = thickness + 1;
+  for (let y = 0; y < height; y++) {
+    for (let x = 0; x < width; x++) {
+      if (!edge[y * width + x]) continue;
+      for (let dy = -rim; dy <= rim; dy++) {
+        for (let dx = -rim; dx <= rim; dx++) {
+          const nx = x + dx;
+          const ny = y + dy;
+          if (nx < 0 || ny < 0 || nx >= width || ny >= height) continue;
+          const d = Math.max(Math.abs(dx), Math.abs(dy));
+          const j = ny * width + nx;
+          if (d <= thickness) paint(j, 255, 64, 16);
+          else if (!edge[j]) paint(j, 20, 20, 20);
+        }
+      }
+    }
+  }
+  // Re-paint the core so the dark rim never covers the bright line.
+  for (let y = 0; y < height; y++) {
+    for (let x = 0; x < width; x++) {
+      if (!edge[y * width + x]) continue;
+      for (let dy = -thickness; dy <= thickness; dy++) {
+        for (let dx = -thickness; dx <= thickness; dx++) {
+          const nx = x + dx;
+          const ny = y + dy;
+          if (nx < 0 || ny < 0 || nx >= width || ny >= height) continue;
+          paint(ny * width + nx, 255, 64, 16);
+        }
+      }
+    }
+  }
+  return composeImagePng({
+    canvasWidth: width,
+    canvasHeight: height,
+    background: '#000000',
+    image: { data: out, width, height, channels: 3 },
+    imageLeft: 0,
+    imageTop: 0,
+    overlays: [],
+  });
+}

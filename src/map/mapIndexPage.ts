@@ -1,0 +1,12 @@
+/** A small self-contained index page linking the per-photo reports of a multi-photo map run. */
+export function mapIndexPage(reports: ReadonlyArray<{ stem: string; file: string }>): string {
+  const escape = (t: string): string => t.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
+  const items = reports.map((r) => `<li><a href="${encodeURI(r.file)}">${escape(r.stem)}</a></li>`).join('\n');
+  return `<!doctype html>
+<html lang="en"><head><meta charset="utf-8"><title>Lamella thickness maps</title>
+<style>body{font:16px/1.5 system-ui,sans-serif;margin:2rem auto;max-width:40rem;color:#1d2530}a{color:#0b5e6b}</style></head>
+<body><h1>Thickness maps</h1><p>One report per photo:</p><ul>
+${items}
+</ul><p><small>Thickness maps from photographs are estimates: not a substitute for qualified metrology (ellipsometry, reflectometry, profilometry) for release or safety decisions.</small></p></body></html>
+`;
+}

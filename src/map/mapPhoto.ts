@@ -1,0 +1,193 @@
+/**
+ * File-level entry points of the mapper: read a photo, map it (colour mode, or the
+ * monochromatic mode for a single-line light), and write every output atomically.
+ *
+ * Outputs for `<stem>` in the output folder:
+ *   <stem>.thickness.npy (float32 nm, NaN = no estimate), <stem>.thickness.tif (float32),
+ *   <stem>.confidence.npy, <stem>.map.png, <stem>.flags.png, <stem>.json, and the report.
+ */
+import { basename } from 'node:path';
+import { join } from 'node:path';
+import { resolveLight } from '../colour/index.js';
+import { InputError } from '../cli/errors.js';
+import { readPhoto } from '../io/readPhoto.js';
+import { writeNpy } from '../io/encodeNpy.js';
+import { writeFloatTiff } from '../io/encodeFloatTiff.js';
+import { atomicWriteFile } from '../io/atomicWriteFile.js';
+import type { Photo } from '../io/photo.js';
+import { isMonochromaticLight, mapMonochromatic } from '../mono/index.js';
+import { type BuiltColourTable, buildColourTable } from './buildColourTable.js';
+import { buildFilmMask } from './filmMask.js';
+import { mapPixels } from './mapPixels.js';
+import { renderFlagsPng, renderMapPng, scaleRangeOf } from './mapImages.js';
+import { findThinRegions } from './thinRegions.js';
+import type { MapOptions, MapResult } from './types.js';
+import { mapResultJson } from './mapResultJson.js';
+
+export { mapResultJson } from './mapResultJson.js';
+
+/** A map plus what is needed to write its outputs. */
+export type MappedPhoto = MapResult & {
+  /** The decoded photo's encoded RGB (for the flags image and the report). */
+  readonly photoRgb?: Float32Array;
+  readonly extra?: Record<string, unknown>;
+};
+
+const tableCache = new Map<string, BuiltColourTable>();
+
+/** Builds (once per distinct setting, per thread) the colour table a map needs. */
+export function colourTableFor(options: MapOptions): BuiltColourTable {
+  const key = JSON.stringify([
+    options.stack.name,
+    options.stack.layers.map((l) => [l.material.name, l.thicknessNm]),
+    options.stack.substrate.name,
+    options.light,
+    options.whiteBalanceLight ?? null,
+    options.angleRad,
+    options.filmIndexScale ?? 1,
+    options.maxThicknessNm,
+  ]);
+  let built = tableCache.get(key);
+  if (!built) {
+    built = buildColourTable({
+      stack: options.stack,
+      angleRad: options.angleRad,
+      light: options.light,
+      whiteBalanceLight: options.whiteBalanceLight,
+      filmIndexScale: options.filmIndexScale,
+      maxThicknessNm: options.maxThicknessNm,
+    });
+    if (tableCache.size > 8) tableCache.clear();
+    tableCache.set(key, built);
+  }
+  return built;
+}
+
+/** The line wavelength when the light is a single spectral line, else null. */
+export function lineOfLight(spec: string): number | null {
+  const direct = isMonochromaticLight(spec);
+  if (direct !== null) return direct;
+  const light = resolveLight(spec);
+  if (light.kind === 'line') return light.lineNm ?? null;
+  return isMonochromaticLight({ wavelengthsNm: light.wavelengthsNm, values: light.relativeSpd });
+}
+
+export async function readMask(path: string, width: number, height: number): Promise<Uint8Array> {
+  const mask = await readPhoto(path);
+  if (mask.width !== width || mask.height !== height) {
+    throw new InputError(path, `mask is ${mask.width}×${mask.height} but the photo is ${width}×${height}`);
+  }
+  const out = new Uint8Array(width * height);
+  for (let i = 0; i < out.length; i++) {
+    out[i] = mask.rgb[i * 3] + mask.rgb[i * 3 + 1] + mask.rgb[i * 3 + 2] > 0 ? 1 : 0;
+  }
+  return out;
+}
+
+/** Maps one decoded photo. */
+export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Array | null, source: string): MappedPhoto {
+  const lineNm = lineOfLight(options.light);
+  if (lineNm !== null) {
+    const result = mapMonochromatic(photo, options, lineNm, mask);
+    return { ...result, photoRgb: photo.rgb };
+  }
+  if (photo.isGrey) {
+    throw new InputError(
+      source,
+      'is a grey-scale photo: it holds no colour information to map. Give a single-line light (e.g. --light line:546) to map it by intensity',
+    );
+  }
+  const built = colourTableFor(options);
+  const film = buildFilmMask(photo.width, photo.height, options.region, mask, photo.alpha);
+  const result = mapPixels({
+    rgb: photo.rgb,
+    width: photo.width,
+    height: photo.height,
+    film,
+    table: built.table,
+    orderPeriodNm: built.orderPeriodNm,
+    thinBelowNm: options.thinBelowNm,
+    pixelSizeUm: options.pixelSizeUm ?? null,
+    anchors: options.anchors,
+    prior: options.prior ?? null,
+    exposureFixed: options.exposureFixed ?? null,
+  });
+  return {
+    ...result,
+    photoRgb: photo.rgb,
+    extra: {
+      camera: built.camera.description,
+      order_period_nm: built.orderPeriodNm,
+      noise_sigma: result.noiseSigma,
+      washout_nm: result.washoutNm,
+      no_estimate_reasons: result.ambiguousReasons,
+      fit: result.fit
+        ? { standard_errors: result.fit.standardErrors, rms_residual: result.fit.rmsResidual, samples_used: result.fit.samplesUsed }
+        : null,
+    },
+  };
+}
+
+export async function mapPhotoFile(path: string, options: MapOptions): Promise<MappedPhoto> {
+  const photo = await readPhoto(path);
+  const mask = options.maskPath ? await readMask(options.maskPath, photo.width, photo.height) : null;
+  if (options.prior && options.prior.length !== photo.width * photo.height) {
+    throw new InputError(path, `frame is ${photo.width}×${photo.height}, a different size from the previous frame`);
+  }
+  return mapDecodedPhoto(photo, options, mask, path);
+}
+
+export interface OutputSelection {
+  readonly images: boolean;
+  readonly json: boolean;
+  readonly npy: boolean;
+  readonly tiff: boolean;
+}
+
+/**
+ * Writes the selected outputs of a map atomically; returns the paths written. `options` is
+ * needed for the JSON record.
+ */
+export async function writeMapOutputs(
+  result: MappedPhoto,
+  photoPath: string,
+  outDir: string,
+  stem: string,
+  what: OutputSelection,
+  options?: MapOptions,
+): Promise<string[]> {
+  const written: string[] = [];
+  const { width, height } = result;
+  if (what.npy) {
+    const thicknessPath = join(outDir, `${stem}.thickness.npy`);
+    await writeNpy(thicknessPath, result.thicknessNm, [height, width]);
+    const confidencePath = join(outDir, `${stem}.confidence.npy`);
+    await writeNpy(confidencePath, result.confidence, [height, width]);
+    written.push(thicknessPath, confidencePath);
+  }
+  if (what.tiff) {
+    const tiffPath = join(outDir, `${stem}.thickness.tif`);
+    await writeFloatTiff(tiffPath, result.thicknessNm, width, height);
+    written.push(tiffPath);
+  }
+  if (what.images) {
+    const range = scaleRangeOf(result);
+    const mapPath = join(outDir, `${stem}.map.png`);
+    await atomicWriteFile(mapPath, await renderMapPng(result, range, options?.pixelSizeUm ?? null, `${basename(photoPath)} — thickness`));
+    written.push(mapPath);
+    if (result.photoRgb) {
+      const labels = findThinRegions(result.thicknessNm, result.status, width, height, options?.thinBelowNm ?? null, null).labels;
+      const flagsPath = join(outDir, `${stem}.flags.png`);
+      await atomicWriteFile(flagsPath, await renderFlagsPng(result.photoRgb, width, height, labels));
+      written.push(flagsPath);
+    }
+  }
+  if (what.json) {
+    if (!options) throw new TypeError('writeMapOutputs: options are required to write the JSON record');
+    const jsonPath = join(outDir, `${stem}.json`);
+    const record = mapResultJson(result, options, photoPath);
+    await atomicWriteFile(jsonPath, Buffer.from(`${JSON.stringify(record, null, 2)}\n`, 'utf8'));
+    written.push(jsonPath);
+  }
+  return written;
+}
