@@ -66,7 +66,7 @@ describe.skipIf(!hasChromium)(`reports in headless Chromium${hasChromium ? '' : 
     if (!box) throw new Error(`no box for ${selector}`);
     await page.mouse.move(box.x + ((x + 0.5) / W) * box.width, box.y + ((y + 0.5) / H) * box.height);
     const readout: Record<string, string> = {};
-    for (const k of ['x', 'y', 'thickness', 'confidence', 'cell']) readout[k] = (await page.textContent(`#readout-${k}`)) ?? '';
+    for (const k of ['x', 'y', 'thickness', 'confidence', 'cell', 'status']) readout[k] = (await page.textContent(`#readout-${k}`)) ?? '';
     return readout;
   }
 
@@ -90,11 +90,13 @@ describe.skipIf(!hasChromium)(`reports in headless Chromium${hasChromium ? '' : 
         expect(r.thickness).toBe(`${100 + x + 1000 * y} nm`);
         expect(r.confidence).toBe(rampConfidence(x, y).toFixed(2));
         expect(r.cell).toBe('full resolution');
+        expect(r.status).toBe('');
       }
     }
     const nan = await pointAt(page, '.stage.map img', 3, 2, W, H);
     expect(Number.isNaN(rampThickness(3, 2))).toBe(true);
     expect(nan.thickness).toBe('no estimate');
+    expect(nan.status).toContain('too dark'); // status code 1 = PixelStatus.dark in src/map/types.ts
     // clicking moves the profile to that column
     const box = (await page.locator('.stage.map img').boundingBox())!;
     await page.mouse.click(box.x + (20.5 / W) * box.width, box.y + box.height / 2);

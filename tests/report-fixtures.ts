@@ -26,21 +26,26 @@ export async function pngOf(width: number, height: number, rgbAt: (x: number, y:
 
 /** Grid of `originalWidth × originalHeight` pixels downsampled by `step`; a cell holds f(x0, y0) of its top-left pixel. */
 export function gridFrom(originalWidth: number, originalHeight: number, step: number,
-  thickness: (x: number, y: number) => number, confidence: (x: number, y: number) => number): ReportGrid {
+  thickness: (x: number, y: number) => number, confidence: (x: number, y: number) => number,
+  status?: (x: number, y: number) => number): ReportGrid {
   const width = Math.ceil(originalWidth / step);
   const height = Math.ceil(originalHeight / step);
   const t = new Float32Array(width * height);
   const q = new Float32Array(width * height);
+  const s = status ? new Uint8Array(width * height) : undefined;
   for (let cy = 0; cy < height; cy++) {
     for (let cx = 0; cx < width; cx++) {
       t[cy * width + cx] = thickness(cx * step, cy * step);
       q[cy * width + cx] = confidence(cx * step, cy * step);
+      if (s && status) s[cy * width + cx] = status(cx * step, cy * step);
     }
   }
-  return { width, height, step, originalWidth, originalHeight, thicknessNm: t, confidence: q };
+  return { width, height, step, originalWidth, originalHeight, thicknessNm: t, confidence: q, ...(s ? { status: s } : {}) };
 }
 
 export const rampThickness = (x: number, y: number) => (x === 3 && y === 2 ? NaN : 100 + x + 1000 * y);
+/** PixelStatus code of the ramp: 1 (dark) where the thickness is NaN, else 0 (ok). */
+export const rampStatus = (x: number, y: number) => (x === 3 && y === 2 ? 1 : 0);
 export const rampConfidence = (x: number, y: number) => (x === 3 && y === 2 ? NaN : ((x + 2 * y) % 10) / 10);
 
 /** Film thickness of the demo scenario: thin at the top, thicker downwards, a few thin spots. */
@@ -68,7 +73,7 @@ export async function makeMapInput(o: MapFixtureOptions): Promise<MapReportInput
   const H = o.originalHeight;
   const thickness = o.kind === 'ramp' ? rampThickness : (x: number, y: number) => demoThickness(x, y, W, H);
   const confidence = o.kind === 'ramp' ? rampConfidence : (x: number, y: number) => (Number.isFinite(thickness(x, y)) ? 0.6 + 0.4 * Math.cos(x / 40) ** 2 : NaN);
-  const grid = gridFrom(W, H, o.step, thickness, confidence);
+  const grid = gridFrom(W, H, o.step, thickness, confidence, o.kind === 'ramp' ? rampStatus : undefined);
   const shown = o.kind === 'ramp' ? (x: number, y: number) => ((100 + x + 1000 * y) % 1200) : thickness;
   const photoPng = await pngOf(W, H, (x, y) => demoColour(shown(x, y)));
   const mapPng = await pngOf(W, H, (x, y) => {

@@ -223,6 +223,13 @@ describe('makeReportGrid()', () => {
       expect(g.thicknessNm[cy * g.width + cx]).toBe(100 + cx * 2 + 1000 * cy * 2);
     }
   });
+  it('carries the status codes along with the values when given', () => {
+    const m = full(6, 4);
+    const status = Uint8Array.from({ length: 24 }, (_, i) => i % 6);
+    const g = makeReportGrid({ ...m, status }, 6);
+    expect(g.step).toBe(2);
+    expect(Array.from(g.status!)).toEqual([0, 2, 4, 0, 2, 4]);
+  });
   it('refuses arrays of the wrong length, naming them', () => {
     expect(() => makeReportGrid({ ...full(4, 4), confidence: new Float32Array(3) }))
       .toThrow(/confidence must be a Float32Array of width × height = 16 values, received 3/);

@@ -12,11 +12,14 @@ function readJson(id) {
   var el = document.getElementById(id);
   return el ? JSON.parse(el.textContent) : null;
 }
-function decodeFloat32(base64) {
+function decodeBytes(base64) {
   var text = atob(base64);
   var bytes = new Uint8Array(text.length);
   for (var i = 0; i < text.length; i++) bytes[i] = text.charCodeAt(i);
-  return new Float32Array(bytes.buffer);
+  return bytes;
+}
+function decodeFloat32(base64) {
+  return new Float32Array(decodeBytes(base64).buffer);
 }
 function setText(id, text) {
   var el = document.getElementById(id);
@@ -42,6 +45,7 @@ function initMap(data) {
   var g = data.grid;
   var thickness = decodeFloat32(g.thicknessB64);
   var confidence = decodeFloat32(g.confidenceB64);
+  var status = g.statusB64 ? decodeBytes(g.statusB64) : null;
   var stages = Array.prototype.slice.call(document.querySelectorAll('.stage'));
   function pixelFromEvent(ev, stage) {
     var r = stage.querySelector('img').getBoundingClientRect();
@@ -91,6 +95,8 @@ function initMap(data) {
     setText('readout-y', String(p.y));
     setText('readout-thickness', isFinite(t) ? shortestFloat32Text(t) + ' nm' : 'no estimate');
     setText('readout-confidence', isFinite(q) ? q.toFixed(2) : '—');
+    var code = status ? status[c.index] : 0;
+    setText('readout-status', code && data.statusLabels[code] !== undefined ? data.statusLabels[code] : (code ? 'status ' + code : ''));
     setText('readout-cell', g.step > 1 ? 'grid cell ' + c.cx + ', ' + c.cy + ' (block of ' + g.step + ' × ' + g.step + ' px)' : 'full resolution');
     var thin = data.thinBelowNm;
     var flag = document.getElementById('readout-flag');

@@ -13,6 +13,7 @@ export interface FullResolutionMap {
   height: number;
   thicknessNm: Float32Array;
   confidence: Float32Array;
+  status?: Uint8Array;
 }
 
 export function makeReportGrid(map: FullResolutionMap, maxCells = defaultMaxReportCells): ReportGrid {
@@ -21,6 +22,9 @@ export function makeReportGrid(map: FullResolutionMap, maxCells = defaultMaxRepo
     throw new RangeError(`makeReportGrid: width and height must be integers >= 1, received ${width} and ${height}`);
   }
   if (!Number.isInteger(maxCells) || maxCells < 1) throw new RangeError(`makeReportGrid: maxCells must be an integer >= 1, received ${maxCells}`);
+  if (map.status !== undefined && (!(map.status instanceof Uint8Array) || map.status.length !== width * height)) {
+    throw new RangeError(`makeReportGrid: status must be a Uint8Array of width × height = ${width * height} values, received ${map.status?.length}`);
+  }
   for (const key of ['thicknessNm', 'confidence'] as const) {
     if (!(map[key] instanceof Float32Array) || map[key].length !== width * height) {
       throw new RangeError(`makeReportGrid: ${key} must be a Float32Array of width × height = ${width * height} values, received ${map[key]?.length}`);
@@ -32,12 +36,14 @@ export function makeReportGrid(map: FullResolutionMap, maxCells = defaultMaxRepo
   const gh = Math.ceil(height / step);
   const thicknessNm = new Float32Array(gw * gh);
   const confidence = new Float32Array(gw * gh);
+  const status = map.status ? new Uint8Array(gw * gh) : undefined;
   for (let cy = 0; cy < gh; cy++) {
     const row = cy * step * width;
     for (let cx = 0; cx < gw; cx++) {
       thicknessNm[cy * gw + cx] = map.thicknessNm[row + cx * step];
       confidence[cy * gw + cx] = map.confidence[row + cx * step];
+      if (status) status[cy * gw + cx] = map.status![row + cx * step];
     }
   }
-  return { width: gw, height: gh, step, originalWidth: width, originalHeight: height, thicknessNm, confidence };
+  return { width: gw, height: gh, step, originalWidth: width, originalHeight: height, thicknessNm, confidence, ...(status ? { status } : {}) };
 }

@@ -15,6 +15,7 @@ import { renderLineChart } from './svgChart.js';
 import { renderColourBar } from './svgColourBar.js';
 import { renderHistogram } from './svgHistogram.js';
 import { renderThinRegionOutlines, renderThinRegionTable } from './thinRegions.js';
+import { statusLabels } from './statusLabels.js';
 import type { MapReportInput } from './types.js';
 import { renderValueTable } from './valueTable.js';
 
@@ -76,7 +77,7 @@ export function renderMapSections(input: MapReportInput, name = 'input', options
 <div class="readout" id="readout"><span class="hint">Under the pointer:</span>`
     + '<span>x <b id="readout-x">—</b> y <b id="readout-y">—</b> px</span>'
     + '<span>thickness <b id="readout-thickness">—</b></span><span>confidence <b id="readout-confidence">—</b></span>'
-    + '<span id="readout-cell" class="muted"></span><span id="readout-flag" class="flag"></span></div>'
+    + '<span id="readout-cell" class="muted"></span><span id="readout-status" class="muted"></span><span id="readout-flag" class="flag"></span></div>'
     + '<p class="note">Point at the photo or the map to read the thickness and confidence stored for that pixel (coordinates in the original photo); click to move the profile to that column; point along the profile chart to follow that column on the images.</p>'
     + renderColourBar({ minNm: input.colourBar.minNm, maxNm: input.colourBar.maxNm, stops }, thin, 1000)
     + notes.map((n) => `<p class="note downsample-note">${escapeHtml(n)}</p>`).join('')
@@ -121,7 +122,9 @@ ${options.parameterTables ? renderParameterSections(input.settings, input.calibr
         grid: {
           width: grid.width, height: grid.height, step: grid.step, originalWidth: W, originalHeight: H,
           thicknessB64: encodeFloat32Base64(grid.thicknessNm), confidenceB64: encodeFloat32Base64(grid.confidence),
+          statusB64: grid.status ? Buffer.from(grid.status.buffer, grid.status.byteOffset, grid.status.byteLength).toString('base64') : null,
         },
+        statusLabels,
       },
     },
   };

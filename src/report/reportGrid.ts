@@ -18,6 +18,9 @@ export function checkReportGrid(grid: ReportGrid, name = 'grid'): void {
       throw new RangeError(`${name}.${key} must be ceil(original${key === 'width' ? 'Width' : 'Height'} / step) = ${hi}, received ${cells}`);
     }
   }
+  if (grid.status !== undefined && (!(grid.status instanceof Uint8Array) || grid.status.length !== grid.width * grid.height)) {
+    throw new RangeError(`${name}.status must be a Uint8Array of width × height = ${grid.width * grid.height} values, received ${describe(grid.status)}`);
+  }
   for (const key of ['thicknessNm', 'confidence'] as const) {
     const a = grid[key];
     if (!(a instanceof Float32Array)) throw new TypeError(`${name}.${key} must be a Float32Array, received ${a === null ? 'null' : (a as object)?.constructor?.name ?? typeof a}`);
@@ -25,6 +28,12 @@ export function checkReportGrid(grid: ReportGrid, name = 'grid'): void {
       throw new RangeError(`${name}.${key} must have width × height = ${grid.width * grid.height} values, received ${a.length}`);
     }
   }
+}
+
+function describe(value: unknown): string {
+  if (value === null) return 'null';
+  if (value instanceof Uint8Array) return `${value.length} values`;
+  return typeof value === 'object' ? (value as object).constructor?.name ?? 'object' : typeof value;
 }
 
 /** Index into the grid arrays of original pixel (x, y); pixels past the last full cell clamp to it. */

@@ -15,6 +15,8 @@ export interface ReportGrid {
   thicknessNm: Float32Array;
   /** Row-major, 0..1; NaN = no estimate. */
   confidence: Float32Array;
+  /** Optional: row-major pixel status codes (`PixelStatus` of `src/map/types.ts`); the readout names them. */
+  status?: Uint8Array;
 }
 
 export interface ThinRegionRow {
