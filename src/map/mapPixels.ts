@@ -53,6 +53,7 @@ const PER_CELL = 6;
 const CUBE_LEVELS = 32;
 const MAX_GRID_CELLS = 300_000;
 const SATURATED = 0.996;
+const MIN_FIT_SAMPLES = 64;
 
 export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   const { rgb, width, height, film, table } = input;
@@ -76,7 +77,12 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   if (input.exposureFixed) parameters = input.exposureFixed;
   else {
     const samples = samplePixels(rgb, status, pixels, 4000);
-    if (samples.length < 3 * 8) throw new RangeError('the photo has too few usable film pixels to fit its exposure');
+    if (samples.length < 3 * MIN_FIT_SAMPLES) {
+      parameters = { exposure: 1, whiteBalance: [1, 1, 1], flare: [0, 0, 0] };
+      warnings.push(
+        `only ${samples.length / 3} usable film pixels: too few to fit exposure, white balance and flare; assumed exposure 1, no flare (give --calibration for real numbers)`,
+      );
+    } else {
     fit = fitPhotoFormation({
       table,
       samples,
@@ -87,6 +93,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
     });
     parameters = fit.parameters;
     warnings.push(...fit.warnings);
+    }
   }
 
   // 2. Predicted colours and limits.
