@@ -83,7 +83,7 @@ function initMap(data) {
     moveCrosshairs(p);
     if (rowMarker) {
       if (p) {
-        var rx = profileMap.x(p.y + 0.5).toFixed(1);
+        var rx = profileMap.x(p.y).toFixed(1);
         rowMarker.setAttribute('x1', rx); rowMarker.setAttribute('x2', rx); rowMarker.setAttribute('visibility', 'visible');
       } else rowMarker.setAttribute('visibility', 'hidden');
     }
@@ -115,7 +115,7 @@ function initMap(data) {
       var r = profileChart.getBoundingClientRect();
       var vb = profileChart.viewBox.baseVal;
       var sx = (ev.clientX - r.left) / r.width * vb.width;
-      var row = Math.floor(profileMap.x0 + (sx - profileMap.left) / profileMap.width * (profileMap.x1 - profileMap.x0));
+      var row = Math.round(profileMap.x0 + (sx - profileMap.left) / profileMap.width * (profileMap.x1 - profileMap.x0));
       show(row >= 0 && row < g.originalHeight ? { x: profileX, y: row } : null);
     });
     profileChart.addEventListener('pointerleave', function () { show(null); });
