@@ -11,7 +11,6 @@
  * of the intensity range count. Imax and Imin are medians of the raw intensity at those pixels
  * (medians are robust to noise; raw values avoid the flattening of peaks by smoothing).
  */
-import { estimatePixelNoise } from './pixelNoise.js';
 
 export interface FringeExtremes {
   /** True when enough ridge and trough pixels were found to fix the intensity scale. */
@@ -27,15 +26,51 @@ export interface FringeExtremes {
   readonly troughIndex: Int32Array;
 }
 
-function quantile(sorted: Float32Array, q: number): number {
-  if (sorted.length === 0) return NaN;
-  const x = q * (sorted.length - 1);
-  const i = Math.floor(x);
-  const j = Math.min(sorted.length - 1, i + 1);
-  return sorted[i] + (x - i) * (sorted[j] - sorted[i]);
+/**
+ * Quantiles `qs` of `field` over usable pixels, from a 16384-bin histogram between the field's
+ * extremes (resolution 1/16384 of the range, far below the pixel noise); NaN when no pixel.
+ */
+export function usableQuantiles(field: Float32Array, usable: Uint8Array, qs: readonly number[]): number[] {
+  let lo = Infinity;
+  let hi = -Infinity;
+  let count = 0;
+  for (let p = 0; p < field.length; p++) {
+    if (!usable[p]) continue;
+    const v = field[p];
+    if (v < lo) lo = v;
+    if (v > hi) hi = v;
+    count++;
+  }
+  if (count === 0) return qs.map(() => NaN);
+  if (!(hi > lo)) return qs.map(() => lo);
+  const bins = 16384;
+  const histogram = new Uint32Array(bins);
+  const scale = bins / (hi - lo);
+  for (let p = 0; p < field.length; p++) {
+    if (usable[p]) histogram[Math.min(bins - 1, Math.floor((field[p] - lo) * scale))]++;
+  }
+  return qs.map((q) => {
+    const target = q * count;
+    let cumulative = 0;
+    for (let i = 0; i < bins; i++) {
+      if (cumulative + histogram[i] >= target) {
+        const within = histogram[i] > 0 ? (target - cumulative) / histogram[i] : 0;
+        return lo + (i + within) / scale;
+      }
+      cumulative += histogram[i];
+    }
+    return hi;
+  });
 }
 
-const DIRECTIONS: ReadonlyArray<readonly [number, number]> = [[1, 0], [0, 1], [1, 1], [1, -1]];
+function median(values: number[]): number {
+  const s = Float64Array.from(values).sort();
+  const m = s.length >> 1;
+  return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
+}
+
+const DIRECTION_X = Int32Array.of(1, 0, 1, 1);
+const DIRECTION_Y = Int32Array.of(0, 1, 1, -1);
 
 export function findFringeExtremes(
   intensity: Float32Array,
@@ -44,14 +79,13 @@ export function findFringeExtremes(
   height: number,
   usable: Uint8Array,
   smoothingRadius: number,
+  /** Pixel noise from `estimatePixelNoise` (linear units). */
+  noise: number,
   distancesPx: readonly number[] = [3, 8],
 ): FringeExtremes {
-  const values: number[] = [];
-  for (let p = 0; p < usable.length; p++) if (usable[p]) values.push(smoothed[p]);
-  const sorted = Float32Array.from(values).sort();
-  const low = quantile(sorted, 0.005);
-  const high = quantile(sorted, 0.995);
-  const noise = estimatePixelNoise(intensity, width, height, usable);
+  let usableCount = 0;
+  for (let p = 0; p < usable.length; p++) usableCount += usable[p];
+  const [low, high] = usableQuantiles(smoothed, usable, [0.005, 0.995]);
   const range = high - low;
   const none = new Int32Array(0);
   const nothing = { found: false, intensityMax: high, intensityMin: low, ridgePixels: 0, troughPixels: 0, noise, ridgeIndex: none, troughIndex: none };
@@ -70,7 +104,9 @@ export function findFringeExtremes(
       const s = smoothed[p];
       let isRidge = false;
       let isTrough = false;
-      for (const [dx, dy] of DIRECTIONS) {
+      for (let k = 0; k < 4; k++) {
+        const dx = DIRECTION_X[k];
+        const dy = DIRECTION_Y[k];
         const step = dy * width + dx;
         if (!usable[p - step] || !usable[p + step]) continue;
         const a1 = smoothed[p - step];
@@ -79,7 +115,8 @@ export function findFringeExtremes(
         const bottom = s < mid && s <= a1 && s <= b1;
         if (!crest && !bottom) continue;
         // Broad fringes (gentle thickness gradients) only show their contrast further out.
-        for (const d of distancesPx) {
+        for (let di = 0; di < distancesPx.length; di++) {
+          const d = distancesPx[di];
           if (x - d * dx < 0 || x + d * dx >= width || y - d * Math.abs(dy) < 0 || y + d * Math.abs(dy) >= height) continue;
           const far = d * step;
           if (!usable[p - far] || !usable[p + far]) continue;
@@ -93,12 +130,12 @@ export function findFringeExtremes(
       if (isTrough) trough.push(intensity[p]), troughIndex.push(p);
     }
   }
-  const needed = Math.max(8, Math.round(0.001 * values.length));
+  const needed = Math.max(8, Math.round(0.001 * usableCount));
   const found = ridge.length >= needed && trough.length >= needed;
   return {
     found,
-    intensityMax: ridge.length > 0 ? quantile(Float32Array.from(ridge).sort(), 0.5) : high,
-    intensityMin: trough.length > 0 ? quantile(Float32Array.from(trough).sort(), 0.5) : low,
+    intensityMax: ridge.length > 0 ? median(ridge) : high,
+    intensityMin: trough.length > 0 ? median(trough) : low,
     ridgePixels: ridge.length,
     troughPixels: trough.length,
     noise,

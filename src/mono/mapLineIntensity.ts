@@ -24,6 +24,7 @@ import { boxMeanMasked } from './boxMean.js';
 import { filmMaskOf } from './filmMask.js';
 import { fillPixelBranches } from './fillPixelBranches.js';
 import { findFringeExtremes } from './fringeExtremes.js';
+import { estimatePixelNoise } from './pixelNoise.js';
 import { intensityEnvelope } from './intensityEnvelope.js';
 import { denseFringesOnRange } from './unresolvedFringes.js';
 import { classifyLevels, segmentFringes } from './fringeSegments.js';
@@ -83,14 +84,15 @@ export function mapLineIntensity(
   const classSmooth = boxMeanMasked(light.intensity, width, height, usable, 1);
   // Dense (unresolved) fringes first, on the robust range of the film's intensities, so their
   // noise-like crests and troughs never enter the intensity scale.
-  const unresolved = denseFringesOnRange(light.intensity, classSmooth, smoothed, usable, width, height);
+  const noise = estimatePixelNoise(light.intensity, width, height, usable);
+  const unresolved = denseFringesOnRange(light.intensity, classSmooth, smoothed, usable, width, height, noise);
   const countable = new Uint8Array(n);
   let unresolvedCount = 0;
   for (let p = 0; p < n; p++) {
     if (unresolved[p]) unresolvedCount++;
     else countable[p] = usable[p];
   }
-  const extremes = findFringeExtremes(light.intensity, smoothed, width, height, countable, smoothRadius);
+  const extremes = findFringeExtremes(light.intensity, smoothed, width, height, countable, smoothRadius, noise);
   const levelSpan = table.levelMax - table.levelMin;
   let gain: number;
   let offset: number;

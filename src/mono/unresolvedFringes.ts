@@ -8,7 +8,7 @@
  * cut every path between zones through them. Threshold: our choice.
  */
 import { boxMeanMasked } from './boxMean.js';
-import { estimatePixelNoise } from './pixelNoise.js';
+import { usableQuantiles } from './fringeExtremes.js';
 
 export function findUnresolvedFringes(
   levelRaw: Float32Array,
@@ -43,7 +43,7 @@ export function findUnresolvedFringes(
 
 /**
  * Dense fringes found before the intensity scale is known: levels are taken on the robust range
- * of the film (0.5th to 99.5th percentile of the 5 × 5 smoothed intensity).
+ * of the film (0.5th to 99.5th percentile of the 5 × 5 smoothed intensity); none without a range.
  */
 export function denseFringesOnRange(
   intensity: Float32Array,
@@ -52,14 +52,10 @@ export function denseFringesOnRange(
   usable: Uint8Array,
   width: number,
   height: number,
+  noise: number,
 ): Uint8Array {
   const n = width * height;
-  const values: number[] = [];
-  for (let p = 0; p < n; p++) if (usable[p]) values.push(smoothed5[p]);
-  if (values.length === 0) return new Uint8Array(n);
-  const sorted = Float32Array.from(values).sort();
-  const low = sorted[Math.floor(0.005 * (sorted.length - 1))];
-  const high = sorted[Math.ceil(0.995 * (sorted.length - 1))];
+  const [low, high] = usableQuantiles(smoothed5, usable, [0.005, 0.995]);
   if (!(high > low)) return new Uint8Array(n);
   const scale = 1 / (high - low);
   const levelRaw = new Float32Array(n);
@@ -68,6 +64,6 @@ export function denseFringesOnRange(
     levelRaw[p] = (intensity[p] - low) * scale;
     levelSmooth[p] = (smoothed3[p] - low) * scale;
   }
-  const noiseLevel = estimatePixelNoise(intensity, width, height, usable) * scale;
+  const noiseLevel = noise * scale;
   return findUnresolvedFringes(levelRaw, levelSmooth, usable, width, height, noiseLevel);
 }
