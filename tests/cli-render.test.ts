@@ -1,7 +1,8 @@
 /**
  * `lamella render` end to end (spawns bin/lamella.js; the test script builds dist/ first).
  * Round trip within our own forward model: a thickness ramp rendered to PNG must show the chart
- * colours of the same thicknesses (max ΔE2000 < 0.5, i.e. below a just-noticeable difference).
+ * colours of the same thicknesses: 8-bit codes within 1 (table rounding) and max ΔE2000 < 1 (one
+ * code step in a dark colour is up to about 0.5–1 ΔE2000; 1 is about a just-noticeable difference).
  * The chart itself is checked against outside references in cli-chart and colour-* tests.
  */
 import { spawnSync } from 'node:child_process';
@@ -41,7 +42,7 @@ beforeAll(() => {
 });
 
 describe('lamella render', () => {
-  it('renders a ramp whose pixels carry the chart colours (max ΔE2000 < 0.5) and warns about the NaN pixel', async () => {
+  it('renders a ramp whose pixels carry the chart colours (codes within 1, max ΔE2000 < 1) and warns about the NaN pixel', async () => {
     const out = join(dir, 'ramp.png');
     const result = lamella('render', rampPath, '--stack', 'oxide-on-silicon', '--light', 'F7', '--out', out);
     expect(result.status).toBe(0);
@@ -55,8 +56,9 @@ describe('lamella render', () => {
       const rendered = labOf8(data[p], data[p + 1], data[p + 2]);
       const expected = labOf8(chart.srgb8[p], chart.srgb8[p + 1], chart.srgb8[p + 2]);
       worst = Math.max(worst, deltaE2000(expected, rendered));
+      for (let c = 0; c < 3; c++) expect(Math.abs(data[p + c] - chart.srgb8[p + c])).toBeLessThanOrEqual(1);
     }
-    expect(worst).toBeLessThan(0.5);
+    expect(worst).toBeLessThan(1);
     const nan = (width + 7) * 3;
     expect([data[nan], data[nan + 1], data[nan + 2]]).toEqual([0, 0, 0]);
   });

@@ -4,6 +4,9 @@ import {
   checkPhotoFormation,
   createNormal,
   createSrgbEncoder,
+  encodedCodeTable,
+  normalQuantileTable,
+  linearToSrgb16,
   encodeSrgb,
   filmColourTable,
   linearToSrgb8,
@@ -159,5 +162,53 @@ describe('createNormal() (Mulberry32 + Box–Muller)', () => {
     }
     expect(Math.abs(sum / n)).toBeLessThan(0.015); // 4.7 standard errors
     expect(Math.abs(Math.sqrt(sumSq / n) - 1)).toBeLessThan(0.01);
+  });
+});
+
+describe('encodedCodeTable() (integer codes of the IEC 61966-2-1 curve for hot loops)', () => {
+  const lookup = (table: ReturnType<typeof encodedCodeTable>, v: number) => table.codes[(Math.min(1, Math.max(0, v)) * table.maxIndex + 0.5) | 0];
+  it('8-bit sRGB: within one code of exact rounding everywhere, equal for ≥ 99.5 % of 100 001 values', () => {
+    const table = encodedCodeTable('srgb', 8);
+    let equal = 0;
+    for (let i = 0; i <= 100000; i++) {
+      const v = i / 100000;
+      const diff = Math.abs(lookup(table, v) - linearToSrgb8(v));
+      expect(diff).toBeLessThanOrEqual(1);
+      if (diff === 0) equal++;
+    }
+    expect(equal / 100001).toBeGreaterThan(0.995);
+  });
+  it('16-bit sRGB: within one code of exact rounding', () => {
+    const table = encodedCodeTable('srgb', 16);
+    for (let i = 0; i <= 100000; i++) expect(Math.abs(lookup(table, i / 100000) - linearToSrgb16(i / 100000))).toBeLessThanOrEqual(1);
+  });
+  it('linear output is the identity scaled to the code range', () => {
+    expect(lookup(encodedCodeTable('linear', 8), 0.5)).toBe(128);
+    expect(lookup(encodedCodeTable('linear', 16), 0.25)).toBe(16384);
+  });
+});
+
+describe('normalQuantileTable() (equiprobable quantiles of the standard normal)', () => {
+  const table = normalQuantileTable();
+  it('is symmetric, with mean 0 and standard deviation within 1e-4 of 1', () => {
+    let sum = 0;
+    let sumSq = 0;
+    for (const z of table) {
+      sum += z;
+      sumSq += z * z;
+    }
+    expect(Math.abs(sum / table.length)).toBeLessThan(1e-6);
+    expect(Math.abs(Math.sqrt(sumSq / table.length) - 1)).toBeLessThan(1e-4);
+    expect(table[0]).toBeCloseTo(-table[table.length - 1], 5);
+  });
+  it('has the textbook quantiles: Φ⁻¹(0.975) = 1.959964 and Φ⁻¹(0.841345) = 1.0 (standard normal tables, e.g. Abramowitz & Stegun 1964, Table 26.1/26.5)', () => {
+    // Entry i is the quantile at p = (i + 0.5)/65536; interpolate to the wanted p.
+    const at = (p: number) => {
+      const x = p * 65536 - 0.5;
+      const i = Math.floor(x);
+      return table[i] + (x - i) * (table[i + 1] - table[i]);
+    };
+    expect(at(0.975)).toBeCloseTo(1.959964, 4);
+    expect(at(0.841345)).toBeCloseTo(1.0, 4);
   });
 });

@@ -20,3 +20,5 @@ export * from './filmColourTable.js';
 export * from './srgbEncoderTable.js';
 export * from './exposureModel.js';
 export * from './seededNormal.js';
+export * from './encodedCodeTable.js';
+export * from './normalQuantiles.js';

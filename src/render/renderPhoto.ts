@@ -2,15 +2,16 @@
  * Renders a thickness map into the photo a camera would take of the film: per pixel, the linear
  * camera RGB from a thickness lookup table (./thicknessColourLut.ts, linear interpolation), then
  * the shared photo model (../colour/exposureModel.ts): exposure · gain_c · rgb_c + flare_c +
- * Gaussian noise, clamped, encoded (sRGB or linear), quantised to 8 or 16 bits.
+ * Gaussian noise (seeded; ../colour/normalQuantiles.ts), clamped, encoded (sRGB or linear) and
+ * quantised to 8 or 16 bits through a code table (../colour/encodedCodeTable.ts).
  * Pixels with NaN, negative or infinite thickness are rendered black and counted in a warning.
  */
 import { buildCamera, type Camera } from '../colour/camera.js';
 import { checkPhotoFormation, encodeLinear, type PhotoFormationInput } from '../colour/exposureModel.js';
 import type { Light } from '../colour/light.js';
 import type { ObserverName } from '../colour/observers.js';
-import { createNormal } from '../colour/seededNormal.js';
-import { createSrgbEncoder } from '../colour/srgbEncoderTable.js';
+import { encodedCodeTable } from '../colour/encodedCodeTable.js';
+import { normalQuantileTable } from '../colour/normalQuantiles.js';
 import type { Polarisation, Stack } from '../optics/types.js';
 import { thicknessColourLut } from './thicknessColourLut.js';
 
@@ -30,7 +31,7 @@ export interface RenderOptions extends PhotoFormationInput {
   /** Seed of the noise generator; default 1. */
   readonly seed?: number;
   readonly bitDepth?: 8 | 16;
-  /** Thickness step of the lookup table, nm; default 0.25. */
+  /** Thickness step of the lookup table, nm; default 0.5. */
   readonly lutStepNm?: number;
 }
 
@@ -93,13 +94,15 @@ export function renderPhoto(thicknessNm: Float32Array, width: number, height: nu
   const last = lut.count - 2;
   const inverseStep = 1 / lut.stepNm;
   const from = lut.fromNm;
-  const encode = camera.encoding === 'srgb' ? createSrgbEncoder() : encodeLinear;
-  const scale = bitDepth === 8 ? 255 : 65535;
+  const { codes, maxIndex } = encodedCodeTable(camera.encoding, bitDepth);
   const g0 = formation.exposure * formation.whiteBalance[0];
   const g1 = formation.exposure * formation.whiteBalance[1];
   const g2 = formation.exposure * formation.whiteBalance[2];
   const [f0, f1, f2] = formation.flare;
-  const normal = noiseSigma > 0 ? createNormal(seed) : null;
+  const quantiles = normalQuantileTable();
+  // Mulberry32 stream (see ../colour/seededNormal.ts), inlined: three draws per noisy pixel.
+  let state = seed >>> 0;
+  const noisy = noiseSigma > 0;
 
   for (let p = 0; p < pixels; p++) {
     const d = thicknessNm[p];
@@ -112,15 +115,22 @@ export function renderPhoto(thicknessNm: Float32Array, width: number, height: nu
     let r = g0 * (table[k] + f * (table[k + 3] - table[k])) + f0;
     let g = g1 * (table[k + 1] + f * (table[k + 4] - table[k + 1])) + f1;
     let b = g2 * (table[k + 2] + f * (table[k + 5] - table[k + 2])) + f2;
-    if (normal) {
-      r += noiseSigma * normal();
-      g += noiseSigma * normal();
-      b += noiseSigma * normal();
+    if (noisy) {
+      for (let c = 0; c < 3; c++) {
+        state = (state + 0x6d2b79f5) >>> 0;
+        let z = state;
+        z = Math.imul(z ^ (z >>> 15), z | 1);
+        z ^= z + Math.imul(z ^ (z >>> 7), z | 61);
+        const deviate = noiseSigma * quantiles[((z ^ (z >>> 14)) >>> 16) & 0xffff];
+        if (c === 0) r += deviate;
+        else if (c === 1) g += deviate;
+        else b += deviate;
+      }
     }
     const o = p * 3;
-    data[o] = encode(r) * scale + 0.5;
-    data[o + 1] = encode(g) * scale + 0.5;
-    data[o + 2] = encode(b) * scale + 0.5;
+    data[o] = codes[((r < 0 ? 0 : r > 1 ? 1 : r) * maxIndex + 0.5) | 0];
+    data[o + 1] = codes[((g < 0 ? 0 : g > 1 ? 1 : g) * maxIndex + 0.5) | 0];
+    data[o + 2] = codes[((b < 0 ? 0 : b > 1 ? 1 : b) * maxIndex + 0.5) | 0];
   }
   return { data, width, height, channels: 3, camera, warnings };
 }

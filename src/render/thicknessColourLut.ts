@@ -1,8 +1,8 @@
 /**
  * A lookup table of film colour against thickness at a fine, uniform step, read by linear
  * interpolation: the renderer's way to avoid spectral integration per pixel. With the default
- * 0.25 nm step the interpolation error is far below one 8-bit code (film colours change by at
- * most a few per cent of full scale per nm).
+ * 0.5 nm step the interpolation error, about h²/8 · |d²RGB/dd²|, is below 1e-4 of full scale
+ * for films with index up to 2.5 (fringe period ≥ 70 nm at 380 nm): under 0.03 of an 8-bit code.
  */
 import type { Camera } from '../colour/camera.js';
 import { filmColourTable } from '../colour/filmColourTable.js';
@@ -17,7 +17,7 @@ export interface ThicknessColourLut {
   readonly rgbLinear: Float32Array;
 }
 
-export const DEFAULT_LUT_STEP_NM = 0.25;
+export const DEFAULT_LUT_STEP_NM = 0.5;
 export const MAX_LUT_ROWS = 2_000_000;
 
 export function thicknessColourLut(
