@@ -6,3 +6,4 @@ export * from './io/index.js';
 export * from './fit/index.js';
 export { renderMapReport, renderSeriesReport, makeReportGrid } from './report/index.js';
 export type { MapReportInput, SeriesReportInput, ReportGrid, ThinRegionRow, SeriesFrameRow, DrainageFitSummary } from './report/index.js';
+export * from './render/index.js';

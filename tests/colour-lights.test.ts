@@ -139,3 +139,30 @@ describe('user camera sensitivities (wavelength_nm,r,g,b)', () => {
     expect(() => readCameraSensitivities(join(dir, 'missing.csv'))).toThrow(/missing\.csv: cannot read the file \(ENOENT\)/);
   });
 });
+
+describe('correlated colour temperatures of the named lights', () => {
+  // CCT by McCamy's cubic approximation (C. S. McCamy, Color Res. Appl. 17, 142 (1992)), from our
+  // 1 nm white points, against the CCT written in each light's description, which quotes the
+  // CIE's listed values (CIE 15:2004 for D/A/FL, CIE 015:2018 Table 12.3 for the LEDs; from
+  // memory). McCamy's formula is good to a few kelvin near the Planckian locus in this range;
+  // 25 K allows for that and for our 1 nm interpolation of the 5 nm fluorescent tables.
+  for (const name of LIGHT_NAMES) {
+    it(`${name}: McCamy CCT within 25 K of the listed value`, () => {
+      const light = resolveLight(name);
+      const listed = Number(/(\d{4}) K/.exec(light.description)![1]);
+      const w = xyzWeights(light);
+      const n = w.length / 3;
+      let x = 0;
+      let y = 0;
+      let z = 0;
+      for (let j = 0; j < n; j++) {
+        x += w[j];
+        y += w[n + j];
+        z += w[2 * n + j];
+      }
+      const m = (x / (x + y + z) - 0.332) / (0.1858 - y / (x + y + z));
+      const cct = 449 * m ** 3 + 3525 * m ** 2 + 6823.3 * m + 5520.33;
+      expect(Math.abs(cct - listed)).toBeLessThan(25);
+    });
+  }
+});

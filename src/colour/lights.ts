@@ -4,7 +4,8 @@
  * Sources: CIE standard illuminants D65, D50, A (ISO/CIE 11664-2:2022, 1 nm), fluorescent
  * FL2/FL7/FL11 (CIE 15:2004 Table T.6, 5 nm; the CIE writes them F2, F7, F11 in older texts,
  * both spellings are accepted), LED illuminants (CIE 015:2018 Tables 12.1–12.2, 1 nm).
- * See shared/cie/SOURCES.md for DOIs and checksums.
+ * See shared/cie/SOURCES.md for DOIs and checksums. The CCTs in the descriptions are the CIE's listed
+ * values (from memory; checked in the tests against McCamy's approximation from our white points).
  */
 import { existsSync } from 'node:fs';
 import { sharedPath } from '../data/sharedDir.js';
