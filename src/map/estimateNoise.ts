@@ -1,9 +1,10 @@
 /**
- * Noise level of a photo from itself, as a function of brightness: the median absolute
- * difference between horizontally adjacent pixels of the green channel, in 16 bins of encoded
- * luma, scaled to a Gaussian standard deviation (σ = MAD / (0.6745·√2), since the median of
- * |N(0, 2σ²)| is 0.6745·√2·σ — common practice in robust statistics, e.g. Donoho & Johnstone
- * 1994). Smooth films dominate the medians, so edges and fringes barely bias them. Brightness
+ * Noise level of a photo from itself, as a function of brightness: the median absolute second
+ * difference p[x−1] − 2·p[x] + p[x+1] of the green channel along rows, in 16 bins of encoded
+ * luma, scaled to a Gaussian standard deviation (σ = MAD / (0.6745·√6), since the second
+ * difference of white noise has variance 6σ² and the median of |N(0, s²)| is 0.6745·s —
+ * common practice in robust statistics, e.g. Donoho & Johnstone 1994). The second difference
+ * cancels smooth gradients, so dense fringes (a bubble's rings) do not pass for noise. Brightness
  * matters: sensor noise is roughly constant in linear units, and the sRGB curve stretches the
  * shadows, so dark pixels are noisier in encoded units. At most ~400k pairs are sampled.
  */
@@ -20,37 +21,38 @@ export interface NoiseProfile {
 
 export function estimateNoise(rgb: Float32Array, width: number, height: number, film: Uint8Array): NoiseProfile {
   const floor = 1 / 255 / Math.sqrt(12); // an 8-bit photo cannot be known better than a step/√12
-  const pairs = width > 1 ? (width - 1) * height : 0;
+  const pairs = width > 2 ? (width - 2) * height : 0;
   const stride = Math.max(1, Math.floor(pairs / 400_000));
   const capacity = Math.ceil(pairs / stride) + 1;
   const diffs = new Float32Array(capacity);
   const bins = new Uint8Array(capacity);
   let n = 0;
   for (let p = 0; p < pairs; p += stride) {
-    const y = Math.floor(p / (width - 1));
-    const x = p - y * (width - 1);
+    const y = Math.floor(p / (width - 2));
+    const x = p - y * (width - 2) + 1;
     const i = y * width + x;
-    if (!film[i] || !film[i + 1]) continue;
+    if (!film[i - 1] || !film[i] || !film[i + 1]) continue;
     const a = i * 3;
-    const b = (i + 1) * 3;
-    diffs[n] = Math.abs(rgb[a + 1] - rgb[b + 1]);
-    const luma = 0.5 * (lumaOf(rgb[a], rgb[a + 1], rgb[a + 2]) + lumaOf(rgb[b], rgb[b + 1], rgb[b + 2]));
+    diffs[n] = Math.abs(rgb[a - 2] - 2 * rgb[a + 1] + rgb[a + 4]);
+    const luma = lumaOf(rgb[a], rgb[a + 1], rgb[a + 2]);
     bins[n] = Math.min(NOISE_BINS - 1, Math.floor(luma * NOISE_BINS));
     n++;
   }
-  const toSigma = (mad: number): number => Math.max(mad / (0.6745 * Math.SQRT2), floor);
+  const toSigma = (mad: number): number => Math.max(mad / (0.6745 * Math.sqrt(6)), floor);
   if (n === 0) return { sigmaByLuma: new Float32Array(NOISE_BINS).fill(1 / 255), sigma: 1 / 255 };
   const all = diffs.slice(0, n).sort();
   const sigma = toSigma(all[Math.floor(n / 2)]);
   const sigmaByLuma = new Float32Array(NOISE_BINS).fill(NaN);
+  const binCount = new Int32Array(NOISE_BINS + 1);
+  for (let k = 0; k < n; k++) binCount[bins[k] + 1]++;
+  for (let bin = 0; bin < NOISE_BINS; bin++) binCount[bin + 1] += binCount[bin];
+  const grouped = new Float32Array(n);
+  const fill = binCount.slice(0, NOISE_BINS);
+  for (let k = 0; k < n; k++) grouped[fill[bins[k]]++] = diffs[k];
   for (let bin = 0; bin < NOISE_BINS; bin++) {
-    let m = 0;
-    for (let k = 0; k < n; k++) if (bins[k] === bin) m++;
+    const m = binCount[bin + 1] - binCount[bin];
     if (m < 50) continue;
-    const values = new Float32Array(m);
-    m = 0;
-    for (let k = 0; k < n; k++) if (bins[k] === bin) values[m++] = diffs[k];
-    values.sort();
+    const values = grouped.subarray(binCount[bin], binCount[bin + 1]).sort();
     sigmaByLuma[bin] = toSigma(values[Math.floor(m / 2)]);
   }
   // Bins with too few pairs take the nearest measured bin (or the global value).
