@@ -250,6 +250,29 @@ describe('mapLineIntensity() fringe-order checks that must be able to fail', () 
   });
 });
 
+describe('mapLineIntensity() in a photo series (previous frame as order prior)', () => {
+  // Invented frame: 300–1000 nm, so no first-order fringe is visible and the default assumption
+  // ("thinnest part in the first order") must fail; the previous frame (truth + 15 nm, the film
+  // having drained a little since) fixes the count.
+  const { photo, truth } = render({ topNm: 300, bottomNm: 1000, blackFilm: false, seed: 31 });
+  it('without a prior the assumed first order is wrong here (and says it assumed)', () => {
+    const result = mapLineIntensity(photo, options(), table);
+    expect(result.line.orderFrom).toBe('assumed-first-order');
+    expect(score(result, truth).slopeOrderShare).toBeLessThan(0.5);
+  });
+  it('with the previous frame as prior the orders are right', () => {
+    const prior = truth.map((h) => h + 15);
+    const result = mapLineIntensity(photo, options({ prior }), table);
+    expect(result.line.orderFrom).toBe('series-prior');
+    const s = score(result, truth);
+    expect(s.slopeOrderShare).toBeGreaterThanOrEqual(0.99);
+    expect(s.orderShare).toBeGreaterThanOrEqual(0.99);
+  });
+  it('rejects a prior of the wrong size', () => {
+    expect(() => mapLineIntensity(photo, options({ prior: new Float32Array(10) }), table)).toThrow(/prior must be a thickness map of 30000 pixels/);
+  });
+});
+
 describe('mapLineIntensity() intensity scale', () => {
   const thin = render({ topNm: 10, bottomNm: 85, blackFilm: false, seed: 5 });
   it('throws when no fringe extreme is visible and no calibration is given', () => {

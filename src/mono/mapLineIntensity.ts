@@ -10,8 +10,9 @@
  *    is unknown and the function throws.
  * 3. Fringe order: pixels whose fringes are too dense to count are set aside as ambiguous
  *    (`unresolvedFringes.ts`); the rest is split into zones and bands on the raw normalised level
- *    (`fringeSegments.ts`), counted from anchors, a black film or the assumed first order
- *    (`zoneBranches.ts`), and spread to band pixels (`fillPixelBranches.ts`).
+ *    (`fringeSegments.ts`), counted from anchors, a black film, the previous frame of a series
+ *    (`options.prior`) or the assumed first order (`zoneBranches.ts`), and spread to band pixels
+ *    (`fillPixelBranches.ts`).
  * 4. Thickness on the pixel's branch (`lineReflectanceTable.ts`); pixels of a free film darker
  *    than three noise levels on branch 0 are `dark` (too thin to measure; counted as thin).
  * Statistics, histogram and thin regions are the colour mode's (`src/map`), so results and
@@ -31,7 +32,7 @@ import { classifyLevels, segmentFringes } from './fringeSegments.js';
 import { checkLineWavelength } from './isMonochromaticLight.js';
 import { lineIntensityOf, type MonoPhoto } from './lineIntensity.js';
 import { EXTREME_MIN, thicknessOnBranch, type LineReflectanceTable } from './lineReflectanceTable.js';
-import { anchorSeeds, blackFilmSeeds } from './orderSeeds.js';
+import { anchorSeeds, blackFilmSeeds, zonePriorBranches } from './orderSeeds.js';
 import { NO_BRANCH, solveZoneBranches } from './zoneBranches.js';
 
 /** Normalised level below / above which a pixel belongs to a dark / bright band. */
@@ -50,7 +51,7 @@ export interface LineScaleReport {
   /** Pixel noise (linear intensity units). */
   readonly noise: number;
   /** How the fringe count was started. */
-  readonly orderFrom: 'anchor' | 'black-film' | 'assumed-first-order';
+  readonly orderFrom: 'anchor' | 'black-film' | 'series-prior' | 'assumed-first-order';
   readonly orderConflicts: number;
 }
 
@@ -133,14 +134,20 @@ export function mapLineIntensity(
   if (unresolvedCount > 0) {
     warnings.push(`${unresolvedCount} px have fringes too dense to count (thickness changes too fast for the pixel size) and are marked ambiguous`);
   }
+  const prior = options.prior ?? null;
+  if (prior !== null && prior.length !== n) {
+    throw new RangeError(`prior must be a thickness map of ${n} pixels (${width}×${height}), received ${prior.length}`);
+  }
+  // Where counting starts: anchors, else the previous frame of a series, else a black film.
   let seeds = anchorSeeds(options.anchors ?? [], seg, table, width, height, countable, warnings);
   let orderFrom: LineScaleReport['orderFrom'] = 'anchor';
-  if (seeds.length === 0 && firstKind === EXTREME_MIN) {
+  const priorBranch = seeds.length === 0 && prior !== null ? zonePriorBranches(seg, prior, table) : null;
+  if (seeds.length === 0 && priorBranch !== null) orderFrom = 'series-prior';
+  else if (seeds.length === 0 && firstKind === EXTREME_MIN) {
     seeds = blackFilmSeeds(seg, levelWide, width, height, usableCount, noiseLevel, warnings);
-    orderFrom = 'black-film';
-  }
-  if (seeds.length === 0) orderFrom = 'assumed-first-order';
-  const zones = solveZoneBranches(seg, firstKind, seeds);
+    orderFrom = seeds.length > 0 ? 'black-film' : 'assumed-first-order';
+  } else if (seeds.length === 0) orderFrom = 'assumed-first-order';
+  const zones = solveZoneBranches(seg, firstKind, seeds, priorBranch);
   if (orderFrom === 'assumed-first-order' && seg.zoneArea.length > 0) {
     warnings.push('no anchor and no black film: fringes were counted assuming the thinnest part of the film is in the first order; give an anchor to be sure');
   }

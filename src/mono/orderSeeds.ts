@@ -1,6 +1,6 @@
 /**
- * Where fringe counting starts: user anchors (a pixel of known thickness) and, without anchors,
- * a black film (a large, uniformly dark region of a film whose reflectance is a minimum at zero
+ * Where fringe counting starts: user anchors (a pixel of known thickness), the previous frame of a
+ * series (`zonePriorBranches`) and, without anchors, a black film (a large, uniformly dark region of a film whose reflectance is a minimum at zero
  * thickness = order 0; common practice in foam-film work).
  *
  * Black-film test (our choice of thresholds): a dark band covering at least 1 % of the film whose
@@ -131,4 +131,31 @@ export function blackFilmSeeds(
     `no anchor given: the uniformly dark region around (${Math.round(sx[best] / area)}, ${Math.round(sy[best] / area)}) (${area} px) was taken as black film, fringe order 0`,
   );
   return seg.bandZones[best].map((zone) => ({ zone, branch: 0 }));
+}
+
+/**
+ * Branch each zone had in the previous frame of a series: the branch of the zone's mean prior
+ * thickness (NaN where the prior has no estimate on the zone); null when the prior covers no zone.
+ */
+export function zonePriorBranches(seg: FringeSegments, prior: Float32Array, table: LineReflectanceTable): Float64Array | null {
+  const zoneCount = seg.zoneArea.length;
+  const sum = new Float64Array(zoneCount);
+  const count = new Float64Array(zoneCount);
+  for (let p = 0; p < prior.length; p++) {
+    const z = seg.zoneOf[p];
+    if (z < 0 || !Number.isFinite(prior[p])) continue;
+    sum[z] += prior[p];
+    count[z]++;
+  }
+  const out = new Float64Array(zoneCount).fill(NaN);
+  let any = false;
+  for (let z = 0; z < zoneCount; z++) {
+    // A zone counts when the prior covers at least half of it.
+    if (count[z] < 0.5 * seg.zoneArea[z]) continue;
+    const branch = branchOfThickness(table, sum[z] / count[z]);
+    if (branch < 0) continue;
+    out[z] = branch;
+    any = true;
+  }
+  return any ? out : null;
 }

@@ -17,6 +17,7 @@
  * so the thinnest zone is as thin as possible, and the hypothesis with fewer conflicts, then the
  * lower thinnest branch, then the lower area-weighted mean branch wins ("the thinnest part of the
  * film is in the first order"). When both parities tie, the direction of counting is a guess.
+ * In a photo series, the previous frame's map replaces that assumption (see below).
  */
 import type { FringeSegments } from './fringeSegments.js';
 
@@ -128,7 +129,17 @@ function zoneComponents(seg: FringeSegments): Int32Array {
   return component;
 }
 
-export function solveZoneBranches(seg: FringeSegments, firstKind: number, seeds: readonly ZoneSeed[]): ZoneBranches {
+/**
+ * `priorBranch` (optional, per zone, NaN where unknown): the branch a previous frame of a series
+ * suggests. In a seedless component with prior values, each parity's count is shifted (by an even
+ * number) to agree best with the prior, area-weighted, and the parity that agrees best wins.
+ */
+export function solveZoneBranches(
+  seg: FringeSegments,
+  firstKind: number,
+  seeds: readonly ZoneSeed[],
+  priorBranch: Float64Array | null = null,
+): ZoneBranches {
   const zoneCount = seg.zoneArea.length;
   const component = zoneComponents(seg);
   const componentCount = zoneCount === 0 ? 0 : Math.max(...component) + 1;
@@ -155,22 +166,42 @@ export function solveZoneBranches(seg: FringeSegments, firstKind: number, seeds:
     unseededComponents++;
     let largest = zones[0];
     for (const z of zones) if (seg.zoneArea[z] > seg.zoneArea[largest]) largest = z;
+    const withPrior = priorBranch !== null && zones.some((z) => !Number.isNaN(priorBranch[z]));
     const scored = [0, 1].map((parity) => {
       const result = propagate(seg, firstKind, [{ zone: largest, branch: parity }], false);
       let min = Infinity;
       for (const z of zones) min = Math.min(min, result.branch[z]);
-      const shift = 2 * Math.ceil(-min / 2);
+      let shift = 2 * Math.ceil(-min / 2);
+      let disagreement = 0;
+      if (withPrior) {
+        const cost = (s: number): number => {
+          let c = 0;
+          for (const z of zones) if (!Number.isNaN(priorBranch[z])) c += seg.zoneArea[z] * Math.abs(result.branch[z] + s - priorBranch[z]);
+          return c;
+        };
+        disagreement = Infinity;
+        for (let s = shift; s <= shift + 2 * (seg.zoneArea.length + 2); s += 2) {
+          const c = cost(s);
+          if (c < disagreement) {
+            disagreement = c;
+            shift = s;
+          }
+        }
+      }
       let weighted = 0;
       let area = 0;
       for (const z of zones) {
         weighted += (result.branch[z] + shift) * seg.zoneArea[z];
         area += seg.zoneArea[z];
       }
-      return { result, shift, min: min + shift, mean: weighted / area, conflicts: result.conflicts.length };
+      return { result, shift, min: min + shift, mean: weighted / area, conflicts: result.conflicts.length, disagreement };
     });
-    scored.sort((a, b) => a.conflicts - b.conflicts || a.min - b.min || a.mean - b.mean);
+    scored.sort((a, b) => a.disagreement - b.disagreement || a.conflicts - b.conflicts || a.min - b.min || a.mean - b.mean);
     const best = scored[0];
-    if (scored[1].conflicts === best.conflicts && scored[1].min === best.min && zones.length > 1) {
+    const tie = withPrior
+      ? scored[1].disagreement === best.disagreement
+      : scored[1].conflicts === best.conflicts && scored[1].min === best.min;
+    if (tie && zones.length > 1) {
       guessedDirectionZones.push(largest);
     }
     for (const z of zones) zoneBranch[z] = best.result.branch[z] + best.shift;
