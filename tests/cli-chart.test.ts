@@ -84,6 +84,11 @@ describe('lamella chart: PNG', () => {
       for (let c = 0; c < 3; c++) expect(Math.abs(data[p + c] - table.srgb8[thicknessNm * 3 + c])).toBeLessThanOrEqual(2);
     }
   });
+  it('--resolution 2 doubles the pixel size for print', async () => {
+    const path = join(dir, 'chart2x.png');
+    expect(lamella('chart', '--stack', 'soap-film', '--light', 'D65', '--to', '300', '--format', 'png', '--resolution', '2', '--out', path).status).toBe(0);
+    expect((await sharp(path).metadata()).width).toBe(2480);
+  });
   it('--format png without --out is a usage error', () => {
     const out = lamella('chart', '--stack', 'soap-film', '--light', 'D65', '--format', 'png');
     expect(out.status).toBe(2);

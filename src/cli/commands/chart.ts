@@ -26,6 +26,7 @@ interface ChartCliOptions extends StackCliOptions {
   to: string;
   step: string;
   exposure: string;
+  resolution: string;
   format: 'csv' | 'json' | 'png';
   out?: string;
 }
@@ -69,6 +70,8 @@ async function run(opts: ChartCliOptions): Promise<void> {
   const toNm = parseNumberOption(opts.to, '--to', 'a thickness in nm');
   const stepNm = parseNumberOption(opts.step, '--step', 'a thickness step in nm > 0');
   if (opts.format === 'png' && !opts.out) throw new UsageError('--format png needs --out FILE.png');
+  const resolution = parseNumberOption(opts.resolution, '--resolution', 'a pixel-density factor from 1 to 4');
+  if (resolution < 1 || resolution > 4) throw new UsageError(`--resolution must be a pixel-density factor from 1 to 4, received ${resolution}`);
   const exposure = opts.exposure === 'auto' ? 'auto' : parseNumberOption(opts.exposure, '--exposure', "a gain > 0 or 'auto'");
   if (exposure !== 'auto' && exposure <= 0) throw new UsageError(`--exposure must be a gain > 0 or 'auto', received ${exposure}`);
   const light = lightFromOption(opts.light, '--light');
@@ -124,7 +127,7 @@ async function run(opts: ChartCliOptions): Promise<void> {
         `CIE ${opts.observer} observer · camera white-balanced to ${settings.whiteBalance} · exposure ×${formatNumber(table.exposure)} · sRGB display`,
       ],
     });
-    bytes = await rasteriseSvg(svg);
+    bytes = await rasteriseSvg(svg, { density: 72 * resolution });
   }
   if (opts.out) await atomicWriteFile(opts.out, bytes);
   else process.stdout.write(bytes);
@@ -147,6 +150,7 @@ export function register(program: Command): void {
     .option('--to <nm>', 'last thickness, nm', String(DEFAULT_CHART_RANGE.toNm))
     .option('--step <nm>', 'thickness step, nm', String(DEFAULT_CHART_RANGE.stepNm))
     .option('--exposure <gain|auto>', "gain on the recorded colours (1: a perfect white reflector is white; 'auto': brightest swatch at full scale)", '1')
+    .option('--resolution <factor>', 'PNG pixel density: 1 gives a 1240-pixel-wide chart, 2 or 3 for print', '1')
     .addOption(new Option('--format <kind>', 'output format').choices(['csv', 'json', 'png']).default('csv'))
     .option('--out <file>', 'write to this file (written atomically) instead of standard output; required for png')
     .action((opts: ChartCliOptions) => run(opts));
