@@ -178,6 +178,10 @@ describe('mapLineIntensity() round trip on an invented draining soap film at 546
     expect(result.fitted.exposure).toBeCloseTo(0.62 / table.levelMax, -0.5);
     expect(Math.abs(result.fitted.exposure * table.levelMax - 0.62)).toBeLessThan(0.03);
     expect(Math.abs(result.fitted.flare[0] - 0.015)).toBeLessThan(0.01);
+    // Reported fringe extremes: true bright level 0.62 + 0.015, dark level 0.015 (linear).
+    expect(Math.abs(result.line.intensityMax - 0.635)).toBeLessThan(0.01);
+    expect(Math.abs(result.line.intensityMin - 0.015)).toBeLessThan(0.005);
+    expect(result.extra).toMatchObject({ mode: 'monochromatic', line_nm: LINE_NM, order_from: 'anchor', intensity_scale_from: 'bright and dark fringes of this photo' });
   });
 
   it('without anchor or black film counts from the thinnest part and says so', () => {

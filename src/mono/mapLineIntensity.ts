@@ -55,7 +55,11 @@ export interface LineScaleReport {
   readonly orderConflicts: number;
 }
 
-export type MonoMapResult = MapResult & { readonly line: LineScaleReport };
+/**
+ * `line`: the intensity scale and how orders were counted; `extra`: the same, snake_case, for the
+ * `details` block of the map's JSON record (the colour mode fills `extra` with its own details).
+ */
+export type MonoMapResult = MapResult & { readonly line: LineScaleReport; readonly extra: Record<string, unknown> };
 
 export function mapLineIntensity(
   photo: MonoPhoto & { readonly alpha?: Float32Array },
@@ -209,6 +213,19 @@ export function mapLineIntensity(
       noise: extremes.noise,
       orderFrom,
       orderConflicts: zones.conflicts,
+    },
+    extra: {
+      mode: 'monochromatic',
+      line_nm: lineNm,
+      intensity_max: intensityMax,
+      intensity_min: intensityMin,
+      intensity_scale_from: fixed !== null ? 'calibration' : 'bright and dark fringes of this photo',
+      bright_fringe_px: extremes.ridgePixels,
+      dark_fringe_px: extremes.troughPixels,
+      noise_sigma: extremes.noise,
+      order_from: orderFrom,
+      order_conflicts: zones.conflicts,
+      unresolved_px: unresolvedCount,
     },
   };
 }
