@@ -126,8 +126,14 @@ export function findFringeExtremes(
           if (bottom && a - s >= contrast && b - s >= contrast) isTrough = true;
         }
       }
-      if (isRidge) ridge.push(intensity[p]), ridgeIndex.push(p);
-      if (isTrough) trough.push(intensity[p]), troughIndex.push(p);
+      if (isRidge) {
+        ridge.push(intensity[p]);
+        ridgeIndex.push(p);
+      }
+      if (isTrough) {
+        trough.push(intensity[p]);
+        troughIndex.push(p);
+      }
     }
   }
   const needed = Math.max(8, Math.round(0.001 * usableCount));

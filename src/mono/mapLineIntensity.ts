@@ -78,7 +78,11 @@ export function mapLineIntensity(
   const light = lineIntensityOf(photo, film);
   const usable = new Uint8Array(n);
   let usableCount = 0;
-  for (let p = 0; p < n; p++) if (film[p] && !light.saturated[p]) usable[p] = 1, usableCount++;
+  for (let p = 0; p < n; p++) {
+    if (!film[p] || light.saturated[p]) continue;
+    usable[p] = 1;
+    usableCount++;
+  }
   if (!photo.isGrey && light.worstChannelCorrelation < MIN_CHANNEL_CORRELATION) {
     warnings.push(
       `the colour channels disagree (correlation ${light.worstChannelCorrelation.toFixed(2)} < ${MIN_CHANNEL_CORRELATION}): the light may not be monochromatic (line ${lineNm} nm assumed)`,
@@ -172,7 +176,10 @@ export function mapLineIntensity(
     if (!film[p]) status[p] = PixelStatus.excluded;
     else if (light.saturated[p]) status[p] = PixelStatus.saturated;
     else if (pixels.branch[p] === NO_BRANCH || zones.zoneAmbiguous[pixels.sourceZone[p]]) status[p] = PixelStatus.ambiguous;
-    else if (pixels.branch[p] >= table.branchCount) (status[p] = PixelStatus.tooThick), tooThick++;
+    else if (pixels.branch[p] >= table.branchCount) {
+      status[p] = PixelStatus.tooThick;
+      tooThick++;
+    }
     else if (firstKind === EXTREME_MIN && pixels.branch[p] === 0 && levelRaw[p] < darkLevel) status[p] = PixelStatus.dark;
     else {
       const reflectance = table.levelMin + levelRaw[p] * levelSpan;
