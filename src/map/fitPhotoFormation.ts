@@ -43,6 +43,8 @@ export interface PhotoFormationOptions {
 
 const WHITE_BALANCE_PRIOR_SIGMA = 0.3;
 const OUTER_ITERATIONS = 4;
+/** Samples used by the coarse exposure scan. */
+const SCAN_SAMPLES = 500;
 const TRIM_FACTOR = 6;
 
 export function fitPhotoFormation(options: PhotoFormationOptions): PhotoFormationFit {
@@ -62,9 +64,15 @@ export function fitPhotoFormation(options: PhotoFormationOptions): PhotoFormatio
     flare: [NaN, NaN, NaN],
   };
   let rms = NaN;
+  const previous = new Int32Array(sampleCount).fill(-1);
   for (let outer = 0; outer < OUTER_ITERATIONS; outer++) {
     predictEncodedTable(table, current, predicted);
     assignGlobalBest(predicted, table.count, samples, assigned, options.fixedIndex ?? null);
+    // Stop when no sample changed its thickness by more than a few table steps.
+    let moved = 0;
+    for (let i = 0; i < sampleCount; i++) if (Math.abs(assigned[i] - previous[i]) > 3) moved++;
+    if (outer > 0 && moved <= sampleCount * 0.002) break;
+    previous.set(assigned);
     trimOutliers(predicted, table.count, samples, assigned, keep);
     const result = innerFit(options, current, assigned, keep);
     current = result.parameters;
@@ -105,14 +113,15 @@ function scanExposure(
   flare: readonly [number, number, number],
 ): number {
   const n = samples.length / 3;
-  const stride = Math.max(1, Math.floor(n / 600));
+  const stride = Math.max(1, Math.floor(n / SCAN_SAMPLES));
   const predicted = new Float32Array(table.count * 3);
   const costs = new Float64Array(Math.ceil(n / stride));
   let bestExposure = 1;
   let bestCost = Infinity;
-  const steps = 56;
-  for (let s = 0; s < steps; s++) {
-    const exposure = 0.1 * Math.pow(10, (s / (steps - 1)) * 2.8);
+  // Geometric grid 0.1…63 in steps of ×1.26 (28 values), then a finer pass around the best.
+  const candidates: number[] = [];
+  for (let s = 0; s < 29; s++) candidates.push(0.1 * Math.pow(10, s * 0.1));
+  const evaluate = (exposure: number): void => {
     predictEncodedTable(table, { exposure, whiteBalance, flare }, predicted);
     let m = 0;
     for (let i = 0; i < n; i += stride) {
@@ -120,7 +129,7 @@ function scanExposure(
       const g = samples[i * 3 + 1];
       const b = samples[i * 3 + 2];
       let best = Infinity;
-      for (let t = 0; t < table.count; t += 2) {
+      for (let t = 0; t < table.count; t += 3) {
         const d = distanceAt(predicted, t, r, g, b);
         if (d < best) best = d;
       }
@@ -134,7 +143,10 @@ function scanExposure(
       bestCost = sum;
       bestExposure = exposure;
     }
-  }
+  };
+  for (const exposure of candidates) evaluate(exposure);
+  const centre = bestExposure;
+  for (let s = -4; s <= 4; s++) if (s !== 0) evaluate(centre * Math.pow(10, s * 0.025));
   return bestExposure;
 }
 
@@ -267,8 +279,8 @@ function innerFit(
     lower: active.map((slot) => lowerFull[slot]),
     upper: active.map((slot) => upperFull[slot]),
     scale: active.map((slot) => scaleFull[slot]),
-    maxIterations: 40,
-    tolerance: 1e-9,
+    maxIterations: 25,
+    tolerance: 1e-8,
   });
   const v = expand(fit.parameters);
   const se = [NaN, 0, 0, 0, 0, 0];

@@ -16,7 +16,7 @@ import { createCandidateField } from './candidateField.js';
 import { type ColourTable, predictEncodedTable, thicknessAt } from './colourTable.js';
 import { estimateNoise, sigmaAt } from './estimateNoise.js';
 import { fitPhotoFormation, type PhotoFormationFit } from './fitPhotoFormation.js';
-import { createMatchScratch, matchColour } from './matchColour.js';
+import { createMatchScratch, matchColour, matchNear } from './matchColour.js';
 import { resolveOrders } from './resolveOrders.js';
 import { computeMapStatistics, thicknessHistogram } from './statistics.js';
 import { lumaOf, tableLimits } from './tableLimits.js';
@@ -47,6 +47,8 @@ export interface MapPixelsResult extends MapResult {
   readonly washoutNm: number;
   /** Why pixels have no estimate: no resolved order nearby, no continuous candidate, poor colour match. */
   readonly ambiguousReasons: { unresolved: number; discontinuous: number; poorMatch: number };
+  /** Wall time of each stage, ms. */
+  readonly timingsMs: Record<string, number>;
 }
 
 const PER_CELL = 6;
@@ -54,6 +56,8 @@ const CUBE_LEVELS = 32;
 const MAX_GRID_CELLS = 300_000;
 const SATURATED = 0.996;
 const MIN_FIT_SAMPLES = 64;
+/** Pixels sampled (on a regular stride) for the photo-formation fit. */
+const FIT_SAMPLES = 2000;
 
 export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   const { rgb, width, height, film, table } = input;
@@ -71,12 +75,20 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   const noise = estimateNoise(rgb, width, height, film);
   const noiseSigma = noise.sigma;
 
+  const timingsMs: Record<string, number> = {};
+  let clock = performance.now();
+  const lap = (name: string): void => {
+    const now = performance.now();
+    timingsMs[name] = Math.round(now - clock);
+    clock = now;
+  };
+  lap('prepare');
   // 1. Photo-formation parameters.
   let fit: PhotoFormationFit | null = null;
   let parameters: ExposureParameters;
   if (input.exposureFixed) parameters = input.exposureFixed;
   else {
-    const samples = samplePixels(rgb, status, pixels, 4000);
+    const samples = samplePixels(rgb, status, pixels, FIT_SAMPLES);
     if (samples.length < 3 * MIN_FIT_SAMPLES) {
       parameters = { exposure: 1, whiteBalance: [1, 1, 1], flare: [0, 0, 0] };
       warnings.push(
@@ -96,6 +108,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
     }
   }
 
+  lap('fit');
   // 2. Predicted colours and limits.
   const predicted = predictEncodedTable(table, parameters);
   const count = table.count;
@@ -103,6 +116,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   const limits = tableLimits(predicted, table.rgbLinear, count, noiseSigma, Math.round(periodIndex));
   markDarkPixels(rgb, status, width, height, limits.darkLuma);
 
+  lap('limits');
   // 3. Order resolution on the cell grid.
   const block = Math.max(1, Math.ceil(Math.sqrt(pixels / MAX_GRID_CELLS)));
   const gridWidth = Math.ceil(width / block);
@@ -137,6 +151,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
 
   fillUnresolved(order.position, field, cellDark, gridWidth, gridHeight, limits.darkLimitIndex, maxJump);
 
+  lap('orders');
   // 4. Full resolution.
   const thicknessNm = new Float32Array(pixels).fill(NaN);
   const confidence = new Float32Array(pixels);
@@ -144,6 +159,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   const modelSlack = 3 * (2 / 255) ** 2;
   const pixelJump = 0.3 * periodIndex;
   const reasons = { unresolved: 0, discontinuous: 0, poorMatch: 0 };
+  const near = new Float64Array(3);
   for (let y = 0; y < height; y++) {
     for (let x = 0; x < width; x++) {
       const i = y * width + x;
@@ -154,24 +170,19 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
         reasons.unresolved++;
         continue;
       }
-      const n = matchColour(cube, predicted, count, rgb[i * 3], rgb[i * 3 + 1], rgb[i * 3 + 2], scratch);
-      let best = -1;
-      let bestGap = Infinity;
-      for (let k = 0; k < n; k++) {
-        const gap = Math.abs(scratch.position[k] - reference);
-        if (gap < bestGap) {
-          bestGap = gap;
-          best = k;
-        }
-      }
-      if (best < 0 || bestGap > pixelJump) {
+      const r = rgb[i * 3];
+      const g = rgb[i * 3 + 1];
+      const b = rgb[i * 3 + 2];
+      matchNear(cube, predicted, count, r, g, b, reference, pixelJump, scratch, near);
+      const position = near[0];
+      const cost = near[1];
+      const alternative = near[2];
+      if (Math.abs(position - reference) > pixelJump) {
         status[i] = PixelStatus.ambiguous;
         reasons.discontinuous++;
         continue;
       }
-      const position = scratch.position[best];
-      const cost = scratch.cost[best];
-      const sigma = sigmaAt(noise, lumaOf(rgb[i * 3], rgb[i * 3 + 1], rgb[i * 3 + 2]));
+      const sigma = sigmaAt(noise, lumaOf(r, g, b));
       const pixelNoiseCost = 3 * sigma * sigma;
       if (cost > 10 * pixelNoiseCost + modelSlack) {
         status[i] = PixelStatus.ambiguous;
@@ -182,10 +193,6 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
         status[i] = PixelStatus.tooThick;
         continue;
       }
-      let alternative = Infinity;
-      for (let k = 0; k < n; k++) {
-        if (Math.abs(scratch.position[k] - position) > pixelJump && scratch.cost[k] < alternative) alternative = scratch.cost[k];
-      }
       const fitTerm = Math.exp(-cost / (4 * pixelNoiseCost + modelSlack));
       const marginTerm = alternative === Infinity ? 1 : 1 - Math.exp(-Math.max(0, alternative - cost) / pixelNoiseCost);
       thicknessNm[i] = thicknessAt(table, position);
@@ -193,6 +200,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
     }
   }
 
+  lap('pixels');
   // 5. Summaries.
   const regions = findThinRegions(thicknessNm, status, width, height, input.thinBelowNm, input.pixelSizeUm ?? null);
   const stats = computeMapStatistics(thicknessNm, status, input.thinBelowNm, regions.regions.length);
@@ -215,6 +223,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
     noiseSigma,
     washoutNm,
     ambiguousReasons: reasons,
+    timingsMs: (lap('summaries'), timingsMs),
   };
 }
 

@@ -130,3 +130,45 @@ export function matchColour(
   }
   return found;
 }
+
+/**
+ * The candidate that continues a resolved field: walks downhill from the reference position
+ * (the basin the field points into) and refines it. Also finds the cost of the best candidate of
+ * another order (more than `jump` away) among the cube's two best, for the confidence margin.
+ * Writes [position, cost, alternativeCost] into `out`; cheaper than `matchColour`.
+ */
+export function matchNear(
+  cube: CandidateCube,
+  predicted: Float32Array,
+  count: number,
+  r: number,
+  g: number,
+  b: number,
+  reference: number,
+  jump: number,
+  scratch: MatchScratch,
+  out: Float64Array,
+): void {
+  let start = Math.round(reference);
+  if (start < 0) start = 0;
+  else if (start >= count) start = count - 1;
+  const minimum = walkDownhill(predicted, count, r, g, b, start);
+  const position = refinePosition(predicted, count, r, g, b, minimum, scratch.cost, 0);
+  const cost = scratch.cost[0];
+  const cell = cellOf(cube.levels, r, g, b);
+  if (!cube.built[cell]) buildCell(cube, cell, predicted, count, scratch.cubeCost);
+  const base = cell * cube.perCell;
+  let alternative = Infinity;
+  for (let k = 0; k < 2 && k < cube.perCell; k++) {
+    const candidate = cube.candidates[base + k];
+    if (candidate < 0) break;
+    if (Math.abs(candidate - position) <= jump) continue;
+    const other = walkDownhill(predicted, count, r, g, b, candidate);
+    if (Math.abs(other - position) <= jump) continue;
+    const otherCost = distanceAt(predicted, other, r, g, b);
+    if (otherCost < alternative) alternative = otherCost;
+  }
+  out[0] = position;
+  out[1] = cost;
+  out[2] = alternative;
+}

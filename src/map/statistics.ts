@@ -29,7 +29,7 @@ export function computeMapStatistics(
     if (s === PixelStatus.dark) dark++;
     else if (s === PixelStatus.ok) n++;
   }
-  const values = new Float64Array(n);
+  const values = new Float32Array(n);
   let m = 0;
   let sum = 0;
   for (let i = 0; i < status.length; i++) {
