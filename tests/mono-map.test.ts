@@ -336,6 +336,27 @@ describe('mapLineIntensity() intensity scale', () => {
   });
 });
 
+describe('mapLineIntensity() edge cases', () => {
+  const calibrated = options({ exposureFixed: { exposure: 0.62 / table.levelMax, whiteBalance: [1, 1, 1], flare: [0.015, 0.015, 0.015] } });
+  it('maps a 1×1 photo from a calibration (first order assumed)', () => {
+    // 60 nm water film: R from our table, encoded like a camera would.
+    const v = encodeSrgb((0.62 / table.levelMax) * reflectanceAt(table, 60) + 0.015);
+    const result = mapLineIntensity({ width: 1, height: 1, rgb: Float32Array.of(v, v, v), isGrey: true }, calibrated, table);
+    expect(result.status[0]).toBe(PixelStatus.ok);
+    expect(result.thicknessNm[0]).toBeCloseTo(60, 0);
+  });
+  it('refuses a 1×1 photo without calibration: the intensity scale is unknown', () => {
+    expect(() => mapLineIntensity({ width: 1, height: 1, rgb: Float32Array.of(0.5, 0.5, 0.5), isGrey: true }, options(), table)).toThrow(/intensity scale is unknown/);
+  });
+  it('says so when the mask excludes every pixel', () => {
+    const { photo } = render({ topNm: 0, bottomNm: 900, blackFilm: true });
+    expect(() => mapLineIntensity(photo, calibrated, table, new Uint8Array(W * H))).toThrow(/no film pixels to measure/);
+  });
+  it('rejects a photo whose rgb does not match its size', () => {
+    expect(() => mapLineIntensity({ width: 2, height: 2, rgb: new Float32Array(5), isGrey: true }, calibrated, table)).toThrow(/photo.rgb must be a Float32Array of 12 values/);
+  });
+});
+
 describe('mapMonochromatic() entry point', () => {
   it('rejects a line outside 380–780 nm', () => {
     const { photo } = render({ topNm: 0, bottomNm: 900, blackFilm: true });

@@ -35,6 +35,11 @@ import { EXTREME_MIN, thicknessOnBranch, type LineReflectanceTable } from './lin
 import { anchorSeeds, blackFilmSeeds, zonePriorBranches } from './orderSeeds.js';
 import { NO_BRANCH, solveZoneBranches } from './zoneBranches.js';
 
+/** Smallest zone kept in the fringe count: 6 px (1e-4 of large films), less on tiny images. */
+function minZonePx(usableCount: number): number {
+  return Math.min(Math.max(6, Math.round(1e-4 * usableCount)), Math.max(1, Math.floor(usableCount / 100)));
+}
+
 /** Normalised level below / above which a pixel belongs to a dark / bright band. */
 export const BAND_LEVEL = 0.12;
 /** Correlation of a colour channel with the mean below which the light looks broadband. */
@@ -82,6 +87,9 @@ export function mapLineIntensity(
     if (!film[p] || light.saturated[p]) continue;
     usable[p] = 1;
     usableCount++;
+  }
+  if (usableCount === 0) {
+    throw new Error('no film pixels to measure: the region, mask or alpha channel excludes every pixel, or every film pixel is clipped');
   }
   if (!photo.isGrey && light.worstChannelCorrelation < MIN_CHANNEL_CORRELATION) {
     warnings.push(
@@ -137,7 +145,7 @@ export function mapLineIntensity(
     levelWide[p] = (smoothed[p] - lo) * toLevelHere;
     levelRaw[p] = (light.intensity[p] - lo) * toLevelHere;
   }
-  const seg = segmentFringes(classifyLevels(levelRaw, countable, BAND_LEVEL), width, height, Math.max(6, Math.round(1e-4 * usableCount)));
+  const seg = segmentFringes(classifyLevels(levelRaw, countable, BAND_LEVEL), width, height, minZonePx(usableCount));
   const firstKind = table.boundaryKind[0];
   if (unresolvedCount > 0) {
     warnings.push(`${unresolvedCount} px have fringes too dense to count (thickness changes too fast for the pixel size) and are marked ambiguous`);
