@@ -140,7 +140,13 @@ function formatNumber(value: number): string {
 export function register(program: Command): void {
   const command = program
     .command('chart')
-    .description('interference colours of a film over a thickness range: CSV/JSON table or a PNG chart');
+    .description('interference colours of a film over a thickness range: CSV/JSON table or a PNG chart')
+    .addHelpText(
+      'after',
+      '\nColours are computed, then shown through an sRGB display or print: judge a sample by eye only as an estimate.\n' +
+        'Do not base release decisions on a visual chart alone; use qualified metrology (ellipsometry, reflectometry).\n' +
+        'Follow local safety codes for UV lamps, lasers and etch or soap chemicals used to prepare samples.',
+    );
   addStackOptions(command)
     .requiredOption('--light <name|file>', 'light: D65, D50, A, F2, F7, F11, LED-B1…B5, LED-BH1, LED-RGB1, LED-V1, LED-V2, blackbody:<K>, line:<nm>, or an SPD CSV file')
     .option('--white-balance <name|file>', 'camera white balance left at another light (default: balanced to --light)')
