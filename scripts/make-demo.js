@@ -69,9 +69,9 @@ export function demoThickness(tS, width, height) {
 }
 
 /** Renders frame `index` (t = index / fps) as 8-bit RGB with the demo's photo formation. */
-export function renderDemoFrame(index, width, height) {
+export function renderDemoFrame(index, width, height, fps = DEMO.fps) {
   const { stack, angleRad } = stackFromOptions(DEMO.stackOptions);
-  const thicknessNm = demoThickness(index / DEMO.fps, width, height);
+  const thicknessNm = demoThickness(index / fps, width, height);
   const photo = renderPhoto(thicknessNm, width, height, {
     stack,
     angleRad,

@@ -112,6 +112,15 @@ describe('fitDrainage() threshold crossing', () => {
     const fit = fitDrainage(tS, curve(exponentialModel, [1200, 600, 3], tS, 0, 1), exponentialModel, { quantity: 'mean', thinBelowNm: 400 });
     expect(fit.crossing!.timeS).toBeNull();
     expect(fit.crossing!.extrapolated).toBe(true);
+    expect(fit.crossing!.belowAtStart).toBe(false);
+  });
+
+  it('says when the curve is already below the threshold at the first frame', () => {
+    const tS = times(20, 0.5);
+    const fit = fitDrainage(tS, curve(exponentialModel, [90, 20, 3], tS, 0, 1), exponentialModel, { quantity: 'min', thinBelowNm: 100 });
+    expect(fit.crossing!.belowAtStart).toBe(true);
+    expect(fit.crossing!.extrapolated).toBe(false);
+    expect(fit.crossing!.observedS).toBe(0);
   });
 
   it('the ±1σ interval covers the true crossing time in roughly 68 % of noisy replicates (40 seeds)', () => {

@@ -159,6 +159,16 @@ describe('runSeries() with a test-double mapper', () => {
     expect(calls).toHaveLength(5);
   });
 
+  it('redoes every frame when the calibration changes, and records the calibration in series.json', async () => {
+    await makeFrames(3);
+    await runSeries(options(double([])));
+    const calls: Call[] = [];
+    const calibration = { fitted: { exposure: 6.1, whiteBalance: [1, 1, 1], flare: [0, 0, 0] } };
+    await runSeries(options(double(calls), { calibration }));
+    expect(calls).toHaveLength(3);
+    expect(JSON.parse(await readFile(join(outDir, 'series.json'), 'utf8')).calibration).toEqual(calibration);
+  });
+
   it('two shards plus an aggregation run give the same series.csv and series.json as one run, byte for byte', async () => {
     await makeFrames(11);
     await runSeries(options(double([])));

@@ -96,7 +96,7 @@ export async function runSeries(options: SeriesOptions): Promise<SeriesResult> {
   const workers = Math.min(options.workers, toVisit.length);
   options.onPlan?.({ frames: frames.length, toVisit: visitCount, chunks: toVisit.length, workers });
   if (options.shard && mine.length === 0) warnings.push(`shard ${options.shard.index}/${options.shard.count} has no frames (${chunks.length} chunk(s) of ${chunkSize} frames)`);
-  const run = await runFrames({
+  const run = toVisit.length === 0 ? { events: [], interrupted: false } : await runFrames({
     chunks: toVisit,
     outDir,
     settingsHash: hash,

@@ -18,7 +18,9 @@ export function formatSeriesSummary(result: SeriesResult): string[] {
     const c = fit.crossing;
     if (c) {
       text +=
-        c.timeS === null
+        c.belowAtStart
+          ? `; below ${c.thresholdNm} nm from the first frame`
+          : c.timeS === null
           ? `; does not reach ${c.thresholdNm} nm`
           : `; reaches ${c.thresholdNm} nm at ${sec(c.timeS)} (±1σ ${sec(c.lowS)} … ${c.highS === null ? 'unbounded' : sec(c.highS)})${c.extrapolated ? ', extrapolated beyond the last frame' : ''}`;
     }

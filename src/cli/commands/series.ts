@@ -9,7 +9,7 @@ import { InputError, UsageError, EXIT_INPUT } from '../errors.js';
 import { addStackOptions, parseNumberOption, stackFromOptions, type StackCliOptions } from '../stackOptions.js';
 import { parseShard } from '../../series/parseShard.js';
 import { runSeries, DEFAULT_CHUNK_FRAMES } from '../../series/runSeries.js';
-import { readCalibration } from '../../series/readCalibration.js';
+import { loadCalibrationForRun } from '../../calibrate/calibrationFile.js';
 import { MAP_FRAME_PROCESSOR_URL, type MapFrameConfig } from '../../series/mapFrameConfig.js';
 import { formatProgressBar, formatProgressLine } from '../../series/progressText.js';
 import { formatSeriesSummary } from '../../series/summaryText.js';
@@ -17,6 +17,8 @@ import type { SeriesProgress } from '../../series/types.js';
 
 interface SeriesCliOptions extends StackCliOptions {
   light: string;
+  whiteBalance?: string;
+  ignoreCalibrationMismatch?: boolean;
   fps?: string;
   interval?: string;
   calibration?: string;
@@ -58,8 +60,10 @@ async function run(inputs: string[], opts: SeriesCliOptions): Promise<void> {
   const fps = positive(opts.fps, '--fps');
   const intervalS = positive(opts.interval, '--interval');
   if (fps !== null && intervalS !== null) throw new UsageError('give --fps or --interval, not both');
-  const thinBelowNm = opts.thinBelow === undefined ? null : positive(opts.thinBelow, '--thin-below');
+  // Same defaults and limits as `lamella map`: 50 nm thin threshold for soap films, none otherwise.
+  const thinBelowNm = opts.thinBelow !== undefined ? positive(opts.thinBelow, '--thin-below') : opts.stack === 'soap-film' ? 50 : null;
   const maxThicknessNm = positive(opts.maxThickness, '--max-thickness')!;
+  if (maxThicknessNm > 20000) throw new UsageError(`--max-thickness must be a number of nm in (0, 20000], received ${opts.maxThickness}`);
   const workers = positive(opts.workers, '--workers', true)!;
   const chunkFrames = positive(opts.chunkFrames, '--chunk-frames', true)!;
   let shard = null;
@@ -70,13 +74,15 @@ async function run(inputs: string[], opts: SeriesCliOptions): Promise<void> {
       throw new UsageError(`--shard ${(error as Error).message.replace(/^shard /, '')}`);
     }
   }
-  stackFromOptions(opts, { onWarning: warn });
-  const calibration = opts.calibration === undefined ? null : await readCalibration(opts.calibration);
+  const { angleRad } = stackFromOptions(opts, { onWarning: warn });
+  const calibration = opts.calibration === undefined
+    ? null
+    : await loadCalibrationForRun(opts.calibration, { stack: opts.stack ?? '', light: opts.light, angleRad, ignoreMismatch: opts.ignoreCalibrationMismatch === true });
   const stackOptions: StackCliOptions = { stack: opts.stack, filmIndex: opts.filmIndex, angle: opts.angle, extrapolate: opts.extrapolate };
   const config: MapFrameConfig = {
     stackOptions,
     light: opts.light,
-    whiteBalanceLight: null,
+    whiteBalanceLight: opts.whiteBalance ?? null,
     thinBelowNm,
     maxThicknessNm,
     filmIndexScale: calibration?.filmIndexScale ?? null,
@@ -96,12 +102,12 @@ async function run(inputs: string[], opts: SeriesCliOptions): Promise<void> {
     result = await runSeries({
       inputs, outDir: opts.out, fps, intervalS, thinBelowNm, chunkFrames, workers, shard,
       aggregateOnly: opts.aggregateOnly === true, previews: opts.previews === true, report: opts.report,
-      mapSettings: { ...stackOptions, light: opts.light, thinBelowNm, maxThicknessNm },
+      mapSettings: { ...stackOptions, light: opts.light, whiteBalanceLight: opts.whiteBalance ?? null, thinBelowNm, maxThicknessNm },
       calibration: calibration?.raw ?? null,
       processor: { moduleUrl: MAP_FRAME_PROCESSOR_URL, config },
       signal: controller.signal,
       onFrame: (event, p) => {
-        if (event.outcome === 'failed' && !opts.quiet) process.stderr.write(`${process.stderr.isTTY ? '\n' : ''}lamella: ${event.message}\n`);
+        if (event.outcome === 'failed') process.stderr.write(`${process.stderr.isTTY && !opts.quiet ? '\n' : ''}lamella: ${event.message}\n`);
         progress(p);
       },
     });
@@ -122,7 +128,7 @@ async function run(inputs: string[], opts: SeriesCliOptions): Promise<void> {
   }
   const failedNow = new Set(result.events.filter((e) => e.outcome === 'failed').map((e) => e.message));
   for (const w of result.warnings) warn(w);
-  for (const f of result.failures) if (!failedNow.has(f) && !opts.quiet) process.stderr.write(`lamella: ${f}\n`);
+  for (const f of result.failures) if (!failedNow.has(f)) process.stderr.write(`lamella: ${f}\n`);
   if (!opts.quiet) process.stdout.write(`${formatSeriesSummary(result).join('\n')}\n`);
   if (result.failures.length > 0) process.exitCode = EXIT_INPUT;
 }
@@ -136,15 +142,17 @@ export function register(program: Command): void {
     .option('--light <spec>', 'light the film is viewed under: D65, F11, blackbody:3200, line:546, or an SPD file', 'D65')
     .option('--fps <n>', 'frames per second, for frames without an EXIF capture time')
     .option('--interval <s>', 'seconds between frames, for frames without an EXIF capture time')
-    .option('--calibration <file>', 'JSON with fixed exposure, white balance and flare (skips their fit per frame)')
-    .option('--thin-below <nm>', 'thin threshold in nm for thin fraction, thin regions and predicted crossing times')
+    .option('--white-balance <light>', 'the light the camera was white-balanced for, if not the light itself')
+    .option('--calibration <file>', 'photo-formation parameters from `lamella calibrate` instead of fitting them on every frame')
+    .option('--ignore-calibration-mismatch', 'use a calibration made for another stack or light')
+    .option('--thin-below <nm>', 'thin threshold in nm for thin fraction, thin regions and predicted crossing times (default 50 for soap-film, none otherwise)')
     .option('--max-thickness <nm>', 'largest thickness considered, nm', '2000')
     .option('--workers <n>', 'worker threads', String(availableParallelism()))
     .option('--shard <K/N>', 'map only the K-th of N contiguous parts of the series (1-based), then aggregate what OUT holds')
     .option('--chunk-frames <n>', 'frames per chunk: each chunk starts without a prior map; keep equal across shards', String(DEFAULT_CHUNK_FRAMES))
     .option('--aggregate-only', 'map nothing; aggregate the per-frame results already in OUT (after shard runs)')
     .option('--previews', 'also write <frame>.map.png and <frame>.flags.png per frame')
-    .option('--quiet', 'no progress display and no warnings')
+    .option('--quiet', 'no progress display, warnings or summary (failed frames are still reported)')
     .addOption(new Option('--no-report', 'do not write report.html'))
     .requiredOption('--out <dir>', 'output folder')
     .action((inputs: string[], opts: SeriesCliOptions) => run(inputs, opts));

@@ -20,6 +20,8 @@ export interface CrossingPrediction {
   readonly highS: number | null;
   /** True when the crossing lies after the last frame (a prediction beyond the data). */
   readonly extrapolated: boolean;
+  /** True when the fitted curve is already below the threshold at the first frame. */
+  readonly belowAtStart: boolean;
   /** The first frame time at which the measured series is already below the threshold, if any. */
   readonly observedS: number | null;
 }
@@ -69,7 +71,16 @@ function crossingOf(model: DrainageModel, p: number[], covariance: number[][], t
   }
   const index = hNm.findIndex((h) => h < threshold);
   const lastS = tS[tS.length - 1];
-  return { thresholdNm: threshold, timeS, lowS, highS, extrapolated: timeS === null || timeS > lastS, observedS: index >= 0 ? tS[index] : null };
+  const belowAtStart = model.model(p)(tS[0]) < threshold;
+  return {
+    thresholdNm: threshold,
+    timeS,
+    lowS,
+    highS,
+    extrapolated: !belowAtStart && (timeS === null || timeS > lastS),
+    belowAtStart,
+    observedS: index >= 0 ? tS[index] : null,
+  };
 }
 
 export function fitDrainage(tS: readonly number[], hNm: readonly number[], model: DrainageModel, options: FitDrainageOptions): DrainageFit {

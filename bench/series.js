@@ -1,0 +1,56 @@
+// Speed of `lamella series`: frames per second for 2-MP frames (1632×1224) with 1 and 2 worker
+// threads, and the series overhead per frame over a single in-process map of the same photo
+// (worker start-up, per-frame records and maps on disk, resume checks, aggregation).
+// Frames: the demo's invented drainage model (scripts/make-demo.js). Run after building:
+// `node bench/series.js [frames]` (or through bench/run.js, which calls benchSeries()).
+import { mkdtemp, rm } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { writeImage } from '../dist/io/writeImage.js';
+import { runSeries } from '../dist/series/runSeries.js';
+import { MAP_FRAME_PROCESSOR_URL } from '../dist/series/mapFrameConfig.js';
+import { createFrameProcessor } from '../dist/series/mapFrameProcessor.js';
+import { DEMO, renderDemoFrame } from '../scripts/make-demo.js';
+
+export async function benchSeries({ frames = 6, width = 1632, height = 1224 } = {}) {
+  const dir = await mkdtemp(join(tmpdir(), 'lamella-bench-series-'));
+  try {
+    for (let i = 0; i < frames; i++) {
+      const { image } = renderDemoFrame(i * 4, width, height);
+      await writeImage(join(dir, 'in', `f${String(i).padStart(3, '0')}.jpg`), image, { quality: 90 });
+    }
+    const config = {
+      stackOptions: DEMO.stackOptions, light: 'D65', whiteBalanceLight: null, thinBelowNm: DEMO.THIN_BELOW_NM,
+      maxThicknessNm: 2000, filmIndexScale: null, exposureFixed: null,
+    };
+    const processor = await createFrameProcessor(config);
+    const first = join(dir, 'in', 'f000.jpg');
+    await processor.map(first, null);
+    const t0 = performance.now();
+    await processor.map(first, null);
+    const singleMapMs = performance.now() - t0;
+    const results = [];
+    for (const workers of [1, 2]) {
+      const started = performance.now();
+      await runSeries({
+        inputs: [join(dir, 'in')], outDir: join(dir, `out${workers}`), fps: DEMO.fps, thinBelowNm: DEMO.THIN_BELOW_NM,
+        workers, chunkFrames: Math.ceil(frames / 2), mapSettings: { ...DEMO.stackOptions, light: 'D65' },
+        processor: { moduleUrl: MAP_FRAME_PROCESSOR_URL, config }, report: false,
+      });
+      const seconds = (performance.now() - started) / 1000;
+      results.push({ workers, seconds, framesPerSecond: frames / seconds });
+    }
+    const overheadMsPerFrame = (results[0].seconds * 1000) / frames - singleMapMs;
+    return { frames, width, height, singleMapMs, results, overheadMsPerFrame };
+  } finally {
+    await rm(dir, { recursive: true, force: true });
+  }
+}
+
+if (process.argv[1] === fileURLToPath(import.meta.url)) {
+  const r = await benchSeries({ frames: Number(process.argv[2] ?? 6) });
+  console.log(`series ${r.frames} frames of ${r.width}×${r.height}: single map ${r.singleMapMs.toFixed(0)} ms`);
+  for (const x of r.results) console.log(`  ${x.workers} worker(s): ${x.framesPerSecond.toFixed(2)} frames/s (${x.seconds.toFixed(1)} s)`);
+  console.log(`  overhead per frame over a single map (1 worker): ${r.overheadMsPerFrame.toFixed(0)} ms`);
+}

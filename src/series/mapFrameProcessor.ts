@@ -1,0 +1,35 @@
+/**
+ * The real frame processor of a series: the thickness mapper (`src/map/mapPhoto.ts`), bound once
+ * per worker thread to the series' settings. Workers load this module by URL
+ * (`MAP_FRAME_PROCESSOR_URL` in ./mapFrameConfig.ts) and call `createFrameProcessor(config)`.
+ */
+import { stackFromOptions } from '../cli/stackOptions.js';
+import { mapPhotoFile, writeMapOutputs } from '../map/mapPhoto.js';
+import type { MapOptions } from '../map/types.js';
+import type { MapFrameConfig } from './mapFrameConfig.js';
+import type { FrameProcessor } from './types.js';
+
+export function mapOptionsFromConfig(config: MapFrameConfig): MapOptions {
+  // The film index scale goes to the mapper only (it scales the film index when building its
+  // colour table), not into the stack as well, so it is applied once.
+  const { stack, angleRad } = stackFromOptions(config.stackOptions);
+  return {
+    stack,
+    angleRad,
+    light: config.light,
+    whiteBalanceLight: config.whiteBalanceLight,
+    filmIndexScale: config.filmIndexScale ?? undefined,
+    thinBelowNm: config.thinBelowNm,
+    maxThicknessNm: config.maxThicknessNm,
+    exposureFixed: config.exposureFixed,
+  };
+}
+
+export async function createFrameProcessor(config: MapFrameConfig): Promise<FrameProcessor> {
+  const base = mapOptionsFromConfig(config);
+  return {
+    map: (framePath, prior) => mapPhotoFile(framePath, { ...base, prior }),
+    writePreviews: (result, framePath, dir, stem) =>
+      writeMapOutputs(result, framePath, dir, stem, { images: true, json: false, npy: false, tiff: false }, base),
+  };
+}
