@@ -13,6 +13,14 @@ import {
   predictEncodedPixel,
   resolveLight,
   srgb8ToLinear,
+  whiteBalanceMatrix,
+  encodeLinear,
+  ADAPTATION_MATRICES,
+  applyMatrix3,
+  chromaticAdaptationMatrix,
+  invertMatrix3,
+  multiplyMatrix3,
+  XYZ_TO_LINEAR_SRGB,
 } from '../src/colour/index.js';
 import { resolveStack } from '../src/optics/index.js';
 import { chartTable } from '../src/render/chartTable.js';
@@ -91,10 +99,25 @@ describe('photo formation (exposure, flare, white-balance gains, noise)', () => 
     expect(srgb8ToLinear(lit[1] / 257)).toBeCloseTo(linear[1], 4);
     expect(srgb8ToLinear(lit[2] / 257)).toBeCloseTo(linear[2] + 0.02, 4);
   });
-  it('white-balance gains multiply each channel', () => {
-    const gained = renderPhoto(Float32Array.of(250), 1, 1, { stack, light, bitDepth: 16, whiteBalance: [1.2, 1, 0.8] }).data;
-    expect(srgb8ToLinear(gained[0] / 257)).toBeCloseTo(linear[0] * 1.2, 4);
-    expect(srgb8ToLinear(gained[2] / 257)).toBeCloseTo(linear[2] * 0.8, 4);
+  it('equal white-balance gains scale every channel alike', () => {
+    const gained = renderPhoto(Float32Array.of(250), 1, 1, { stack, light, bitDepth: 16, whiteBalance: [0.8, 0.8, 0.8] }).data;
+    for (let c = 0; c < 3; c++) expect(srgb8ToLinear(gained[c] / 257)).toBeCloseTo(linear[c] * 0.8, 4);
+  });
+  it('white-balance gains act in the Bradford cone space: gains from two whites equal the Bradford adaptation between them (identity, Lam 1985)', () => {
+    // Gains ρ(D65)/ρ(A) in Bradford space must reproduce P⁻¹·CAT(A→D65)·P on linear sRGB.
+    const whiteA = [109.85, 100, 35.585]; // Westland & Ripamonti 2004, Table 4.2
+    const whiteD65 = [95.047, 100, 108.883];
+    const m = ADAPTATION_MATRICES.bradford;
+    const coneA = applyMatrix3(m, whiteA);
+    const coneD65 = applyMatrix3(m, whiteD65);
+    const gains: [number, number, number] = [coneD65[0] / coneA[0], coneD65[1] / coneA[1], coneD65[2] / coneA[2]];
+    const viaGains = whiteBalanceMatrix(gains);
+    const cat = chromaticAdaptationMatrix(whiteA, whiteD65);
+    const expected = multiplyMatrix3(XYZ_TO_LINEAR_SRGB, multiplyMatrix3(cat, invertMatrix3(XYZ_TO_LINEAR_SRGB)));
+    for (let i = 0; i < 9; i++) expect(viaGains[i]).toBeCloseTo(expected[i], 12);
+    const identity = whiteBalanceMatrix([1, 1, 1]);
+    for (let i = 0; i < 9; i++) expect(identity[i]).toBeCloseTo(i % 4 === 0 ? 1 : 0, 12);
+    expect(Array.from(whiteBalanceMatrix([2, 3, 4], 'linear'))).toEqual([2, 0, 0, 0, 3, 0, 0, 0, 4]);
   });
   it('noise of σ = 0.01 gives a sample standard deviation of 0.01 ± 5 % in linear units; same seed, same image', () => {
     const a = renderPhoto(flat, 200, 200, { stack, light, bitDepth: 16, noiseSigma: 0.01, seed: 7 }).data;
@@ -120,13 +143,15 @@ describe('photo formation (exposure, flare, white-balance gains, noise)', () => 
     expect(() => checkPhotoFormation({ exposure: -1 })).toThrow('exposure must be a finite number > 0, received -1');
     expect(() => checkPhotoFormation({ whiteBalance: [1, 0, 1] })).toThrow(/whiteBalance must be three finite gains > 0/);
   });
-  it('predictEncodedPixel() is encode(clamp(exposure·gain·rgb + flare))', () => {
+  it('predictEncodedPixel() is encode(clamp(exposure·W(gains)·rgb + flare))', () => {
     const out = new Float64Array(3);
-    const p = checkPhotoFormation({ exposure: 2, whiteBalance: [1, 1, 0.5], flare: [0, 0.1, 0] });
+    const p = checkPhotoFormation({ exposure: 2, whiteBalance: [0.5, 0.5, 0.5], flare: [0, 0.1, 0] });
     predictEncodedPixel([0.2, 0.3, 0.8], p, encodeSrgb, out);
-    expect(out[0]).toBeCloseTo(encodeSrgb(0.4), 12);
-    expect(out[1]).toBeCloseTo(encodeSrgb(0.7), 12);
+    expect(out[0]).toBeCloseTo(encodeSrgb(0.2), 12);
+    expect(out[1]).toBeCloseTo(encodeSrgb(0.4), 12);
     expect(out[2]).toBeCloseTo(encodeSrgb(0.8), 12);
+    predictEncodedPixel([0.2, 0.3, 0.8], checkPhotoFormation({ exposure: 2, whiteBalance: [1, 1, 0.5] }), encodeLinear, out, 0, 'linear');
+    expect(Array.from(out)).toEqual([0.4, 0.6, 0.8]);
   });
 });
 

@@ -1,12 +1,21 @@
 /**
  * The forward photo model shared by the renderer and the thickness mapper:
- *   encoded_c = encode( clamp01( exposure · wbGain_c · rgbLinear_c(d) + flare_c + noise_c ) )
- * rgbLinear is the camera's linear RGB of the film (./camera.ts); `exposure` is an overall gain,
- * `wbGain` per-channel white-balance gains, `flare` an additive linear offset (veiling glare,
+ *   encoded_c = encode( clamp01( exposure · (W(wbGain) · rgbLinear(d))_c + flare_c + noise_c ) )
+ * rgbLinear is the camera's linear RGB of the film (./camera.ts); `exposure` is an overall gain;
+ * `wbGain` are white-balance gains, applied where a camera applies them: on its own channels.
+ * For a raw (linear) camera W is diag(gains). For an sRGB camera the gains act in the Bradford
+ * cone space (Lam 1985; a sharpened cone space close to camera raw channels), so
+ * W = P⁻¹·M⁻¹·diag(gains)·M·P with P = linear sRGB → XYZ and M the Bradford matrix: a white
+ * balance left at another light is then exactly a set of gains (von Kries adaptation). `flare`
+ * is an additive linear offset (veiling glare,
  * common practice to model it as a constant), `noise` Gaussian sensor noise of standard deviation
  * `noiseSigma` in linear units. `encode` is the sRGB transfer function (IEC 61966-2-1) for sRGB
  * cameras and the identity for linear (raw) cameras.
  */
+
+import { ADAPTATION_MATRICES } from './chromaticAdaptation.js';
+import { type Matrix3, diagonalMatrix3, invertMatrix3, multiplyMatrix3 } from './matrix3.js';
+import { LINEAR_SRGB_TO_XYZ } from './srgb.js';
 
 export interface PhotoFormation {
   readonly exposure: number;
@@ -41,9 +50,35 @@ export function checkPhotoFormation(input: PhotoFormationInput = {}): PhotoForma
   return { exposure, whiteBalance: [whiteBalance[0], whiteBalance[1], whiteBalance[2]], flare: [flare[0], flare[1], flare[2]] };
 }
 
-/** Linear value recorded in channel c before clamping and encoding (no noise). */
-export function formLinear(rgbLinearC: number, channel: 0 | 1 | 2, p: PhotoFormation): number {
-  return p.exposure * p.whiteBalance[channel] * rgbLinearC + p.flare[channel];
+/** The white-balance matrix W(gains) described above (row-major 3×3). */
+export function whiteBalanceMatrix(gains: readonly [number, number, number], encoding: 'srgb' | 'linear' = 'srgb'): Matrix3 {
+  const diagonal = diagonalMatrix3(gains[0], gains[1], gains[2]);
+  if (encoding === 'linear') return diagonal;
+  const toCone = multiplyMatrix3(ADAPTATION_MATRICES.bradford, LINEAR_SRGB_TO_XYZ);
+  return multiplyMatrix3(invertMatrix3(toCone), multiplyMatrix3(diagonal, toCone));
+}
+
+/**
+ * Applies exposure and white balance to a table of linear RGB (n × 3): out = exposure·W·rgb.
+ * Flare is added later, per pixel or per table entry.
+ */
+export function balanceTable(
+  rgbLinear: Float64Array | Float32Array,
+  p: PhotoFormation,
+  encoding: 'srgb' | 'linear' = 'srgb',
+  out: Float64Array = new Float64Array(rgbLinear.length),
+): Float64Array {
+  const w = whiteBalanceMatrix(p.whiteBalance, encoding);
+  const e = p.exposure;
+  for (let i = 0; i < rgbLinear.length; i += 3) {
+    const r = rgbLinear[i];
+    const g = rgbLinear[i + 1];
+    const b = rgbLinear[i + 2];
+    out[i] = e * (w[0] * r + w[1] * g + w[2] * b);
+    out[i + 1] = e * (w[3] * r + w[4] * g + w[5] * b);
+    out[i + 2] = e * (w[6] * r + w[7] * g + w[8] * b);
+  }
+  return out;
 }
 
 /**
@@ -57,9 +92,11 @@ export function predictEncodedPixel(
   encode: (linear: number) => number,
   out: Float64Array | Float32Array,
   offset = 0,
+  encoding: 'srgb' | 'linear' = 'srgb',
 ): void {
+  const balanced = balanceTable(Float64Array.of(rgbLinear[0], rgbLinear[1], rgbLinear[2]), p, encoding);
   for (let c = 0; c < 3; c++) {
-    const v = p.exposure * p.whiteBalance[c] * rgbLinear[c] + p.flare[c];
+    const v = balanced[c] + p.flare[c];
     out[offset + c] = encode(v < 0 ? 0 : v > 1 ? 1 : v);
   }
 }

@@ -3,13 +3,16 @@
  * (start + i·step, never a running sum) with the camera's linear RGB for each thickness, and
  * the photo-formation model that turns it into the encoded values a photo would hold:
  *
- *   encoded_c(d) = encode( exposure · wb_c · rgbLinear_c(d) + flare_c ),  c ∈ {R, G, B}
+ *   encoded_c(d) = encode( exposure · (W(wb) · rgbLinear(d))_c + flare_c ),  c ∈ {R, G, B}
+ *
+ * W(wb) are white-balance gains on the camera's own channels (see ../colour/exposureModel.ts).
  *
  * `encode` is the sRGB transfer function (IEC 61966-2-1:1999) for JPEG/PNG photos, or the
  * identity for linear raw images.
  */
 import type { ExposureParameters } from './types.js';
 import { encodeSrgbFast } from './transferCurve.js';
+import { balanceTable } from '../colour/exposureModel.js';
 
 export interface ColourTable {
   readonly startNm: number;
@@ -33,22 +36,25 @@ export function predictEncodedTable(
   parameters: ExposureParameters,
   out: Float32Array = new Float32Array(table.count * 3),
 ): Float32Array {
-  const { exposure, whiteBalance, flare } = parameters;
-  const gain0 = exposure * whiteBalance[0];
-  const gain1 = exposure * whiteBalance[1];
-  const gain2 = exposure * whiteBalance[2];
+  const { flare } = parameters;
   const linearOut = table.encoding === 'linear';
-  const rgb = table.rgbLinear;
+  const balanced = balanceTable(table.rgbLinear, parameters, table.encoding, scratchFor(table.rgbLinear.length));
   for (let i = 0; i < table.count; i++) {
     const o = i * 3;
-    const r = clampUnit(gain0 * rgb[o] + flare[0]);
-    const g = clampUnit(gain1 * rgb[o + 1] + flare[1]);
-    const b = clampUnit(gain2 * rgb[o + 2] + flare[2]);
+    const r = clampUnit(balanced[o] + flare[0]);
+    const g = clampUnit(balanced[o + 1] + flare[1]);
+    const b = clampUnit(balanced[o + 2] + flare[2]);
     out[o] = linearOut ? r : encodeSrgbFast(r);
     out[o + 1] = linearOut ? g : encodeSrgbFast(g);
     out[o + 2] = linearOut ? b : encodeSrgbFast(b);
   }
   return out;
+}
+
+let scratch = new Float64Array(0);
+function scratchFor(length: number): Float64Array {
+  if (scratch.length < length) scratch = new Float64Array(length);
+  return scratch.length === length ? scratch : scratch.subarray(0, length);
 }
 
 function clampUnit(value: number): number {

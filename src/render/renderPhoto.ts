@@ -1,13 +1,13 @@
 /**
  * Renders a thickness map into the photo a camera would take of the film: per pixel, the linear
  * camera RGB from a thickness lookup table (./thicknessColourLut.ts, linear interpolation), then
- * the shared photo model (../colour/exposureModel.ts): exposure · gain_c · rgb_c + flare_c +
+ * the shared photo model (../colour/exposureModel.ts): exposure · (W(gains)·rgb)_c + flare_c +
  * Gaussian noise (seeded; ../colour/normalQuantiles.ts), clamped, encoded (sRGB or linear) and
  * quantised to 8 or 16 bits through a code table (../colour/encodedCodeTable.ts).
  * Pixels with NaN, negative or infinite thickness are rendered black and counted in a warning.
  */
 import { buildCamera, type Camera } from '../colour/camera.js';
-import { checkPhotoFormation, encodeLinear, type PhotoFormationInput } from '../colour/exposureModel.js';
+import { balanceTable, checkPhotoFormation, type PhotoFormationInput } from '../colour/exposureModel.js';
 import type { Light } from '../colour/light.js';
 import type { ObserverName } from '../colour/observers.js';
 import { encodedCodeTable } from '../colour/encodedCodeTable.js';
@@ -90,14 +90,12 @@ export function renderPhoto(thicknessNm: Float32Array, width: number, height: nu
     polarisation: options.polarisation,
     filmIndexScale: options.filmIndexScale,
   });
-  const table = lut.rgbLinear;
+  // Exposure and white balance folded into the table once (W(gains), ../colour/exposureModel.ts).
+  const table = balanceTable(lut.rgbLinear, formation, camera.encoding);
   const last = lut.count - 2;
   const inverseStep = 1 / lut.stepNm;
   const from = lut.fromNm;
   const { codes, maxIndex } = encodedCodeTable(camera.encoding, bitDepth);
-  const g0 = formation.exposure * formation.whiteBalance[0];
-  const g1 = formation.exposure * formation.whiteBalance[1];
-  const g2 = formation.exposure * formation.whiteBalance[2];
   const [f0, f1, f2] = formation.flare;
   const quantiles = normalQuantileTable();
   // Mulberry32 stream (see ../colour/seededNormal.ts), inlined: three draws per noisy pixel.
@@ -112,9 +110,9 @@ export function renderPhoto(thicknessNm: Float32Array, width: number, height: nu
     if (i > last) i = last;
     const f = t - i;
     const k = i * 3;
-    let r = g0 * (table[k] + f * (table[k + 3] - table[k])) + f0;
-    let g = g1 * (table[k + 1] + f * (table[k + 4] - table[k + 1])) + f1;
-    let b = g2 * (table[k + 2] + f * (table[k + 5] - table[k + 2])) + f2;
+    let r = table[k] + f * (table[k + 3] - table[k]) + f0;
+    let g = table[k + 1] + f * (table[k + 4] - table[k + 1]) + f1;
+    let b = table[k + 2] + f * (table[k + 5] - table[k + 2]) + f2;
     if (noisy) {
       for (let c = 0; c < 3; c++) {
         state = (state + 0x6d2b79f5) >>> 0;

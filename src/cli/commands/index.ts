@@ -10,6 +10,7 @@ export const commandModules: ReadonlyArray<() => Promise<{ register: Register }>
   // e.g. () => import('./spectrum.js'),
   () => import('./spectrum.js'),
   () => import('./map.js'),
+  () => import('./calibrate.js'),
   () => import('./series.js'),
   () => import('./chart.js'),
   () => import('./render.js'),

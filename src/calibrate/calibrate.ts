@@ -1,0 +1,98 @@
+/**
+ * `lamella calibrate` as a library call: read the photo, measure the known rectangles, fit,
+ * and build the calibration record (see ./calibrationFile.ts for its shape), including the
+ * residual colour difference per known region as CIEDE2000 (Sharma, Wu & Dalal 2005) between
+ * the observed and the fitted colour, both taken as sRGB (D65).
+ */
+import { basename } from 'node:path';
+import { buildCamera, convertXyzToLab, deltaE2000, decodeSrgb, resolveLight, LINEAR_SRGB_TO_XYZ, SRGB_WHITE_XYZ } from '../colour/index.js';
+import { readPhoto } from '../io/readPhoto.js';
+import type { Stack } from '../optics/types.js';
+import { CALIBRATION_VERSION } from './calibrationFile.js';
+import { type CalibrationParameter, fitCalibration } from './fitCalibration.js';
+import { type KnownRegion, knownRegionColours } from './knownRegions.js';
+
+export interface CalibrateOptions {
+  readonly stack: Stack;
+  /** The --stack value as given (preset name or file), recorded for mismatch checks. */
+  readonly stackSpec: string;
+  readonly light: string;
+  readonly whiteBalanceLight?: string | null;
+  readonly angleRad: number;
+  readonly known: readonly KnownRegion[];
+  readonly fit: readonly CalibrationParameter[];
+}
+
+export interface CalibrationRecord extends Record<string, unknown> {
+  readonly warnings: string[];
+}
+
+export async function calibratePhotoFile(path: string, options: CalibrateOptions): Promise<CalibrationRecord> {
+  const photo = await readPhoto(path);
+  return calibrateDecoded(photo.rgb, photo.width, photo.height, basename(path), options);
+}
+
+export function calibrateDecoded(
+  rgb: Float32Array,
+  width: number,
+  height: number,
+  photoName: string,
+  options: CalibrateOptions,
+): CalibrationRecord {
+  const light = resolveLight(options.light);
+  const whiteBalance = options.whiteBalanceLight ? resolveLight(options.whiteBalanceLight) : undefined;
+  const camera = buildCamera({ light, whiteBalance });
+  const regions = knownRegionColours(rgb, width, height, options.known);
+  const result = fitCalibration({ stack: options.stack, camera, angleRad: options.angleRad, regions, fit: options.fit });
+  const known = regions.map((r, k) => ({
+    region_px: r.region,
+    thickness_nm: r.thicknessNm,
+    pixels: r.pixels,
+    observed_srgb: r.colour.map(round4),
+    fitted_srgb: result.predicted[k].map(round4),
+    residual_delta_e2000: round4(deltaE2000(labOf(r.colour), labOf(result.predicted[k]))),
+    clipped_fraction: round4(r.clippedFraction),
+  }));
+  const { parameters } = result;
+  return {
+    lamella_calibration: CALIBRATION_VERSION,
+    created: new Date().toISOString(),
+    photo: photoName,
+    photo_size_px: [width, height],
+    applies_to: {
+      stack: options.stackSpec,
+      light: options.light,
+      white_balance_light: options.whiteBalanceLight ?? null,
+      angle_deg: (options.angleRad * 180) / Math.PI,
+      camera: camera.description,
+    },
+    fitted_parameters: result.fitted,
+    fitted: {
+      exposure: parameters.exposure,
+      whiteBalance: parameters.whiteBalance,
+      flare: parameters.flare,
+      filmIndexScale: parameters.filmIndexScale,
+      angleDeg: parameters.angleDeg,
+    },
+    filmIndexScale: parameters.filmIndexScale,
+    uncertainty: result.uncertainties,
+    residual_rms_encoded: result.rmsResidual,
+    known_regions: known,
+    warnings: result.warnings,
+    caution:
+      'Calibrated photo thickness is still an estimate: not a substitute for qualified metrology for release or safety decisions.',
+  };
+}
+
+const WHITE = SRGB_WHITE_XYZ.map((v) => v * 100);
+
+function labOf(encoded: readonly number[]): [number, number, number] {
+  const linear = encoded.map((v) => decodeSrgb(Math.min(1, Math.max(0, v))));
+  const m = LINEAR_SRGB_TO_XYZ;
+  const xyz = [0, 1, 2].map((r) => 100 * (m[r * 3] * linear[0] + m[r * 3 + 1] * linear[1] + m[r * 3 + 2] * linear[2]));
+  return convertXyzToLab(xyz, WHITE);
+}
+
+function round4(value: number): number {
+  return Math.round(value * 1e4) / 1e4;
+}

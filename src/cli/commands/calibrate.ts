@@ -1,0 +1,91 @@
+/**
+ * `lamella calibrate PHOTO --stack S --light L --known X,Y,W,H=NM … --out CAL.json`: fits the
+ * photo-formation parameters (and on request film index and angle) from rectangles of known
+ * thickness, writes them with uncertainties to a file `map` and `series` take with --calibration.
+ */
+import type { Command } from 'commander';
+import { resolve } from 'node:path';
+import { atomicWriteFile } from '../../io/atomicWriteFile.js';
+import { calibratePhotoFile } from '../../calibrate/calibrate.js';
+import { CALIBRATION_PARAMETERS, type CalibrationParameter } from '../../calibrate/fitCalibration.js';
+import { InputError, UsageError } from '../errors.js';
+import { collect, parseKnown } from '../parseGeometry.js';
+import { addStackOptions, stackFromOptions, type StackCliOptions } from '../stackOptions.js';
+
+interface CalibrateCliOptions extends StackCliOptions {
+  light: string;
+  whiteBalance?: string;
+  known?: string[];
+  fit: string;
+  out: string;
+  json?: boolean;
+  force?: boolean;
+}
+
+export function parseFitList(text: string): CalibrationParameter[] {
+  const names = text.split(',').map((s) => s.trim()).filter(Boolean);
+  for (const name of names) {
+    if (!(CALIBRATION_PARAMETERS as readonly string[]).includes(name)) {
+      throw new UsageError(`--fit: unknown parameter '${name}'; choose from ${CALIBRATION_PARAMETERS.join(', ')}`);
+    }
+  }
+  if (names.length === 0) throw new UsageError(`--fit needs at least one of ${CALIBRATION_PARAMETERS.join(', ')}`);
+  return names as CalibrationParameter[];
+}
+
+export function register(program: Command): void {
+  const command = program
+    .command('calibrate')
+    .description('fit exposure, flare and white balance (optionally film index and angle) from regions of known thickness; writes a calibration file')
+    .argument('<photo>', 'photo of a reference sample (e.g. a step wafer with measured patches)');
+  addStackOptions(command);
+  command
+    .option('--light <light>', 'light: D65, D50, A, F2, F7, F11, LED-B1…, blackbody:<K>, or an SPD CSV file', 'D65')
+    .option('--white-balance <light>', 'the light the camera was white-balanced for, when known')
+    .option('--known <x,y,w,h=nm>', 'a rectangle of known film thickness (repeatable, at least one)', collect)
+    .option('--fit <list>', `parameters to fit, from ${CALIBRATION_PARAMETERS.join(',')}`, 'exposure,flare,white-balance')
+    .requiredOption('--out <file>', 'calibration file to write (JSON)')
+    .option('--force', 'overwrite an existing calibration file')
+    .option('--json', 'print the calibration record on stdout')
+    .action(async (photo: string, opts: CalibrateCliOptions) => {
+      const { stack, angleRad } = stackFromOptions(opts);
+      const known = (opts.known ?? []).map(parseKnown);
+      if (known.length === 0) throw new UsageError('--known is required at least once: X,Y,W,H=NM (a rectangle of known thickness)');
+      if (resolve(opts.out) === resolve(photo)) throw new UsageError('--out would overwrite the photo');
+      const { stat } = await import('node:fs/promises');
+      const existing = await stat(opts.out).catch(() => null);
+      if (existing?.isDirectory()) throw new InputError(opts.out, '--out is a folder; give a file name such as cal.json');
+      if (existing && !opts.force) throw new InputError(opts.out, 'exists already; add --force to replace it');
+      const record = await calibratePhotoFile(photo, {
+        stack,
+        stackSpec: opts.stack ?? '',
+        light: opts.light,
+        whiteBalanceLight: opts.whiteBalance ?? null,
+        angleRad,
+        known: known.map((k) => ({ region: k.region, thicknessNm: k.thicknessNm })),
+        fit: parseFitList(opts.fit),
+      });
+      await atomicWriteFile(opts.out, Buffer.from(`${JSON.stringify(record, null, 2)}\n`, 'utf8'));
+      for (const warning of record.warnings) process.stderr.write(`lamella: warning: ${warning}\n`);
+      if (opts.json) process.stdout.write(`${JSON.stringify(record, null, 2)}\n`);
+      else process.stdout.write(summary(record, opts.out));
+    });
+}
+
+function summary(record: Record<string, unknown>, out: string): string {
+  const fitted = record.fitted as { exposure: number; whiteBalance: number[]; flare: number[]; filmIndexScale: number; angleDeg: number };
+  const u = record.uncertainty as Record<string, number | null>;
+  const pm = (key: string): string => (u[key] == null ? '' : ` ± ${(u[key] as number).toPrecision(2)}`);
+  const lines = [
+    `calibration written to ${out}`,
+    `  exposure       ${fitted.exposure.toFixed(4)}${pm('exposure')}`,
+    `  white balance  R ${fitted.whiteBalance[0].toFixed(4)}${pm('wbR')}, G 1, B ${fitted.whiteBalance[2].toFixed(4)}${pm('wbB')}`,
+    `  flare          ${fitted.flare.map((f) => f.toFixed(4)).join(', ')}`,
+    `  index scale    ${fitted.filmIndexScale.toFixed(4)}${pm('indexScale')}`,
+    `  angle          ${fitted.angleDeg.toFixed(2)}°${pm('angleDeg')}`,
+    ...(record.known_regions as Array<{ region_px: number[]; thickness_nm: number; residual_delta_e2000: number }>).map(
+      (k) => `  known ${k.region_px.join(',')} = ${k.thickness_nm} nm: residual ΔE2000 ${k.residual_delta_e2000.toFixed(2)}`,
+    ),
+  ];
+  return `${lines.join('\n')}\n`;
+}
