@@ -7,3 +7,4 @@ export * from './fit/index.js';
 export { renderMapReport, renderSeriesReport, makeReportGrid } from './report/index.js';
 export type { MapReportInput, SeriesReportInput, ReportGrid, ThinRegionRow, SeriesFrameRow, DrainageFitSummary } from './report/index.js';
 export * from './render/index.js';
+export * from './series/index.js';
