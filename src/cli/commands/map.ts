@@ -7,11 +7,13 @@ import { Option, type Command } from 'commander';
 import { basename, extname, join } from 'node:path';
 import { EXIT_FINDING, EXIT_INPUT, oneLine } from '../errors.js';
 import { addStackOptions, parseNumberOption, stackFromOptions, type StackCliOptions } from '../stackOptions.js';
-import { collect, parseAnchor, parseRegion } from '../parseGeometry.js';
+import { collect, parseAnchor, parseKnown, parseRegion } from '../parseGeometry.js';
 import { UsageError } from '../errors.js';
 import { ensureOutputDir, assertNoInputOverwritten } from '../../io/ensureOutputDir.js';
 import { atomicWriteFile } from '../../io/atomicWriteFile.js';
-import { mapPhotoFile, writeMapOutputs, mapResultJson } from '../../map/mapPhoto.js';
+import { mapDecodedPhoto, readMask, writeMapOutputs, mapResultJson } from '../../map/mapPhoto.js';
+import { readPhoto } from '../../io/readPhoto.js';
+import { calibrateDecoded } from '../../calibrate/calibrate.js';
 import { mapReportInput } from '../../map/mapReportInput.js';
 import { renderMapReport } from '../../report/index.js';
 import type { MapOptions } from '../../map/types.js';
@@ -28,6 +30,7 @@ interface MapCliOptions extends StackCliOptions {
   maxThickness: string;
   pixelSize?: string;
   calibration?: string;
+  known?: string[];
   ignoreCalibrationMismatch?: boolean;
   out: string;
   json?: boolean;
@@ -55,6 +58,7 @@ export function register(program: Command): void {
     .option('--pixel-size <um>', 'size of one pixel on the sample, micrometres (for areas and a scale bar)')
     .option('--calibration <file>', 'photo-formation parameters from `lamella calibrate` instead of fitting them')
     .option('--ignore-calibration-mismatch', 'use a calibration made for another stack or light')
+    .option('--known <x,y,w,h=nm>', 'calibrate on each photo itself from a rectangle of known thickness (repeatable)', collect)
     .requiredOption('--out <dir>', 'output folder (created if missing)')
     .option('--json', 'print the JSON record(s) on stdout')
     .option('--no-report', 'do not write the HTML report')
@@ -103,6 +107,8 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
     pixelSizeUm,
     exposureFixed: calibration?.exposureFixed ?? null,
   };
+  const known = (opts.known ?? []).map(parseKnown);
+  if (known.length > 0 && calibration) throw new UsageError('give either --known (calibrate on the photo) or --calibration (a calibration file), not both');
   const stems = photos.map((p) => basename(p, extname(p)));
   const duplicate = stems.find((s, i) => stems.indexOf(s) !== i);
   if (duplicate) throw new UsageError(`two photos share the name '${duplicate}': their outputs would collide; map them into different --out folders`);
@@ -118,16 +124,33 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
   for (const [index, photo] of photos.entries()) {
     const stem = stems[index];
     try {
-      const result = await mapPhotoFile(photo, options);
-      await writeMapOutputs(result, photo, outDir, stem, { images: true, json: true, npy: true, tiff: true }, options);
+      const decoded = await readPhoto(photo);
+      const mask = options.maskPath ? await readMask(options.maskPath, decoded.width, decoded.height) : null;
+      let photoOptions = options;
+      if (known.length > 0) {
+        const onPhoto = calibrateDecoded(decoded.rgb, decoded.width, decoded.height, basename(photo), {
+          stack,
+          stackSpec: opts.stack ?? '',
+          light: opts.light,
+          whiteBalanceLight: opts.whiteBalance ?? null,
+          angleRad,
+          known,
+          fit: ['exposure', 'flare', 'white-balance'],
+        });
+        const fitted = onPhoto.fitted as { exposure: number; whiteBalance: [number, number, number]; flare: [number, number, number] };
+        photoOptions = { ...options, exposureFixed: fitted };
+        for (const warning of onPhoto.warnings) warn(`${photo}: calibration: ${warning}`);
+      }
+      const result = mapDecodedPhoto(decoded, photoOptions, mask, photo);
+      await writeMapOutputs(result, photo, outDir, stem, { images: true, json: true, npy: true, tiff: true }, photoOptions);
       if (opts.report) {
-        const html = renderMapReport({ ...(await mapReportInput(result, options, photo)), calibration: calibration?.raw ?? null });
+        const html = renderMapReport({ ...(await mapReportInput(result, photoOptions, photo)), calibration: calibration?.raw ?? null });
         const file = `${stem}.report.html`;
         await atomicWriteFile(join(outDir, file), Buffer.from(html, 'utf8'));
         reports.push({ stem, file });
         if (photos.length === 1) await atomicWriteFile(join(outDir, 'report.html'), Buffer.from(html, 'utf8'));
       }
-      const record = mapResultJson(result, options, photo);
+      const record = mapResultJson(result, photoOptions, photo);
       records.push(record);
       if (result.thinRegions.length > 0) thin++;
       for (const warning of result.warnings) warn(`${photo}: ${warning}`);
@@ -149,7 +172,7 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
   return 0;
 }
 
-function summaryLine(photo: string, result: Awaited<ReturnType<typeof mapPhotoFile>>): string {
+function summaryLine(photo: string, result: ReturnType<typeof mapDecodedPhoto>): string {
   const s = result.stats;
   const f = (v: number | null, d = 1): string => (v === null ? '–' : v.toFixed(d));
   const thin = s.thin_fraction === null ? '' : `, thin ${f(s.thin_fraction * 100)} %`;
