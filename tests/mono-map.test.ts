@@ -53,6 +53,8 @@ function reflectanceAt(t: LineReflectanceTable, hNm: number): number {
  * encoding, 8-bit.
  */
 function render(opts: {
+  width?: number;
+  height?: number;
   topNm: number;
   bottomNm: number;
   blackFilm: boolean;
@@ -62,7 +64,10 @@ function render(opts: {
   seed?: number;
   channelTwist?: boolean;
   vignette?: number;
+  swellNm?: number;
 }) {
+  const W = opts.width ?? 200;
+  const H = opts.height ?? 150;
   const truth = new Float32Array(W * H);
   const rgb = new Float32Array(3 * W * H);
   const gains = opts.gains ?? [0.62 / table.levelMax, 0.62 / table.levelMax, 0.62 / table.levelMax];
@@ -73,7 +78,7 @@ function render(opts: {
     for (let x = 0; x < W; x++) {
       const depth = y / (H - 1);
       let h = opts.topNm + (opts.bottomNm - opts.topNm) * Math.pow(depth, 1.4);
-      h += 18 * Math.sin((2 * Math.PI * x) / W) * depth;
+      h += (opts.swellNm ?? 18) * Math.sin((2 * Math.PI * x) / W) * depth;
       if (opts.blackFilm && h < 25) h = 5;
       const p = y * W + x;
       truth[p] = h;
@@ -163,6 +168,15 @@ describe('mapLineIntensity() round trip on an invented draining soap film at 546
     expect(s.medianThinErrorNm).toBeLessThan(2);
     expect(s.orderShare).toBeGreaterThanOrEqual(0.99);
     expect(s.slopeOrderShare).toBeGreaterThanOrEqual(0.99);
+  });
+
+  it('finds broad fringes (a gentle slope photographed large: fringes ~250 px apart)', () => {
+    const { photo, truth } = render({ width: 120, height: 600, topNm: 0, bottomNm: 500, blackFilm: true, swellNm: 0, seed: 8 });
+    const result = mapLineIntensity(photo, options(), table);
+    const s = score(result, truth);
+    expect(result.line.scaleFrom).toBe('image');
+    expect(s.medianThinErrorNm).toBeLessThan(2);
+    expect(s.orderShare).toBeGreaterThanOrEqual(0.99);
   });
 
   it('uses an anchor when there is no black film, and recovers gain and flare', () => {

@@ -3,9 +3,14 @@
  * normalisation Δ = (I − Imin)/(Imax − Imin) of the formula of Scheludko.
  *
  * A pixel lies on a bright fringe (ridge) when, along one of four directions, the smoothed
- * intensity is not below its two next neighbours and exceeds the values 3 or 8 px away on both
- * sides (two scales, for narrow and broad fringes) by a contrast well above the noise; dark fringes (troughs) likewise. A film that only
- * brightens towards the frame edge has no ridge, so an extreme is never guessed from the edge.
+ * intensity is not below its two next neighbours and exceeds the values d px away on both sides
+ * by a contrast well above the noise, for some d of 3, 8, 20, 50, 120 or 300 px up to a third of
+ * the frame (several scales, so narrow fringes and the broad fringes of a gentle slope in a large
+ * photo are both seen); dark fringes (troughs) likewise. A fringe follows a line of equal
+ * thickness, so along the crest (d px at right angles) the intensity must change by less than
+ * half the contrast across it; a thickness turning point (the top of a swell whose height varies
+ * along it) fails that test. A film that only brightens towards the frame edge has no ridge, so an
+ * extreme is never guessed from the edge.
  * Thickness turning points (a dome or dimple between two extremes) also look like ridges or
  * troughs, but at intermediate levels: only ridges in the upper half and troughs in the lower half
  * of the intensity range count. Imax and Imin are medians of the raw intensity at those pixels
@@ -69,8 +74,20 @@ function median(values: number[]): number {
   return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
 }
 
+/** Distances (px) at which the contrast of a crest or trough is tested. */
+export const FRINGE_SCALES_PX: readonly number[] = [3, 8, 20, 50, 120, 300];
+
 const DIRECTION_X = Int32Array.of(1, 0, 1, 1);
 const DIRECTION_Y = Int32Array.of(0, 1, 1, -1);
+/** Index of the direction at right angles to each of DIRECTION_X/Y. */
+const PERPENDICULAR = Int32Array.of(1, 0, 3, 2);
+
+/** Both (x ± ox, y ± oy) lie in the frame. */
+function inside(x: number, y: number, ox: number, oy: number, width: number, height: number): boolean {
+  const ax = Math.abs(ox);
+  const ay = Math.abs(oy);
+  return x - ax >= 0 && x + ax < width && y - ay >= 0 && y + ay < height;
+}
 
 export function findFringeExtremes(
   intensity: Float32Array,
@@ -81,7 +98,7 @@ export function findFringeExtremes(
   smoothingRadius: number,
   /** Pixel noise from `estimatePixelNoise` (linear units). */
   noise: number,
-  distancesPx: readonly number[] = [3, 8],
+  distancesPx: readonly number[] = FRINGE_SCALES_PX.filter((d) => d <= Math.max(3, Math.min(width, height) / 3)),
 ): FringeExtremes {
   let usableCount = 0;
   for (let p = 0; p < usable.length; p++) usableCount += usable[p];
@@ -115,15 +132,22 @@ export function findFringeExtremes(
         const bottom = s < mid && s <= a1 && s <= b1;
         if (!crest && !bottom) continue;
         // Broad fringes (gentle thickness gradients) only show their contrast further out.
-        for (let di = 0; di < distancesPx.length; di++) {
+        const ex = DIRECTION_X[PERPENDICULAR[k]];
+        const ey = DIRECTION_Y[PERPENDICULAR[k]];
+        for (let di = 0; di < distancesPx.length && !(isRidge && crest) && !(isTrough && bottom); di++) {
           const d = distancesPx[di];
-          if (x - d * dx < 0 || x + d * dx >= width || y - d * Math.abs(dy) < 0 || y + d * Math.abs(dy) >= height) continue;
+          if (!inside(x, y, d * dx, d * dy, width, height) || !inside(x, y, d * ex, d * ey, width, height)) continue;
           const far = d * step;
-          if (!usable[p - far] || !usable[p + far]) continue;
-          const a = smoothed[p - far];
-          const b = smoothed[p + far];
-          if (crest && s - a >= contrast && s - b >= contrast) isRidge = true;
-          if (bottom && a - s >= contrast && b - s >= contrast) isTrough = true;
+          const along = d * (ey * width + ex);
+          if (!usable[p - far] || !usable[p + far] || !usable[p - along] || !usable[p + along]) continue;
+          // Contrast across the crest, and (a fringe runs along a line of equal thickness) hardly
+          // any change along it: a thickness turning point changes along its ridge and fails.
+          const across = crest ? Math.min(s - smoothed[p - far], s - smoothed[p + far]) : Math.min(smoothed[p - far] - s, smoothed[p + far] - s);
+          if (across < contrast) continue;
+          const alongChange = Math.max(Math.abs(smoothed[p - along] - s), Math.abs(smoothed[p + along] - s));
+          if (alongChange > 0.5 * across) continue;
+          if (crest) isRidge = true;
+          else isTrough = true;
         }
       }
       if (isRidge) {

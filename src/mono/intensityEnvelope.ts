@@ -58,14 +58,27 @@ export function intensityEnvelope(
   const xs: number[] = [];
   const ys: number[] = [];
   const vs: number[] = [];
-  for (const p of samples) {
+  // At most ~20 000 samples: plenty for six coefficients.
+  const stride = Math.max(1, Math.floor(samples.length / 20000));
+  for (let i = 0; i < samples.length; i += stride) {
+    const p = samples[i];
     const x = p % width;
     xs.push(x * sx - 1);
     ys.push(((p - x) / width) * sy - 1);
     vs.push(intensity[p]);
   }
-  const spanX = (Math.max(...xs) - Math.min(...xs)) / 2;
-  const spanY = (Math.max(...ys) - Math.min(...ys)) / 2;
+  let minX = Infinity;
+  let maxX = -Infinity;
+  let minY = Infinity;
+  let maxY = -Infinity;
+  for (let i = 0; i < xs.length; i++) {
+    minX = Math.min(minX, xs[i]);
+    maxX = Math.max(maxX, xs[i]);
+    minY = Math.min(minY, ys[i]);
+    maxY = Math.max(maxY, ys[i]);
+  }
+  const spanX = (maxX - minX) / 2;
+  const spanY = (maxY - minY) / 2;
   const size = spanX >= 0.5 && spanY >= 0.5 ? 6 : spanX >= 0.25 && spanY >= 0.25 ? 3 : 1;
   const basis = (x: number, y: number, k: number): number => [1, x, y, x * x, x * y, y * y][k];
   let keep = vs.map(() => true);
@@ -88,9 +101,13 @@ export function intensityEnvelope(
     const limit = 3 * 1.4826 * median(residuals) + 1e-9;
     keep = residuals.map((res) => res <= limit);
   }
-  const kept = vs.filter((_, i) => keep[i]);
-  const lo = Math.min(...kept);
-  const hi = Math.max(...kept);
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (let i = 0; i < vs.length; i++) {
+    if (!keep[i]) continue;
+    lo = Math.min(lo, vs[i]);
+    hi = Math.max(hi, vs[i]);
+  }
   const margin = 0.1 * Math.max(hi - lo, Math.abs(hi));
   for (let y = 0; y < height; y++) {
     const v = y * sy - 1;
