@@ -331,6 +331,36 @@ describe('mapLineIntensity() round trip for oxide on silicon (transfer-matrix ta
   });
 });
 
+describe('mapLineIntensity() round trip on an invented dimpled foam film (circular mask)', () => {
+  it('counts the rings of a dimple outwards-thin film, first order at the rim', () => {
+    // h(r) = 30 + 1000 (1 − r²/R²)² nm inside a 90 px circle; outside is the holder (masked).
+    const size = 200;
+    const radius = 90;
+    const truth = new Float32Array(size * size).fill(NaN);
+    const rgb = new Float32Array(3 * size * size);
+    const mask = new Uint8Array(size * size);
+    const gauss = normalSource(17);
+    for (let y = 0; y < size; y++) {
+      for (let x = 0; x < size; x++) {
+        const p = y * size + x;
+        const r2 = ((x - 100) ** 2 + (y - 100) ** 2) / radius ** 2;
+        let linear = 0.02;
+        if (r2 <= 1) {
+          mask[p] = 1;
+          truth[p] = 30 + 1000 * (1 - r2) ** 2;
+          linear = (0.6 / table.levelMax) * reflectanceAt(table, truth[p]) + 0.015 + 0.004 * gauss();
+        }
+        rgb[3 * p] = rgb[3 * p + 1] = rgb[3 * p + 2] = Math.round(255 * encodeSrgb(linear)) / 255;
+      }
+    }
+    const result = mapLineIntensity({ width: size, height: size, rgb, isGrey: true }, options(), table, mask);
+    expect(result.status[0]).toBe(PixelStatus.excluded);
+    const s = score(result, truth);
+    expect(s.okShare).toBeGreaterThan(0.95);
+    expect(s.orderShare).toBeGreaterThanOrEqual(0.99);
+  });
+});
+
 describe('mapLineIntensity() intensity scale', () => {
   const thin = render({ topNm: 10, bottomNm: 85, blackFilm: false, seed: 5 });
   it('throws when no fringe extreme is visible and no calibration is given', () => {
