@@ -25,11 +25,15 @@ export async function composeImagePng(request: ComposeRequest): Promise<Buffer> 
   if (!(image.data instanceof Uint8Array)) {
     throw new TypeError('composeImagePng() takes 8-bit images: image.data must be a Uint8Array, received Uint16Array');
   }
-  const picture = await sharp(new Uint8Array(image.data), {
-    raw: { width: image.width, height: image.height, channels: image.channels },
-  })
-    .png({ compressionLevel: 1 })
-    .toBuffer();
+  // Without overlays, and when the picture fills the canvas, encode it directly.
+  if (request.overlays.length === 0 && request.imageLeft === 0 && request.imageTop === 0 &&
+      image.width === request.canvasWidth && image.height === request.canvasHeight) {
+    return sharp(Buffer.from(image.data.buffer, image.data.byteOffset, image.data.byteLength), {
+      raw: { width: image.width, height: image.height, channels: image.channels },
+    })
+      .png({ compressionLevel: 3, adaptiveFiltering: false })
+      .toBuffer();
+  }
   return sharp({
     create: {
       width: request.canvasWidth,
@@ -39,9 +43,14 @@ export async function composeImagePng(request: ComposeRequest): Promise<Buffer> 
     },
   })
     .composite([
-      { input: picture, left: request.imageLeft, top: request.imageTop },
+      {
+        input: Buffer.from(image.data.buffer, image.data.byteOffset, image.data.byteLength),
+        raw: { width: image.width, height: image.height, channels: image.channels },
+        left: request.imageLeft,
+        top: request.imageTop,
+      },
       ...request.overlays.map((svg) => ({ input: Buffer.from(svg, 'utf8'), left: 0, top: 0 })),
     ])
-    .png({ compressionLevel: 6, adaptiveFiltering: false })
+    .png({ compressionLevel: 3, adaptiveFiltering: false })
     .toBuffer();
 }

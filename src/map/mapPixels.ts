@@ -375,29 +375,49 @@ function anchorCell(
  * noise does not speckle the black film), below the dark limit's luma.
  */
 function markDarkPixels(rgb: Float32Array, status: Uint8Array, width: number, height: number, darkLuma: number): void {
-  const dark = new Uint8Array(width * height);
+  // Separable 3×3 box sums of luma and of the count of non-excluded pixels.
+  const n = width * height;
+  const luma = new Float32Array(n);
+  const weight = new Float32Array(n);
+  for (let i = 0; i < n; i++) {
+    if (status[i] === PixelStatus.excluded) continue;
+    luma[i] = lumaOf(rgb[i * 3], rgb[i * 3 + 1], rgb[i * 3 + 2]);
+    weight[i] = 1;
+  }
+  const rowLuma = new Float32Array(n);
+  const rowWeight = new Float32Array(n);
   for (let y = 0; y < height; y++) {
+    const row = y * width;
     for (let x = 0; x < width; x++) {
-      const i = y * width + x;
-      if (status[i] !== PixelStatus.ok) continue;
-      let sum = 0;
-      let n = 0;
-      for (let dy = -1; dy <= 1; dy++) {
-        const ny = y + dy;
-        if (ny < 0 || ny >= height) continue;
-        for (let dx = -1; dx <= 1; dx++) {
-          const nx = x + dx;
-          if (nx < 0 || nx >= width) continue;
-          const j = ny * width + nx;
-          if (status[j] === PixelStatus.excluded) continue;
-          sum += lumaOf(rgb[j * 3], rgb[j * 3 + 1], rgb[j * 3 + 2]);
-          n++;
-        }
+      const i = row + x;
+      let l = luma[i];
+      let w = weight[i];
+      if (x > 0) {
+        l += luma[i - 1];
+        w += weight[i - 1];
       }
-      if (sum / n < darkLuma) dark[i] = 1;
+      if (x + 1 < width) {
+        l += luma[i + 1];
+        w += weight[i + 1];
+      }
+      rowLuma[i] = l;
+      rowWeight[i] = w;
     }
   }
-  for (let i = 0; i < dark.length; i++) if (dark[i]) status[i] = PixelStatus.dark;
+  for (let i = 0; i < n; i++) {
+    if (status[i] !== PixelStatus.ok) continue;
+    let l = rowLuma[i];
+    let w = rowWeight[i];
+    if (i >= width) {
+      l += rowLuma[i - width];
+      w += rowWeight[i - width];
+    }
+    if (i + width < n) {
+      l += rowLuma[i + width];
+      w += rowWeight[i + width];
+    }
+    if (l < darkLuma * w) status[i] = PixelStatus.dark;
+  }
 }
 
 /**

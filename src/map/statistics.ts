@@ -47,19 +47,25 @@ export function computeMapStatistics(
       p95_nm: null, uniformity: null, coverage, thin_fraction: thinFraction, thin_regions: thinRegionCount,
     };
   }
-  values.sort();
   const mean = sum / n;
   let squares = 0;
-  for (let i = 0; i < n; i++) squares += (values[i] - mean) ** 2;
-  const median = percentileSorted(values, 50);
-  const p05 = percentileSorted(values, 5);
-  const p95 = percentileSorted(values, 95);
+  let min = Infinity;
+  let max = -Infinity;
+  for (let i = 0; i < n; i++) {
+    const v = values[i];
+    squares += (v - mean) ** 2;
+    if (v < min) min = v;
+    if (v > max) max = v;
+  }
+  const median = percentileSelect(values, 50);
+  const p05 = percentileSelect(values, 5);
+  const p95 = percentileSelect(values, 95);
   return {
     mean_nm: mean,
     median_nm: median,
     std_nm: n > 1 ? Math.sqrt(squares / (n - 1)) : 0,
-    min_nm: values[0],
-    max_nm: values[n - 1],
+    min_nm: min,
+    max_nm: max,
     p05_nm: p05,
     p95_nm: p95,
     uniformity: median > 0 ? (p95 - p05) / median : null,
@@ -77,6 +83,57 @@ export function percentileSorted(sorted: ArrayLike<number>, percent: number): nu
   const lo = Math.floor(h);
   const hi = Math.min(n - 1, lo + 1);
   return sorted[lo] + (h - lo) * (sorted[hi] - sorted[lo]);
+}
+
+/**
+ * Percentile (0–100), Hyndman & Fan type 7, of unsorted values by selection (Floyd & Rivest
+ * style partitioning, O(n)); reorders `values` in place.
+ */
+export function percentileSelect(values: Float32Array | Float64Array, percent: number): number {
+  const n = values.length;
+  if (n === 0) return NaN;
+  const h = ((n - 1) * percent) / 100;
+  const lo = Math.floor(h);
+  const a = selectKth(values, lo);
+  if (lo + 1 >= n || h === lo) return a;
+  // The next order statistic is the minimum of the part right of lo.
+  let b = Infinity;
+  for (let i = lo + 1; i < n; i++) if (values[i] < b) b = values[i];
+  return a + (h - lo) * (b - a);
+}
+
+/** k-th smallest (0-based); afterwards values[0..k-1] ≤ values[k] ≤ values[k+1..]. */
+function selectKth(values: Float32Array | Float64Array, k: number): number {
+  let left = 0;
+  let right = values.length - 1;
+  while (right > left) {
+    const pivot = values[k];
+    let i = left;
+    let j = right;
+    swap(values, left, k);
+    if (values[right] > pivot) swap(values, right, left);
+    while (i < j) {
+      swap(values, i, j);
+      i++;
+      j--;
+      while (values[i] < pivot) i++;
+      while (values[j] > pivot) j--;
+    }
+    if (values[left] === pivot) swap(values, left, j);
+    else {
+      j++;
+      swap(values, j, right);
+    }
+    if (j <= k) left = j + 1;
+    if (k <= j) right = j - 1;
+  }
+  return values[k];
+}
+
+function swap(values: Float32Array | Float64Array, i: number, j: number): void {
+  const t = values[i];
+  values[i] = values[j];
+  values[j] = t;
 }
 
 /** Histogram of the estimates on "nice" bin edges (start + i·step). */
