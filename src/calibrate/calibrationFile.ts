@@ -20,18 +20,23 @@ export interface CalibrationForRun {
   readonly raw: Record<string, unknown>;
 }
 
+/** A value as the user wrote it: numbers via String() so 1e999 shows as Infinity, not null. */
+function show(value: unknown): string {
+  return typeof value === 'number' ? String(value) : value === undefined ? 'nothing' : JSON.stringify(value);
+}
+
 function finite(file: string, field: string, value: unknown, positive = false): number {
   if (typeof value !== 'number' || !Number.isFinite(value) || (positive && value <= 0)) {
-    throw new InputError(file, `${field} must be a finite number${positive ? ' > 0' : ''}, received ${JSON.stringify(value)}`);
+    throw new InputError(file, `${field} must be a finite number${positive ? ' > 0' : ''}, received ${show(value)}`);
   }
   return value;
 }
 
-function triple(file: string, field: string, value: unknown): [number, number, number] {
+function triple(file: string, field: string, value: unknown, positive = false): [number, number, number] {
   if (!Array.isArray(value) || value.length !== 3) {
-    throw new InputError(file, `${field} must be an array of 3 finite numbers, received ${JSON.stringify(value)}`);
+    throw new InputError(file, `${field} must be an array of 3 finite numbers${positive ? ' > 0' : ''}, received ${show(value)}`);
   }
-  return [finite(file, `${field}[0]`, value[0]), finite(file, `${field}[1]`, value[1]), finite(file, `${field}[2]`, value[2])];
+  return [0, 1, 2].map((c) => finite(file, `${field}[${c}]`, value[c], positive)) as [number, number, number];
 }
 
 export async function readCalibrationFile(file: string): Promise<CalibrationForRun & { appliesTo: Record<string, unknown> }> {
@@ -58,7 +63,7 @@ export async function readCalibrationFile(file: string): Promise<CalibrationForR
   return {
     exposureFixed: {
       exposure: finite(file, 'fitted.exposure', f.exposure, true),
-      whiteBalance: triple(file, 'fitted.whiteBalance', f.whiteBalance),
+      whiteBalance: triple(file, 'fitted.whiteBalance', f.whiteBalance, true),
       flare: triple(file, 'fitted.flare', f.flare),
     },
     filmIndexScale: scale === undefined || scale === null ? null : finite(file, 'fitted.filmIndexScale', scale, true),

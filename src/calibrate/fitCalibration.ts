@@ -88,7 +88,8 @@ export function fitCalibration(input: CalibrationFitInput): CalibrationFitResult
       weight += base[k * 3 + 1];
     }
   });
-  if (weight > 0 && ratio > 0) full[0] = ratio / weight;
+  // Only when the exposure is fitted: otherwise it is held at 1, as the warning above says.
+  if (active.includes(0) && weight > 0 && ratio > 0) full[0] = ratio / weight;
   const lowerFull = [full[0] * 0.02, 0.25, 0.25, -0.05, -0.05, -0.05, 0.8, 0];
   const upperFull = [full[0] * 50, 4, 4, 0.5, 0.5, 0.5, 1.25, 80];
   const scaleFull = [full[0], 1, 1, 0.05, 0.05, 0.05, 0.05, 10];
@@ -146,7 +147,8 @@ export function fitCalibration(input: CalibrationFitInput): CalibrationFitResult
       tolerance: 1e-12,
     });
     v = expand(result.parameters);
-    warnings.push(...result.warnings);
+    // The fitting layer numbers parameters from 0 in the active list; name them instead.
+    warnings.push(...result.warnings.map((w) => w.replace(/\bparameter (\d+)/g, (_, j: string) => SLOTS[active[Number(j)]] ?? `parameter ${j}`)));
     active.forEach((slot, j) => {
       const se = result.standardErrors[j];
       uncertainties[SLOTS[slot]] = Number.isFinite(se) ? se : null;
