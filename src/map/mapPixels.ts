@@ -19,7 +19,7 @@ import { fitPhotoFormation, type PhotoFormationFit } from './fitPhotoFormation.j
 import { createMatchScratch, matchColour, matchNear } from './matchColour.js';
 import { resolveOrders } from './resolveOrders.js';
 import { computeMapStatistics, thicknessHistogram } from './statistics.js';
-import { lumaOf, tableLimits } from './tableLimits.js';
+import { brightnessOf, lumaOf, tableLimits } from './tableLimits.js';
 import { findThinRegions } from './thinRegions.js';
 import { type Anchor, type ExposureParameters, type MapResult, PixelStatus } from './types.js';
 
@@ -371,8 +371,8 @@ function anchorCell(
 }
 
 /**
- * Too-dark pixels: encoded luma, averaged over the 3×3 neighbourhood of film pixels (so that
- * noise does not speckle the black film), below the dark limit's luma.
+ * Too-dark pixels: encoded brightness (brightest channel), averaged over the 3×3 neighbourhood
+ * of film pixels (so that noise does not speckle the black film), below the dark limit's.
  */
 function markDarkPixels(rgb: Float32Array, status: Uint8Array, width: number, height: number, darkLuma: number): void {
   // Separable 3×3 box sums of luma and of the count of non-excluded pixels.
@@ -381,7 +381,7 @@ function markDarkPixels(rgb: Float32Array, status: Uint8Array, width: number, he
   const weight = new Float32Array(n);
   for (let i = 0; i < n; i++) {
     if (status[i] === PixelStatus.excluded) continue;
-    luma[i] = lumaOf(rgb[i * 3], rgb[i * 3 + 1], rgb[i * 3 + 2]);
+    luma[i] = brightnessOf(rgb[i * 3], rgb[i * 3 + 1], rgb[i * 3 + 2]);
     weight[i] = 1;
   }
   const rowLuma = new Float32Array(n);

@@ -10,10 +10,19 @@
 export interface TableLimits {
   /** Table index of the dark limit (0 when the film never looks dark). */
   readonly darkLimitIndex: number;
-  /** Encoded luma below which a pixel counts as too dark to measure. */
+  /** Encoded brightness (brightest channel) below which a pixel counts as too dark to measure. */
   readonly darkLuma: number;
   /** First table index whose colours are washed out (count when never). */
   readonly washoutIndex: number;
+}
+
+/**
+ * Brightness for the dark test: the brightest encoded channel. A black film is dark in every
+ * channel, while a saturated interference colour (a first-order purple can clip green to 0) is
+ * not, even when its luma is low.
+ */
+export function brightnessOf(r: number, g: number, b: number): number {
+  return r > g ? (r > b ? r : b) : g > b ? g : b;
 }
 
 export function lumaOf(r: number, g: number, b: number): number {
@@ -31,7 +40,7 @@ export function tableLimits(
   const luma = new Float32Array(count);
   let minLuma = Infinity;
   for (let i = 0; i < count; i++) {
-    luma[i] = lumaOf(predicted[i * 3], predicted[i * 3 + 1], predicted[i * 3 + 2]);
+    luma[i] = brightnessOf(predicted[i * 3], predicted[i * 3 + 1], predicted[i * 3 + 2]);
     if (luma[i] < minLuma) minLuma = luma[i];
   }
   const vanishing = rgbLinear[0] + rgbLinear[1] + rgbLinear[2] < 0.03;
