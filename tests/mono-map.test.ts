@@ -332,8 +332,8 @@ describe('mapLineIntensity() round trip for oxide on silicon (transfer-matrix ta
 });
 
 describe('mapLineIntensity() round trip on an invented dimpled foam film (circular mask)', () => {
-  it('counts the rings of a dimple outwards-thin film, first order at the rim', () => {
-    // h(r) = 30 + 1000 (1 − r²/R²)² nm inside a 90 px circle; outside is the holder (masked).
+  /** h(r) = 30 + dimpleNm (1 − r²/R²)² nm inside a 90 px circle; outside is the holder (masked). */
+  function dimpledFilm(dimpleNm: number) {
     const size = 200;
     const radius = 90;
     const truth = new Float32Array(size * size).fill(NaN);
@@ -347,17 +347,43 @@ describe('mapLineIntensity() round trip on an invented dimpled foam film (circul
         let linear = 0.02;
         if (r2 <= 1) {
           mask[p] = 1;
-          truth[p] = 30 + 1000 * (1 - r2) ** 2;
+          truth[p] = 30 + dimpleNm * (1 - r2) ** 2;
           linear = (0.6 / table.levelMax) * reflectanceAt(table, truth[p]) + 0.015 + 0.004 * gauss();
         }
         rgb[3 * p] = rgb[3 * p + 1] = rgb[3 * p + 2] = Math.round(255 * encodeSrgb(linear)) / 255;
       }
     }
-    const result = mapLineIntensity({ width: size, height: size, rgb, isGrey: true }, options(), table, mask);
+    return { photo: { width: size, height: size, rgb, isGrey: true }, truth, mask };
+  }
+  it('counts the rings of a film thinning outwards, first order at the rim', () => {
+    const { photo, truth, mask } = dimpledFilm(1000);
+    const result = mapLineIntensity(photo, options(), table, mask);
     expect(result.status[0]).toBe(PixelStatus.excluded);
     const s = score(result, truth);
     expect(s.okShare).toBeGreaterThan(0.95);
     expect(s.orderShare).toBeGreaterThanOrEqual(0.99);
+  });
+  it('puts a dimple top just past a bright extreme (322 nm, extreme at ~307 nm) on the far side', () => {
+    const { photo, truth, mask } = dimpledFilm(292);
+    const result = mapLineIntensity(photo, options(), table, mask);
+    const s = score(result, truth);
+    expect(s.orderShare).toBeGreaterThanOrEqual(0.99);
+    // The top beyond 316 nm (9 nm or more past the extreme) must be on the far branch; without
+    // the cap crossing it would sit on the near side, mirrored about the extreme.
+    let top = 0;
+    let far = 0;
+    for (let p = 0; p < truth.length; p++) {
+      if (!(truth[p] > 316) || result.status[p] !== PixelStatus.ok) continue;
+      top++;
+      if (branchOfThickness(table, result.thicknessNm[p]) === branchOfThickness(table, truth[p])) far++;
+    }
+    expect(top).toBeGreaterThan(50);
+    expect(far / top).toBeGreaterThan(0.9);
+  });
+  it('keeps a dimple top just short of the extreme (297 nm) on the near side', () => {
+    const { photo, truth, mask } = dimpledFilm(267);
+    const s = score(mapLineIntensity(photo, options(), table, mask), truth);
+    expect(s.orderShare).toBeGreaterThanOrEqual(0.995);
   });
 });
 

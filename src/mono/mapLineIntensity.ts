@@ -12,7 +12,7 @@
  *    (`unresolvedFringes.ts`); the rest is split into zones and bands on the raw normalised level
  *    (`fringeSegments.ts`), counted from anchors, a black film, the previous frame of a series
  *    (`options.prior`) or the assumed first order (`zoneBranches.ts`), and spread to band pixels
- *    (`fillPixelBranches.ts`).
+ *    (`fillPixelBranches.ts`); caps that pass an extreme are moved across it (`capCrossings.ts`).
  * 4. Thickness on the pixel's branch (`lineReflectanceTable.ts`); pixels of a free film darker
  *    than three noise levels on branch 0 are `dark` (too thin to measure; counted as thin).
  * Statistics, histogram and thin regions are the colour mode's (`src/map`), so results and
@@ -22,6 +22,7 @@ import { computeMapStatistics, thicknessHistogram } from '../map/statistics.js';
 import { findThinRegions } from '../map/thinRegions.js';
 import { PixelStatus, type MapOptions, type MapResult } from '../map/types.js';
 import { boxMeanMasked } from './boxMean.js';
+import { crossCaps } from './capCrossings.js';
 import { filmMaskOf } from './filmMask.js';
 import { fillPixelBranches } from './fillPixelBranches.js';
 import { findFringeExtremes } from './fringeExtremes.js';
@@ -174,6 +175,7 @@ export function mapLineIntensity(
     warnings.push(`fringe count ambiguous: ${zones.conflicts} inconsistent count(s) around closed paths (broken or merged fringes); those parts are marked ambiguous`);
   }
   const pixels = fillPixelBranches(seg, zones, countable, width, height);
+  crossCaps(seg, zones, pixels, levelWide, width, height, firstKind, noiseLevel / (2 * smoothRadius + 1));
   const darkLevel = Math.max(0.01, 3 * noiseLevel);
   const darkLimitNm = firstKind === EXTREME_MIN ? thicknessOnBranch(table, 0, table.levelMin + darkLevel * levelSpan) : 0;
   const thicknessNm = new Float32Array(n).fill(NaN);

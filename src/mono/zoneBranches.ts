@@ -40,6 +40,12 @@ export interface ZoneBranches {
 
 export const NO_BRANCH = -2147483648;
 
+/** Branch reached from `branch` by passing an extreme of `kind` (+1 bright, −1 dark). */
+export function branchAcross(branch: number, kind: number, firstKind: number): number {
+  const upperKind = (branch + 1) % 2 === 0 ? firstKind : -firstKind;
+  return upperKind === kind ? branch + 1 : branch - 1;
+}
+
 interface Propagation {
   branch: Int32Array;
   conflicts: Array<[number, number]>;
@@ -92,8 +98,7 @@ function propagate(seg: FringeSegments, firstKind: number, seeds: readonly ZoneS
     branch[zone] = b;
     for (const band of seg.zoneBands[zone]) {
       const kind = seg.bandKind[band];
-      const upperKind = (b + 1) % 2 === 0 ? firstKind : -firstKind;
-      let next = upperKind === kind ? b + 1 : b - 1;
+      let next = branchAcross(b, kind, firstKind);
       if (next < 0 && reflectAtZero) next = 0;
       for (const other of seg.bandZones[band]) {
         if (other === zone) continue;
