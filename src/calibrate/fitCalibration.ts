@@ -41,6 +41,8 @@ export interface CalibrationFitResult {
 
 /** Slots of the full parameter vector. */
 const SLOTS = ['exposure', 'wbR', 'wbB', 'flareR', 'flareG', 'flareB', 'indexScale', 'angleDeg'] as const;
+/** Slots each --fit name stands for. */
+const PARAMETER_SLOTS: Record<CalibrationParameter, readonly number[]> = { exposure: [0], 'white-balance': [1, 2], flare: [3, 4, 5], index: [6], angle: [7] };
 
 export function fitCalibration(input: CalibrationFitInput): CalibrationFitResult {
   const { stack, camera, regions } = input;
@@ -172,7 +174,8 @@ export function fitCalibration(input: CalibrationFitInput): CalibrationFitResult
     uncertainties,
     predicted: regions.map((_, k) => [predicted[k * 3], predicted[k * 3 + 1], predicted[k * 3 + 2]]),
     rmsResidual: rms,
-    fitted: input.fit.filter((name) => name !== 'exposure' || active.includes(0)),
+    // Only what was really fitted: parameters dropped for too few regions are left out.
+    fitted: input.fit.filter((name) => PARAMETER_SLOTS[name].every((slot) => active.includes(slot))),
     warnings: [...new Set(warnings)],
   };
 }
