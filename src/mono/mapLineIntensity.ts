@@ -19,11 +19,11 @@
  * reports are identical in form.
  */
 import { computeMapStatistics, thicknessHistogram } from '../map/statistics.js';
+import { buildFilmMask } from '../map/filmMask.js';
 import { findThinRegions } from '../map/thinRegions.js';
 import { PixelStatus, type MapOptions, type MapResult } from '../map/types.js';
 import { boxMeanMasked } from './boxMean.js';
 import { crossCaps } from './capCrossings.js';
-import { filmMaskOf } from './filmMask.js';
 import { fillPixelBranches } from './fillPixelBranches.js';
 import { findFringeExtremes } from './fringeExtremes.js';
 import { estimatePixelNoise } from './pixelNoise.js';
@@ -80,7 +80,7 @@ export function mapLineIntensity(
   }
   const n = width * height;
   const warnings: string[] = [];
-  const film = filmMaskOf(width, height, options, filmMask, photo.alpha ?? null);
+  const film = buildFilmMask(width, height, options.region, filmMask, photo.alpha);
   const light = lineIntensityOf(photo, film);
   const usable = new Uint8Array(n);
   let usableCount = 0;
