@@ -8,3 +8,4 @@ export { renderMapReport, renderSeriesReport, makeReportGrid } from './report/in
 export type { MapReportInput, SeriesReportInput, ReportGrid, ThinRegionRow, SeriesFrameRow, DrainageFitSummary } from './report/index.js';
 export * from './render/index.js';
 export * from './series/index.js';
+export { mapMonochromatic, mapLineIntensity, isMonochromaticLight, scheludkoThicknessNm, airyFreeFilmReflectance, freeFilmPeakReflectance, stackLineTable, type MonoMapResult, type LineScaleReport } from './mono/index.js';
