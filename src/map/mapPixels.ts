@@ -18,7 +18,7 @@ import { estimateNoise, sigmaAt } from './estimateNoise.js';
 import { fitPhotoFormation, type PhotoFormationFit } from './fitPhotoFormation.js';
 import { createMatchScratch, matchColour, matchNear } from './matchColour.js';
 import { resolveOrders } from './resolveOrders.js';
-import { computeMapStatistics, thicknessHistogram } from './statistics.js';
+import { computeMapStatistics, percentileSelect, thicknessHistogram } from './statistics.js';
 import { brightnessOf, lumaOf, tableLimits } from './tableLimits.js';
 import { findThinRegions } from './thinRegions.js';
 import { type Anchor, type ExposureParameters, type MapResult, PixelStatus } from './types.js';
@@ -160,6 +160,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   const pixelJump = 0.3 * periodIndex;
   const reasons = { unresolved: 0, discontinuous: 0, poorMatch: 0 };
   const near = new Float64Array(3);
+  const alternativeCost = new Float32Array(pixels);
   for (let y = 0; y < height; y++) {
     for (let x = 0; x < width; x++) {
       const i = y * width + x;
@@ -182,22 +183,36 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
         reasons.discontinuous++;
         continue;
       }
-      const sigma = sigmaAt(noise, lumaOf(r, g, b));
-      const pixelNoiseCost = 3 * sigma * sigma;
-      if (cost > 10 * pixelNoiseCost + modelSlack) {
-        status[i] = PixelStatus.ambiguous;
-        reasons.poorMatch++;
-        continue;
-      }
       if (position >= limits.washoutIndex) {
         status[i] = PixelStatus.tooThick;
         continue;
       }
-      const fitTerm = Math.exp(-cost / (4 * pixelNoiseCost + modelSlack));
-      const marginTerm = alternative === Infinity ? 1 : 1 - Math.exp(-Math.max(0, alternative - cost) / pixelNoiseCost);
       thicknessNm[i] = thicknessAt(table, position);
-      confidence[i] = fitTerm * marginTerm;
+      confidence[i] = cost; // the colour cost for now; turned into a confidence below
+      alternativeCost[i] = alternative;
     }
+  }
+  // The empirical scale of the colour residual: JPEG smooths the pixel-to-pixel noise the noise
+  // profile sees, while its chroma errors and the model's own error remain. A match is poor when
+  // its cost exceeds both the noise-based limit and 9× the median cost (≈ the 99.99th percentile
+  // of a χ² with 3 degrees of freedom, relative to its median; common practice for outliers).
+  const medianCost = medianOfOk(confidence, status);
+  for (let i = 0; i < pixels; i++) {
+    if (status[i] !== PixelStatus.ok) continue;
+    const cost = confidence[i];
+    const sigma = sigmaAt(noise, lumaOf(rgb[i * 3], rgb[i * 3 + 1], rgb[i * 3 + 2]));
+    const pixelNoiseCost = Math.max(3 * sigma * sigma, medianCost / 2.37);
+    if (cost > Math.max(10 * pixelNoiseCost + modelSlack, 9 * medianCost)) {
+      status[i] = PixelStatus.ambiguous;
+      reasons.poorMatch++;
+      thicknessNm[i] = NaN;
+      confidence[i] = 0;
+      continue;
+    }
+    const alternative = alternativeCost[i];
+    const fitTerm = Math.exp(-cost / (4 * pixelNoiseCost + modelSlack));
+    const marginTerm = alternative === Infinity ? 1 : 1 - Math.exp(-Math.max(0, alternative - cost) / pixelNoiseCost);
+    confidence[i] = fitTerm * marginTerm;
   }
 
   lap('pixels');
@@ -479,4 +494,20 @@ function fillUnresolved(
     }
     if (changed === 0) break;
   }
+}
+
+/** Median of the values at ok pixels (on a stride of at most ~200k samples). */
+function medianOfOk(values: Float32Array, status: Uint8Array): number {
+  let ok = 0;
+  for (let i = 0; i < status.length; i++) if (status[i] === PixelStatus.ok) ok++;
+  if (ok === 0) return 0;
+  const stride = Math.max(1, Math.floor(ok / 200_000));
+  const sample = new Float32Array(Math.ceil(ok / stride));
+  let seen = 0;
+  let n = 0;
+  for (let i = 0; i < status.length; i++) {
+    if (status[i] !== PixelStatus.ok) continue;
+    if (seen++ % stride === 0) sample[n++] = values[i];
+  }
+  return percentileSelect(sample.subarray(0, n), 50);
 }
