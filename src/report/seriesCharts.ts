@@ -30,11 +30,20 @@ export function renderDrainageChart(frames: SeriesFrameRow[], fits: DrainageFitS
   ];
   const verticalLines: ReferenceLine[] = [];
   const bands: ReferenceBand[] = [];
+  // Time axis: the observations and crossings up to five times the observed span; crossings
+  // further out are named in the legend and the fits table but not drawn (they would squash the data).
+  const lastTimeS = frames.reduce((m, f) => Math.max(m, f.timeS), 0);
+  const firstTimeS = frames.reduce((m, f) => Math.min(m, f.timeS), Infinity);
+  const reachS = Number.isFinite(firstTimeS) ? firstTimeS + 5 * Math.max(lastTimeS - firstTimeS, 1e-9) : lastTimeS;
+  let xMax = lastTimeS;
   fits.forEach((fit, i) => {
     const colour = fitColours[i % fitColours.length];
-    series.push({ label: `fit: ${fit.model}`, points: fit.curve, colour, dashed: true });
+    series.push({ label: `fit: ${fit.model}`, points: fit.curve.filter(([t]) => t <= reachS), colour, dashed: true });
     const c = fit.crossing;
-    if (c && c.timeS !== null && Number.isFinite(c.timeS)) {
+    if (c && c.timeS !== null && Number.isFinite(c.timeS) && c.timeS > reachS) {
+      series[series.length - 1].label += ` (crosses the threshold at ${formatFixed(c.timeS, 0)} s, off the chart)`;
+    } else if (c && c.timeS !== null && Number.isFinite(c.timeS)) {
+      xMax = Math.max(xMax, c.highS !== null && Number.isFinite(c.highS) ? Math.min(c.highS, reachS) : c.timeS);
       verticalLines.push({ value: c.timeS, colour, dashed: true, tag: `${formatFixed(c.timeS, 0)} s${c.extrapolated ? ', extrapolated' : ''}`,
         label: `${c.quantity} reaches threshold at ${formatFixed(c.timeS, 1)} s${c.extrapolated ? ' (extrapolated)' : ''}` });
       if (c.lowS !== null && c.highS !== null && Number.isFinite(c.lowS) && Number.isFinite(c.highS)) {
@@ -51,6 +60,7 @@ export function renderDrainageChart(frames: SeriesFrameRow[], fits: DrainageFitS
   return renderLineChart({
     title: 'Thickness against time', yDomain, xLabel: 'Time (s)', yLabel: 'Thickness (nm)', id: 'drainage-chart',
     series, horizontalLines, verticalLines, verticalBands: bands, widthPx: 1160, heightPx: 400,
+    xDomain: frames.length > 0 ? niceDomain(Math.min(0, firstTimeS), Math.max(xMax, lastTimeS), 6) : undefined,
   }).replace('class="chart line-chart"', 'class="chart line-chart series-chart"');
 }
 
