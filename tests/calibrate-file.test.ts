@@ -1,0 +1,148 @@
+/**
+ * The calibration file (src/calibrate/calibrationFile.ts): a record made by calibrateDecoded()
+ * from an INVENTED step-wafer photo (rendered with our own forward model) is written as JSON and
+ * read back by readCalibrationFile(); damaged files are refused with an InputError that names the
+ * file and the field; loadCalibrationForRun() refuses a calibration made for another stack or
+ * light with a UsageError unless told to ignore the mismatch. Format checks only: no outside
+ * numbers are involved.
+ */
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { calibrateDecoded, type CalibrationRecord } from '../src/calibrate/calibrate.js';
+import { CALIBRATION_VERSION, loadCalibrationForRun, readCalibrationFile } from '../src/calibrate/calibrationFile.js';
+import { InputError, UsageError } from '../src/cli/errors.js';
+import { resolveStack } from '../src/optics/index.js';
+import { asDecoded, HEIGHT, shoot, stepKnownRegions, stepWafer, WIDTH } from './calibrate-scenes.js';
+
+const dir = mkdtempSync(join(tmpdir(), 'lamella-calfile-'));
+afterAll(() => rmSync(dir, { recursive: true, force: true }));
+
+let record: CalibrationRecord;
+let good: string;
+
+beforeAll(() => {
+  const photo = asDecoded(shoot(stepWafer(), { light: 'F2', whiteBalanceLight: 'D65', exposure: 1.5, flare: 0.01, noiseSigma: 0.005, filmIndexScale: 1.02 }));
+  record = calibrateDecoded(photo, WIDTH, HEIGHT, 'step.png', {
+    stack: resolveStack('oxide-on-silicon'),
+    stackSpec: 'oxide-on-silicon',
+    light: 'F2',
+    angleRad: 0,
+    known: stepKnownRegions(),
+    fit: ['exposure', 'flare', 'white-balance', 'index'],
+  });
+  good = join(dir, 'good.json');
+  writeFileSync(good, JSON.stringify(record, null, 2));
+});
+
+/** Writes a variant of the good record; `edit` changes a deep copy. */
+function variant(name: string, edit: (r: Record<string, any>) => void): string {
+  const copy = JSON.parse(JSON.stringify(record)) as Record<string, any>;
+  edit(copy);
+  const path = join(dir, `${name}.json`);
+  writeFileSync(path, JSON.stringify(copy));
+  return path;
+}
+
+function text(name: string, content: string): string {
+  const path = join(dir, name);
+  writeFileSync(path, content);
+  return path;
+}
+
+describe('calibration record shape (as documented in calibrationFile.ts)', () => {
+  it('has the documented fields with numbers of the right kind', () => {
+    expect(record.lamella_calibration).toBe(CALIBRATION_VERSION);
+    expect(record.applies_to).toEqual({ stack: 'oxide-on-silicon', light: 'F2', white_balance_light: null, angle_deg: 0, camera: expect.any(String) });
+    const fitted = record.fitted as Record<string, unknown>;
+    expect(Object.keys(fitted).sort()).toEqual(['angleDeg', 'exposure', 'filmIndexScale', 'flare', 'whiteBalance']);
+    expect(fitted.whiteBalance).toHaveLength(3);
+    expect(fitted.flare).toHaveLength(3);
+    expect(record.filmIndexScale).toBe(fitted.filmIndexScale);
+    expect(record.fitted_parameters).toEqual(['exposure', 'flare', 'white-balance', 'index']);
+    expect(Object.keys(record.uncertainty as object).sort()).toEqual(['exposure', 'flareB', 'flareG', 'flareR', 'indexScale', 'wbB', 'wbR']);
+    expect(record.known_regions).toHaveLength(6);
+    expect(record.photo).toBe('step.png');
+    expect(record.photo_size_px).toEqual([WIDTH, HEIGHT]);
+    expect(Array.isArray(record.warnings)).toBe(true);
+    expect(String(record.caution)).toMatch(/not a substitute for qualified metrology/);
+  });
+});
+
+describe('readCalibrationFile()', () => {
+  it('reads back what was written: exposure, gains, flare, index scale and angle', async () => {
+    const read = await readCalibrationFile(good);
+    const fitted = record.fitted as { exposure: number; whiteBalance: number[]; flare: number[]; filmIndexScale: number; angleDeg: number };
+    expect(read.exposureFixed).toEqual({ exposure: fitted.exposure, whiteBalance: fitted.whiteBalance, flare: fitted.flare });
+    expect(read.filmIndexScale).toBe(fitted.filmIndexScale);
+    expect(Math.abs((read.filmIndexScale as number) - 1.02)).toBeLessThan(0.003); // round trip of the rendered 1.02
+    expect(read.angleDeg).toBe(0);
+    expect(read.appliesTo.light).toBe('F2');
+  });
+
+  it('takes a missing index scale and angle as "not calibrated" (null)', async () => {
+    const path = variant('no-index', (r) => {
+      delete r.fitted.filmIndexScale;
+      delete r.filmIndexScale;
+      delete r.fitted.angleDeg;
+    });
+    const read = await readCalibrationFile(path);
+    expect(read.filmIndexScale).toBeNull();
+    expect(read.angleDeg).toBeNull();
+  });
+
+  const bad: Array<[string, () => string, RegExp]> = [
+    ['a missing file', () => join(dir, 'nope.json'), /nope\.json: cannot read calibration file \(ENOENT\)$/],
+    ['malformed JSON', () => text('broken.json', '{"fitted": {'), /broken\.json: calibration file is not valid JSON/],
+    ['a JSON array', () => text('array.json', '[1, 2]'), /array\.json: calibration must be a JSON object$/],
+    ['no "fitted"', () => variant('no-fitted', (r) => delete r.fitted), /no-fitted\.json: missing field "fitted"/],
+    ['no "applies_to"', () => variant('no-applies', (r) => delete r.applies_to), /no-applies\.json: missing field "applies_to"/],
+    ['no exposure', () => variant('no-exposure', (r) => delete r.fitted.exposure), /fitted\.exposure must be a finite number > 0, received nothing$/],
+    ['an infinite exposure (1e999)', () => text('inf.json', JSON.stringify(record).replace(/"exposure":[^,}]+/, '"exposure":1e999')), /fitted\.exposure must be a finite number > 0, received Infinity$/],
+    ['a negative exposure', () => variant('neg', (r) => (r.fitted.exposure = -2)), /fitted\.exposure must be a finite number > 0, received -2$/],
+    ['an exposure given as text', () => variant('textexp', (r) => (r.fitted.exposure = '1.5')), /fitted\.exposure must be a finite number > 0, received "1\.5"$/],
+    ['two white-balance gains', () => variant('wb2', (r) => (r.fitted.whiteBalance = [1, 1])), /fitted\.whiteBalance must be an array of 3 finite numbers > 0, received \[1,1\]$/],
+    ['a zero white-balance gain', () => variant('wb0', (r) => (r.fitted.whiteBalance = [1, 1, 0])), /fitted\.whiteBalance\[2\] must be a finite number > 0, received 0$/],
+    ['a null flare value', () => variant('flnull', (r) => (r.fitted.flare = [0, null, 0])), /fitted\.flare\[1\] must be a finite number, received null$/],
+    ['an index scale of 0', () => variant('idx0', (r) => (r.fitted.filmIndexScale = 0)), /fitted\.filmIndexScale must be a finite number > 0, received 0$/],
+  ];
+  for (const [what, make, message] of bad) {
+    it(`refuses ${what} with an InputError naming the file and the field`, async () => {
+      const path = make();
+      const error = await readCalibrationFile(path).then(
+        () => null,
+        (e: unknown) => e,
+      );
+      expect(error).toBeInstanceOf(InputError);
+      expect((error as InputError).file).toBe(path);
+      expect((error as Error).message.startsWith(`${path}: `)).toBe(true);
+      expect((error as Error).message).toMatch(message);
+      expect((error as Error).message).not.toContain('\n');
+    });
+  }
+});
+
+describe('loadCalibrationForRun()', () => {
+  const run = { stack: 'oxide-on-silicon', light: 'F2', angleRad: 0, ignoreMismatch: false };
+
+  it('accepts a calibration made for the same stack and light', async () => {
+    const loaded = await loadCalibrationForRun(good, run);
+    expect(loaded.exposureFixed.exposure).toBe((record.fitted as { exposure: number }).exposure);
+  });
+
+  it('refuses another light or stack with a one-line UsageError that names --calibration and the way out', async () => {
+    await expect(loadCalibrationForRun(good, { ...run, light: 'F11' })).rejects.toThrow(UsageError);
+    await expect(loadCalibrationForRun(good, { ...run, light: 'F11' })).rejects.toThrow(
+      `--calibration ${good} was made for light 'F2', not 'F11' (add --ignore-calibration-mismatch to use it anyway)`,
+    );
+    await expect(loadCalibrationForRun(good, { ...run, stack: 'nitride-on-silicon' })).rejects.toThrow(
+      `--calibration ${good} was made for stack 'oxide-on-silicon', not 'nitride-on-silicon' (add --ignore-calibration-mismatch to use it anyway)`,
+    );
+  });
+
+  it('uses it anyway when asked to ignore the mismatch', async () => {
+    const loaded = await loadCalibrationForRun(good, { ...run, light: 'F11', stack: 'nitride-on-silicon', ignoreMismatch: true });
+    expect(loaded.filmIndexScale).toBe(record.filmIndexScale);
+  });
+});
