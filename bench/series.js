@@ -3,7 +3,7 @@
 // (worker start-up, per-frame records and maps on disk, resume checks, aggregation).
 // Frames: the demo's invented drainage model (scripts/make-demo.js). Run after building:
 // `node bench/series.js [frames]` (or through bench/run.js, which calls benchSeries()).
-import { mkdtemp, rm } from 'node:fs/promises';
+import { mkdir, mkdtemp, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -16,6 +16,7 @@ import { DEMO, renderDemoFrame } from '../scripts/make-demo.js';
 export async function benchSeries({ frames = 6, width = 1632, height = 1224 } = {}) {
   const dir = await mkdtemp(join(tmpdir(), 'lamella-bench-series-'));
   try {
+    await mkdir(join(dir, 'in'));
     for (let i = 0; i < frames; i++) {
       const { image } = renderDemoFrame(i * 4, width, height);
       await writeImage(join(dir, 'in', `f${String(i).padStart(3, '0')}.jpg`), image, { quality: 90 });

@@ -188,6 +188,24 @@ describe('runSeries() with a test-double mapper', () => {
     expect(await readFile(join(outDir, 'series.json'), 'utf8')).toBe(singleJson);
   });
 
+  it('a shard run clears stale partial work of its own frames only (shards may share OUT at the same time)', async () => {
+    await makeFrames(8);
+    const frames = join(outDir, 'frames');
+    await mkdir(frames, { recursive: true });
+    await mkdir(join(frames, '.partial-999-1-f2'));
+    await mkdir(join(frames, '.partial-999-1-f7'));
+    await writeFile(join(frames, 'f7.thickness.npy'), 'orphan from an interrupted run');
+    await runSeries(options(double([]), { shard: { index: 1, count: 2 } }));
+    let names = await readdir(frames);
+    expect(names).not.toContain('.partial-999-1-f2');
+    expect(names).toContain('.partial-999-1-f7');
+    expect(names).toContain('f7.thickness.npy');
+    await runSeries(options(double([]), { shard: { index: 2, count: 2 } }));
+    names = await readdir(frames);
+    expect(names.filter((n) => n.startsWith('.'))).toEqual([]);
+    expect(names).toContain('f7.json');
+  });
+
   it('an interrupt stops between frames, leaves no partial files, and a rerun completes the series', async () => {
     await makeFrames(9);
     await runSeries(options(double([])));
@@ -206,7 +224,8 @@ describe('runSeries() with a test-double mapper', () => {
     const names = await readdir(join(outDir, 'frames'));
     expect(names.filter((n) => n.startsWith('.'))).toEqual([]);
     expect(names.filter((n) => n.endsWith('.json')).sort()).toEqual(['f1.json', 'f2.json', 'f3.json']);
-    expect(names.filter((n) => n.endsWith('.npy'))).toHaveLength(3);
+    expect(names.filter((n) => n.endsWith('.thickness.npy'))).toHaveLength(3);
+    expect(names.filter((n) => n.endsWith('.status.npy'))).toHaveLength(3);
     const calls: Call[] = [];
     const rerun = await runSeries(options(double(calls)));
     expect(rerun.interrupted).toBe(false);

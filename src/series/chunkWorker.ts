@@ -20,7 +20,7 @@ async function main(): Promise<void> {
     if (typeof mod.createFrameProcessor !== 'function') throw new TypeError(`processor module ${source.moduleUrl} must export createFrameProcessor(config)`);
     processor = await mod.createFrameProcessor(source.config);
   } catch (error) {
-    port.postMessage({ type: 'fatal', message: error instanceof Error ? error.message : String(error) });
+    port.postMessage({ type: 'fatal', message: `series worker cannot start the frame processor: ${error instanceof Error ? error.message : String(error)}` });
     return;
   }
   port.on('message', (message: ChunkMessage) => {

@@ -1,8 +1,9 @@
 /**
  * Where a series keeps its per-frame results inside OUT, and when a frame counts as done.
- * Layout: `OUT/frames/<stem>.json` (FrameRecord, written last), `<stem>.thickness.npy`, and with
+ * Layout: `OUT/frames/<stem>.json` (FrameRecord, written last), `<stem>.thickness.npy` (float32 nm,
+ * NaN = no estimate), `<stem>.status.npy` (uint8 PixelStatus codes, src/map/types.ts), and with
  * previews the images the processor writes (`<stem>.map.png`, `<stem>.flags.png`). Work in
- * progress lives in `OUT/frames/.partial-<stem>-<pid>-<thread>/` until it is moved into place.
+ * progress lives in `OUT/frames/.partial-<pid>-<thread>-<stem>/` until it is moved into place.
  */
 import { readFile, readdir, rm, access } from 'node:fs/promises';
 import { join } from 'node:path';
@@ -59,11 +60,24 @@ export async function isFrameDone(outDir: string, stem: string, hash: string, pr
   return true;
 }
 
+/** Name of the private folder a thread fills with one frame's outputs before moving them. */
+export function partialDirName(stem: string, pid: number, thread: number): string {
+  return `${PARTIAL_PREFIX}${pid}-${thread}-${stem}`;
+}
+
+/** The stem a partial folder belongs to, or null for other names. */
+function stemOfPartial(name: string): string | null {
+  const match = /^\.partial-\d+-\d+-(.+)$/.exec(name);
+  return match ? match[1] : null;
+}
+
 /**
- * Removes work left by an interrupted run: `.partial-*` folders, and outputs of a stem whose
- * record is missing (a frame cut off between moving its map and its record into place).
+ * Removes work left by an interrupted run for the given stems only: their `.partial-…` folders,
+ * and outputs of a stem whose record is missing (a frame cut off between moving its map and its
+ * record into place). Limited to `stems` because shards running at the same time share OUT and
+ * each frame belongs to exactly one shard: a run never touches another run's frames.
  */
-export async function removePartialFrames(outDir: string): Promise<string[]> {
+export async function removePartialFrames(outDir: string, stems: ReadonlySet<string>): Promise<string[]> {
   const dir = framesDir(outDir);
   let names: string[];
   try {
@@ -73,10 +87,15 @@ export async function removePartialFrames(outDir: string): Promise<string[]> {
   }
   const removed: string[] = [];
   const records = new Set(names.filter((n) => n.endsWith('.json')).map((n) => n.slice(0, -5)));
+  const ownOrphan = (name: string, suffix: string): boolean => {
+    if (!name.endsWith(suffix)) return false;
+    const stem = name.slice(0, -suffix.length);
+    return stems.has(stem) && !records.has(stem);
+  };
   for (const name of names) {
-    const orphan = name.endsWith('.thickness.npy') && !records.has(name.slice(0, -'.thickness.npy'.length));
-    const orphanPreview = PREVIEW_SUFFIXES.some((s) => name.endsWith(s) && !records.has(name.slice(0, -s.length)));
-    if (name.startsWith(PARTIAL_PREFIX) || orphan || orphanPreview) {
+    const partialStem = stemOfPartial(name);
+    const partial = partialStem !== null && stems.has(partialStem);
+    if (partial || ownOrphan(name, '.thickness.npy') || ownOrphan(name, '.status.npy') || PREVIEW_SUFFIXES.some((s) => ownOrphan(name, s))) {
       await rm(join(dir, name), { recursive: true, force: true });
       removed.push(name);
     }

@@ -27,6 +27,10 @@ export interface RunFramesResult {
   readonly interrupted: boolean;
 }
 
+function stemsOf(chunks: readonly FrameJob[][]): Set<string> {
+  return new Set(chunks.flat().map((f) => f.stem));
+}
+
 function isSource(p: ProcessorSource | FrameProcessor): p is ProcessorSource {
   return typeof (p as ProcessorSource).moduleUrl === 'string';
 }
@@ -51,7 +55,7 @@ export async function runFrames(options: RunFramesOptions): Promise<RunFramesRes
       await runChunk(chunk, options.processor, { ...base, onFrame, isAborted: () => signal?.aborted ?? false });
     }
     const interrupted = signal?.aborted ?? false;
-    if (interrupted) await removePartialFrames(outDir);
+    if (interrupted) await removePartialFrames(outDir, stemsOf(chunks));
     return { events, interrupted };
   }
   if (!isSource(options.processor)) throw new TypeError('processor must be a ProcessorSource { moduleUrl, config } when workers > 0');
@@ -100,6 +104,6 @@ export async function runFrames(options: RunFramesOptions): Promise<RunFramesRes
       });
     }
   });
-  if (interrupted) await removePartialFrames(outDir);
+  if (interrupted) await removePartialFrames(outDir, stemsOf(chunks));
   return { events, interrupted };
 }

@@ -88,10 +88,10 @@ export async function runSeries(options: SeriesOptions): Promise<SeriesResult> {
   const frames = timed.map((t) => t.frame);
   const hash = settingsHash({ format: 1, chunkFrames: chunkSize, map: options.mapSettings, calibration: options.calibration ?? null });
   await mkdir(framesDir(outDir), { recursive: true });
-  await removePartialFrames(outDir);
   const chunks = chunkFrames(frames, chunkSize);
   const mine = options.shard ? shardChunks(chunks, options.shard) : chunks;
   const toVisit = options.aggregateOnly ? [] : mine;
+  await removePartialFrames(outDir, new Set(toVisit.flat().map((f) => f.stem)));
   const visitCount = toVisit.reduce((n, c) => n + c.length, 0);
   const workers = Math.min(options.workers, toVisit.length);
   options.onPlan?.({ frames: frames.length, toVisit: visitCount, chunks: toVisit.length, workers });

@@ -9,7 +9,7 @@ import { join } from 'node:path';
 import { threadId } from 'node:worker_threads';
 import type { MapResult } from '../map/types.js';
 import { encodeNpy } from '../io/encodeNpy.js';
-import { PARTIAL_PREFIX, framesDir } from './frameFiles.js';
+import { framesDir, partialDirName } from './frameFiles.js';
 import type { FrameJob, FrameProcessor, FrameRecord } from './types.js';
 
 export function frameRecordOf(frame: FrameJob, result: MapResult, hash: string, priorFrame: string | null): FrameRecord {
@@ -38,11 +38,12 @@ export async function writeFrameOutputs(
   previews: FrameProcessor['writePreviews'] | null,
 ): Promise<void> {
   const dir = framesDir(outDir);
-  const staging = join(dir, `${PARTIAL_PREFIX}${frame.stem}-${process.pid}-${threadId}`);
+  const staging = join(dir, partialDirName(frame.stem, process.pid, threadId));
   await rm(staging, { recursive: true, force: true });
   await mkdir(staging, { recursive: true });
   try {
     await writeFile(join(staging, `${frame.stem}.thickness.npy`), encodeNpy(result.thicknessNm, [result.height, result.width]));
+    await writeFile(join(staging, `${frame.stem}.status.npy`), encodeNpy(result.status, [result.height, result.width]));
     if (previews) await previews(result, frame.path, staging, frame.stem);
     const recordName = `${frame.stem}.json`;
     await writeFile(join(staging, recordName), `${JSON.stringify(record, null, 2)}\n`);

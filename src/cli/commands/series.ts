@@ -50,7 +50,7 @@ function progressWriter(quiet: boolean): (p: SeriesProgress) => void {
     const final = p.done === p.total;
     if (!final && now - last < (tty ? 100 : 5000)) return;
     last = now;
-    if (tty) process.stderr.write(`\r${formatProgressBar(p)}${final ? '\n' : ''}`);
+    if (tty) process.stderr.write(`\r${formatProgressBar(p)}\x1b[K${final ? '\n' : ''}`);
     else process.stderr.write(`${formatProgressLine(p)}\n`);
   };
 }
