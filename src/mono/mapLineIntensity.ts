@@ -168,8 +168,12 @@ export function mapLineIntensity(
   if (orderFrom === 'assumed-first-order' && seg.zoneArea.length > 0) {
     warnings.push('no anchor and no black film: fringes were counted assuming the thinnest part of the film is in the first order; give an anchor to be sure');
   }
-  for (const z of zones.guessedDirectionZones) {
-    warnings.push(`the direction of the fringe count (thickening or thinning) is a guess in the film part of ${seg.zoneArea[z]}+ px; give an anchor there`);
+  if (zones.guessedDirectionZones.length > 0) {
+    const parts = zones.guessedDirectionZones.length;
+    const largest = Math.max(...zones.guessedDirectionZones.map((z) => seg.zoneArea[z]));
+    warnings.push(
+      `the direction of the fringe count (thickening or thinning) is a guess in ${parts} part(s) of the film (largest fringe zone ${largest} px): the reverse count fits the intensities as well; give an anchor`,
+    );
   }
   if (zones.conflicts > 0) {
     warnings.push(`fringe count ambiguous: ${zones.conflicts} inconsistent count(s) around closed paths (broken or merged fringes); those parts are marked ambiguous`);
