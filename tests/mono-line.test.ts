@@ -11,6 +11,7 @@ import {
 } from '../src/mono/lineReflectanceTable.js';
 import { airyFreeFilmReflectance, scheludkoThicknessNm } from '../src/mono/scheludko.js';
 import { stackLineTable } from '../src/mono/stackLineReflectance.js';
+import { getMaterial } from '../src/optics/materialLibrary.js';
 import { resolveStack } from '../src/optics/resolveStack.js';
 
 function readSpd(file: string): { wavelengthsNm: number[]; values: number[] } {
@@ -144,5 +145,47 @@ describe('stackLineTable() for oxide on silicon (transfer-matrix path)', () => {
   });
   it('rejects a line outside the visible range', () => {
     expect(() => stackLineTable(resolveStack('oxide-on-silicon'), 1064, { angleRad: 0, maxThicknessNm: 600 })).toThrow(/between 380 and 780 nm/);
+  });
+});
+
+describe('stackLineTable() over a narrow band (finite coherence)', () => {
+  // Demo SPD (our scenario): a Gaussian band, FWHM 10 nm at 589 nm, sampled every 0.5 nm.
+  // Reference: for a two-beam fringe cos(4π n_g h / λ) under a Gaussian band of standard
+  // deviation σ_λ, the fringe visibility falls as exp(−(4π n_g h σ_λ / λ0²)² / 2) (coherence of
+  // quasi-monochromatic light, e.g. Born & Wolf, Principles of Optics, ch. 7; from memory), with the
+  // group index n_g = n − λ dn/dλ. A free water film is nearly two-beam (r² ≈ 2 %); allow 0.005.
+  const stack = resolveStack('soap-film');
+  const lineNm = 589;
+  const fwhmNm = 10;
+  const sigmaNm = fwhmNm / 2.3548;
+  const wavelengthsNm = Array.from({ length: 161 }, (_, i) => 549 + 0.5 * i);
+  const band = { wavelengthsNm, values: wavelengthsNm.map((w) => Math.exp(-0.5 * ((w - lineNm) / sigmaNm) ** 2)) };
+  const line = stackLineTable(stack, lineNm, { angleRad: 0, maxThicknessNm: 3000 });
+  const wide = stackLineTable(stack, lineNm, { angleRad: 0, maxThicknessNm: 3000, band, bandHalfWidthNm: 20 });
+  /** Swing max − min of R over the branch boundaries within ±150 nm of h. */
+  const swing = (table: typeof line, hNm: number): number => {
+    let hi = -Infinity;
+    let lo = Infinity;
+    for (const i of table.boundaryIndex) {
+      if (Math.abs(i * table.stepNm - hNm) > 150 || i === 0 || i === table.reflectance.length - 1) continue;
+      hi = Math.max(hi, table.reflectance[i]);
+      lo = Math.min(lo, table.reflectance[i]);
+    }
+    return hi - lo;
+  };
+  it('keeps the line contrast for thin films and loses it for thick ones as the Gaussian formula says', () => {
+    const water = getMaterial('water');
+    const n = water.indexAt(lineNm).n;
+    const dn = (water.indexAt(lineNm + 0.5).n - water.indexAt(lineNm - 0.5).n) / 1;
+    const groupIndex = n - lineNm * dn;
+    for (const hNm of [300, 1500, 2700]) {
+      const expected = Math.exp(-0.5 * ((4 * Math.PI * groupIndex * hNm * sigmaNm) / lineNm ** 2) ** 2);
+      expect(Math.abs(swing(wide, hNm) / swing(line, hNm) - expected)).toBeLessThan(0.005);
+    }
+    expect(swing(wide, 2700) / swing(line, 2700)).toBeLessThan(0.9);
+  });
+  it('equals the line table when no band is given', () => {
+    const again = stackLineTable(stack, lineNm, { angleRad: 0, maxThicknessNm: 3000, band: null });
+    expect(Array.from(again.reflectance.subarray(0, 50))).toEqual(Array.from(line.reflectance.subarray(0, 50)));
   });
 });

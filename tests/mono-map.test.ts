@@ -4,6 +4,9 @@
  * The forward model itself is checked against outside references in mono-scheludko.test.ts and
  * mono-line.test.ts.
  */
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { branchOfThickness, type LineReflectanceTable } from '../src/mono/lineReflectanceTable.js';
 import { mapLineIntensity, type MonoMapResult } from '../src/mono/mapLineIntensity.js';
@@ -439,6 +442,51 @@ describe('mapMonochromatic() entry point', () => {
     expect(result.status[146 * W + 10]).toBe(PixelStatus.excluded);
     expect(result.status[140 * W + 50]).toBe(PixelStatus.saturated);
     expect(Number.isNaN(result.thicknessNm[146 * W + 10])).toBe(true);
+  });
+  it('reads a narrow-band light from an SPD file and models it over its band', () => {
+    // Demo SPD file (our scenario): Gaussian band, FWHM 12 nm at 589 nm, 1 nm steps.
+    const dir = mkdtempSync(join(tmpdir(), 'lamella-mono-'));
+    const file = join(dir, 'filtered-led.csv');
+    const rows = ['wavelength_nm,relative_spd'];
+    for (let w = 380; w <= 780; w++) rows.push(`${w},${Math.exp(-0.5 * ((w - 589) / (12 / 2.3548)) ** 2).toFixed(6)}`);
+    writeFileSync(file, rows.join('\n') + '\n');
+    try {
+      const bandTable = stackLineTable(stack, 589, {
+        angleRad: 0,
+        maxThicknessNm: 1500,
+        band: { wavelengthsNm: rows.slice(1).map((r) => Number(r.split(',')[0])), values: rows.slice(1).map((r) => Number(r.split(',')[1])) },
+        bandHalfWidthNm: 20,
+      });
+      // Render through the band-averaged model, map through the entry point with the file as light.
+      const W2 = 200;
+      const H2 = 150;
+      const truth = new Float32Array(W2 * H2);
+      const rgb = new Float32Array(3 * W2 * H2);
+      const gauss = normalSource(51);
+      for (let y = 0; y < H2; y++) {
+        for (let x = 0; x < W2; x++) {
+          const p = y * W2 + x;
+          let h = 1200 * Math.pow(y / (H2 - 1), 1.4) + 18 * Math.sin((2 * Math.PI * x) / W2);
+          if (h < 25) h = 5;
+          truth[p] = h;
+          const v = Math.round(255 * encodeSrgb((0.62 / bandTable.levelMax) * reflectanceAt(bandTable, h) + 0.015 + 0.004 * gauss())) / 255;
+          rgb[3 * p] = rgb[3 * p + 1] = rgb[3 * p + 2] = v;
+        }
+      }
+      const result = mapMonochromatic({ width: W2, height: H2, rgb, isGrey: true }, { ...options(), light: file }, 589);
+      expect(result.line.lineNm).toBe(589);
+      let ok = 0;
+      let right = 0;
+      for (let p = 0; p < truth.length; p++) {
+        if (result.status[p] !== PixelStatus.ok) continue;
+        ok++;
+        if (Math.abs(result.thicknessNm[p] - truth[p]) < 15) right++;
+      }
+      expect(ok / truth.length).toBeGreaterThan(0.9);
+      expect(right / ok).toBeGreaterThanOrEqual(0.99);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
   });
   it('rejects an anchor outside the photo with a message naming it', () => {
     const { photo } = render({ topNm: 0, bottomNm: 900, blackFilm: true });
