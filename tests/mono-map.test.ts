@@ -488,6 +488,10 @@ describe('mapMonochromatic() entry point', () => {
       rmSync(dir, { recursive: true, force: true });
     }
   });
+  it('refuses a broadband light (D65) in the monochromatic entry point', () => {
+    const { photo } = render({ topNm: 0, bottomNm: 900, blackFilm: true });
+    expect(() => mapMonochromatic(photo, { ...options(), light: 'D65' }, 546)).toThrow(/light D65 is not monochromatic/);
+  });
   it('rejects an anchor outside the photo with a message naming it', () => {
     const { photo } = render({ topNm: 0, bottomNm: 900, blackFilm: true });
     expect(() => mapMonochromatic(photo, options({ anchors: [{ x: 500, y: 2, thicknessNm: 10 }] }), LINE_NM)).toThrow(/anchor 500,2=10/);

@@ -8,7 +8,7 @@
  */
 import { resolveLight } from '../colour/lights.js';
 import type { MapOptions } from '../map/types.js';
-import { checkLineWavelength, narrowestPowerWindow, type SampledSpd } from './isMonochromaticLight.js';
+import { LINE_MAX_WIDTH_NM, checkLineWavelength, narrowestPowerWindow, type SampledSpd } from './isMonochromaticLight.js';
 import type { MonoPhoto } from './lineIntensity.js';
 import { mapLineIntensity, type MonoMapResult } from './mapLineIntensity.js';
 import { stackLineTable } from './stackLineReflectance.js';
@@ -23,8 +23,10 @@ function narrowBandOf(light: string): { band: SampledSpd | null; bandHalfWidthNm
   if (resolved.kind === 'line') return { band: null };
   const band = { wavelengthsNm: resolved.wavelengthsNm, values: resolved.relativeSpd };
   const window = narrowestPowerWindow(band);
-  if (window === null) return { band: null };
-  return { band, bandHalfWidthNm: (window.toNm - window.fromNm) };
+  if (window === null || window.toNm - window.fromNm >= LINE_MAX_WIDTH_NM) {
+    throw new RangeError(`light ${light} is not monochromatic (90 % of its power spans ${window ? (window.toNm - window.fromNm).toFixed(0) : '?'} nm, more than ${LINE_MAX_WIDTH_NM} nm); map it in colour mode`);
+  }
+  return { band, bandHalfWidthNm: window.toNm - window.fromNm };
 }
 
 /**
