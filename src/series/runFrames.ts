@@ -41,10 +41,11 @@ export async function runFrames(options: RunFramesOptions): Promise<RunFramesRes
   const total = chunks.reduce((n, c) => n + c.length, 0);
   const events: FrameEvent[] = [];
   const started = Date.now();
+  const counts: Record<FrameEvent['outcome'], number> = { mapped: 0, skipped: 0, failed: 0 };
   const onFrame = (event: FrameEvent): void => {
     events.push(event);
-    const count = (o: FrameEvent['outcome']) => events.filter((e) => e.outcome === o).length;
-    const progress = { done: events.length, total, mapped: count('mapped'), skipped: count('skipped'), failed: count('failed'), elapsedMs: Date.now() - started };
+    counts[event.outcome] += 1;
+    const progress = { done: events.length, total, ...counts, elapsedMs: Date.now() - started };
     options.onFrame?.(event, progress);
   };
   const base = { outDir, settingsHash, previews, expectedSize };
