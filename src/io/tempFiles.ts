@@ -48,7 +48,7 @@ export function removeTempFilesOnSignals(): void {
   const handler = (signal: NodeJS.Signals): void => {
     cleanupTempFiles();
     // A command with its own handler (e.g. series, which stops its workers first) exits itself.
-    if (process.listenerCount(signal) > 0) return;
+    if (process.listeners(signal).some((listener) => listener !== handler)) return;
     process.exit(signal === 'SIGINT' ? 130 : 143);
   };
   process.once('SIGINT', handler);

@@ -56,7 +56,11 @@ export function mapResultJson(
       exposure: result.fitted.exposure,
       white_balance: result.fitted.whiteBalance,
       flare: result.fitted.flare,
-      source: options.exposureFixed ? 'calibration' : 'fitted to this photo (Levenberg–Marquardt)',
+      source: options.exposureFixed
+        ? 'calibration'
+        : 'line' in result
+          ? 'brightest and darkest fringes of this photo (single-line light)'
+          : 'fitted to this photo (Levenberg–Marquardt)',
     },
     limits: {
       dark_limit_nm: result.darkLimitNm,

@@ -11,7 +11,8 @@ import { collect, parseAnchor, parseKnown, parseRegion } from '../parseGeometry.
 import { UsageError } from '../errors.js';
 import { ensureOutputDir, assertNoInputOverwritten } from '../../io/ensureOutputDir.js';
 import { atomicWriteFile } from '../../io/atomicWriteFile.js';
-import { mapDecodedPhoto, readMask, writeMapOutputs, mapResultJson } from '../../map/mapPhoto.js';
+import { lineOfLight, mapDecodedPhoto, readMask, writeMapOutputs, mapResultJson } from '../../map/mapPhoto.js';
+import { resolveLight } from '../../colour/index.js';
 import { readPhoto } from '../../io/readPhoto.js';
 import { calibrateDecoded } from '../../calibrate/calibrate.js';
 import { mapReportInput } from '../../map/mapReportInput.js';
@@ -74,6 +75,9 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
     if (!opts.quiet) process.stderr.write(`lamella: warning: ${message}\n`);
   };
   const { stack, angleRad } = stackFromOptions(opts, { onWarning: warn });
+  // Check the lights before any photo is read: a bad name is a usage error, not a failed photo.
+  lineOfLight(opts.light);
+  if (opts.whiteBalance) resolveLight(opts.whiteBalance);
   const maxThicknessNm = parseNumberOption(opts.maxThickness, '--max-thickness', 'a number of nm > 0');
   if (maxThicknessNm <= 0 || maxThicknessNm > 20000) throw new UsageError(`--max-thickness must be a number of nm in (0, 20000], received ${opts.maxThickness}`);
   const thinBelowNm =
