@@ -44,6 +44,9 @@ beforeAll(async () => {
   // A denser oxide (index × 1.03), same light and camera, for the index-scale check.
   await writePhoto(join(dir, 'step-dense.jpg'), shoot(stepWafer(), { ...SHOT, seed: 3, filmIndexScale: 1.03 }), 'jpeg');
   await writePhoto(join(dir, 'wafer-dense.jpg'), shoot(BOWL, { ...SHOT, seed: 4, filmIndexScale: 1.03 }), 'jpeg');
+  // Both wafers seen at 30° from the normal, for the angle check.
+  await writePhoto(join(dir, 'step-30.jpg'), shoot(stepWafer(), { ...SHOT, seed: 5, angleRad: Math.PI / 6 }), 'jpeg');
+  await writePhoto(join(dir, 'wafer-30.jpg'), shoot(BOWL, { ...SHOT, seed: 6, angleRad: Math.PI / 6 }), 'jpeg');
   const made = lamella(dir, 'calibrate', 'step.jpg', ...STACK, '--light', 'F2', ...stepKnownArgs(), '--out', 'cal.json');
   if (made.status !== 0) throw new Error(`calibrate failed in setup: ${made.stderr}`);
 });
@@ -100,6 +103,22 @@ describe('lamella calibrate + map --calibration: F2 light, camera white balance 
     expect(score.p95AbsNm).toBeLessThanOrEqual(15);
     expect(score.gross).toBeLessThanOrEqual(0.01);
     expect(score.coverage).toBeGreaterThanOrEqual(0.95);
+  });
+
+  // KNOWN DEFECT (reported to the lead): map reads fitted.angleDeg from the file but maps at
+  // --angle (default 0), so a calibration with --fit …,angle is silently not applied (median
+  // error ~18 nm here instead of ~0.5 nm). `it.fails` keeps the suite green while the defect
+  // stands and turns red once map applies the calibrated angle; then make this a plain `it`.
+  it.fails('a calibration with --fit …,angle (30° rendered) carries the angle into map, which then stays within the same targets', () => {
+    const cal = lamella(dir, 'calibrate', 'step-30.jpg', ...STACK, '--light', 'F2', ...stepKnownArgs(), '--fit', 'exposure,flare,white-balance,angle', '--out', 'cal-30.json');
+    expect(cal.status, cal.stderr).toBe(0);
+    expect(Math.abs(readJson<CalibrationJson>(join(dir, 'cal-30.json')).fitted.angleDeg - 30)).toBeLessThan(0.5);
+    const out = join(dir, 'out-30');
+    const run = lamella(dir, 'map', 'wafer-30.jpg', ...STACK, '--light', 'F2', '--calibration', 'cal-30.json', '--out', out, '--no-report');
+    expect(run.status, run.stderr).toBe(0);
+    const score = scoreThickness(BOWL, mappedThickness(out, 'wafer-30'));
+    expect(score.medianAbsNm).toBeLessThanOrEqual(3);
+    expect(score.p95AbsNm).toBeLessThanOrEqual(15);
   });
 
   it('map --known on the step photo itself uses the same exposure, white balance and flare as calibrate on that photo', () => {
