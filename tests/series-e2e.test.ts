@@ -117,6 +117,7 @@ describe('runSeries() with the real mapper (round trip on a rendered, thinning w
     });
     const reportHtml = await readFile(join(dir, 'wedge-out', 'report.html'), 'utf8');
     expect(reportHtml).toMatch(/^<!DOCTYPE html>/i);
+    expect(reportHtml).toContain('Map view: Thickness map of shot3.jpg');
     expect(result.summary!.drainageFits.length).toBeGreaterThan(0);
   });
 });

@@ -4,7 +4,8 @@
  * (`MAP_FRAME_PROCESSOR_URL` in ./mapFrameConfig.ts) and call `createFrameProcessor(config)`.
  */
 import { stackFromOptions } from '../cli/stackOptions.js';
-import { mapPhotoFile, writeMapOutputs } from '../map/mapPhoto.js';
+import { mapPhotoFile, writeMapOutputs, type MappedPhoto } from '../map/mapPhoto.js';
+import { mapReportInput } from '../map/mapReportInput.js';
 import type { MapOptions } from '../map/types.js';
 import type { MapFrameConfig } from './mapFrameConfig.js';
 import type { FrameProcessor } from './types.js';
@@ -31,5 +32,6 @@ export async function createFrameProcessor(config: MapFrameConfig): Promise<Fram
     map: (framePath, prior) => mapPhotoFile(framePath, { ...base, prior }),
     writePreviews: (result, framePath, dir, stem) =>
       writeMapOutputs(result, framePath, dir, stem, { images: true, json: false, npy: false, tiff: false }, base),
+    mapReportInput: (result, framePath) => mapReportInput(result as MappedPhoto, base, framePath),
   };
 }

@@ -20,6 +20,8 @@ import { formatSeriesCsv } from './seriesCsv.js';
 import { fitSeriesDrainage } from './fits/fitSeriesDrainage.js';
 import { renderSeriesReport } from '../report/renderSeriesReport.js';
 import { seriesReportInput } from './seriesReportInput.js';
+import { lastFrameView } from './lastFrameView.js';
+import type { MapReportInput } from '../report/types.js';
 import { seriesSummary, type SeriesSummary } from './seriesSummary.js';
 import type { FrameEvent, FrameProcessor, ProcessorSource, SeriesProgress } from './types.js';
 
@@ -51,6 +53,8 @@ export interface SeriesOptions {
   /** Write `report.html` (default true). */
   readonly report?: boolean;
   readonly reportTitle?: string;
+  /** Map the last frame once more for the report's full map view (default true). */
+  readonly reportLastMap?: boolean;
   /** ISO time printed in the report (default: now). */
   readonly generatedAt?: string;
   readonly onPlan?: (plan: { readonly frames: number; readonly toVisit: number; readonly chunks: number; readonly workers: number }) => void;
@@ -135,8 +139,17 @@ export async function runSeries(options: SeriesOptions): Promise<SeriesResult> {
       outDir,
       stems: new Map(frames.map((f) => [f.name, f.stem])),
     });
+    const last = collected.rows.length > 0 ? frames.find((f) => f.name === collected.rows[collected.rows.length - 1].frame) : undefined;
+    let lastMap: MapReportInput | null = null;
+    if (last && options.reportLastMap !== false) {
+      try {
+        lastMap = await lastFrameView(outDir, last, frames, options.processor);
+      } catch (error) {
+        warnings.push(`report: the map view of the last frame ${last.name} was left out (${error instanceof Error ? error.message : String(error)})`);
+      }
+    }
     const reportPath = join(outDir, 'report.html');
-    await writeAtomic(reportPath, renderSeriesReport(input));
+    await writeAtomic(reportPath, renderSeriesReport(lastMap ? { ...input, lastMap: { ...lastMap, calibration: options.calibration ?? null } } : input));
     outputs.push(reportPath);
   }
   return { interrupted: false, summary, failures, warnings, events: run.events, outputs };

@@ -3,6 +3,7 @@
  * rows and drainage fits out. Everything that crosses a worker boundary is plain data.
  */
 import type { MapResult } from '../map/types.js';
+import type { MapReportInput } from '../report/types.js';
 
 /** One input frame after expansion and timing. `index` is its place in the whole, ordered input list. */
 export interface FrameJob {
@@ -19,6 +20,8 @@ export interface FrameProcessor {
   map(framePath: string, prior: Float32Array | null): Promise<MapResult>;
   /** Optional preview writer (`--previews`): writes images for `stem` into `dir`. */
   writePreviews?(result: MapResult, framePath: string, dir: string, stem: string): Promise<unknown>;
+  /** Optional: the single-map report view of a frame (used for the series report's last frame). */
+  mapReportInput?(result: MapResult, framePath: string): Promise<MapReportInput>;
 }
 
 /**
