@@ -255,6 +255,16 @@ describe('runSeries() with a test-double mapper', () => {
     expect(result.failures[1]).toBe("f6.jpg: size 8x6 differs from the series' 4x3; skipped");
   });
 
+  it('leaves out inputs inside OUT/frames (e.g. previews caught by a broad pattern), with a warning', async () => {
+    await makeFrames(2);
+    await mkdir(join(outDir, 'frames'), { recursive: true });
+    await writeFile(join(outDir, 'frames', 'old.jpg'), '500');
+    const calls: Call[] = [];
+    const result = await runSeries(options(double(calls), { inputs: [inDir, join(outDir, 'frames', '*.jpg')] }));
+    expect(calls.map((c) => c.frame)).toEqual(['f1.jpg', 'f2.jpg']);
+    expect(result.warnings).toContain("1 input file(s) inside the output folder's frames/ were left out");
+  });
+
   it('throws a RangeError naming the inputs when they hold no frames', async () => {
     await expect(runSeries(options(double([])))).rejects.toThrow(/^inputs \/.*\/in: no image frames found \(input folder .*in holds no image files/);
   });

@@ -5,9 +5,10 @@
  * Writes files, never prints; progress and problems come back through callbacks and the result.
  */
 import { mkdir } from 'node:fs/promises';
-import { join, resolve } from 'node:path';
+import { join, resolve, sep } from 'node:path';
 import { atomicWriteFile } from '../io/atomicWriteFile.js';
-import { expandInputs } from './expandInputs.js';
+import { expandInputs, type ExpandedInputs } from './expandInputs.js';
+import { ensureOutputDir } from '../io/ensureOutputDir.js';
 import { probeFrames, type ReadFrameHeader } from './probeFrames.js';
 import { assignFrameTimes } from './frameTimes.js';
 import { chunkFrames, shardChunks } from './chunkFrames.js';
@@ -73,7 +74,7 @@ export interface SeriesResult {
 export async function runSeries(options: SeriesOptions): Promise<SeriesResult> {
   const outDir = resolve(options.cwd ?? process.cwd(), options.outDir);
   const chunkSize = options.chunkFrames ?? DEFAULT_CHUNK_FRAMES;
-  const expanded = await expandInputs(options.inputs, options.cwd);
+  const expanded = await excludeOwnOutputs(await expandInputs(options.inputs, options.cwd), outDir);
   if (expanded.frames.length === 0) {
     const list = options.inputs.join(' ') || '(none given)';
     throw new RangeError(`inputs ${list}: no image frames found${expanded.warnings.length ? ` (${expanded.warnings.join('; ')})` : ''}`);
@@ -91,6 +92,7 @@ export async function runSeries(options: SeriesOptions): Promise<SeriesResult> {
   const timed = probed.readable.map(({ frame }, i) => ({ frame, timeS: timing.timesS[i] })).filter(({ frame }) => !probed.wrongSize.has(frame.index));
   const frames = timed.map((t) => t.frame);
   const hash = settingsHash({ format: 1, chunkFrames: chunkSize, map: options.mapSettings, calibration: options.calibration ?? null });
+  await ensureOutputDir(outDir);
   await mkdir(framesDir(outDir), { recursive: true });
   const chunks = chunkFrames(frames, chunkSize);
   const mine = options.shard ? shardChunks(chunks, options.shard) : chunks;
@@ -153,6 +155,15 @@ export async function runSeries(options: SeriesOptions): Promise<SeriesResult> {
     outputs.push(reportPath);
   }
   return { interrupted: false, summary, failures, warnings, events: run.events, outputs };
+}
+
+/** Drops inputs inside OUT/frames (previews of an earlier run picked up by a broad glob). */
+async function excludeOwnOutputs(expanded: ExpandedInputs, outDir: string): Promise<ExpandedInputs> {
+  const inside = framesDir(outDir) + sep;
+  const kept = expanded.frames.filter((f) => !f.path.startsWith(inside));
+  if (kept.length === expanded.frames.length) return expanded;
+  const warnings = [...expanded.warnings, `${expanded.frames.length - kept.length} input file(s) inside the output folder's frames/ were left out`];
+  return { frames: kept.map((f, index) => ({ ...f, index })), warnings };
 }
 
 async function writeAtomic(path: string, text: string): Promise<void> {

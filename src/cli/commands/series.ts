@@ -8,7 +8,7 @@ import { Option, type Command } from 'commander';
 import { InputError, UsageError, EXIT_INPUT } from '../errors.js';
 import { addStackOptions, parseNumberOption, stackFromOptions, type StackCliOptions } from '../stackOptions.js';
 import { parseShard } from '../../series/parseShard.js';
-import { runSeries, DEFAULT_CHUNK_FRAMES } from '../../series/runSeries.js';
+import { runSeries, DEFAULT_CHUNK_FRAMES, type SeriesOptions } from '../../series/runSeries.js';
 import { loadCalibrationForRun } from '../../calibrate/calibrationFile.js';
 import { MAP_FRAME_PROCESSOR_URL, type MapFrameConfig } from '../../series/mapFrameConfig.js';
 import { formatProgressBar, formatProgressLine } from '../../series/progressText.js';
@@ -55,8 +55,8 @@ function progressWriter(quiet: boolean): (p: SeriesProgress) => void {
   };
 }
 
-async function run(inputs: string[], opts: SeriesCliOptions): Promise<void> {
-  const warn = (m: string) => !opts.quiet && process.stderr.write(`lamella: warning: ${m}\n`);
+/** Checks the options and builds the library call (everything but callbacks and the signal). */
+async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions, warn: (m: string) => void): Promise<SeriesOptions> {
   const fps = positive(opts.fps, '--fps');
   const intervalS = positive(opts.interval, '--interval');
   if (fps !== null && intervalS !== null) throw new UsageError('give --fps or --interval, not both');
@@ -64,8 +64,6 @@ async function run(inputs: string[], opts: SeriesCliOptions): Promise<void> {
   const thinBelowNm = opts.thinBelow !== undefined ? positive(opts.thinBelow, '--thin-below') : opts.stack === 'soap-film' ? 50 : null;
   const maxThicknessNm = positive(opts.maxThickness, '--max-thickness')!;
   if (maxThicknessNm > 20000) throw new UsageError(`--max-thickness must be a number of nm in (0, 20000], received ${opts.maxThickness}`);
-  const workers = positive(opts.workers, '--workers', true)!;
-  const chunkFrames = positive(opts.chunkFrames, '--chunk-frames', true)!;
   let shard = null;
   if (opts.shard !== undefined) {
     try {
@@ -79,15 +77,33 @@ async function run(inputs: string[], opts: SeriesCliOptions): Promise<void> {
     ? null
     : await loadCalibrationForRun(opts.calibration, { stack: opts.stack ?? '', light: opts.light, angleRad, ignoreMismatch: opts.ignoreCalibrationMismatch === true });
   const stackOptions: StackCliOptions = { stack: opts.stack, filmIndex: opts.filmIndex, angle: opts.angle, extrapolate: opts.extrapolate };
+  const whiteBalanceLight = opts.whiteBalance ?? null;
   const config: MapFrameConfig = {
-    stackOptions,
-    light: opts.light,
-    whiteBalanceLight: opts.whiteBalance ?? null,
-    thinBelowNm,
-    maxThicknessNm,
-    filmIndexScale: calibration?.filmIndexScale ?? null,
-    exposureFixed: calibration?.exposureFixed ?? null,
+    stackOptions, light: opts.light, whiteBalanceLight, thinBelowNm, maxThicknessNm,
+    filmIndexScale: calibration?.filmIndexScale ?? null, exposureFixed: calibration?.exposureFixed ?? null,
   };
+  return {
+    inputs, outDir: opts.out, fps, intervalS, thinBelowNm, shard,
+    chunkFrames: positive(opts.chunkFrames, '--chunk-frames', true)!,
+    workers: positive(opts.workers, '--workers', true)!,
+    aggregateOnly: opts.aggregateOnly === true, previews: opts.previews === true, report: opts.report,
+    mapSettings: { ...stackOptions, light: opts.light, whiteBalanceLight, thinBelowNm, maxThicknessNm },
+    calibration: calibration?.raw ?? null,
+    processor: { moduleUrl: MAP_FRAME_PROCESSOR_URL, config },
+  };
+}
+
+/** Library errors about the inputs or frame times, as the CLI's error classes. */
+function cliError(error: unknown, inputs: string[]): unknown {
+  const prefix = `inputs ${inputs.join(' ')}: `;
+  if (error instanceof RangeError && error.message.startsWith(prefix)) return new InputError(inputs.join(' '), error.message.slice(prefix.length));
+  if (error instanceof RangeError && /^frame times:/.test(error.message)) return new UsageError(error.message.replace(/fps or intervalS$/, '--fps or --interval'));
+  return error;
+}
+
+async function run(inputs: string[], opts: SeriesCliOptions): Promise<void> {
+  const warn = (m: string) => !opts.quiet && process.stderr.write(`lamella: warning: ${m}\n`);
+  const options = await seriesOptionsFrom(inputs, opts, warn);
   const controller = new AbortController();
   let signalName: NodeJS.Signals | null = null;
   const onSignal = (name: NodeJS.Signals) => {
@@ -100,11 +116,7 @@ async function run(inputs: string[], opts: SeriesCliOptions): Promise<void> {
   let result;
   try {
     result = await runSeries({
-      inputs, outDir: opts.out, fps, intervalS, thinBelowNm, chunkFrames, workers, shard,
-      aggregateOnly: opts.aggregateOnly === true, previews: opts.previews === true, report: opts.report,
-      mapSettings: { ...stackOptions, light: opts.light, whiteBalanceLight: opts.whiteBalance ?? null, thinBelowNm, maxThicknessNm },
-      calibration: calibration?.raw ?? null,
-      processor: { moduleUrl: MAP_FRAME_PROCESSOR_URL, config },
+      ...options,
       signal: controller.signal,
       onFrame: (event, p) => {
         if (event.outcome === 'failed') process.stderr.write(`${process.stderr.isTTY && !opts.quiet ? '\n' : ''}lamella: ${event.message}\n`);
@@ -112,11 +124,7 @@ async function run(inputs: string[], opts: SeriesCliOptions): Promise<void> {
       },
     });
   } catch (error) {
-    if (error instanceof RangeError && error.message.startsWith(`inputs ${inputs.join(' ')}: `)) {
-      throw new InputError(inputs.join(' '), error.message.slice(`inputs ${inputs.join(' ')}: `.length));
-    }
-    if (error instanceof RangeError && /^frame times:/.test(error.message)) throw new UsageError(`${error.message.replace(/fps or intervalS$/, '--fps or --interval')}`);
-    throw error;
+    throw cliError(error, inputs);
   } finally {
     process.off('SIGINT', onSignal);
     process.off('SIGTERM', onSignal);
