@@ -2,8 +2,8 @@
  * The calibration file (src/calibrate/calibrationFile.ts): a record made by calibrateDecoded()
  * from an INVENTED step-wafer photo (rendered with our own forward model) is written as JSON and
  * read back by readCalibrationFile(); damaged files are refused with an InputError that names the
- * file and the field; loadCalibrationForRun() refuses a calibration made for another stack or
- * light with a UsageError unless told to ignore the mismatch. Format checks only: no outside
+ * file and the field; loadCalibrationForRun() refuses a calibration made for another stack, light,
+ * angle or camera white balance with a UsageError unless told to ignore the mismatch. Format checks only: no outside
  * numbers are involved.
  */
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
@@ -141,8 +141,36 @@ describe('loadCalibrationForRun()', () => {
     );
   });
 
+  it('refuses a calibration made for another angle of incidence (more than 0.5° off), naming both angles', async () => {
+    await expect(loadCalibrationForRun(good, { ...run, angleRad: (20 * Math.PI) / 180 })).rejects.toThrow(
+      `--calibration ${good} was made for an angle of 0°, not 20° (give --angle 0, or add --ignore-calibration-mismatch to use it anyway)`,
+    );
+    await expect(loadCalibrationForRun(good, { ...run, angleRad: (0.4 * Math.PI) / 180 })).resolves.toBeTruthy();
+  });
+
+  it('with --fit …,angle, compares the fitted angle, not the starting one', async () => {
+    const fitted = variant('fitted-angle', (r) => {
+      r.fitted_parameters = [...r.fitted_parameters, 'angle'];
+      r.fitted.angleDeg = 30.06;
+    });
+    await expect(loadCalibrationForRun(fitted, run)).rejects.toThrow(
+      `--calibration ${fitted} was fitted at an angle of 30.06°, not 0° (give --angle 30.06, or add --ignore-calibration-mismatch to use it anyway)`,
+    );
+    await expect(loadCalibrationForRun(fitted, { ...run, angleRad: (30 * Math.PI) / 180 })).resolves.toBeTruthy();
+  });
+
+  it('refuses another camera white balance when the caller names its own (null = balanced for the light)', async () => {
+    await expect(loadCalibrationForRun(good, { ...run, whiteBalanceLight: 'D65' })).rejects.toThrow(
+      `--calibration ${good} was made with the camera white-balanced for the light itself, not 'D65' (give the same --white-balance, or add --ignore-calibration-mismatch to use it anyway)`,
+    );
+    await expect(loadCalibrationForRun(good, { ...run, whiteBalanceLight: null })).resolves.toBeTruthy();
+    const daylight = variant('wb-d65', (r) => (r.applies_to.white_balance_light = 'D65'));
+    await expect(loadCalibrationForRun(daylight, { ...run, whiteBalanceLight: null })).rejects.toThrow(/white-balanced for 'D65', not the light itself/);
+    await expect(loadCalibrationForRun(daylight, { ...run, whiteBalanceLight: 'D65' })).resolves.toBeTruthy();
+  });
+
   it('uses it anyway when asked to ignore the mismatch', async () => {
-    const loaded = await loadCalibrationForRun(good, { ...run, light: 'F11', stack: 'nitride-on-silicon', ignoreMismatch: true });
+    const loaded = await loadCalibrationForRun(good, { ...run, light: 'F11', stack: 'nitride-on-silicon', angleRad: 1, whiteBalanceLight: 'A', ignoreMismatch: true });
     expect(loaded.filmIndexScale).toBe(record.filmIndexScale);
   });
 });

@@ -105,20 +105,25 @@ describe('lamella calibrate + map --calibration: F2 light, camera white balance 
     expect(score.coverage).toBeGreaterThanOrEqual(0.95);
   });
 
-  // KNOWN DEFECT (reported to the lead): map reads fitted.angleDeg from the file but maps at
-  // --angle (default 0), so a calibration with --fit …,angle is silently not applied (median
-  // error ~18 nm here instead of ~0.5 nm). `it.fails` keeps the suite green while the defect
-  // stands and turns red once map applies the calibrated angle; then make this a plain `it`.
-  it.fails('a calibration with --fit …,angle (30° rendered) carries the angle into map, which then stays within the same targets', () => {
+  // map takes the angle from --angle, not from the file; a calibration fitted at another angle is
+  // refused (without the check, map at 0° gave median errors of ~18 nm here instead of ~0.5 nm).
+  it('a calibration with --fit …,angle (30° rendered) is refused by map at 0° with a hint, and maps within the targets at the fitted --angle', () => {
     const cal = lamella(dir, 'calibrate', 'step-30.jpg', ...STACK, '--light', 'F2', ...stepKnownArgs(), '--fit', 'exposure,flare,white-balance,angle', '--out', 'cal-30.json');
     expect(cal.status, cal.stderr).toBe(0);
-    expect(Math.abs(readJson<CalibrationJson>(join(dir, 'cal-30.json')).fitted.angleDeg - 30)).toBeLessThan(0.5);
+    const angleDeg = readJson<CalibrationJson>(join(dir, 'cal-30.json')).fitted.angleDeg;
+    expect(Math.abs(angleDeg - 30)).toBeLessThan(0.5);
+    const at = String(Math.round(angleDeg * 100) / 100);
+    const refused = lamella(dir, 'map', 'wafer-30.jpg', ...STACK, '--light', 'F2', '--calibration', 'cal-30.json', '--out', join(dir, 'out-0'), '--no-report');
+    expect(refused.status).toBe(2);
+    expect(refused.stderr).toBe(`lamella: --calibration cal-30.json was fitted at an angle of ${at}°, not 0° (give --angle ${at}, or add --ignore-calibration-mismatch to use it anyway)\n`);
     const out = join(dir, 'out-30');
-    const run = lamella(dir, 'map', 'wafer-30.jpg', ...STACK, '--light', 'F2', '--calibration', 'cal-30.json', '--out', out, '--no-report');
+    const run = lamella(dir, 'map', 'wafer-30.jpg', ...STACK, '--light', 'F2', '--angle', at, '--calibration', 'cal-30.json', '--out', out, '--no-report');
     expect(run.status, run.stderr).toBe(0);
     const score = scoreThickness(BOWL, mappedThickness(out, 'wafer-30'));
     expect(score.medianAbsNm).toBeLessThanOrEqual(3);
     expect(score.p95AbsNm).toBeLessThanOrEqual(15);
+    expect(score.gross).toBeLessThanOrEqual(0.01);
+    expect(score.coverage).toBeGreaterThanOrEqual(0.95);
   });
 
   it('map --known on the step photo itself uses the same exposure, white balance and flare as calibrate on that photo', () => {
@@ -170,6 +175,18 @@ describe('a calibration made for another light or stack', () => {
       expect(existsSync(out)).toBe(false);
     });
   }
+
+  // KNOWN GAP (reported to the lead): loadCalibrationForRun() checks the camera white balance
+  // only when told the run's (`whiteBalanceLight`), and map does not pass it yet; a calibration
+  // made with --white-balance D65 then maps this F2 wafer at a median of ~670 nm instead of ~300.
+  // `it.fails` keeps the suite green while the gap stands; make it a plain `it` once map passes it.
+  it.fails('map refuses a calibration made for another camera white balance (--white-balance D65 at calibration, none at map)', () => {
+    const made = lamella(dir, 'calibrate', 'step.jpg', ...STACK, '--light', 'F2', '--white-balance', 'D65', ...stepKnownArgs(), '--out', 'cal-wb.json');
+    expect(made.status, made.stderr).toBe(0);
+    const run = lamella(dir, 'map', 'wafer.jpg', ...STACK, '--light', 'F2', '--calibration', 'cal-wb.json', '--out', join(dir, 'out-wb'), '--no-report');
+    expect(run.status).toBe(2);
+    expect(run.stderr).toMatch(/^lamella: --calibration cal-wb\.json was made with the camera white-balanced for 'D65', not the light itself/);
+  });
 
   it('map uses it anyway with --ignore-calibration-mismatch', () => {
     const out = join(dir, 'out-ignore');

@@ -5,7 +5,8 @@
  *   applies_to: { stack, light, white_balance_light, angle_deg, camera }
  *   fitted: { exposure, whiteBalance: [r,g,b], flare: [r,g,b], filmIndexScale, angleDeg }
  *   filmIndexScale (top level, same value), uncertainty, known_regions, photo, photo_size_px, warnings
- * A calibration made for another stack or light is refused unless the user overrides.
+ * A calibration made for another stack, light, angle or camera white balance is refused unless
+ * the user overrides.
  */
 import { readFile } from 'node:fs/promises';
 import { InputError, UsageError } from '../cli/errors.js';
@@ -73,22 +74,43 @@ export async function readCalibrationFile(file: string): Promise<CalibrationForR
   };
 }
 
-/** Reads a calibration and checks it was made for this stack and light. */
+/** Largest difference between the calibration's angle and the run's that passes unremarked, degrees. */
+const ANGLE_TOLERANCE_DEG = 0.5;
+
+/**
+ * Reads a calibration and checks it was made for this stack, light and angle of incidence (the
+ * fitted angle when `--fit …,angle` was used), and, when the caller gives `whiteBalanceLight`
+ * (null = the light itself), for the same camera white balance.
+ */
 export async function loadCalibrationForRun(
   file: string,
-  run: { stack: string; light: string; angleRad: number; ignoreMismatch: boolean },
+  run: { stack: string; light: string; angleRad: number; ignoreMismatch: boolean; whiteBalanceLight?: string | null },
 ): Promise<CalibrationForRun> {
   const calibration = await readCalibrationFile(file);
   const { appliesTo } = calibration;
   if (!run.ignoreMismatch) {
+    const wayOut = '(add --ignore-calibration-mismatch to use it anyway)';
     if (appliesTo.stack !== run.stack) {
-      throw new UsageError(
-        `--calibration ${file} was made for stack '${String(appliesTo.stack)}', not '${run.stack}' (add --ignore-calibration-mismatch to use it anyway)`,
-      );
+      throw new UsageError(`--calibration ${file} was made for stack '${String(appliesTo.stack)}', not '${run.stack}' ${wayOut}`);
     }
     if (appliesTo.light !== run.light) {
+      throw new UsageError(`--calibration ${file} was made for light '${String(appliesTo.light)}', not '${run.light}' ${wayOut}`);
+    }
+    const madeForBalance = appliesTo.white_balance_light ?? null;
+    if (run.whiteBalanceLight !== undefined && madeForBalance !== run.whiteBalanceLight) {
+      const name = (v: unknown): string => (v === null ? 'the light itself' : `'${String(v)}'`);
       throw new UsageError(
-        `--calibration ${file} was made for light '${String(appliesTo.light)}', not '${run.light}' (add --ignore-calibration-mismatch to use it anyway)`,
+        `--calibration ${file} was made with the camera white-balanced for ${name(madeForBalance)}, not ${name(run.whiteBalanceLight)} (give the same --white-balance, or add --ignore-calibration-mismatch to use it anyway)`,
+      );
+    }
+    const fittedNames = calibration.raw.fitted_parameters;
+    const angleFitted = Array.isArray(fittedNames) && fittedNames.includes('angle') && calibration.angleDeg !== null;
+    const madeAtDeg = angleFitted ? calibration.angleDeg : appliesTo.angle_deg;
+    const runDeg = (run.angleRad * 180) / Math.PI;
+    if (typeof madeAtDeg === 'number' && Number.isFinite(madeAtDeg) && Math.abs(madeAtDeg - runDeg) > ANGLE_TOLERANCE_DEG) {
+      const at = `${Math.round(madeAtDeg * 100) / 100}`;
+      throw new UsageError(
+        `--calibration ${file} was ${angleFitted ? 'fitted at' : 'made for'} an angle of ${at}°, not ${Math.round(runDeg * 100) / 100}° (give --angle ${at}, or add --ignore-calibration-mismatch to use it anyway)`,
       );
     }
   }
