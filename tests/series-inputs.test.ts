@@ -141,3 +141,19 @@ describe('settingsHash()', () => {
     expect(settingsHash({})).toMatch(/^[0-9a-f]{16}$/);
   });
 });
+
+describe('progress text', async () => {
+  const { formatDuration, formatProgressBar, formatProgressLine } = await import('../src/series/progressText.js');
+  const p = { done: 10, total: 40, mapped: 8, skipped: 1, failed: 1, elapsedMs: 5000 };
+  it('formatDuration() gives mm:ss, h:mm:ss past an hour, and --:-- when unknown', () => {
+    expect(formatDuration(75)).toBe('01:15');
+    expect(formatDuration(3725)).toBe('1:02:05');
+    expect(formatDuration(Number.NaN)).toBe('--:--');
+  });
+  it('formatProgressBar() shows frames done/total, rate and time left (remaining / rate)', () => {
+    expect(formatProgressBar(p, 8)).toBe('[##------] 10/40 frames  2.0 frames/s  00:15 left  (1 skipped, 1 failed)');
+  });
+  it('formatProgressLine() is a plain log line', () => {
+    expect(formatProgressLine(p)).toBe('series: 10/40 frames (25%), 2.0 frames/s, about 00:15 left, 1 skipped, 1 failed');
+  });
+});
