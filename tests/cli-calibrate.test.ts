@@ -20,7 +20,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { decodeNpy } from '../src/io/decodeNpy.js';
-import { bowlWafer, lamella, scoreThickness, shoot, stepKnownArgs, stepWafer, writePhoto, type Shot } from './calibrate-scenes.js';
+import { bowlWafer, lamella, scoreThickness, shoot, stepKnownArgs, stepWafer, writePhoto, type Run, type Shot } from './calibrate-scenes.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'lamella-cli-cal-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
@@ -38,6 +38,8 @@ interface CalibrationJson {
   warnings: string[];
 }
 
+let made: Run;
+
 beforeAll(async () => {
   await writePhoto(join(dir, 'step.jpg'), shoot(stepWafer(), { ...SHOT, seed: 1 }), 'jpeg');
   await writePhoto(join(dir, 'wafer.jpg'), shoot(BOWL, { ...SHOT, seed: 2 }), 'jpeg');
@@ -47,7 +49,7 @@ beforeAll(async () => {
   // Both wafers seen at 30° from the normal, for the angle check.
   await writePhoto(join(dir, 'step-30.jpg'), shoot(stepWafer(), { ...SHOT, seed: 5, angleRad: Math.PI / 6 }), 'jpeg');
   await writePhoto(join(dir, 'wafer-30.jpg'), shoot(BOWL, { ...SHOT, seed: 6, angleRad: Math.PI / 6 }), 'jpeg');
-  const made = lamella(dir, 'calibrate', 'step.jpg', ...STACK, '--light', 'F2', ...stepKnownArgs(), '--out', 'cal.json');
+  made = lamella(dir, 'calibrate', 'step.jpg', ...STACK, '--light', 'F2', ...stepKnownArgs(), '--out', 'cal.json');
   if (made.status !== 0) throw new Error(`calibrate failed in setup: ${made.stderr}`);
 });
 
@@ -68,6 +70,20 @@ describe('lamella calibrate + map --calibration: F2 light, camera white balance 
     expect(cal.known_regions.map((k) => k.thickness_nm)).toEqual([0, 92, 185, 275, 370, 460]);
     for (const k of cal.known_regions) expect(k.residual_delta_e2000).toBeLessThan(0.6); // JPEG: a little above the PNG case
     expect(cal.warnings).toEqual([]);
+    expect(made.stderr).toBe('');
+    const lines = made.stdout.trimEnd().split('\n');
+    expect(lines[0]).toBe('calibration written to cal.json');
+    expect(lines.filter((line) => /^ {2}known \d+,\d+,60,60 = \d+ nm: residual ΔE2000 \d\.\d\d$/.test(line))).toHaveLength(6);
+  });
+
+  it('calibrate with one known region prints the warnings (flare and white balance held) on stderr and still writes the file', () => {
+    const run = lamella(dir, 'calibrate', 'step.jpg', ...STACK, '--light', 'F2', '--known', '120,120,60,60=370', '--out', 'cal-one.json');
+    expect(run.status, run.stderr).toBe(0);
+    expect(run.stderr).toBe(
+      'lamella: warning: 1 known region(s) give 3 colour values: too few to fit the flare as well; held at its default\n' +
+        'lamella: warning: 1 known region(s) give 3 colour values: too few to fit the white balance as well; held at its default\n',
+    );
+    expect(readJson<CalibrationJson>(join(dir, 'cal-one.json')).fitted_parameters).toEqual(['exposure']);
   });
 
   it('map --calibration maps the production wafer to median ≤ 3 nm, p95 ≤ 15 nm, gross (> 50 nm) ≤ 1 %, coverage ≥ 95 %', () => {
