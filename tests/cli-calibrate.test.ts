@@ -12,8 +12,10 @@
  * step wafer must let `map --calibration` reach median |error| ≤ 3 nm, 95th percentile ≤ 15 nm,
  * gross errors (> 50 nm) ≤ 1 % of the mapped pixels, on ≥ 95 % of the pixels (targets of the
  * calibration feature; when written it reached about 0.3 nm, 1 nm, 0 %, 99 %).
- * The white-balance gains themselves are checked against outside white points and the Bradford
- * matrix in calibrate-roundtrip.test.ts.
+ * The same targets hold for a denser oxide (index × 1.03, --fit …,index) and for wafers seen at
+ * 30° (--fit …,angle, mapped at the fitted --angle). The white-balance gains themselves are
+ * checked against outside white points and the Bradford matrix in calibrate-roundtrip.test.ts.
+ * Exit statuses and the one-line errors are our own documented contract (src/cli/errors.ts).
  */
 import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
