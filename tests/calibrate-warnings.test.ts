@@ -143,7 +143,7 @@ describe('knownRegionColours(): measuring the known rectangles', () => {
     for (const v of region.colour) expect(Math.abs(v - 0.5)).toBeLessThan(sigma * 0.01);
   });
 
-  it('throws a UsageError naming --known for no rectangle, a zero-size rectangle and one outside the photo', () => {
+  it('throws a UsageError naming --known for no rectangle, a zero-size rectangle, one outside the photo and fractional pixels', () => {
     const rgb = new Float32Array(width * height * 3);
     expect(() => knownRegionColours(rgb, width, height, [])).toThrow(UsageError);
     expect(() => knownRegionColours(rgb, width, height, [])).toThrow(/^--known is required/);
@@ -153,6 +153,9 @@ describe('knownRegionColours(): measuring the known rectangles', () => {
     );
     expect(() => knownRegionColours(rgb, width, height, [{ region: [0, 25, 5, 6], thicknessNm: 10 }])).toThrow(UsageError);
     expect(() => knownRegionColours(rgb, width, height, [{ region: [-1, 0, 5, 5], thicknessNm: 10 }])).toThrow(UsageError);
+    expect(() => knownRegionColours(rgb, width, height, [{ region: [1.5, 0, 5, 5], thicknessNm: 10 }])).toThrow(
+      /^--known 1\.5,0,5,5=10: X, Y, W and H must be whole numbers of pixels$/,
+    );
   });
 });
 

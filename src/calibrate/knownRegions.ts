@@ -33,6 +33,7 @@ export function knownRegionColours(
   if (known.length === 0) throw new UsageError('--known is required at least once: X,Y,W,H=NM (a rectangle of known thickness)');
   return known.map((k) => {
     const [x0, y0, w, h] = k.region;
+    if (!k.region.every(Number.isInteger)) throw new UsageError(`--known ${k.region.join(',')}=${k.thicknessNm}: X, Y, W and H must be whole numbers of pixels`);
     if (!(w > 0 && h > 0)) throw new UsageError(`--known ${k.region.join(',')}=${k.thicknessNm}: the rectangle has zero size`);
     if (x0 < 0 || y0 < 0 || x0 + w > width || y0 + h > height) {
       throw new UsageError(`--known ${k.region.join(',')}=${k.thicknessNm}: the rectangle lies outside the ${width}×${height} photo`);
