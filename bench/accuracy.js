@@ -9,7 +9,7 @@ import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { resolveLight } from '../dist/colour/index.js';
-import { encodeJpeg } from '../dist/io/encodeImage.js';
+import sharp from 'sharp';
 import { mapPhotoFile } from '../dist/map/mapPhoto.js';
 import { PixelStatus } from '../dist/map/types.js';
 import { resolveStack } from '../dist/optics/index.js';
@@ -79,7 +79,9 @@ export async function benchAccuracy() {
         noiseSigma: scene.noise, seed: 7,
       });
       const path = join(dir, `${rows.length}.jpg`);
-      writeFileSync(path, await encodeJpeg({ data: rendered.data, width: W, height: H, channels: 3 }, scene.quality));
+      // JPEG as cameras write it: 4:2:0 chroma subsampling (colour at half resolution).
+      writeFileSync(path, await sharp(Buffer.from(rendered.data), { raw: { width: W, height: H, channels: 3 } })
+        .jpeg({ quality: scene.quality, chromaSubsampling: '4:2:0' }).toBuffer());
       const started = performance.now();
       const result = await mapPhotoFile(path, {
         stack, angleRad, light: scene.light, thinBelowNm: scene.thinBelowNm, maxThicknessNm: 2000,

@@ -194,11 +194,9 @@ describe('a calibration made for another light or stack', () => {
     });
   }
 
-  // KNOWN GAP (reported to the lead): loadCalibrationForRun() checks the camera white balance
-  // only when told the run's (`whiteBalanceLight`), and map does not pass it yet; a calibration
-  // made with --white-balance D65 then maps this F2 wafer at a median of ~670 nm instead of ~300.
-  // `it.fails` keeps the suite green while the gap stands; make it a plain `it` once map passes it.
-  it.fails('map refuses a calibration made for another camera white balance (--white-balance D65 at calibration, none at map)', () => {
+  // Without this check a calibration made with --white-balance D65 mapped this F2 wafer at a
+  // median of ~670 nm instead of ~300.
+  it('map refuses a calibration made for another camera white balance (--white-balance D65 at calibration, none at map)', () => {
     const made = lamella(dir, 'calibrate', 'step.jpg', ...STACK, '--light', 'F2', '--white-balance', 'D65', ...stepKnownArgs(), '--out', 'cal-wb.json');
     expect(made.status, made.stderr).toBe(0);
     const run = lamella(dir, 'map', 'wafer.jpg', ...STACK, '--light', 'F2', '--calibration', 'cal-wb.json', '--out', join(dir, 'out-wb'), '--no-report');

@@ -27,6 +27,8 @@ export interface Photo {
   /** EXIF orientation 1–8 that was applied to make the pixels upright (1 when absent). */
   orientationApplied: number;
   exif: PhotoTime;
+  /** JPEG chroma subsampling as the file states it, e.g. '4:2:0' (colour at half resolution). */
+  chromaSubsampling?: string;
   /** Things the caller should tell the user about this file (e.g. a colour profile not applied). */
   warnings?: string[];
 }

@@ -92,6 +92,7 @@ export async function readPhoto(path: string, options: ReadPhotoOptions = {}): P
     orientationApplied: orientation,
     exif: parseExifTime(meta.exif),
   };
+  if (typeof meta.chromaSubsampling === 'string') photo.chromaSubsampling = meta.chromaSubsampling;
   if (alpha) photo.alpha = alpha;
   const profile = iccDescription(meta.icc);
   if (is16 && meta.icc && !isSrgbDescription(profile)) {

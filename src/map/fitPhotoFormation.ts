@@ -9,11 +9,14 @@
  * fit moves the photo parameters while each sample follows its own local minimum (a downhill
  * walk from the assigned index, which keeps the residuals continuous in the parameters).
  * Samples whose residual is far above the median (colour mixtures at steep gradients, clipped
- * or foreign pixels) are trimmed between outer iterations. A weak prior holds the white-balance
- * gains near 1 so that a photo with few distinct colours cannot trade them against thickness.
+ * or foreign pixels) are trimmed between outer iterations. Weak priors hold the white-balance
+ * gains near 1 (± 0.3) and the flare near 0 (± 0.05 of full scale), so that a photo with few
+ * distinct colours cannot trade them freely against thickness; such a photo is also reported
+ * (see `distinctColourCount`), since its parameters rest on those priors.
  */
 import { fitLeastSquares } from '../fit/fitLeastSquares.js';
 import { type ColourTable, predictEncodedTable } from './colourTable.js';
+import { type MatchSpace, toMatchSpace } from './matchSpace.js';
 import { distanceAt } from './candidateCube.js';
 import { refinePosition, walkDownhill } from './matchColour.js';
 import type { ExposureParameters } from './types.js';
@@ -39,9 +42,21 @@ export interface PhotoFormationOptions {
   readonly initialWhiteBalance?: readonly [number, number, number];
   /** Thickness-table indices to restrict the samples to (e.g. known regions); optional. */
   readonly fixedIndex?: Int32Array | null;
+  /** Colour space of `samples` (see matchSpace.ts); null = encoded RGB. */
+  readonly space?: MatchSpace | null;
+  /** The same samples in encoded RGB (for the flare start); default `samples`. */
+  readonly samplesRgb?: Float32Array;
+}
+
+/** Predicted table in the matching space. */
+function predictIn(space: MatchSpace | null | undefined, table: ColourTable, parameters: ExposureParameters, out: Float32Array): Float32Array {
+  predictEncodedTable(table, parameters, out);
+  return space ? toMatchSpace(space, out, out) : out;
 }
 
 const WHITE_BALANCE_PRIOR_SIGMA = 0.3;
+/** Flare is veiling glare of a few per cent at most in a usable photo (common practice): prior 0 ± 0.05. */
+const FLARE_PRIOR_SIGMA = 0.05;
 const OUTER_ITERATIONS = 4;
 /** Samples used by the coarse exposure scan. */
 const SCAN_SAMPLES = 500;
@@ -51,9 +66,9 @@ export function fitPhotoFormation(options: PhotoFormationOptions): PhotoFormatio
   const { table, samples, noiseSigma } = options;
   const sampleCount = samples.length / 3;
   const warnings: string[] = [];
-  const initialFlare = estimateFlare(samples, table.encoding);
+  const initialFlare = estimateFlare(options.samplesRgb ?? samples, table.encoding);
   const initialWb = options.initialWhiteBalance ?? [1, 1, 1];
-  const exposure0 = scanExposure(table, samples, initialWb, initialFlare);
+  const exposure0 = scanExposure(table, samples, initialWb, initialFlare, options.space);
   let current: ExposureParameters = { exposure: exposure0, whiteBalance: [...initialWb], flare: initialFlare };
   const assigned = new Int32Array(sampleCount);
   const keep = new Uint8Array(sampleCount).fill(1);
@@ -66,7 +81,7 @@ export function fitPhotoFormation(options: PhotoFormationOptions): PhotoFormatio
   let rms = NaN;
   const previous = new Int32Array(sampleCount).fill(-1);
   for (let outer = 0; outer < OUTER_ITERATIONS; outer++) {
-    predictEncodedTable(table, current, predicted);
+    predictIn(options.space, table, current, predicted);
     assignGlobalBest(predicted, table.count, samples, assigned, options.fixedIndex ?? null);
     // Stop when no sample changed its thickness by more than a few table steps.
     let moved = 0;
@@ -111,6 +126,7 @@ function scanExposure(
   samples: Float32Array,
   whiteBalance: readonly [number, number, number],
   flare: readonly [number, number, number],
+  space: MatchSpace | null | undefined,
 ): number {
   const n = samples.length / 3;
   const stride = Math.max(1, Math.floor(n / SCAN_SAMPLES));
@@ -122,7 +138,7 @@ function scanExposure(
   const candidates: number[] = [];
   for (let s = 0; s < 29; s++) candidates.push(0.1 * Math.pow(10, s * 0.1));
   const evaluate = (exposure: number): void => {
-    predictEncodedTable(table, { exposure, whiteBalance, flare }, predicted);
+    predictIn(space, table, { exposure, whiteBalance, flare }, predicted);
     let m = 0;
     for (let i = 0; i < n; i += stride) {
       const r = samples[i * 3];
@@ -217,7 +233,8 @@ function innerFit(
   for (let i = 0; i < assigned.length; i++) if (keep[i]) kept.push(i);
   const m = kept.length;
   const priorWeight = (Math.sqrt(m) * Math.max(noiseSigma, 1e-3)) / WHITE_BALANCE_PRIOR_SIGMA;
-  const rows = m * 3 + 2;
+  const flarePriorWeight = (Math.sqrt(m) * Math.max(noiseSigma, 1e-3)) / FLARE_PRIOR_SIGMA;
+  const rows = m * 3 + 5;
   const y = new Float64Array(rows);
   for (let j = 0; j < m; j++) {
     const i = kept[j];
@@ -253,7 +270,7 @@ function innerFit(
     if (key === cachedKey) return modelValues;
     cachedKey = key;
     const v = expand(p);
-    predictEncodedTable(table, toParameters(v), predicted);
+    predictIn(options.space, table, toParameters(v), predicted);
     for (let j = 0; j < m; j++) {
       const i = kept[j];
       const r = samples[i * 3];
@@ -266,6 +283,7 @@ function innerFit(
     }
     modelValues[m * 3] = fitWhiteBalance ? priorWeight * (v[1] - 1) : 0;
     modelValues[m * 3 + 1] = fitWhiteBalance ? priorWeight * (v[2] - 1) : 0;
+    for (let c = 0; c < 3; c++) modelValues[m * 3 + 2 + c] = fitFlare ? flarePriorWeight * v[3 + c] : 0;
     return modelValues;
   };
   const fit = fitLeastSquares({
@@ -285,7 +303,9 @@ function innerFit(
   const v = expand(fit.parameters);
   const se = [NaN, 0, 0, 0, 0, 0];
   active.forEach((slot, j) => (se[slot] = fit.standardErrors[j]));
-  const priorRss = fitWhiteBalance ? (priorWeight * (v[1] - 1)) ** 2 + (priorWeight * (v[2] - 1)) ** 2 : 0;
+  const priorRss =
+    (fitWhiteBalance ? (priorWeight * (v[1] - 1)) ** 2 + (priorWeight * (v[2] - 1)) ** 2 : 0) +
+    (fitFlare ? flarePriorWeight ** 2 * (v[3] ** 2 + v[4] ** 2 + v[5] ** 2) : 0);
   return {
     parameters: toParameters(v),
     standardErrors: { exposure: se[0], whiteBalance: [se[1], 0, se[2]], flare: [se[3], se[4], se[5]] },
@@ -311,4 +331,22 @@ export function interpolateColour(
   out[offset] = predicted[a] + f * (predicted[b] - predicted[a]);
   out[offset + 1] = predicted[a + 1] + f * (predicted[b + 1] - predicted[a + 1]);
   out[offset + 2] = predicted[a + 2] + f * (predicted[b + 2] - predicted[a + 2]);
+}
+
+/**
+ * How many distinct colours the samples hold: cells of a 16-level colour cube holding at least
+ * 0.5 % of the samples. A few flat colours (a couple of uniform patches) cannot determine
+ * exposure, white balance and flare together with the thicknesses.
+ */
+export function distinctColourCount(samples: Float32Array): number {
+  const n = samples.length / 3;
+  const counts = new Uint32Array(16 * 16 * 16);
+  for (let i = 0; i < n; i++) {
+    const q = (v: number): number => Math.min(15, Math.max(0, Math.floor(v * 16)));
+    counts[(q(samples[i * 3]) * 16 + q(samples[i * 3 + 1])) * 16 + q(samples[i * 3 + 2])]++;
+  }
+  let distinct = 0;
+  const threshold = Math.max(2, 0.005 * n);
+  for (let c = 0; c < counts.length; c++) if (counts[c] >= threshold) distinct++;
+  return distinct;
 }

@@ -6,6 +6,7 @@
  *   <stem>.thickness.npy (float32 nm, NaN = no estimate), <stem>.thickness.tif (float32),
  *   <stem>.confidence.npy, <stem>.map.png, <stem>.flags.png, <stem>.json, and the report.
  */
+import { unlink } from 'node:fs/promises';
 import { basename } from 'node:path';
 import { join } from 'node:path';
 import { resolveLight } from '../colour/index.js';
@@ -19,6 +20,7 @@ import { isMonochromaticLight, mapMonochromatic } from '../mono/index.js';
 import { type BuiltColourTable, buildColourTable } from './buildColourTable.js';
 import { buildFilmMask } from './filmMask.js';
 import { mapPixels } from './mapPixels.js';
+import { chromaWeightFor } from './matchSpace.js';
 import { renderFlagsPng, renderMapPng, scaleRangeOf } from './mapImages.js';
 import { findThinRegions } from './thinRegions.js';
 import type { MapOptions, MapResult } from './types.js';
@@ -111,6 +113,7 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
     anchors: options.anchors,
     prior: options.prior ?? null,
     exposureFixed: options.exposureFixed ?? null,
+    chromaWeight: chromaWeightFor(photo.format, photo.chromaSubsampling),
   });
   return {
     ...result,
@@ -121,6 +124,8 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
       noise_sigma: result.noiseSigma,
       washout_nm: result.washoutNm,
       no_estimate_reasons: result.ambiguousReasons,
+      chroma_subsampling: photo.chromaSubsampling ?? null,
+      chroma_weight: chromaWeightFor(photo.format, photo.chromaSubsampling),
       fit: result.fit
         ? { standard_errors: result.fit.standardErrors, rms_residual: result.fit.rmsResidual, samples_used: result.fit.samplesUsed }
         : null,
@@ -146,7 +151,8 @@ export interface OutputSelection {
 
 /**
  * Writes the selected outputs of a map atomically; returns the paths written. `options` is
- * needed for the JSON record.
+ * needed for the JSON record. If any write fails (a full disk, say), the files already written
+ * for this photo are removed again, so the folder never holds half of a photo's outputs.
  */
 export async function writeMapOutputs(
   result: MappedPhoto,
@@ -157,13 +163,32 @@ export async function writeMapOutputs(
   options?: MapOptions,
 ): Promise<string[]> {
   const written: string[] = [];
+  try {
+    await writeEachOutput(result, photoPath, outDir, stem, what, options, written);
+  } catch (error) {
+    await Promise.all(written.map((file) => unlink(file).catch(() => undefined)));
+    throw error;
+  }
+  return written;
+}
+
+async function writeEachOutput(
+  result: MappedPhoto,
+  photoPath: string,
+  outDir: string,
+  stem: string,
+  what: OutputSelection,
+  options: MapOptions | undefined,
+  written: string[],
+): Promise<void> {
   const { width, height } = result;
   if (what.npy) {
     const thicknessPath = join(outDir, `${stem}.thickness.npy`);
     await writeNpy(thicknessPath, result.thicknessNm, [height, width]);
+    written.push(thicknessPath);
     const confidencePath = join(outDir, `${stem}.confidence.npy`);
     await writeNpy(confidencePath, result.confidence, [height, width]);
-    written.push(thicknessPath, confidencePath);
+    written.push(confidencePath);
   }
   if (what.tiff) {
     const tiffPath = join(outDir, `${stem}.thickness.tif`);
@@ -189,5 +214,4 @@ export async function writeMapOutputs(
     await atomicWriteFile(jsonPath, Buffer.from(`${JSON.stringify(record, null, 2)}\n`, 'utf8'));
     written.push(jsonPath);
   }
-  return written;
 }

@@ -15,7 +15,8 @@ import { createCandidateCube } from './candidateCube.js';
 import { createCandidateField } from './candidateField.js';
 import { type ColourTable, predictEncodedTable, thicknessAt } from './colourTable.js';
 import { estimateNoise, sigmaAt } from './estimateNoise.js';
-import { fitPhotoFormation, type PhotoFormationFit } from './fitPhotoFormation.js';
+import { distinctColourCount, fitPhotoFormation, interpolateColour, type PhotoFormationFit } from './fitPhotoFormation.js';
+import { matchSpace, toMatchSpace } from './matchSpace.js';
 import { createMatchScratch, matchColour, matchNear } from './matchColour.js';
 import { resolveOrders } from './resolveOrders.js';
 import { computeMapStatistics, percentileSelect, thicknessHistogram } from './statistics.js';
@@ -39,6 +40,8 @@ export interface MapPixelsInput {
   readonly exposureFixed?: ExposureParameters | null;
   readonly fitWhiteBalance?: boolean;
   readonly initialWhiteBalance?: readonly [number, number, number];
+  /** Weight of chroma in colour matching (< 1 for chroma-subsampled JPEGs; see matchSpace.ts). */
+  readonly chromaWeight?: number;
 }
 
 export interface MapPixelsResult extends MapResult {
@@ -56,6 +59,8 @@ const CUBE_LEVELS = 32;
 const MAX_GRID_CELLS = 300_000;
 const SATURATED = 0.996;
 const MIN_FIT_SAMPLES = 64;
+/** Fewer distinct colours than this: the photo-formation fit is reported as poorly determined. */
+const MIN_DISTINCT_COLOURS = 12;
 /** Pixels sampled (on a regular stride) for the photo-formation fit. */
 const FIT_SAMPLES = 2000;
 
@@ -73,6 +78,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
     }
   }
   const noise = estimateNoise(rgb, width, height, film);
+  const space = matchSpace(input.chromaWeight ?? 1);
   const noiseSigma = noise.sigma;
 
   const timingsMs: Record<string, number> = {};
@@ -88,7 +94,8 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   let parameters: ExposureParameters;
   if (input.exposureFixed) parameters = input.exposureFixed;
   else {
-    const samples = samplePixels(rgb, status, pixels, FIT_SAMPLES);
+    const samplesRgb = samplePixels(rgb, status, pixels, FIT_SAMPLES);
+    const samples = space ? toMatchSpace(space, samplesRgb, new Float32Array(samplesRgb.length)) : samplesRgb;
     if (samples.length < 3 * MIN_FIT_SAMPLES) {
       parameters = { exposure: 1, whiteBalance: [1, 1, 1], flare: [0, 0, 0] };
       warnings.push(
@@ -102,7 +109,15 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
       fitFlare: true,
       noiseSigma,
       initialWhiteBalance: input.initialWhiteBalance,
+      space,
+      samplesRgb,
     });
+    const distinct = distinctColourCount(samplesRgb);
+    if (distinct < MIN_DISTINCT_COLOURS) {
+      warnings.push(
+        `the photo holds only ${distinct} distinct colour(s): exposure, white balance and flare are poorly determined from it and rest on weak assumptions; map it with --calibration or --known for trustworthy numbers`,
+      );
+    }
     parameters = fit.parameters;
     warnings.push(...fit.warnings);
     }
@@ -110,10 +125,12 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
 
   lap('fit');
   // 2. Predicted colours and limits.
-  const predicted = predictEncodedTable(table, parameters);
+  const predictedRgb = predictEncodedTable(table, parameters);
   const count = table.count;
   const periodIndex = input.orderPeriodNm / table.stepNm;
-  const limits = tableLimits(predicted, table.rgbLinear, count, noiseSigma, Math.round(periodIndex));
+  const limits = tableLimits(predictedRgb, table.rgbLinear, count, noiseSigma, Math.round(periodIndex));
+  const predicted = space ? toMatchSpace(space, predictedRgb, new Float32Array(predictedRgb.length)) : predictedRgb;
+  const matchRgb = space ? toMatchSpace(space, rgb, new Float32Array(rgb.length)) : rgb;
   markDarkPixels(rgb, status, width, height, limits.darkLuma);
 
   lap('limits');
@@ -123,7 +140,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   const gridHeight = Math.ceil(height / block);
   const cellColour = new Float32Array(gridWidth * gridHeight * 3);
   const cellDark = new Uint8Array(gridWidth * gridHeight);
-  const usable = averageCells(rgb, status, width, height, block, gridWidth, gridHeight, cellColour, cellDark);
+  const usable = averageCells(matchRgb, status, width, height, block, gridWidth, gridHeight, cellColour, cellDark);
   const cube = createCandidateCube(CUBE_LEVELS, PER_CELL);
   const scratch = createMatchScratch(PER_CELL);
   const field = createCandidateField(gridWidth, gridHeight, PER_CELL);
@@ -160,6 +177,8 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   const pixelJump = 0.3 * periodIndex;
   const reasons = { unresolved: 0, discontinuous: 0, poorMatch: 0 };
   const near = new Float64Array(3);
+  const fitted = new Float64Array(3);
+  const pixelCube = space ? createCandidateCube(CUBE_LEVELS, PER_CELL) : cube;
   const alternativeCost = new Float32Array(pixels);
   for (let y = 0; y < height; y++) {
     for (let x = 0; x < width; x++) {
@@ -171,13 +190,17 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
         reasons.unresolved++;
         continue;
       }
-      const r = rgb[i * 3];
-      const g = rgb[i * 3 + 1];
-      const b = rgb[i * 3 + 2];
-      matchNear(cube, predicted, count, r, g, b, reference, pixelJump, scratch, near);
+      // Which candidate: in encoded RGB (full colour discrimination between orders).
+      matchNear(pixelCube, predictedRgb, count, rgb[i * 3], rgb[i * 3 + 1], rgb[i * 3 + 2], reference, pixelJump, scratch, near);
       const position = near[0];
-      const cost = near[1];
-      const alternative = near[2];
+      // How well it fits: in the matching space (chroma down-weighted for subsampled JPEGs).
+      let cost = near[1];
+      if (space) {
+        interpolateColour(predicted, count, position, fitted, 0);
+        cost = (fitted[0] - matchRgb[i * 3]) ** 2 + (fitted[1] - matchRgb[i * 3 + 1]) ** 2 + (fitted[2] - matchRgb[i * 3 + 2]) ** 2;
+      }
+      // Margin to the next-best order, in encoded RGB: alternative cost minus this one.
+      const alternative = near[2] === Infinity ? Infinity : cost + (near[2] - near[1]);
       if (Math.abs(position - reference) > pixelJump) {
         status[i] = PixelStatus.ambiguous;
         reasons.discontinuous++;

@@ -89,11 +89,15 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
   if (thinBelowNm !== null && thinBelowNm < 0) throw new UsageError(`--thin-below must be a number of nm >= 0, received ${opts.thinBelow}`);
   const pixelSizeUm = opts.pixelSize !== undefined ? parseNumberOption(opts.pixelSize, '--pixel-size', 'a number of micrometres > 0') : null;
   if (pixelSizeUm !== null && pixelSizeUm <= 0) throw new UsageError(`--pixel-size must be a number of micrometres > 0, received ${opts.pixelSize}`);
+  if ((opts.known ?? []).length > 0 && opts.calibration) {
+    throw new UsageError('give either --known (calibrate on the photo) or --calibration (a calibration file), not both');
+  }
   const calibration = opts.calibration
     ? await loadCalibrationForRun(opts.calibration, {
         stack: opts.stack ?? '',
         light: opts.light,
         angleRad,
+        whiteBalanceLight: opts.whiteBalance ?? null,
         ignoreMismatch: opts.ignoreCalibrationMismatch === true,
       })
     : null;
@@ -112,7 +116,6 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
     exposureFixed: calibration?.exposureFixed ?? null,
   };
   const known = (opts.known ?? []).map(parseKnown);
-  if (known.length > 0 && calibration) throw new UsageError('give either --known (calibrate on the photo) or --calibration (a calibration file), not both');
   const stems = photos.map((p) => basename(p, extname(p)));
   const duplicate = stems.find((s, i) => stems.indexOf(s) !== i);
   if (duplicate) throw new UsageError(`two photos share the name '${duplicate}': their outputs would collide; map them into different --out folders`);

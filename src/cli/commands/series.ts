@@ -75,7 +75,7 @@ async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions, warn:
   const { angleRad } = stackFromOptions(opts, { onWarning: warn });
   const calibration = opts.calibration === undefined
     ? null
-    : await loadCalibrationForRun(opts.calibration, { stack: opts.stack ?? '', light: opts.light, angleRad, ignoreMismatch: opts.ignoreCalibrationMismatch === true });
+    : await loadCalibrationForRun(opts.calibration, { stack: opts.stack ?? '', light: opts.light, angleRad, whiteBalanceLight: opts.whiteBalance ?? null, ignoreMismatch: opts.ignoreCalibrationMismatch === true });
   const stackOptions: StackCliOptions = { stack: opts.stack, filmIndex: opts.filmIndex, angle: opts.angle, extrapolate: opts.extrapolate };
   const whiteBalanceLight = opts.whiteBalance ?? null;
   const config: MapFrameConfig = {
