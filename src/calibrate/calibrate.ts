@@ -7,6 +7,7 @@
 import { basename } from 'node:path';
 import { buildCamera, convertXyzToLab, deltaE2000, decodeSrgb, resolveLight, LINEAR_SRGB_TO_XYZ, SRGB_WHITE_XYZ } from '../colour/index.js';
 import { readPhoto } from '../io/readPhoto.js';
+import { MAP_MAX_PIXELS } from '../io/limits.js';
 import type { Stack } from '../optics/types.js';
 import { CALIBRATION_VERSION } from './calibrationFile.js';
 import { type CalibrationParameter, fitCalibration } from './fitCalibration.js';
@@ -28,7 +29,7 @@ export interface CalibrationRecord extends Record<string, unknown> {
 }
 
 export async function calibratePhotoFile(path: string, options: CalibrateOptions): Promise<CalibrationRecord> {
-  const photo = await readPhoto(path);
+  const photo = await readPhoto(path, { maxPixels: MAP_MAX_PIXELS });
   return calibrateDecoded(photo.rgb, photo.width, photo.height, basename(path), options);
 }
 

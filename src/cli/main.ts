@@ -15,9 +15,9 @@ export async function buildProgram(): Promise<Command> {
       'Thickness maps of thin transparent films (soap films, oxide and nitride layers, coatings) from colour photographs of their interference colours.',
     )
     .option('--debug', 'show stack traces on errors')
-    .showHelpAfterError('(run with --help for usage)')
     .exitOverride()
-    .configureOutput({ outputError: (text, write) => write(text) });
+    // Parse errors (unknown option, missing argument, bad choice) as one line like every other error.
+    .configureOutput({ outputError: (text, write) => write(`lamella: ${oneLine(text.replace(/^error: /, ''))} (run with --help for usage)\n`) });
   for (const load of commandModules) {
     const mod = await load();
     mod.register(program);

@@ -61,6 +61,9 @@ export function stackFromOptions(
     if (error instanceof RangeError && /^unknown film material/.test(error.message)) {
       throw new UsageError(`--film-index: unknown material '${opts.filmIndex}'; give a number, a material file (.json/.csv) or one of ${listMaterialNames().join(', ')}`);
     }
+    if (error instanceof RangeError && opts.filmIndex !== undefined && /^constant index/.test(error.message)) {
+      throw new UsageError(`--film-index: ${error.message.replace(/^constant index: /, '')} (a refractive index such as 1.40)`);
+    }
     if (error instanceof RangeError || error instanceof TypeError) throw new UsageError(error.message);
     throw error;
   }

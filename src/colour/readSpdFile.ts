@@ -13,6 +13,9 @@ export const REQUIRED_COVERAGE_NM = [400, 700] as const;
 export function checkCoverage(file: string, wavelengthsNm: Float64Array, dataLineOf: (row: number) => number): void {
   const first = wavelengthsNm[0];
   const last = wavelengthsNm[wavelengthsNm.length - 1];
+  if (last < 50) {
+    throw new CsvFormatError(file, dataLineOf(wavelengthsNm.length - 1), `wavelengths must be in nm, received ${first}–${last} (these look like micrometres; multiply by 1000)`);
+  }
   if (first > REQUIRED_COVERAGE_NM[0]) {
     throw new CsvFormatError(file, dataLineOf(0), `the table must start at or below ${REQUIRED_COVERAGE_NM[0]} nm, first wavelength is ${first} nm`);
   }

@@ -10,6 +10,26 @@ import { randomBytes } from 'node:crypto';
 import { InputError } from '../cli/errors.js';
 import { registerTempFile, unregisterTempFile } from './tempFiles.js';
 
+/** Plain words for the usual write failures (the temp file's name means nothing to a user). */
+const WRITE_ERRORS: Record<string, string> = {
+  ENOSPC: 'no space left on the device',
+  EDQUOT: 'disk quota exceeded',
+  EROFS: 'the file system is read-only',
+  EACCES: 'permission denied',
+  EPERM: 'permission denied',
+  ENOENT: 'the folder does not exist',
+  ENOTDIR: 'a part of the path is a file, not a folder',
+  EISDIR: 'the path is a folder, expected a file name',
+  EBUSY: 'the path is busy or is a folder, expected a file name',
+};
+
+export function describeWriteError(error: unknown): string {
+  const code = typeof error === 'object' && error !== null && 'code' in error ? String((error as { code: unknown }).code) : '';
+  const plain = WRITE_ERRORS[code];
+  if (plain) return `${plain}, ${code}`;
+  return (error instanceof Error ? error.message : String(error)).replace(/\s*\n\s*/g, ' ');
+}
+
 /** Name of the temp file used while writing `path` (hidden, same folder). */
 export function tempPathFor(path: string): string {
   return join(dirname(path), `.${basename(path)}.${process.pid}.${randomBytes(4).toString('hex')}.tmp`);
@@ -35,8 +55,7 @@ export async function atomicWriteFile(path: string, bytes: Uint8Array): Promise<
     await rename(temp, path);
   } catch (error) {
     await unlink(temp).catch(() => undefined);
-    const detail = error instanceof Error ? error.message : String(error);
-    throw new InputError(path, `cannot write output file (${detail})`);
+    throw new InputError(path, `cannot write output file (${describeWriteError(error)})`);
   } finally {
     unregisterTempFile(temp);
   }

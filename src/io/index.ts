@@ -1,6 +1,6 @@
 /** Image and grid I/O: the only module that touches the image codec. */
 export * from './photo.js';
-export { MAX_PIXELS } from './limits.js';
+export { MAX_PIXELS, MAP_MAX_PIXELS } from './limits.js';
 export { readPhoto } from './readPhoto.js';
 export { readPhotoMetadata } from './readPhotoMetadata.js';
 export { parseExifTime } from './exifTime.js';

@@ -27,13 +27,18 @@ export async function readPhoto(path: string, options: ReadPhotoOptions = {}): P
   const bytes = await readInputFile(path);
   let meta: Metadata;
   try {
-    meta = await sharp(bytes, { limitInputPixels: maxPixels }).metadata();
+    // Header only (no pixels decoded), so the size can be checked and named below.
+    meta = await sharp(bytes, { limitInputPixels: false }).metadata();
   } catch (error) {
     throw decodeInputError(path, error, maxPixels);
   }
   if (!(meta.width > 0 && meta.height > 0)) throw new InputError(path, 'image has no pixels');
   if (meta.width * meta.height > maxPixels) {
-    throw new InputError(path, `image has ${meta.width}×${meta.height} pixels, more than the limit of ${maxPixels} pixels; crop or down-sample it first`);
+    const mp = (pixels: number): string => `${Number((pixels / 1e6).toPrecision(3))} MP`;
+    throw new InputError(
+      path,
+      `image has ${meta.width}×${meta.height} pixels (${mp(meta.width * meta.height)}), more than the limit of ${maxPixels} pixels (${mp(maxPixels)}); crop or down-sample it first`,
+    );
   }
   const is16 = meta.depth === 'ushort';
   const greySource = meta.channels <= 2;

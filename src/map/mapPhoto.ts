@@ -12,6 +12,7 @@ import { join } from 'node:path';
 import { resolveLight } from '../colour/index.js';
 import { InputError } from '../cli/errors.js';
 import { readPhoto } from '../io/readPhoto.js';
+import { MAP_MAX_PIXELS } from '../io/limits.js';
 import { writeNpy } from '../io/encodeNpy.js';
 import { writeFloatTiff } from '../io/encodeFloatTiff.js';
 import { atomicWriteFile } from '../io/atomicWriteFile.js';
@@ -134,7 +135,7 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
 }
 
 export async function mapPhotoFile(path: string, options: MapOptions): Promise<MappedPhoto> {
-  const photo = await readPhoto(path);
+  const photo = await readPhoto(path, { maxPixels: MAP_MAX_PIXELS });
   const mask = options.maskPath ? await readMask(options.maskPath, photo.width, photo.height) : null;
   if (options.prior && options.prior.length !== photo.width * photo.height) {
     throw new InputError(path, `frame is ${photo.width}×${photo.height}, a different size from the previous frame`);

@@ -62,6 +62,10 @@ export function validRangeFromRecord(record: Json, file: string): [number, numbe
   if (range.length !== 2 || !(range[0] > 0) || !(range[1] > range[0])) {
     throw new DataFileError(file, `valid_range_um must be [from, to] with 0 < from < to (µm), received ${JSON.stringify(record.valid_range_um)}`);
   }
+  // A range starting beyond 50 µm cannot be meant for visible light: most likely nanometres.
+  if (range[0] >= 50) {
+    throw new DataFileError(file, `valid_range_um must be in micrometres, received ${JSON.stringify(record.valid_range_um)} (these look like nanometres; e.g. [0.21, 6.7])`);
+  }
   return [range[0] * 1000, range[1] * 1000];
 }
 
@@ -92,6 +96,29 @@ export function citationFromRecord(record: Json, fallback: string): string {
   return typeof record.doi === 'string' && record.doi !== '' ? `${source}, doi:${record.doi}` : source;
 }
 
+/**
+ * Evaluates n(λ) at a few wavelengths of the valid range (within 380–780 nm where they overlap)
+ * and refuses a formula that gives no finite n in [1, 10] there: the usual sign of coefficients
+ * in the wrong units (Sellmeier C in nm² instead of µm² gives n just below 1). Transparent
+ * materials described by these formulas have 1 <= n, and 10 is above any of them (common
+ * practice: germanium, about 4, is among the highest).
+ */
+function checkIndexPlausible(n: (wavelengthNm: number) => number, [fromNm, toNm]: [number, number], file: string): void {
+  const lo = Math.max(fromNm, 380);
+  const hi = Math.min(toNm, 780);
+  const [a, b] = lo <= hi ? [lo, hi] : [fromNm, toNm];
+  for (let i = 0; i <= 4; i++) {
+    const wavelengthNm = a + ((b - a) * i) / 4;
+    const value = n(wavelengthNm);
+    if (!Number.isFinite(value) || value < 1 || value > 10) {
+      throw new DataFileError(
+        file,
+        `coefficients give n = ${value} at ${Number(wavelengthNm.toPrecision(6))} nm, expected a finite index from 1 to 10 (check the units: wavelengths in µm, Sellmeier C in µm²)`,
+      );
+    }
+  }
+}
+
 /** A Material from a parsed JSON record; `file` is used in error messages. */
 export function materialFromRecord(record: unknown, file: string, name: string, options: MaterialOptions = {}): Material {
   if (!isObject(record)) throw new DataFileError(file, `expected a JSON object with formula, coefficients and valid_range_um`);
@@ -101,6 +128,7 @@ export function materialFromRecord(record: unknown, file: string, name: string, 
   const n = dispersionFromRecord(record.formula, record.coefficients, file, 'coefficients');
   const validRangeNm = validRangeFromRecord(record, file);
   const k = extinctionFromRecord(record.k, file);
+  checkIndexPlausible(n, validRangeNm, file);
   const description = typeof record.material === 'string' ? record.material : name;
   return makeMaterial({ name, description, source: citationFromRecord(record, `file ${file}`), validRangeNm, n, k }, options);
 }

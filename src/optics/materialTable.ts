@@ -43,6 +43,10 @@ export function parseNkCsv(text: string, file: string): NkTable {
     ks.push(k);
   }
   if (wl.length < 2) throw new DataFileError(file, `expected at least 2 data lines, received ${wl.length}`);
+  // No optical table for visible light ends below 50 nm: such wavelengths are micrometres.
+  if (wl[wl.length - 1] < 50) {
+    throw new DataFileError(file, `wavelength_nm must be in nanometres, received ${wl[0]}–${wl[wl.length - 1]} (these look like micrometres; multiply by 1000)`);
+  }
   return { wavelengthsNm: Float64Array.from(wl), n: Float64Array.from(ns), k: Float64Array.from(ks) };
 }
 

@@ -14,6 +14,7 @@ import { atomicWriteFile } from '../../io/atomicWriteFile.js';
 import { lineOfLight, mapDecodedPhoto, readMask, writeMapOutputs, mapResultJson } from '../../map/mapPhoto.js';
 import { resolveLight } from '../../colour/index.js';
 import { readPhoto } from '../../io/readPhoto.js';
+import { MAP_MAX_PIXELS } from '../../io/limits.js';
 import { calibrateDecoded } from '../../calibrate/calibrate.js';
 import { mapReportInput } from '../../map/mapReportInput.js';
 import { renderMapReport } from '../../report/index.js';
@@ -131,7 +132,7 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
   for (const [index, photo] of photos.entries()) {
     const stem = stems[index];
     try {
-      const decoded = await readPhoto(photo);
+      const decoded = await readPhoto(photo, { maxPixels: MAP_MAX_PIXELS });
       const mask = options.maskPath ? await readMask(options.maskPath, decoded.width, decoded.height) : null;
       let photoOptions = options;
       if (known.length > 0) {
