@@ -55,6 +55,14 @@ export async function readCalibrationFile(file: string): Promise<CalibrationForR
   }
   if (raw === null || typeof raw !== 'object' || Array.isArray(raw)) throw new InputError(file, 'calibration must be a JSON object');
   const record = raw as Record<string, unknown>;
+  if (record.lamella_calibration !== CALIBRATION_VERSION) {
+    throw new InputError(
+      file,
+      record.lamella_calibration === undefined
+        ? `missing field "lamella_calibration" (expected ${CALIBRATION_VERSION}); is this a file written by lamella calibrate?`
+        : `lamella_calibration must be ${CALIBRATION_VERSION} (the format this version reads), received ${show(record.lamella_calibration)}`,
+    );
+  }
   const fitted = record.fitted;
   if (fitted === null || typeof fitted !== 'object') throw new InputError(file, 'missing field "fitted" (an object with exposure, whiteBalance, flare)');
   const f = fitted as Record<string, unknown>;

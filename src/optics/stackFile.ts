@@ -47,7 +47,13 @@ export function materialFromSpec(spec: unknown, file: string, field: string, opt
       }
     }
     if (/\.(json|csv)$/i.test(spec)) {
-      return loadMaterialFile(isAbsolute(spec) ? spec : resolve(dirname(file), spec), options);
+      try {
+        return loadMaterialFile(isAbsolute(spec) ? spec : resolve(dirname(file), spec), options);
+      } catch (error) {
+        // Name the referring stack file and field too: the material file alone may be a mystery.
+        if (error instanceof DataFileError) throw new DataFileError(error.file, `${error.detail} (referred to by ${file}, ${field})`);
+        throw error;
+      }
     }
     throw new DataFileError(file, `${field}: unknown material "${spec}"; expected a number, a material file (.json/.csv) or one of ${listMaterialNames().join(', ')}`);
   }
