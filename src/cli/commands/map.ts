@@ -11,6 +11,7 @@ import { collect, parseAnchor, parseKnown, parseRegion } from '../parseGeometry.
 import { UsageError } from '../errors.js';
 import { ensureOutputDir, assertNoInputOverwritten } from '../../io/ensureOutputDir.js';
 import { atomicWriteFile } from '../../io/atomicWriteFile.js';
+import { writeOutputSet } from '../../io/writeOutputSet.js';
 import { lineOfLight, mapDecodedPhoto, readMask, writeMapOutputs, mapResultJson } from '../../map/mapPhoto.js';
 import { resolveLight } from '../../colour/index.js';
 import { readPhoto } from '../../io/readPhoto.js';
@@ -150,14 +151,17 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
         for (const warning of onPhoto.warnings) warn(`${photo}: calibration: ${warning}`);
       }
       const result = mapDecodedPhoto(decoded, photoOptions, mask, photo);
-      await writeMapOutputs(result, photo, outDir, stem, { images: true, json: true, npy: true, tiff: true }, photoOptions);
-      if (opts.report) {
-        const html = renderMapReport({ ...(await mapReportInput(result, photoOptions, photo)), calibration: calibration?.raw ?? null });
-        const file = `${stem}.report.html`;
-        await atomicWriteFile(join(outDir, file), Buffer.from(html, 'utf8'));
-        reports.push({ stem, file });
-        if (photos.length === 1) await atomicWriteFile(join(outDir, 'report.html'), Buffer.from(html, 'utf8'));
-      }
+      // All of a photo's outputs or none, even when interrupted or the disk fills up.
+      await writeOutputSet(OUTPUT_SUFFIXES.map((suffix) => join(outDir, stem + suffix)), async () => {
+        await writeMapOutputs(result, photo, outDir, stem, { images: true, json: true, npy: true, tiff: true }, photoOptions);
+        if (opts.report) {
+          const html = renderMapReport({ ...(await mapReportInput(result, photoOptions, photo)), calibration: calibration?.raw ?? null });
+          const file = `${stem}.report.html`;
+          await atomicWriteFile(join(outDir, file), Buffer.from(html, 'utf8'));
+          reports.push({ stem, file });
+          if (photos.length === 1) await atomicWriteFile(join(outDir, 'report.html'), Buffer.from(html, 'utf8'));
+        }
+      });
       const record = mapResultJson(result, photoOptions, photo);
       records.push(record);
       if (result.thinRegions.length > 0) thin++;
