@@ -27,7 +27,6 @@ export async function mapReportInput(result: MappedPhoto, options: MapOptions, p
   const record = mapResultJson(result, options, photoPath);
   const notes: string[] = [];
   if (step > 1) notes.push(`pictures shown at 1/${step} scale`);
-  if (grid.step > 1) notes.push(`pointer values read from every ${grid.step}th pixel of the map`);
   return {
     title: `Thickness map of ${basename(photoPath)}`,
     generatedAt: new Date().toISOString(),
