@@ -89,7 +89,12 @@ export async function runSeries(options: SeriesOptions): Promise<SeriesResult> {
     options.intervalS ?? null,
   );
   warnings.push(...timing.warnings);
-  const timed = probed.readable.map(({ frame }, i) => ({ frame, timeS: timing.timesS[i] })).filter(({ frame }) => !probed.wrongSize.has(frame.index));
+  // Timed by a frame rate, a frame keeps its place in the input list: an unreadable frame leaves
+  // its gap in time instead of shifting every later frame one step earlier.
+  const stepS = timing.source === 'fps' ? (options.fps ? 1 / options.fps : (options.intervalS ?? null)) : null;
+  const timed = probed.readable
+    .map(({ frame }, i) => ({ frame, timeS: stepS !== null ? frame.index * stepS : timing.timesS[i] }))
+    .filter(({ frame }) => !probed.wrongSize.has(frame.index));
   const frames = timed.map((t) => t.frame);
   const hash = settingsHash({ format: 1, chunkFrames: chunkSize, map: options.mapSettings, calibration: options.calibration ?? null });
   await ensureOutputDir(outDir);
