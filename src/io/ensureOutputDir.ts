@@ -5,7 +5,8 @@
  */
 import { access, mkdir, stat } from 'node:fs/promises';
 import { constants } from 'node:fs';
-import { resolve } from 'node:path';
+import { dirname, resolve } from 'node:path';
+import { describeWriteError } from './atomicWriteFile.js';
 import { InputError } from '../cli/errors.js';
 
 export interface EnsureOutputDirOptions {
@@ -22,6 +23,28 @@ export function assertNoInputOverwritten(inputs: readonly string[], outputs: rea
     if (inputSet.has(resolve(output))) {
       throw new InputError(output, 'output would overwrite an input file; choose another output folder or name');
     }
+  }
+}
+
+/**
+ * Why a folder could not be made, in plain words. Recursive mkdir reports ENOENT even when the
+ * real cause is a read-only or unwritable ancestor, so the nearest existing ancestor is examined.
+ */
+async function whyNotCreated(absolute: string, error: unknown): Promise<string> {
+  let ancestor = dirname(absolute);
+  for (;;) {
+    const info = await stat(ancestor).catch(() => undefined);
+    if (info) {
+      if (!info.isDirectory()) return `${ancestor} is a file, not a folder`;
+      const code = await access(ancestor, constants.W_OK).then(
+        () => null,
+        (e: NodeJS.ErrnoException) => e.code ?? 'EACCES',
+      );
+      return code === null ? describeWriteError(error) : `${ancestor} is not writable (${describeWriteError({ code })})`;
+    }
+    const parent = dirname(ancestor);
+    if (parent === ancestor) return describeWriteError(error);
+    ancestor = parent;
   }
 }
 
@@ -42,8 +65,7 @@ export async function ensureOutputDir(dir: string, options: EnsureOutputDirOptio
     try {
       await mkdir(absolute, { recursive: true });
     } catch (error) {
-      const detail = error instanceof Error ? error.message : String(error);
-      throw new InputError(dir, `cannot create output folder (${detail})`);
+      throw new InputError(dir, `cannot create output folder (${await whyNotCreated(absolute, error)})`);
     }
   }
   try {

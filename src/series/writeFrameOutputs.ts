@@ -9,6 +9,7 @@ import { join } from 'node:path';
 import { threadId } from 'node:worker_threads';
 import type { MapResult } from '../map/types.js';
 import { encodeNpy } from '../io/encodeNpy.js';
+import { describeWriteError } from '../io/atomicWriteFile.js';
 import { framesDir, partialDirName } from './frameFiles.js';
 import type { FrameJob, FrameProcessor, FrameRecord } from './types.js';
 
@@ -50,6 +51,9 @@ export async function writeFrameOutputs(
     const names = (await readdir(staging)).filter((n) => n !== recordName);
     for (const name of names) await rename(join(staging, name), join(dir, name));
     await rename(join(staging, recordName), join(dir, recordName));
+  } catch (error) {
+    // The caller prefixes the frame's name; say where and why in plain words (e.g. a full disk).
+    throw new Error(`cannot write its outputs in ${dir} (${describeWriteError(error)})`);
   } finally {
     await rm(staging, { recursive: true, force: true });
   }
