@@ -122,6 +122,8 @@ beforeAll(async () => {
   copyFileSync(join(dir, 'good.png'), join(dir, 'wrongly-named.tif'));
   await sharp({ create: { width: 10, height: 10, channels: 3, background: '#808080' } }).png().toFile(join(dir, 'small-mask.png'));
   mkdirSync(join(dir, 'a-folder.png'));
+  mkdirSync(join(dir, 'frames-huge'));
+  writeFileSync(join(dir, 'frames-huge', 'huge.png'), pngHeaderClaiming(8000, 7000));
   mkdirSync(join(dir, 'frames-one-bad'));
   copyFileSync(join(dir, 'good.png'), join(dir, 'frames-one-bad', 'f1.png'));
   writeFileSync(join(dir, 'frames-one-bad', 'f2.png'), 'not an image');
@@ -156,6 +158,12 @@ const cases: Case[] = [
     status: 3,
     message: new RegExp(`huge\\.png: image has 8000×7000 pixels \\(56 MP\\), more than the limit of ${MAP_MAX_PIXELS} pixels`),
     batch: true,
+  },
+  {
+    name: 'series: a frame over the pixel limit',
+    args: ['series', 'frames-huge', '--stack', 'soap-film', '--fps', '1', '--quiet', '--no-report', '--out', 'out-huge'],
+    status: 3,
+    message: new RegExp(`^lamella: huge\\.png: image has 8000×7000 pixels \\(56 MP\\), more than the limit of ${MAP_MAX_PIXELS} pixels`),
   },
   { name: 'map: a mask of another size', args: map('good.png', '--mask', 'small-mask.png'), status: 3, message: /small-mask\.png: mask is 10×10 but the photo is 64×48/, batch: true },
   // Options

@@ -61,7 +61,10 @@ export async function runChunk(chunk: readonly FrameJob[], processor: FrameProce
       onFrame({ index: frame.index, name: frame.name, outcome: 'mapped' });
     } catch (error) {
       previous = null;
-      onFrame({ index: frame.index, name: frame.name, outcome: 'failed', message: `${frame.name}: ${messageOf(error)}` });
+      // Input errors already start with the frame's path: name the frame once.
+      const text = messageOf(error);
+      const message = text.startsWith(`${frame.path}: `) ? `${frame.name}: ${text.slice(frame.path.length + 2)}` : `${frame.name}: ${text}`;
+      onFrame({ index: frame.index, name: frame.name, outcome: 'failed', message });
     }
   }
 }
