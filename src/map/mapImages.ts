@@ -9,6 +9,7 @@
 import { composeImagePng } from '../io/composeImage.js';
 import { colourScaleBytes, SCALE_ENTRIES } from './colourScale.js';
 import { type MapResult, PixelStatus } from './types.js';
+import { percentileSelect } from './statistics.js';
 
 const NO_ESTIMATE: readonly [number, number, number] = [128, 128, 128];
 const TOO_DARK: readonly [number, number, number] = [0, 0, 0];
@@ -24,12 +25,18 @@ export function scaleRangeOf(result: MapResult): ScaleRange {
   let n = 0;
   for (let i = 0; i < status.length; i++) if (status[i] === PixelStatus.ok) n++;
   if (n === 0) return { minNm: 0, maxNm: 100 };
-  const values = new Float32Array(n);
-  n = 0;
-  for (let i = 0; i < status.length; i++) if (status[i] === PixelStatus.ok) values[n++] = thicknessNm[i];
-  values.sort();
-  const lo = values[Math.floor(0.005 * (n - 1))];
-  const hi = values[Math.ceil(0.995 * (n - 1))];
+  // Percentiles of at most ~500k estimates on a regular stride (plenty for a colour bar).
+  const stride = Math.max(1, Math.floor(n / 500_000));
+  const values = new Float32Array(Math.ceil(n / stride));
+  let seen = 0;
+  let m = 0;
+  for (let i = 0; i < status.length; i++) {
+    if (status[i] !== PixelStatus.ok) continue;
+    if (seen++ % stride === 0) values[m++] = thicknessNm[i];
+  }
+  const sample = values.subarray(0, m);
+  const lo = percentileSelect(sample, 0.5);
+  const hi = percentileSelect(sample, 99.5);
   const step = niceStep(Math.max(hi - lo, 1) / 5);
   const minNm = Math.floor(lo / step) * step;
   let maxNm = Math.ceil(hi / step) * step;

@@ -202,7 +202,10 @@ async function writeEachOutput(
     await atomicWriteFile(mapPath, await renderMapPng(result, range, options?.pixelSizeUm ?? null, `${basename(photoPath)} — thickness`));
     written.push(mapPath);
     if (result.photoRgb) {
-      const labels = findThinRegions(result.thicknessNm, result.status, width, height, options?.thinBelowNm ?? null, null).labels;
+      const labels =
+        'thinLabels' in result && result.thinLabels instanceof Int32Array
+          ? result.thinLabels
+          : findThinRegions(result.thicknessNm, result.status, width, height, options?.thinBelowNm ?? null, null).labels;
       const flagsPath = join(outDir, `${stem}.flags.png`);
       await atomicWriteFile(flagsPath, await renderFlagsPng(result.photoRgb, width, height, labels));
       written.push(flagsPath);

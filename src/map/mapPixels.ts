@@ -52,6 +52,8 @@ export interface MapPixelsResult extends MapResult {
   readonly ambiguousReasons: { unresolved: number; discontinuous: number; poorMatch: number };
   /** Wall time of each stage, ms. */
   readonly timingsMs: Record<string, number>;
+  /** Per-pixel thin-region id (0 = none), for the flags image. */
+  readonly thinLabels: Int32Array;
 }
 
 const PER_CELL = 6;
@@ -262,6 +264,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
     washoutNm,
     ambiguousReasons: reasons,
     timingsMs: (lap('summaries'), timingsMs),
+    thinLabels: regions.labels,
   };
 }
 
