@@ -10,8 +10,7 @@
  * flare by 0.05) and bounded. Standard uncertainties come from the Jacobian at the optimum
  * (cov = s²(JᵀWJ)⁻¹). Parameters the data cannot constrain are reported as warnings.
  */
-import { applyWeightsToSpectra, balanceTable, type Camera } from '../colour/index.js';
-import { encodeSrgbUnit } from '../map/transferCurve.js';
+import { applyWeightsToSpectra, balanceTable, decodeSrgb, encodeSrgb, type Camera } from '../colour/index.js';
 import { fitLeastSquares } from '../fit/fitLeastSquares.js';
 import { filmSpectra } from '../optics/filmSpectra.js';
 import type { Stack } from '../optics/types.js';
@@ -84,7 +83,7 @@ export function fitCalibration(input: CalibrationFitInput): CalibrationFitResult
   let ratio = 0;
   let weight = 0;
   regions.forEach((r, k) => {
-    const observed = decode(r.colour[1]);
+    const observed = decodeSrgb(r.colour[1]);
     if (base[k * 3 + 1] > 1e-4) {
       ratio += observed;
       weight += base[k * 3 + 1];
@@ -122,7 +121,7 @@ export function fitCalibration(input: CalibrationFitInput): CalibrationFitResult
     for (let k = 0; k < regions.length; k++) {
       for (let c = 0; c < 3; c++) {
         const value = Math.min(1, Math.max(0, balanced[k * 3 + c] + v[3 + c]));
-        out[k * 3 + c] = camera.encoding === 'linear' ? value : encodeSrgbUnit(value);
+        out[k * 3 + c] = camera.encoding === 'linear' ? value : encodeSrgb(value);
       }
     }
     cacheKey = key;
@@ -199,6 +198,3 @@ function regionColoursLinear(
   return applyWeightsToSpectra(camera.weights, reflectance);
 }
 
-function decode(encoded: number): number {
-  return encoded <= 0.04045 ? encoded / 12.92 : Math.pow((encoded + 0.055) / 1.055, 2.4);
-}

@@ -11,7 +11,7 @@
  * identity for linear raw images.
  */
 import type { ExposureParameters } from './types.js';
-import { encodeSrgbFast } from './transferCurve.js';
+import { createSrgbEncoder } from '../colour/srgbEncoderTable.js';
 import { balanceTable } from '../colour/exposureModel.js';
 
 export interface ColourTable {
@@ -44,12 +44,15 @@ export function predictEncodedTable(
     const r = clampUnit(balanced[o] + flare[0]);
     const g = clampUnit(balanced[o + 1] + flare[1]);
     const b = clampUnit(balanced[o + 2] + flare[2]);
-    out[o] = linearOut ? r : encodeSrgbFast(r);
-    out[o + 1] = linearOut ? g : encodeSrgbFast(g);
-    out[o + 2] = linearOut ? b : encodeSrgbFast(b);
+    out[o] = linearOut ? r : encodeFast(r);
+    out[o + 1] = linearOut ? g : encodeFast(g);
+    out[o + 2] = linearOut ? b : encodeFast(b);
   }
   return out;
 }
+
+/** Tabulated sRGB encoding (../colour/srgbEncoderTable.ts, within 1e-6 of IEC 61966-2-1). */
+const encodeFast = createSrgbEncoder();
 
 let scratch = new Float64Array(0);
 function scratchFor(length: number): Float64Array {

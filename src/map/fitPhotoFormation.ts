@@ -15,6 +15,7 @@
  * (see `distinctColourCount`), since its parameters rest on those priors.
  */
 import { fitLeastSquares } from '../fit/fitLeastSquares.js';
+import { decodeSrgb } from '../colour/srgb.js';
 import { type ColourTable, predictEncodedTable } from './colourTable.js';
 import { type MatchSpace, toMatchSpace } from './matchSpace.js';
 import { distanceAt } from './candidateCube.js';
@@ -110,15 +111,12 @@ function estimateFlare(samples: Float32Array, encoding: 'srgb' | 'linear'): [num
     for (let i = 0; i < n; i++) values[i] = samples[i * 3 + c];
     values.sort();
     const low = values[Math.floor(0.005 * (n - 1))];
-    const linear = encoding === 'linear' ? low : decode(low);
+    const linear = encoding === 'linear' ? low : decodeSrgb(low);
     out[c] = 0.8 * linear;
   }
   return out;
 }
 
-function decode(encoded: number): number {
-  return encoded <= 0.04045 ? encoded / 12.92 : Math.pow((encoded + 0.055) / 1.055, 2.4);
-}
 
 /** Coarse search of the exposure gain on a geometric grid, by the trimmed best-match cost. */
 function scanExposure(

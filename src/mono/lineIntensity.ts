@@ -7,7 +7,7 @@
  * (common practice), so channels of a true line photo are linear in one another; a low
  * correlation between a channel and the mean says the light is probably not monochromatic.
  */
-import { decodeSrgbUnit } from '../map/transferCurve.js';
+import { decodeSrgb } from '../colour/srgb.js';
 
 /** The fields of a decoded photo this module uses (`Photo` from `src/io` fits). */
 export interface MonoPhoto {
@@ -46,7 +46,7 @@ export function lineIntensityOf(photo: MonoPhoto, film: Uint8Array): LineIntensi
   // 4096-entry decoding table: exact to ~1e-4 of full scale, far below 8-bit steps.
   const size = 4096;
   const table = new Float32Array(size + 1);
-  for (let i = 0; i <= size; i++) table[i] = decodeSrgbUnit(i / size);
+  for (let i = 0; i <= size; i++) table[i] = decodeSrgb(i / size);
   const decode = (v: number): number => {
     const x = Math.min(1, Math.max(0, v)) * size;
     const i = Math.min(size - 1, Math.floor(x));
