@@ -20,9 +20,19 @@ export function cdiv(a: Complex, b: Complex): Complex {
 export function csqrtForward(z: Complex): Complex {
   const [a, b] = z;
   const modulus = Math.hypot(a, b);
-  let re = Math.sqrt(Math.max(0, (modulus + a) / 2));
-  let im = Math.sqrt(Math.max(0, (modulus - a) / 2));
-  if (b < 0) im = -im;
+  // The larger part from the sum, the smaller from b = 2·re·im: (modulus − a) cancels when
+  // |b| << a and would drop a small absorption (k below ~1e-8) altogether (Press et al.,
+  // Numerical Recipes, §5.4, complex square root, from memory).
+  let re: number;
+  let im: number;
+  if (a >= 0) {
+    re = Math.sqrt((modulus + a) / 2);
+    im = re === 0 ? 0 : b / (2 * re);
+  } else {
+    im = Math.sqrt((modulus - a) / 2);
+    if (b < 0) im = -im;
+    re = b / (2 * im);
+  }
   if (im < 0 || (im === 0 && re < 0)) {
     re = -re;
     im = -im;
