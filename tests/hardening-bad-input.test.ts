@@ -120,6 +120,14 @@ beforeAll(async () => {
   const png = readFileSync(join(dir, 'good.png'));
   writeFileSync(join(dir, 'truncated.png'), png.subarray(0, Math.floor(png.length / 2)));
   copyFileSync(join(dir, 'good.png'), join(dir, 'wrongly-named.tif'));
+  await writePhoto(join(dir, 'dot.png'), shoot(Float32Array.of(400), 1, 1, { stack: 'soap-film', exposure: 6 }), 1, 1, 'png');
+  const deep = shoot(truth, W, H, { stack: 'soap-film', exposure: 6, flare: 0.01, noise: 0.003, bitDepth: 16 }) as Uint16Array;
+  const rgba = new Uint16Array(W * H * 4);
+  for (let i = 0; i < W * H; i++) {
+    rgba.set(deep.subarray(i * 3, i * 3 + 3), i * 4);
+    rgba[i * 4 + 3] = i % W < 8 ? 0 : 65535; // a transparent strip on the left
+  }
+  await sharp(rgba, { raw: { width: W, height: H, channels: 4 } }).toColourspace('rgb16').png().toFile(join(dir, 'deep-alpha.png'));
   await sharp({ create: { width: 10, height: 10, channels: 3, background: '#808080' } }).png().toFile(join(dir, 'small-mask.png'));
   mkdirSync(join(dir, 'a-folder.png'));
   mkdirSync(join(dir, 'frames-huge'));
@@ -238,6 +246,22 @@ describe('bad input: exit status, one line naming the file or option, no stack t
 });
 
 describe('valid but unusual input is not refused', () => {
+  it.each([
+    ['a 1×1 photo', 'dot.png'],
+    ['a 16-bit photo with an alpha channel', 'deep-alpha.png'],
+  ])('%s: exit 0 and every output written', async (_what, name) => {
+    if (name === 'deep-alpha.png') {
+      const meta = await sharp(join(dir, name)).metadata();
+      expect([meta.depth, meta.channels]).toEqual(['ushort', 4]);
+    }
+    const r = lamella(['map', name, '--stack', 'soap-film', '--out', 'out-unusual', '--quiet']);
+    expect(r.status, r.stderr).toBe(0);
+    const stem = name.replace(/\.png$/, '');
+    for (const suffix of ['.thickness.npy', '.thickness.tif', '.confidence.npy', '.map.png', '.flags.png', '.json', '.report.html']) {
+      expect(existsSync(join(dir, 'out-unusual', stem + suffix)), stem + suffix).toBe(true);
+    }
+  });
+
   it('a PNG named .tif is read by its content', () => {
     const r = lamella(map('wrongly-named.tif', '--quiet'));
     expect(r.status, r.stderr).toBe(0);

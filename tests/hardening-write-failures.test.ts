@@ -1,6 +1,6 @@
 /**
  * Write failures injected into the file system calls (vitest module mock of node:fs/promises),
- * so they are tested on every machine: a full disk (ENOSPC) and a denied write (EACCES). Tests
+ * so they are tested on every machine: a full disk (ENOSPC), a denied write or read (EACCES). Tests
  * run as root, where permission bits do not stop a write, so EACCES can only be simulated here;
  * tests/hardening-output.test.ts makes the real thing with a tmpfs and a read-only mount where
  * the system allows it. Error codes are the POSIX errno names (IEEE Std 1003.1, <errno.h>).
@@ -13,7 +13,7 @@ import { join } from 'node:path';
 import { afterAll, afterEach, describe, expect, it, vi } from 'vitest';
 
 /** Which call to fail next: the n-th `open` from now (1 = the next one) with this errno code. */
-const inject: { countdown: number; code: string | null; onAccess: string | null } = { countdown: 0, code: null, onAccess: null };
+const inject: { countdown: number; code: string | null; onAccess: string | null; onRead: string | null } = { countdown: 0, code: null, onAccess: null, onRead: null };
 
 vi.mock('node:fs/promises', async (importOriginal) => {
   const actual = await importOriginal<typeof import('node:fs/promises')>();
@@ -37,6 +37,10 @@ vi.mock('node:fs/promises', async (importOriginal) => {
       }
       return handle;
     },
+    readFile: async (...args: Parameters<typeof actual.readFile>) => {
+      if (inject.onRead !== null && String(args[0]).includes('locked')) throw fail(inject.onRead);
+      return actual.readFile(...args);
+    },
     access: async (...args: Parameters<typeof actual.access>) => {
       if (inject.onAccess !== null) throw fail(inject.onAccess);
       return actual.access(...args);
@@ -56,6 +60,7 @@ afterEach(() => {
   inject.code = null;
   inject.countdown = 0;
   inject.onAccess = null;
+  inject.onRead = null;
 });
 
 function failNextOpen(code: string, nth = 1): void {
@@ -146,5 +151,15 @@ describe('writeMapOutputs() on a full disk', () => {
     const written = await writeMapOutputs(result, 'wedge.png', out, 'wedge', { images: true, json: true, npy: true, tiff: true }, options);
     expect(readdirSync(out).sort()).toEqual(written.map((p) => p.slice(out.length + 1)).sort());
     expect(written).toHaveLength(6);
+  });
+});
+
+describe('readPhoto() of a file it may not read', () => {
+  it('EACCES on reading → InputError "<file>: permission denied" (root ignores permission bits, so it is injected)', async () => {
+    const { readPhoto } = await import('../src/io/readPhoto.js');
+    const path = join(dir, 'locked.png');
+    writeFileSync(path, 'bytes that are never read');
+    inject.onRead = 'EACCES';
+    await expect(readPhoto(path)).rejects.toThrow(new RegExp(`^${path}: permission denied$`));
   });
 });
