@@ -278,7 +278,7 @@ describe('batches go on past a bad file and report it at the end', () => {
     expect(lines[0]).toMatch(/^lamella: nosuch\.png: file not found$/);
     expect(lines[1]).toMatch(/^lamella: huge\.png: image has 8000×7000 pixels/);
     expect(lines[2]).toMatch(/^lamella: notes\.txt: is not an image/);
-    expect(lines[3]).toBe('lamella: 3 of 5 photo(s) failed');
+    expect(lines[3]).toBe('lamella: 3 of 5 photo(s) failed: nosuch.png, huge.png, notes.txt');
     for (const stem of ['good', 'wrongly-named']) expect(existsSync(join(dir, 'out-batch', `${stem}.json`))).toBe(true);
     for (const stem of ['nosuch', 'huge', 'notes']) expect(existsSync(join(dir, 'out-batch', `${stem}.json`))).toBe(false);
   });

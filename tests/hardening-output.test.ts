@@ -79,7 +79,7 @@ describe.skipIf(!canMount)('a full disk (tmpfs of 512 KiB)', () => {
     expect(run.status).toBe(3);
     expect(run.stderr).toHaveLength(2);
     expect(run.stderr[0]).toMatch(/^lamella: .*full\/out\/large\.[a-z.]+: cannot write output file \(no space left on the device, ENOSPC\)$/);
-    expect(run.stderr[1]).toBe('lamella: 1 of 3 photo(s) failed');
+    expect(run.stderr[1]).toBe('lamella: 1 of 3 photo(s) failed: large.png');
     // small1 and small2 whole; nothing of large; no temp files.
     expect(run.files).toEqual([...SIX.map((s) => `small1${s}`), ...SIX.map((s) => `small2${s}`)].sort());
   });

@@ -126,7 +126,7 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
     outputs: stems.flatMap((stem) => OUTPUT_SUFFIXES.map((suffix) => join(opts.out, stem + suffix))).concat(join(opts.out, 'report.html')),
   });
   assertNoInputOverwritten(photos, []);
-  let failed = 0;
+  const failed: string[] = [];
   let thin = 0;
   const records: Record<string, unknown>[] = [];
   const reports: Array<{ stem: string; file: string }> = [];
@@ -168,7 +168,7 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
       for (const warning of result.warnings) warn(`${photo}: ${warning}`);
       if (!opts.json && !opts.quiet) process.stdout.write(`${summaryLine(photo, result)}\n`);
     } catch (error) {
-      failed++;
+      failed.push(photo);
       process.stderr.write(`lamella: ${oneLine(error).startsWith(photo) ? '' : `${photo}: `}${oneLine(error)}\n`);
     }
   }
@@ -176,8 +176,10 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
     await atomicWriteFile(join(outDir, 'report.html'), Buffer.from(mapIndexPage(reports), 'utf8'));
   }
   if (opts.json) process.stdout.write(`${JSON.stringify(photos.length === 1 ? (records[0] ?? null) : records, null, 2)}\n`);
-  if (failed > 0) {
-    process.stderr.write(`lamella: ${failed} of ${photos.length} photo(s) failed\n`);
+  if (failed.length > 0) {
+    // With several photos, the names again at the end, where the user of a long batch looks.
+    const names = failed.length <= 10 ? failed.join(', ') : `${failed.slice(0, 10).join(', ')} and ${failed.length - 10} more`;
+    process.stderr.write(`lamella: ${failed.length} of ${photos.length} photo(s) failed${photos.length > 1 ? `: ${names}` : ''}\n`);
     return EXIT_INPUT;
   }
   if (opts.failIfThin && thin > 0) return EXIT_FINDING;
