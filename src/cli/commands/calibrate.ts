@@ -11,6 +11,7 @@ import { CALIBRATION_PARAMETERS, type CalibrationParameter } from '../../calibra
 import { InputError, UsageError } from '../errors.js';
 import { collect, parseKnown } from '../parseGeometry.js';
 import { addStackOptions, stackFromOptions, type StackCliOptions } from '../stackOptions.js';
+import { lightFromOption } from './chart.js';
 
 interface CalibrateCliOptions extends StackCliOptions {
   light: string;
@@ -49,6 +50,8 @@ export function register(program: Command): void {
     .option('--json', 'print the calibration record on stdout')
     .action(async (photo: string, opts: CalibrateCliOptions) => {
       const { stack, angleRad } = stackFromOptions(opts);
+      lightFromOption(opts.light, '--light');
+      if (opts.whiteBalance) lightFromOption(opts.whiteBalance, '--white-balance');
       const known = (opts.known ?? []).map(parseKnown);
       if (known.length === 0) throw new UsageError('--known is required at least once: X,Y,W,H=NM (a rectangle of known thickness)');
       if (resolve(opts.out) === resolve(photo)) throw new UsageError('--out would overwrite the photo');

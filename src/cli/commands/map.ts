@@ -13,7 +13,7 @@ import { ensureOutputDir, assertNoInputOverwritten } from '../../io/ensureOutput
 import { atomicWriteFile } from '../../io/atomicWriteFile.js';
 import { writeOutputSet } from '../../io/writeOutputSet.js';
 import { lineOfLight, mapDecodedPhoto, readMask, writeMapOutputs, mapResultJson } from '../../map/mapPhoto.js';
-import { resolveLight } from '../../colour/index.js';
+import { lightFromOption } from './chart.js';
 import { readPhoto } from '../../io/readPhoto.js';
 import { MAP_MAX_PIXELS } from '../../io/limits.js';
 import { calibrateDecoded } from '../../calibrate/calibrate.js';
@@ -78,8 +78,9 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
   };
   const { stack, angleRad } = stackFromOptions(opts, { onWarning: warn });
   // Check the lights before any photo is read: a bad name is a usage error, not a failed photo.
+  lightFromOption(opts.light, '--light');
   lineOfLight(opts.light);
-  if (opts.whiteBalance) resolveLight(opts.whiteBalance);
+  if (opts.whiteBalance) lightFromOption(opts.whiteBalance, '--white-balance');
   const maxThicknessNm = parseNumberOption(opts.maxThickness, '--max-thickness', 'a number of nm > 0');
   if (maxThicknessNm <= 0 || maxThicknessNm > 20000) throw new UsageError(`--max-thickness must be a number of nm in (0, 20000], received ${opts.maxThickness}`);
   const thinBelowNm =

@@ -14,6 +14,7 @@ import { MAP_FRAME_PROCESSOR_URL, type MapFrameConfig } from '../../series/mapFr
 import { formatProgressBar, formatProgressLine } from '../../series/progressText.js';
 import { formatSeriesSummary } from '../../series/summaryText.js';
 import type { SeriesProgress } from '../../series/types.js';
+import { lightFromOption } from './chart.js';
 
 interface SeriesCliOptions extends StackCliOptions {
   light: string;
@@ -73,6 +74,9 @@ async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions, warn:
     }
   }
   const { angleRad } = stackFromOptions(opts, { onWarning: warn });
+  // Lights are checked here, once, not by every frame's worker.
+  lightFromOption(opts.light, '--light');
+  if (opts.whiteBalance) lightFromOption(opts.whiteBalance, '--white-balance');
   const calibration = opts.calibration === undefined
     ? null
     : await loadCalibrationForRun(opts.calibration, { stack: opts.stack ?? '', light: opts.light, angleRad, whiteBalanceLight: opts.whiteBalance ?? null, ignoreMismatch: opts.ignoreCalibrationMismatch === true });
