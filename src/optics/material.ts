@@ -37,7 +37,7 @@ export function makeMaterial(parts: MaterialParts, options: MaterialOptions = {}
     if (wavelengthNm < fromNm || wavelengthNm > toNm) {
       if (!extrapolate) {
         throw new RangeError(
-          `material ${parts.name}: wavelength ${wavelengthNm} nm is outside its valid range ${fromNm}–${toNm} nm (use the extrapolate option to allow it)`,
+          `material ${parts.name}: wavelength ${wavelengthNm} nm is outside its valid range ${fromNm}–${toNm} nm (allow it with --extrapolate, or the extrapolate option of the library)`,
         );
       }
       if (!warned) {

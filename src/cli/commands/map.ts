@@ -12,7 +12,7 @@ import { UsageError } from '../errors.js';
 import { ensureOutputDir, assertNoInputOverwritten } from '../../io/ensureOutputDir.js';
 import { atomicWriteFile } from '../../io/atomicWriteFile.js';
 import { writeOutputSet } from '../../io/writeOutputSet.js';
-import { lineOfLight, mapDecodedPhoto, readMask, writeMapOutputs, mapResultJson } from '../../map/mapPhoto.js';
+import { colourTableFor, lineOfLight, mapDecodedPhoto, readMask, writeMapOutputs, mapResultJson } from '../../map/mapPhoto.js';
 import { lightFromOption } from './chart.js';
 import { readPhoto } from '../../io/readPhoto.js';
 import { MAP_MAX_PIXELS } from '../../io/limits.js';
@@ -119,6 +119,9 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
     exposureFixed: calibration?.exposureFixed ?? null,
   };
   const known = (opts.known ?? []).map(parseKnown);
+  // Build the colour table once before any photo: a film, light or angle the model cannot use
+  // (e.g. a material outside its wavelength range) is a usage error, not a failed photo.
+  if (lineOfLight(options.light) === null) colourTableFor(options);
   const stems = photos.map((p) => basename(p, extname(p)));
   const duplicate = stems.find((s, i) => stems.indexOf(s) !== i);
   if (duplicate) throw new UsageError(`two photos share the name '${duplicate}': their outputs would collide; map them into different --out folders`);
