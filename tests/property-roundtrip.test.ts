@@ -144,25 +144,26 @@ describe('render → map round trip on random smooth fields (own forward model, 
 });
 
 /**
- * Known defects of the mapper found by these properties (other seeds than the fixed one): kept as
- * `it.fails` so the suite stays green and records them; remove `.fails` once they are fixed.
+ * Former defects of the mapper found by these properties (other seeds than the fixed one), kept
+ * as regression tests: anchors now take part in the photo-formation fit, and the flare start is
+ * capped so a bright uniform film cannot start the fit outside its bounds.
  */
-describe('known defects (reproductions; it.fails until fixed)', () => {
-  it.fails('oxide-on-silicon 600–883 nm with an anchor at its median pixel is mapped one order (~190 nm) off over most of the image', () => {
-    // fast-check counterexample (seed 4242): the anchor pixel itself gets no estimate and the
-    // fitted exposure is 0.96 against the true 1.38.
+describe('former defects (regression tests)', () => {
+  it('oxide-on-silicon 600–883 nm with an anchor at its median pixel lands in the right order (was one order, ~190 nm, off)', () => {
+    // fast-check counterexample (seed 4242): before the fix the anchor pixel got no estimate and
+    // the fitted exposure was 0.96 against the true 1.38.
     const s: Scene = {"waves": [{"cyclesX": 0.3000000000000004, "cyclesY": -3.537374644779334e-15, "phase": 8e-323, "weight": 0.60803245251891}, {"cyclesX": 0.3000000000000004, "cyclesY": 2.275844717326759e-165, "phase": 5e-323, "weight": 0.3453110272927329}, {"cyclesX": 0.8312027123600266, "cyclesY": 3.040638339060964e-11, "phase": 0.2067588786360948, "weight": 0.375572718511004}], "fromNm": 599.9999999999999, "spanNm": 283.22632935704996, "brightness": 0.7624337596812176, "flare": 2.5062992654047883e-197, "whiteBalance": [0.9901119750321471, 0.9902674134599474], "seed": 849025};
     const score = roundTrip('oxide-on-silicon', s, true);
     expect(score.gross).toBeLessThan(0.02);
   });
 
-  it.fails('a uniform first-order soap film (120 nm, bright exposure 9.6) maps instead of failing with an internal fit-bounds error', () => {
+  it('a uniform first-order soap film (120 nm, bright exposure 9.6) maps instead of failing with an internal fit-bounds error', () => {
     const truth = new Float32Array(W * H).fill(120.27);
     const data = shoot(truth, W, H, { stack: 'soap-film', exposure: 9.621, flare: 0, whiteBalance: [1.0134, 1, 1.04], noise: 0.003, seed: 729116 });
     const rgb = Float32Array.from(data, (v) => v / 255);
     const options: MapOptions = { stack: resolveStack('soap-film'), angleRad: 0, light: 'D65', thinBelowNm: null, maxThicknessNm: 2000 };
     const photo = { width: W, height: H, rgb, bitDepth: 8 as const, format: 'raw', isGrey: false, hadAlpha: false, orientationApplied: 1, exif: {} };
-    // Today: RangeError "initial[3] must lie within [-0.05, 0.6], received 0.62…" from the fit.
+    // Before the fix: RangeError "initial[3] must lie within [-0.05, 0.6], received 0.62…" from the fit.
     expect(() => mapDecodedPhoto(photo, options, null, 'uniform.png')).not.toThrow();
   });
 });

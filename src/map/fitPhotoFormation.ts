@@ -58,6 +58,7 @@ function predictIn(space: MatchSpace | null | undefined, table: ColourTable, par
 const WHITE_BALANCE_PRIOR_SIGMA = 0.3;
 /** Flare is veiling glare of a few per cent at most in a usable photo (common practice): prior 0 ± 0.05. */
 const FLARE_PRIOR_SIGMA = 0.05;
+const FLARE_START_MAX = 0.1;
 const OUTER_ITERATIONS = 4;
 /** Samples used by the coarse exposure scan. */
 const SCAN_SAMPLES = 500;
@@ -112,7 +113,9 @@ function estimateFlare(samples: Float32Array, encoding: 'srgb' | 'linear'): [num
     values.sort();
     const low = values[Math.floor(0.005 * (n - 1))];
     const linear = encoding === 'linear' ? low : decodeSrgb(low);
-    out[c] = 0.8 * linear;
+    // A bright, uniform film has no dark pixels to show the flare: start no higher than
+    // FLARE_START_MAX (the prior keeps it small anyway).
+    out[c] = Math.min(0.8 * linear, FLARE_START_MAX);
   }
   return out;
 }

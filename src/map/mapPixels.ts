@@ -96,7 +96,12 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   let parameters: ExposureParameters;
   if (input.exposureFixed) parameters = input.exposureFixed;
   else {
-    const samplesRgb = samplePixels(rgb, status, pixels, FIT_SAMPLES);
+    const plain = samplePixels(rgb, status, pixels, FIT_SAMPLES);
+    // Anchors take part in the fit: their pixels are samples of known thickness.
+    const anchored = anchorSamples(rgb, status, width, height, input.anchors ?? [], table, plain.length / 3);
+    const samplesRgb = anchored ? concatFloat32(plain, anchored.colours) : plain;
+    const fixedIndex = anchored ? new Int32Array(samplesRgb.length / 3).fill(-1) : null;
+    if (anchored && fixedIndex) fixedIndex.set(anchored.index, plain.length / 3);
     const samples = space ? toMatchSpace(space, samplesRgb, new Float32Array(samplesRgb.length)) : samplesRgb;
     if (samples.length < 3 * MIN_FIT_SAMPLES) {
       parameters = { exposure: 1, whiteBalance: [1, 1, 1], flare: [0, 0, 0] };
@@ -113,6 +118,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
       initialWhiteBalance: input.initialWhiteBalance,
       space,
       samplesRgb,
+      fixedIndex,
     });
     const distinct = distinctColourCount(samplesRgb);
     if (distinct < MIN_DISTINCT_COLOURS) {
@@ -536,4 +542,50 @@ function medianOfOk(values: Float32Array, status: Uint8Array): number {
     if (seen++ % stride === 0) sample[n++] = values[i];
   }
   return percentileSelect(sample.subarray(0, n), 50);
+}
+
+/**
+ * Fit samples at user anchors: the measurable pixels within 2 px of each anchor, repeated so
+ * that each anchor weighs like 3 % of the regular samples (at least 40). Null when none.
+ */
+function anchorSamples(
+  rgb: Float32Array,
+  status: Uint8Array,
+  width: number,
+  height: number,
+  anchors: readonly Anchor[],
+  table: ColourTable,
+  regular: number,
+): { colours: Float32Array; index: Int32Array } | null {
+  const colours: number[] = [];
+  const index: number[] = [];
+  for (const anchor of anchors) {
+    const position = Math.round((anchor.thicknessNm - table.startNm) / table.stepNm);
+    if (position < 0 || position >= table.count) continue;
+    const pixels: number[] = [];
+    for (let dy = -2; dy <= 2; dy++) {
+      for (let dx = -2; dx <= 2; dx++) {
+        const x = anchor.x + dx;
+        const y = anchor.y + dy;
+        if (x < 0 || y < 0 || x >= width || y >= height) continue;
+        const i = y * width + x;
+        if (status[i] === PixelStatus.ok) pixels.push(i);
+      }
+    }
+    if (pixels.length === 0) continue;
+    const wanted = Math.max(40, Math.ceil(0.03 * regular));
+    for (let k = 0; k < wanted; k++) {
+      const i = pixels[k % pixels.length];
+      colours.push(rgb[i * 3], rgb[i * 3 + 1], rgb[i * 3 + 2]);
+      index.push(position);
+    }
+  }
+  return index.length === 0 ? null : { colours: Float32Array.from(colours), index: Int32Array.from(index) };
+}
+
+function concatFloat32(a: Float32Array, b: Float32Array): Float32Array {
+  const out = new Float32Array(a.length + b.length);
+  out.set(a);
+  out.set(b, a.length);
+  return out;
 }
