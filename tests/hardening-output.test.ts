@@ -10,6 +10,8 @@
  * also injected in tests/hardening-write-failures.test.ts, which always runs.
  *
  * Photos: INVENTED soap-film wedges rendered by our own forward model (renderPhoto).
+ * Exit statuses 0/2/3 are Lamella's documented contract (README "Exit statuses"; common practice
+ * for command-line tools); the numbers checked here are counts of files, not physics.
  */
 import { spawnSync } from 'node:child_process';
 import { createHash } from 'node:crypto';

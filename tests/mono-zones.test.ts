@@ -1,7 +1,8 @@
 /**
  * Fringe counting on small hand-built zone graphs (our own scenarios). The kinds of the extremes
  * of a free film alternate dark (h = 0), bright (λ/4n), dark (λ/2n), … (Airy formula; checked in
- * mono-scheludko.test.ts).
+ * mono-scheludko.test.ts). The numbers checked are fringe orders counted on these invented graphs
+ * (an identity of the counting rules, no outside reference needed).
  */
 import { describe, expect, it } from 'vitest';
 import type { FringeSegments } from '../src/mono/fringeSegments.js';

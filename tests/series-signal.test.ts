@@ -2,6 +2,7 @@
  * Ctrl-C during `lamella series` (spawned compiled CLI, real mapper on worker threads): the
  * command stops its workers, leaves no partial per-frame files, exits 130, and the same command
  * run again completes the series. Frames: the first six of the invented demo series.
+ * Exit status 130 = 128 + SIGINT (2): common practice for interrupted Unix programs.
  */
 import { describe, expect, it, afterAll } from 'vitest';
 import { spawn, spawnSync } from 'node:child_process';
