@@ -14,6 +14,11 @@ export interface MapFrameConfig {
   readonly maxThicknessNm: number;
   readonly filmIndexScale: number | null;
   readonly exposureFixed: ExposureParameters | null;
+  /** Film area, as for `lamella map`: a rectangle x, y, w, h or a mask image path (optional). */
+  readonly region?: readonly [number, number, number, number] | null;
+  readonly maskPath?: string | null;
+  readonly anchors?: ReadonlyArray<{ readonly x: number; readonly y: number; readonly thicknessNm: number }>;
+  readonly pixelSizeUm?: number | null;
 }
 
 /** Module URL of the real processor, for `ProcessorSource.moduleUrl`. */

@@ -23,6 +23,10 @@ export function mapOptionsFromConfig(config: MapFrameConfig): MapOptions {
     thinBelowNm: config.thinBelowNm,
     maxThicknessNm: config.maxThicknessNm,
     exposureFixed: config.exposureFixed,
+    region: config.region ?? null,
+    maskPath: config.maskPath ?? null,
+    anchors: config.anchors ?? [],
+    pixelSizeUm: config.pixelSizeUm ?? null,
   };
 }
 

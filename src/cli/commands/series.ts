@@ -5,6 +5,8 @@
  */
 import { availableParallelism } from 'node:os';
 import { Option, type Command } from 'commander';
+import { resolve } from 'node:path';
+import { collect, parseAnchor, parseRegion } from '../parseGeometry.js';
 import { InputError, UsageError, EXIT_INPUT } from '../errors.js';
 import { addStackOptions, parseNumberOption, stackFromOptions, type StackCliOptions } from '../stackOptions.js';
 import { parseShard } from '../../series/parseShard.js';
@@ -25,6 +27,10 @@ interface SeriesCliOptions extends StackCliOptions {
   calibration?: string;
   thinBelow?: string;
   maxThickness: string;
+  region?: string;
+  mask?: string;
+  anchor?: string[];
+  pixelSize?: string;
   workers: string;
   shard?: string;
   chunkFrames: string;
@@ -82,16 +88,30 @@ async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions, warn:
     : await loadCalibrationForRun(opts.calibration, { stack: opts.stack ?? '', light: opts.light, angleRad, whiteBalanceLight: opts.whiteBalance ?? null, ignoreMismatch: opts.ignoreCalibrationMismatch === true });
   const stackOptions: StackCliOptions = { stack: opts.stack, filmIndex: opts.filmIndex, angle: opts.angle, extrapolate: opts.extrapolate };
   const whiteBalanceLight = opts.whiteBalance ?? null;
+  const region = opts.region ? parseRegion(opts.region) : null;
+  const maskPath = opts.mask ? resolve(opts.mask) : null;
+  if (maskPath) {
+    const { stat } = await import('node:fs/promises');
+    const info = await stat(maskPath).catch(() => null);
+    if (!info || !info.isFile()) throw new InputError(opts.mask ?? '', '--mask: no such image file');
+  }
+  const anchors = (opts.anchor ?? []).map(parseAnchor);
+  const pixelSizeUm = positive(opts.pixelSize, '--pixel-size');
   const config: MapFrameConfig = {
     stackOptions, light: opts.light, whiteBalanceLight, thinBelowNm, maxThicknessNm,
     filmIndexScale: calibration?.filmIndexScale ?? null, exposureFixed: calibration?.exposureFixed ?? null,
+    region, maskPath, anchors, pixelSizeUm,
   };
   return {
     inputs, outDir: opts.out, fps, intervalS, thinBelowNm, shard,
     chunkFrames: positive(opts.chunkFrames, '--chunk-frames', true)!,
     workers: positive(opts.workers, '--workers', true)!,
     aggregateOnly: opts.aggregateOnly === true, previews: opts.previews === true, report: opts.report,
-    mapSettings: { ...stackOptions, light: opts.light, whiteBalanceLight, thinBelowNm, maxThicknessNm },
+    mapSettings: {
+      ...stackOptions, light: opts.light, whiteBalanceLight, thinBelowNm, maxThicknessNm,
+      ...(region ? { region } : {}), ...(maskPath ? { mask: maskPath } : {}),
+      ...(anchors.length > 0 ? { anchors } : {}), ...(pixelSizeUm !== null ? { pixelSizeUm } : {}),
+    },
     calibration: calibration?.raw ?? null,
     processor: { moduleUrl: MAP_FRAME_PROCESSOR_URL, config },
   };
@@ -159,6 +179,10 @@ export function register(program: Command): void {
     .option('--ignore-calibration-mismatch', 'use a calibration made for another stack or light')
     .option('--thin-below <nm>', 'thin threshold in nm for thin fraction, thin regions and predicted crossing times (default 50 for soap-film, none otherwise)')
     .option('--max-thickness <nm>', 'largest thickness considered, nm', '2000')
+    .addOption(new Option('--region <x,y,w,h>', 'measure only this rectangle of every frame (pixels)').conflicts('mask'))
+    .option('--mask <file>', 'measure only where this mask image is non-zero (same size as the frames)')
+    .option('--anchor <x,y=nm>', 'a pixel of known thickness in every frame (repeatable)', collect)
+    .option('--pixel-size <um>', 'size of one pixel on the sample, micrometres (areas of thin regions)')
     .option('--workers <n>', 'worker threads', String(availableParallelism()))
     .option('--shard <K/N>', 'map only the K-th of N contiguous parts of the series (1-based), then aggregate what OUT holds')
     .option('--chunk-frames <n>', 'frames per chunk: each chunk starts without a prior map; keep equal across shards', String(DEFAULT_CHUNK_FRAMES))
