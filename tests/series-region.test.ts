@@ -1,7 +1,7 @@
 /**
  * `lamella series --region / --mask`: the film area limits every frame's statistics, as in
  * `lamella map`. Frames: the first three of the invented demo series (black film along the top,
- * the draining wedge below; see fixtures/demo/README.md). The checks are identities of the
+ * the draining wedge below; see fixtures/demo/README.md). Each check is an identity of the
  * definitions (thin fraction over the film area only), not physics.
  */
 import { spawnSync } from 'node:child_process';
