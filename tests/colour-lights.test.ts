@@ -9,7 +9,7 @@ import {
   colourMatchingFunctions,
   readCameraSensitivities,
   resolveLight,
-  xyzWeights,
+  whitePointXyz,
 } from '../src/colour/index.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'lamella-colour-'));
@@ -73,16 +73,7 @@ describe('user SPD files (wavelength_nm,relative_spd)', () => {
     const rows = ['wavelength_nm,relative_spd'];
     for (let nm = 380; nm <= 780; nm += 10) rows.push(`${nm},1`);
     const light = resolveLight(file('flat.csv', rows.join('\n')));
-    const w = xyzWeights(light);
-    const n = w.length / 3;
-    let x = 0;
-    let y = 0;
-    let z = 0;
-    for (let j = 0; j < n; j++) {
-      x += w[j];
-      y += w[n + j];
-      z += w[2 * n + j];
-    }
+    const [x, y, z] = whitePointXyz(light);
     // Illuminant E: x = y = 1/3 by construction of the CIE 1931 functions (equal areas), CIE 15:2004.
     expect(x / (x + y + z)).toBeCloseTo(1 / 3, 3);
     expect(y / (x + y + z)).toBeCloseTo(1 / 3, 3);
@@ -150,16 +141,7 @@ describe('correlated colour temperatures of the named lights', () => {
     it(`${name}: McCamy CCT within 25 K of the listed value`, () => {
       const light = resolveLight(name);
       const listed = Number(/(\d{4}) K/.exec(light.description)![1]);
-      const w = xyzWeights(light);
-      const n = w.length / 3;
-      let x = 0;
-      let y = 0;
-      let z = 0;
-      for (let j = 0; j < n; j++) {
-        x += w[j];
-        y += w[n + j];
-        z += w[2 * n + j];
-      }
+      const [x, y, z] = whitePointXyz(light);
       const m = (x / (x + y + z) - 0.332) / (0.1858 - y / (x + y + z));
       const cct = 449 * m ** 3 + 3525 * m ** 2 + 6823.3 * m + 5520.33;
       expect(Math.abs(cct - listed)).toBeLessThan(25);

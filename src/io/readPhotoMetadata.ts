@@ -2,27 +2,15 @@
  * Reads a photo's header only (size after EXIF orientation, format, bit depth, capture time),
  * without decoding pixels: cheap enough to plan a series of thousands of frames.
  */
-import { stat } from 'node:fs/promises';
 import sharp, { type Metadata } from 'sharp';
-import { InputError } from '../cli/errors.js';
 import { MAX_PIXELS } from './limits.js';
 import { parseExifTime } from './exifTime.js';
-import { fileSystemInputError } from './readInputFile.js';
+import { checkInputFile } from './readInputFile.js';
 import { decodeInputError } from './decodeErrors.js';
 import type { PhotoMetadata } from './photo.js';
 
 export async function readPhotoMetadata(path: string): Promise<PhotoMetadata> {
-  if (typeof path !== 'string' || path.length === 0) {
-    throw new TypeError(`path must be a non-empty string, received ${JSON.stringify(path)}`);
-  }
-  let info;
-  try {
-    info = await stat(path);
-  } catch (error) {
-    throw fileSystemInputError(path, error);
-  }
-  if (info.isDirectory()) throw new InputError(path, 'is a folder, expected a file');
-  if (info.size === 0) throw new InputError(path, 'file is empty (0 bytes)');
+  await checkInputFile(path);
   let meta: Metadata;
   try {
     meta = await sharp(path, { limitInputPixels: false }).metadata();
