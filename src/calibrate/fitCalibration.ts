@@ -10,9 +10,8 @@
  * flare by 0.05) and bounded. Standard uncertainties come from the Jacobian at the optimum
  * (cov = s²(JᵀWJ)⁻¹). Parameters the data cannot constrain are reported as warnings.
  */
-import { applyWeightsToSpectra, balanceTable, decodeSrgb, encodeSrgb, type Camera } from '../colour/index.js';
+import { balanceTable, decodeSrgb, encodeSrgb, filmColourTable, type Camera } from '../colour/index.js';
 import { fitLeastSquares } from '../fit/fitLeastSquares.js';
-import { filmSpectra } from '../optics/filmSpectra.js';
 import type { Stack } from '../optics/types.js';
 import type { ExposureParameters } from '../map/types.js';
 import type { KnownRegionColour } from './knownRegions.js';
@@ -188,13 +187,6 @@ function regionColoursLinear(
   angleDeg: number,
 ): Float64Array {
   const thicknessesNm = Float64Array.from(regions.map((r) => r.thicknessNm));
-  const { reflectance } = filmSpectra(stack, {
-    wavelengthsNm: camera.wavelengthsNm,
-    thicknessesNm,
-    angleRad: (angleDeg * Math.PI) / 180,
-    polarisation: 'mixed',
-    filmIndexScale,
-  });
-  return applyWeightsToSpectra(camera.weights, reflectance);
+  return filmColourTable(stack, camera, thicknessesNm, (angleDeg * Math.PI) / 180, 'mixed', filmIndexScale);
 }
 

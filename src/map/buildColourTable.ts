@@ -4,8 +4,7 @@
  * camera's weight matrix into linear RGB. Also the thickness of one interference order at
  * mid-visible, λ/(2·n·cos θ_film) at 550 nm, which sets the continuity scale of order resolution.
  */
-import { applyWeightsToSpectra, buildCamera, resolveLight, type Camera } from '../colour/index.js';
-import { filmSpectra } from '../optics/filmSpectra.js';
+import { buildCamera, filmColourTable, resolveLight, type Camera } from '../colour/index.js';
 import type { Stack } from '../optics/types.js';
 import type { ColourTable } from './colourTable.js';
 
@@ -36,14 +35,7 @@ export function buildColourTable(request: ColourTableRequest): BuiltColourTable 
   const count = Math.floor(request.maxThicknessNm / stepNm) + 1;
   const thicknessesNm = new Float64Array(count);
   for (let i = 0; i < count; i++) thicknessesNm[i] = i * stepNm;
-  const { reflectance } = filmSpectra(request.stack, {
-    wavelengthsNm: camera.wavelengthsNm,
-    thicknessesNm,
-    angleRad: request.angleRad,
-    polarisation: 'mixed',
-    filmIndexScale: request.filmIndexScale ?? 1,
-  });
-  const rgbLinear = applyWeightsToSpectra(camera.weights, reflectance);
+  const rgbLinear = filmColourTable(request.stack, camera, thicknessesNm, request.angleRad, 'mixed', request.filmIndexScale ?? 1);
   return {
     table: { startNm: 0, stepNm, count, rgbLinear, encoding: camera.encoding },
     camera,

@@ -10,6 +10,7 @@ import { composeImagePng } from '../io/composeImage.js';
 import { colourScaleBytes, SCALE_ENTRIES } from './colourScale.js';
 import { type MapResult, PixelStatus } from './types.js';
 import { percentileSelect } from './statistics.js';
+import { escapeHtml } from '../report/escapeHtml.js';
 
 const NO_ESTIMATE: readonly [number, number, number] = [128, 128, 128];
 const TOO_DARK: readonly [number, number, number] = [0, 0, 0];
@@ -132,7 +133,7 @@ function colourBarSvg(
     );
   }
   const legendY = Math.min(canvasHeight - unit * 1.2, top + barHeight + unit * 1.4);
-  const escapedTitle = escapeXml(title);
+  const escapedTitle = escapeHtml(title);
   return `<svg xmlns="http://www.w3.org/2000/svg" width="${canvasWidth}" height="${canvasHeight}" font-family="DejaVu Sans, sans-serif" font-size="${unit * 0.8}" fill="#222">
 <defs><linearGradient id="bar" x1="0" y1="0" x2="0" y2="1">${stops.join('')}</linearGradient></defs>
 <text x="${unit * 0.8}" y="${unit * 1.3}" font-size="${unit}" font-weight="bold">${escapedTitle}</text>
@@ -171,10 +172,6 @@ function scaleBarSvg(
 
 function formatNm(value: number): string {
   return Number.isInteger(value) ? String(value) : value.toFixed(Math.abs(value) < 10 ? 1 : 0);
-}
-
-function escapeXml(text: string): string {
-  return text.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
 }
 
 /** The photo (encoded 0..1 RGB) with the outlines of labelled thin regions. */

@@ -1,7 +1,8 @@
+import { escapeHtml } from '../report/escapeHtml.js';
+
 /** A small self-contained index page linking the per-photo reports of a multi-photo map run. */
 export function mapIndexPage(reports: ReadonlyArray<{ stem: string; file: string }>): string {
-  const escape = (t: string): string => t.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
-  const items = reports.map((r) => `<li><a href="${encodeURI(r.file)}">${escape(r.stem)}</a></li>`).join('\n');
+  const items = reports.map((r) => `<li><a href="${escapeHtml(encodeURI(r.file))}">${escapeHtml(r.stem)}</a></li>`).join('\n');
   return `<!doctype html>
 <html lang="en"><head><meta charset="utf-8"><title>Lamella thickness maps</title>
 <style>body{font:16px/1.5 system-ui,sans-serif;margin:2rem auto;max-width:40rem;color:#1d2530}a{color:#0b5e6b}</style></head>

@@ -162,10 +162,12 @@ export async function writeMapOutputs(
   stem: string,
   what: OutputSelection,
   options?: MapOptions,
+  /** The JSON record when the caller has built it already (see mapResultJson). */
+  record?: Record<string, unknown>,
 ): Promise<string[]> {
   const written: string[] = [];
   try {
-    await writeEachOutput(result, photoPath, outDir, stem, what, options, written);
+    await writeEachOutput(result, photoPath, outDir, stem, what, options, record, written);
   } catch (error) {
     await Promise.all(written.map((file) => unlink(file).catch(() => undefined)));
     throw error;
@@ -180,6 +182,7 @@ async function writeEachOutput(
   stem: string,
   what: OutputSelection,
   options: MapOptions | undefined,
+  record: Record<string, unknown> | undefined,
   written: string[],
 ): Promise<void> {
   const { width, height } = result;
@@ -214,8 +217,8 @@ async function writeEachOutput(
   if (what.json) {
     if (!options) throw new TypeError('writeMapOutputs: options are required to write the JSON record');
     const jsonPath = join(outDir, `${stem}.json`);
-    const record = mapResultJson(result, options, photoPath);
-    await atomicWriteFile(jsonPath, Buffer.from(`${JSON.stringify(record, null, 2)}\n`, 'utf8'));
+    const json = record ?? mapResultJson(result, options, photoPath);
+    await atomicWriteFile(jsonPath, Buffer.from(`${JSON.stringify(json, null, 2)}\n`, 'utf8'));
     written.push(jsonPath);
   }
 }

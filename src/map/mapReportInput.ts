@@ -15,7 +15,12 @@ import type { MapOptions } from './types.js';
 
 const MAX_PICTURE_SIDE = 1200;
 
-export async function mapReportInput(result: MappedPhoto, options: MapOptions, photoPath: string): Promise<MapReportInput> {
+export async function mapReportInput(
+  result: MappedPhoto,
+  options: MapOptions,
+  photoPath: string,
+  record: Record<string, unknown> = mapResultJson(result, options, photoPath),
+): Promise<MapReportInput> {
   const { width, height } = result;
   const range = scaleRangeOf(result);
   const step = Math.max(1, Math.ceil(Math.max(width, height) / MAX_PICTURE_SIDE));
@@ -24,7 +29,6 @@ export async function mapReportInput(result: MappedPhoto, options: MapOptions, p
   const photoSmall = downsample(photoBytes, width, height, step);
   const mapSmall = downsample(mapRaster(result, range), width, height, step);
   const grid = makeReportGrid({ width, height, thicknessNm: result.thicknessNm, confidence: result.confidence });
-  const record = mapResultJson(result, options, photoPath);
   const notes: string[] = [];
   if (step > 1) notes.push(`pictures shown at 1/${step} scale`);
   return {

@@ -155,18 +155,18 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
         for (const warning of onPhoto.warnings) warn(`${photo}: calibration: ${warning}`);
       }
       const result = mapDecodedPhoto(decoded, photoOptions, mask, photo);
+      const record = mapResultJson(result, photoOptions, photo);
       // All of a photo's outputs or none, even when interrupted or the disk fills up.
       await writeOutputSet(OUTPUT_SUFFIXES.map((suffix) => join(outDir, stem + suffix)), async () => {
-        await writeMapOutputs(result, photo, outDir, stem, { images: true, json: true, npy: true, tiff: true }, photoOptions);
+        await writeMapOutputs(result, photo, outDir, stem, { images: true, json: true, npy: true, tiff: true }, photoOptions, record);
         if (opts.report) {
-          const html = renderMapReport({ ...(await mapReportInput(result, photoOptions, photo)), calibration: calibration?.raw ?? null });
+          const html = renderMapReport({ ...(await mapReportInput(result, photoOptions, photo, record)), calibration: calibration?.raw ?? null });
           const file = `${stem}.report.html`;
           await atomicWriteFile(join(outDir, file), Buffer.from(html, 'utf8'));
           reports.push({ stem, file });
           if (photos.length === 1) await atomicWriteFile(join(outDir, 'report.html'), Buffer.from(html, 'utf8'));
         }
       });
-      const record = mapResultJson(result, photoOptions, photo);
       records.push(record);
       if (result.thinRegions.length > 0) thin++;
       for (const warning of result.warnings) warn(`${photo}: ${warning}`);
