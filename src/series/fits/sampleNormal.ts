@@ -6,17 +6,10 @@
  * Cholesky factor L of the covariance, x = mean + L·z (Golub & Van Loan, Matrix Computations,
  * 4th ed. 2013, §4.2). A covariance that is not positive definite gets a small diagonal jitter.
  */
+import { createUniform } from '../../colour/seededNormal.js';
 
-export function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+/** The project's seeded uniform generator (mulberry32, ../../colour/seededNormal.ts). */
+export const mulberry32: (seed: number) => () => number = createUniform;
 
 /** Lower-triangular L with L·Lᵀ = matrix, or null if the matrix is not positive definite. */
 export function cholesky(matrix: readonly (readonly number[])[]): number[][] | null {
