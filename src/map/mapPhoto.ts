@@ -205,10 +205,7 @@ async function writeEachOutput(
     await atomicWriteFile(mapPath, await renderMapPng(result, range, options?.pixelSizeUm ?? null, `${basename(photoPath)} — thickness`));
     written.push(mapPath);
     if (result.photoRgb) {
-      const labels =
-        'thinLabels' in result && result.thinLabels instanceof Int32Array
-          ? result.thinLabels
-          : findThinRegions(result.thicknessNm, result.status, width, height, options?.thinBelowNm ?? null, null).labels;
+      const labels = result.thinLabels ?? findThinRegions(result.thicknessNm, result.status, width, height, options?.thinBelowNm ?? null, null).labels;
       const flagsPath = join(outDir, `${stem}.flags.png`);
       await atomicWriteFile(flagsPath, await renderFlagsPng(result.photoRgb, width, height, labels));
       written.push(flagsPath);

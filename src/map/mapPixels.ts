@@ -19,9 +19,9 @@ import { distinctColourCount, fitPhotoFormation, interpolateColour, type PhotoFo
 import { matchSpace, toMatchSpace } from './matchSpace.js';
 import { createMatchScratch, matchColour, matchNear } from './matchColour.js';
 import { resolveOrders } from './resolveOrders.js';
-import { computeMapStatistics, percentileSelect, thicknessHistogram } from './statistics.js';
+import { percentileSelect } from './statistics.js';
+import { summariseMap } from './summariseMap.js';
 import { brightnessOf, lumaOf, tableLimits } from './tableLimits.js';
-import { findThinRegions } from './thinRegions.js';
 import { type Anchor, type ExposureParameters, type MapResult, PixelStatus } from './types.js';
 
 export interface MapPixelsInput {
@@ -248,9 +248,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
 
   lap('pixels');
   // 5. Summaries.
-  const regions = findThinRegions(thicknessNm, status, width, height, input.thinBelowNm, input.pixelSizeUm ?? null);
-  const stats = computeMapStatistics(thicknessNm, status, input.thinBelowNm, regions.regions.length);
-  const histogram = thicknessHistogram(thicknessNm, status, stats.min_nm, stats.max_nm);
+  const { thinRegions, thinLabels, stats, histogram } = summariseMap(thicknessNm, status, width, height, input.thinBelowNm, input.pixelSizeUm ?? null);
   if (saturatedCount > 0) warnings.push(`${saturatedCount} pixels are clipped (saturated) and have no estimate`);
   const washoutNm = thicknessAt(table, Math.min(limits.washoutIndex, count - 1));
   return {
@@ -262,7 +260,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
     fitted: { ...parameters, residualDeltaE: undefined },
     stats,
     histogram,
-    thinRegions: regions.regions,
+    thinRegions,
     darkLimitNm: thicknessAt(table, limits.darkLimitIndex),
     warnings,
     fit,
@@ -270,7 +268,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
     washoutNm,
     ambiguousReasons: reasons,
     timingsMs: (lap('summaries'), timingsMs),
-    thinLabels: regions.labels,
+    thinLabels,
   };
 }
 

@@ -98,4 +98,6 @@ export interface MapResult {
   readonly thinRegions: readonly ThinRegion[];
   readonly darkLimitNm: number;
   readonly warnings: readonly string[];
+  /** Per-pixel thin-region id (0 = none), for the flags image. */
+  readonly thinLabels?: Int32Array;
 }

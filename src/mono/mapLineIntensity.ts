@@ -18,9 +18,8 @@
  * Statistics, histogram and thin regions are the colour mode's (`src/map`), so results and
  * reports are identical in form.
  */
-import { computeMapStatistics, thicknessHistogram } from '../map/statistics.js';
+import { summariseMap } from '../map/summariseMap.js';
 import { buildFilmMask } from '../map/filmMask.js';
-import { findThinRegions } from '../map/thinRegions.js';
 import { PixelStatus, type MapOptions, type MapResult } from '../map/types.js';
 import { boxMeanMasked } from './boxMean.js';
 import { crossCaps } from './capCrossings.js';
@@ -205,8 +204,7 @@ export function mapLineIntensity(
   }
   if (tooThick > 0) warnings.push(`${tooThick} px counted beyond the largest thickness considered (${options.maxThicknessNm} nm) are marked too thick`);
   const thinBelowNm = options.thinBelowNm ?? null;
-  const thin = findThinRegions(thicknessNm, status, width, height, thinBelowNm, options.pixelSizeUm ?? null);
-  const stats = computeMapStatistics(thicknessNm, status, thinBelowNm, thin.regions.length);
+  const { thinRegions, thinLabels, stats, histogram } = summariseMap(thicknessNm, status, width, height, thinBelowNm, options.pixelSizeUm ?? null);
   const slope = light.channelSlope;
   return {
     width,
@@ -220,8 +218,9 @@ export function mapLineIntensity(
       flare: [0, 1, 2].map((c) => slope[c] * offset + light.channelIntercept[c]) as [number, number, number],
     },
     stats,
-    histogram: thicknessHistogram(thicknessNm, status, stats.min_nm, stats.max_nm),
-    thinRegions: thin.regions,
+    histogram,
+    thinRegions,
+    thinLabels,
     darkLimitNm,
     warnings,
     line: {
