@@ -60,7 +60,7 @@ const CASES: Case[] = [
   { name: 'empty --fit', args: [...CAL, '--known', '5,5,4,4=100', '--fit', ','], status: 2, message: '--fit needs at least one of exposure, flare, white-balance, index, angle' },
   { name: '--out that exists, without --force', args: ['calibrate', 'grey.png', '--stack', 'oxide-on-silicon', '--known', '5,5,4,4=100', '--out', 'exists.json'], status: 3, message: 'exists.json: exists already; add --force to replace it' },
   { name: '--out that is a folder', args: ['calibrate', 'grey.png', '--stack', 'oxide-on-silicon', '--known', '5,5,4,4=100', '--out', 'folder', '--force'], status: 3, message: 'folder: --out is a folder; give a file name such as cal.json' },
-  { name: '--out that is the photo', args: ['calibrate', 'grey.png', '--stack', 'oxide-on-silicon', '--known', '5,5,4,4=100', '--out', 'grey.png', '--force'], status: 2, message: '--out would overwrite the photo' },
+  { name: '--out that is the photo', args: ['calibrate', 'grey.png', '--stack', 'oxide-on-silicon', '--known', '5,5,4,4=100', '--out', 'grey.png', '--force'], status: 3, message: 'grey.png: output would overwrite an input file; choose another output folder or name' },
   { name: 'a photo that is missing', args: ['calibrate', 'none.png', '--stack', 'oxide-on-silicon', '--known', '5,5,4,4=100', '--out', 'cal.json'], status: 3, message: 'none.png: file not found' },
   { name: 'map --calibration with malformed JSON', args: [...MAP, '--calibration', 'broken.json'], status: 3, message: /^broken\.json: calibration file is not valid JSON \(.+\)$/ },
   { name: 'map --calibration missing "fitted"', args: [...MAP, '--calibration', 'no-fitted.json'], status: 3, message: 'no-fitted.json: missing field "fitted" (an object with exposure, whiteBalance, flare)' },

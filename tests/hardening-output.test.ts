@@ -181,3 +181,41 @@ describe('the input folder as output folder', () => {
     expect(readdirSync(sub).sort()).toEqual(['b.png', ...SIX.map((s) => `b${s}`)].sort());
   });
 });
+
+describe('single-file outputs (chart, render, calibrate --out) are never replaced by surprise', () => {
+  const cli = (...args: string[]) => spawnSync(process.execPath, [bin, ...args], { encoding: 'utf8', cwd: dir });
+
+  it('chart --out an existing file: exit 3 naming it, file unchanged; --force replaces it', () => {
+    const out = join(dir, 'kept-chart.csv');
+    writeFileSync(out, 'precious\n');
+    const refused = cli('chart', '--stack', 'soap-film', '--light', 'D65', '--to', '100', '--out', out);
+    expect(refused.status).toBe(3);
+    expect(refused.stderr.trim()).toBe(`lamella: ${out}: exists already; add --force to replace it`);
+    expect(readFileSync(out, 'utf8')).toBe('precious\n');
+    const forced = cli('chart', '--stack', 'soap-film', '--light', 'D65', '--to', '100', '--out', out, '--force');
+    expect(forced.status, forced.stderr).toBe(0);
+    expect(readFileSync(out, 'utf8')).toMatch(/^thickness_nm,/);
+  });
+
+  it('render --out an existing file: exit 3 before rendering, file unchanged; --out the input is refused even with --force', () => {
+    const out = join(dir, 'kept-photo.png');
+    writeFileSync(out, 'precious\n');
+    const map = join(dir, 'flat.npy');
+    // A 2×2 float32 .npy (NumPy format 1.0) of 300 nm.
+    const header = "{'descr': '<f4', 'fortran_order': False, 'shape': (2, 2), }";
+    const total = Math.ceil((10 + header.length + 1) / 64) * 64;
+    const padded = header + ' '.repeat(total - 10 - header.length - 1) + '\n';
+    const body = Buffer.alloc(16);
+    for (let k = 0; k < 4; k++) body.writeFloatLE(300, 4 * k);
+    writeFileSync(map, Buffer.concat([Buffer.from([0x93]), Buffer.from('NUMPY'), Buffer.from([1, 0, padded.length, 0]), Buffer.from(padded, 'latin1'), body]));
+    const refused = cli('render', map, '--stack', 'soap-film', '--light', 'D65', '--out', out);
+    expect(refused.status).toBe(3);
+    expect(refused.stderr).toMatch(/kept-photo\.png: exists already; add --force to replace it/);
+    expect(readFileSync(out, 'utf8')).toBe('precious\n');
+    expect(cli('render', map, '--stack', 'soap-film', '--light', 'D65', '--out', out, '--force').status).toBe(0);
+    const own = cli('render', map, '--stack', 'soap-film', '--light', 'D65', '--out', map, '--force');
+    expect(own.status).toBe(3);
+    expect(own.stderr).toMatch(/flat\.npy: output would overwrite an input file/);
+    expect(readFileSync(map).length).toBe(total + 16);
+  });
+});

@@ -5,10 +5,11 @@
  * definitions (thin fraction over the film area only), not physics.
  */
 import { spawnSync } from 'node:child_process';
-import { copyFileSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { copyFileSync, existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { join } from 'node:path';
+import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
+import sharp from 'sharp';
 import { afterAll, describe, expect, it } from 'vitest';
 
 const bin = fileURLToPath(new URL('../bin/lamella.js', import.meta.url));
@@ -38,11 +39,31 @@ describe('lamella series --region', () => {
     }
   });
 
-  it('a region outside the frames fails every frame with one line naming the option (exit 3)', () => {
+  it('a region outside the frames is one usage error before any frame is mapped (exit 2)', () => {
     const run = series('outside', '--region', '0,0,400,100');
+    expect(run.status).toBe(2);
+    expect(run.stderr.trim().split('\n')).toHaveLength(1);
+    expect(run.stderr).toMatch(/--region 0,0,400,100 must lie inside the 320×240 frames/);
+    expect(existsSync(join(dir, 'outside', 'frames'))).toBe(false);
+  });
+
+  it('an anchor outside the frames is one usage error before any frame is mapped (exit 2)', () => {
+    const run = series('anchor', '--anchor', '330,10=500');
+    expect(run.status).toBe(2);
+    expect(run.stderr.trim().split('\n')).toHaveLength(1);
+    expect(run.stderr).toMatch(/--anchor 330,10 lies outside the 320×240 frames/);
+  });
+
+  it('a mask of another size is one line naming it before any frame is mapped (exit 3)', async () => {
+    // Kept outside the frames' folder, which the series reads whole.
+    const mask = join(dir, 'smallmask-input.png.d', 'small-mask.png');
+    mkdirSync(dirname(mask), { recursive: true });
+    await sharp({ create: { width: 100, height: 80, channels: 3, background: '#ffffff' } }).png().toFile(mask);
+    const run = series('smallmask', '--mask', mask);
     expect(run.status).toBe(3);
-    expect(run.stderr).toMatch(/--region 0,0,400,100 must lie inside the 320×240 photo/);
-    expect(run.stderr).not.toMatch(/\n\s+at /);
+    expect(run.stderr.trim().split('\n')).toHaveLength(1);
+    expect(run.stderr).toMatch(/small-mask\.png: mask is 100×80 but the photo is 320×240/);
+    expect(existsSync(join(dir, 'smallmask', 'frames'))).toBe(false);
   });
 
   it('a missing mask file is one line before any frame is mapped (exit 3)', () => {

@@ -17,12 +17,8 @@ export function buildFilmMask(
   let x1 = width;
   let y1 = height;
   if (region) {
+    checkRegion(region, width, height);
     const [x, y, w, h] = region;
-    if (!(w > 0 && h > 0) || x < 0 || y < 0 || x + w > width || y + h > height) {
-      throw new RangeError(
-        `--region ${x},${y},${w},${h} must lie inside the ${width}×${height} photo with positive width and height`,
-      );
-    }
     x0 = x;
     y0 = y;
     x1 = x + w;
@@ -37,4 +33,12 @@ export function buildFilmMask(
     }
   }
   return film;
+}
+
+/** Throws a RangeError naming --region unless it lies inside a width × height photo. */
+export function checkRegion(region: readonly [number, number, number, number], width: number, height: number, what = 'photo'): void {
+  const [x, y, w, h] = region;
+  if (!(w > 0 && h > 0) || x < 0 || y < 0 || x + w > width || y + h > height) {
+    throw new RangeError(`--region ${x},${y},${w},${h} must lie inside the ${width}×${height} ${what} with positive width and height`);
+  }
 }

@@ -58,6 +58,11 @@ export interface SeriesOptions {
   readonly reportLastMap?: boolean;
   /** ISO time printed in the report (default: now). */
   readonly generatedAt?: string;
+  /**
+   * Called once with the series' frame size (the size most frames share) before any frame is
+   * mapped, e.g. to check a region or anchors against it; an error it throws stops the run.
+   */
+  readonly checkFrameSize?: (size: { readonly width: number; readonly height: number }) => void | Promise<void>;
   readonly onPlan?: (plan: { readonly frames: number; readonly toVisit: number; readonly chunks: number; readonly workers: number }) => void;
 }
 
@@ -96,6 +101,7 @@ export async function runSeries(options: SeriesOptions): Promise<SeriesResult> {
     .map(({ frame }, i) => ({ frame, timeS: stepS !== null ? frame.index * stepS : timing.timesS[i] }))
     .filter(({ frame }) => !probed.wrongSize.has(frame.index));
   const frames = timed.map((t) => t.frame);
+  if (probed.size && options.checkFrameSize) await options.checkFrameSize(probed.size);
   const hash = settingsHash({ format: 1, chunkFrames: chunkSize, map: options.mapSettings, calibration: options.calibration ?? null });
   await ensureOutputDir(outDir);
   await mkdir(framesDir(outDir), { recursive: true });

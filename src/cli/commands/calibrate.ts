@@ -4,11 +4,11 @@
  * thickness, writes them with uncertainties to a file `map` and `series` take with --calibration.
  */
 import type { Command } from 'commander';
-import { resolve } from 'node:path';
 import { atomicWriteFile } from '../../io/atomicWriteFile.js';
 import { calibratePhotoFile } from '../../calibrate/calibrate.js';
 import { CALIBRATION_PARAMETERS, type CalibrationParameter } from '../../calibrate/fitCalibration.js';
-import { InputError, UsageError } from '../errors.js';
+import { UsageError } from '../errors.js';
+import { checkOutputFile } from '../outputFile.js';
 import { collect, parseKnown } from '../parseGeometry.js';
 import { addStackOptions, stackFromOptions, type StackCliOptions } from '../stackOptions.js';
 import { lightFromOption } from './chart.js';
@@ -54,11 +54,7 @@ export function register(program: Command): void {
       if (opts.whiteBalance) lightFromOption(opts.whiteBalance, '--white-balance');
       const known = (opts.known ?? []).map(parseKnown);
       if (known.length === 0) throw new UsageError('--known is required at least once: X,Y,W,H=NM (a rectangle of known thickness)');
-      if (resolve(opts.out) === resolve(photo)) throw new UsageError('--out would overwrite the photo');
-      const { stat } = await import('node:fs/promises');
-      const existing = await stat(opts.out).catch(() => null);
-      if (existing?.isDirectory()) throw new InputError(opts.out, '--out is a folder; give a file name such as cal.json');
-      if (existing && !opts.force) throw new InputError(opts.out, 'exists already; add --force to replace it');
+      await checkOutputFile(opts.out, { force: opts.force === true, inputs: [photo], example: 'cal.json' });
       const record = await calibratePhotoFile(photo, {
         stack,
         stackSpec: opts.stack ?? '',

@@ -16,6 +16,7 @@ import { chartSvg } from '../../render/chartSvg.js';
 import { chartTable, DEFAULT_CHART_RANGE, type ChartTable } from '../../render/chartTable.js';
 import { InputError, UsageError } from '../errors.js';
 import { addStackOptions, parseNumberOption, stackFromOptions, type StackCliOptions } from '../stackOptions.js';
+import { checkOutputFile } from '../outputFile.js';
 
 interface ChartCliOptions extends StackCliOptions {
   light: string;
@@ -29,6 +30,7 @@ interface ChartCliOptions extends StackCliOptions {
   resolution: string;
   format: 'csv' | 'json' | 'png';
   out?: string;
+  force?: boolean;
 }
 
 /** A light from a CLI option: unknown names are usage errors, bad files input errors. */
@@ -70,6 +72,7 @@ async function run(opts: ChartCliOptions): Promise<void> {
   const toNm = parseNumberOption(opts.to, '--to', 'a thickness in nm');
   const stepNm = parseNumberOption(opts.step, '--step', 'a thickness step in nm > 0');
   if (opts.format === 'png' && !opts.out) throw new UsageError('--format png needs --out FILE.png');
+  if (opts.out) await checkOutputFile(opts.out, { force: opts.force === true, inputs: [], example: `chart.${opts.format}` });
   const resolution = parseNumberOption(opts.resolution, '--resolution', 'a pixel-density factor from 1 to 4');
   if (resolution < 1 || resolution > 4) throw new UsageError(`--resolution must be a pixel-density factor from 1 to 4, received ${resolution}`);
   const exposure = opts.exposure === 'auto' ? 'auto' : parseNumberOption(opts.exposure, '--exposure', "a gain > 0 or 'auto'");
@@ -159,5 +162,6 @@ export function register(program: Command): void {
     .option('--resolution <factor>', 'PNG pixel density: 1 gives a 1240-pixel-wide chart, 2 or 3 for print', '1')
     .addOption(new Option('--format <kind>', 'output format').choices(['csv', 'json', 'png']).default('csv'))
     .option('--out <file>', 'write to this file (written atomically) instead of standard output; required for png')
+    .option('--force', 'replace an existing --out file')
     .action((opts: ChartCliOptions) => run(opts));
 }

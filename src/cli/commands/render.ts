@@ -14,6 +14,7 @@ import { buildCamera } from '../../colour/camera.js';
 import { assertNoInputOverwritten } from '../../io/ensureOutputDir.js';
 import { readThicknessGrid } from '../../io/readThicknessGrid.js';
 import { imageFormatFromPath, writeImage } from '../../io/writeImage.js';
+import { checkOutputFile } from '../outputFile.js';
 import { DataFileError } from '../../optics/dataFileError.js';
 import type { Polarisation } from '../../optics/types.js';
 import { renderPhoto } from '../../render/renderPhoto.js';
@@ -35,6 +36,7 @@ interface RenderCliOptions extends StackCliOptions {
   bitDepth?: '8' | '16';
   pngScale?: string;
   out: string;
+  force?: boolean;
 }
 
 function parseFlare(text: string): number | [number, number, number] {
@@ -50,6 +52,7 @@ async function run(file: string, opts: RenderCliOptions): Promise<void> {
   assertNoInputOverwritten([file, ...(opts.camera ? [opts.camera] : [])], [opts.out]);
   const format = imageFormatFromPath(opts.out);
   if (!format) throw new UsageError(`--out must end in .png, .jpg/.jpeg or .tif/.tiff, received ${JSON.stringify(opts.out)} (extension ${JSON.stringify(extname(opts.out))})`);
+  await checkOutputFile(opts.out, { force: opts.force === true, inputs: [file, ...(opts.camera ? [opts.camera] : [])], example: 'photo.jpg' });
   const bitDepth = opts.bitDepth ? (Number(opts.bitDepth) as 8 | 16) : format === 'tiff' ? 16 : 8;
   if (format === 'jpeg' && bitDepth === 16) throw new UsageError('--bit-depth 16 needs a .png or .tif output; JPEG is 8-bit');
   const exposure = parseNumberOption(opts.exposure, '--exposure', 'a gain > 0');
@@ -99,6 +102,7 @@ export function register(program: Command): void {
   addStackOptions(command)
     .requiredOption('--light <name|file>', 'light: D65, D50, A, F2, F7, F11, LED-B1…B5, LED-BH1, LED-RGB1, LED-V1, LED-V2, blackbody:<K>, line:<nm>, or an SPD CSV file')
     .requiredOption('--out <photo>', 'output photo: .png or .jpg (8-bit sRGB), .tif (16-bit); written atomically')
+    .option('--force', 'replace an existing --out file')
     .option('--white-balance <name|file>', 'camera white balance left at another light (default: balanced to --light)')
     .option('--camera <file>', 'raw camera spectral sensitivities CSV (wavelength_nm,r,g,b); output is then linear, not sRGB')
     .addOption(new Option('--observer <year>', 'CIE standard observer of the sRGB camera').choices(['1931', '1964']).default('1931'))

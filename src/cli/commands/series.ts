@@ -17,6 +17,8 @@ import { formatProgressBar, formatProgressLine } from '../../series/progressText
 import { formatSeriesSummary } from '../../series/summaryText.js';
 import type { SeriesProgress } from '../../series/types.js';
 import { lightFromOption } from './chart.js';
+import { checkRegion } from '../../map/filmMask.js';
+import { readMask } from '../../map/mapPhoto.js';
 
 interface SeriesCliOptions extends StackCliOptions {
   light: string;
@@ -114,6 +116,21 @@ async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions, warn:
     },
     calibration: calibration?.raw ?? null,
     processor: { moduleUrl: MAP_FRAME_PROCESSOR_URL, config },
+    // Region, anchors and mask against the frames, once, before any frame is mapped.
+    checkFrameSize: async ({ width, height }: { width: number; height: number }) => {
+      const frames = `${width}×${height} frames`;
+      if (region) {
+        try {
+          checkRegion(region, width, height, 'frames');
+        } catch (error) {
+          throw new UsageError(error instanceof Error ? error.message : String(error));
+        }
+      }
+      for (const a of anchors) {
+        if (!(a.x >= 0 && a.x < width && a.y >= 0 && a.y < height)) throw new UsageError(`--anchor ${a.x},${a.y} lies outside the ${frames}`);
+      }
+      if (maskPath) await readMask(maskPath, width, height);
+    },
   };
 }
 
