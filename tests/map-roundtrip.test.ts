@@ -76,13 +76,16 @@ function oxideWafer(x: number, y: number): number {
 
 describe('lamella map round trips on invented scenes (our forward model → JPEG → map)', () => {
   // Measured (seeds 1–4, mapper of 1 Dec 2026 22:30): 4:2:0 — median 1.0 nm, p95 7.1–8.0 nm,
-  // gross 0.87–0.99 %, coverage 85.6–85.9 % (the colour match still rejects pixels where the wedge
-  // is steep: reported to the lead); swirls: median 1.4 nm, gross 2.2–2.9 %. 4:4:4 — median
-  // 0.7 nm, p95 3.7–3.9 nm, gross 0.17–0.31 %, coverage 93.6–94.1 %; swirls: median 1.0 nm,
-  // gross 0.2–0.4 %.
+  // gross 0.87–0.99 %, coverage 85.6–85.9 %; swirls: median 1.4 nm, gross 2.2–2.9 %. 4:4:4 —
+  // median 0.7 nm, p95 3.7–3.9 nm, gross 0.17–0.31 %, coverage 93.6–94.1 %; swirls: median
+  // 1.0 nm, gross 0.2–0.4 %.
+  // Since poor colour matches that agree with their neighbours' smooth field are kept
+  // (src/map/keepConsistent.ts; seed 3, 2 Dec 2026): 4:2:0 — coverage 93.1 → 97.5 %, median
+  // 1.04 → 1.08 nm, gross 0.27 → 0.25 %; swirls coverage 75 → 89 %, gross 1.4 → 1.1 %. 4:4:4 —
+  // coverage 93.9 → 99.6 %, median 0.70 → 0.72 nm; swirls coverage 78 → 98 %, gross 0.27 → 0.21 %.
   const DRAIN_LIMITS = {
-    '4:2:0': { median: 2, p95: 11, gross: 0.015, coverage: 0.82, swirlGross: 0.045 },
-    '4:4:4': { median: 1.5, p95: 6, gross: 0.005, coverage: 0.91, swirlGross: 0.01 },
+    '4:2:0': { median: 2, p95: 11, gross: 0.015, coverage: 0.95, swirlGross: 0.045, swirlCoverage: 0.85 },
+    '4:4:4': { median: 1.5, p95: 6, gross: 0.005, coverage: 0.98, swirlGross: 0.01, swirlCoverage: 0.95 },
   } as const;
   for (const chroma of ['4:2:0', '4:4:4'] as const) {
     it(`draining soap film: wedge, swirls and black film (exposure ×7, flare, noise, JPEG 90 ${chroma})`, async () => {
@@ -105,6 +108,7 @@ describe('lamella map round trips on invented scenes (our forward model → JPEG
       expect(swirls.count).toBeGreaterThan(400);
       expect(swirls.medianAbsNm).toBeLessThan(3);
       expect(swirls.gross).toBeLessThan(limits.swirlGross);
+      expect(swirls.coverage).toBeGreaterThan(limits.swirlCoverage);
       // Black film (6 nm, 3 px clear of the front): thin — too dark, or measured below 50 nm.
       let black = 0;
       let thin = 0;

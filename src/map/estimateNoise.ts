@@ -8,6 +8,7 @@
  * matters: sensor noise is roughly constant in linear units, and the sRGB curve stretches the
  * shadows, so dark pixels are noisier in encoded units. At most ~400k pairs are sampled.
  */
+import { selectKth } from './statistics.js';
 import { lumaOf } from './tableLimits.js';
 
 export const NOISE_BINS = 16;
@@ -40,8 +41,8 @@ export function estimateNoise(rgb: Float32Array, width: number, height: number, 
   }
   const toSigma = (mad: number): number => Math.max(mad / (0.6745 * Math.sqrt(6)), floor);
   if (n === 0) return { sigmaByLuma: new Float32Array(NOISE_BINS).fill(1 / 255), sigma: 1 / 255 };
-  const all = diffs.slice(0, n).sort();
-  const sigma = toSigma(all[Math.floor(n / 2)]);
+  // Medians by selection (O(n)); the order of `diffs` is not needed afterwards.
+  const sigma = toSigma(selectKth(diffs.slice(0, n), Math.floor(n / 2)));
   const sigmaByLuma = new Float32Array(NOISE_BINS).fill(NaN);
   const binCount = new Int32Array(NOISE_BINS + 1);
   for (let k = 0; k < n; k++) binCount[bins[k] + 1]++;
@@ -52,8 +53,7 @@ export function estimateNoise(rgb: Float32Array, width: number, height: number, 
   for (let bin = 0; bin < NOISE_BINS; bin++) {
     const m = binCount[bin + 1] - binCount[bin];
     if (m < 50) continue;
-    const values = grouped.subarray(binCount[bin], binCount[bin + 1]).sort();
-    sigmaByLuma[bin] = toSigma(values[Math.floor(m / 2)]);
+    sigmaByLuma[bin] = toSigma(selectKth(grouped.subarray(binCount[bin], binCount[bin + 1]), Math.floor(m / 2)));
   }
   // Bins with too few pairs take the nearest measured bin (or the global value).
   for (let bin = 0; bin < NOISE_BINS; bin++) {

@@ -51,30 +51,46 @@ export function niceStep(raw: number): number {
   return 10 * magnitude;
 }
 
-/** RGB bytes of the thickness map alone (no annotations). */
-export function mapRaster(result: MapResult, range: ScaleRange): Uint8Array {
+/**
+ * RGB bytes of the thickness map alone (no annotations): of every pixel, or of the pixels listed
+ * in `pixels` (indices into the map), in that order.
+ */
+export function mapRaster(result: MapResult, range: ScaleRange, pixels?: Int32Array): Uint8Array {
   const { thicknessNm, status } = result;
   const scale = colourScaleBytes();
-  const out = new Uint8Array(status.length * 3);
+  const n = pixels ? pixels.length : status.length;
+  const out = new Uint8Array(n * 3);
   const span = range.maxNm - range.minNm;
-  for (let i = 0; i < status.length; i++) {
+  const top = SCALE_ENTRIES - 1;
+  for (let k = 0; k < n; k++) {
+    const i = pixels ? pixels[k] : k;
     const s = status[i];
     let r: number;
     let g: number;
     let b: number;
     if (s === PixelStatus.ok) {
-      let t = ((thicknessNm[i] - range.minNm) / span) * (SCALE_ENTRIES - 1);
-      t = t < 0 ? 0 : t > SCALE_ENTRIES - 1 ? SCALE_ENTRIES - 1 : t;
-      const k = Math.round(t) * 3;
-      r = scale[k];
-      g = scale[k + 1];
-      b = scale[k + 2];
-    } else if (s === PixelStatus.dark) [r, g, b] = TOO_DARK;
-    else if (s === PixelStatus.excluded) [r, g, b] = [255, 255, 255];
-    else [r, g, b] = NO_ESTIMATE;
-    out[i * 3] = r;
-    out[i * 3 + 1] = g;
-    out[i * 3 + 2] = b;
+      let t = ((thicknessNm[i] - range.minNm) / span) * top;
+      t = t < 0 ? 0 : t > top ? top : t;
+      const c = Math.round(t) * 3;
+      r = scale[c];
+      g = scale[c + 1];
+      b = scale[c + 2];
+    } else if (s === PixelStatus.dark) {
+      r = TOO_DARK[0];
+      g = TOO_DARK[1];
+      b = TOO_DARK[2];
+    } else if (s === PixelStatus.excluded) {
+      r = 255;
+      g = 255;
+      b = 255;
+    } else {
+      r = NO_ESTIMATE[0];
+      g = NO_ESTIMATE[1];
+      b = NO_ESTIMATE[2];
+    }
+    out[k * 3] = r;
+    out[k * 3 + 1] = g;
+    out[k * 3 + 2] = b;
   }
   return out;
 }
@@ -87,9 +103,15 @@ export async function renderMapPng(result: MapResult, range: ScaleRange, pixelSi
   const panel = margin * 2 + barWidth + unit * 8;
   const top = unit * 2;
   const canvasWidth = width + margin + panel;
-  const canvasHeight = Math.max(height + top + margin, unit * 16);
-  const overlays = [colourBarSvg(canvasWidth, canvasHeight, width + margin * 2, top, barWidth, height, range, unit, result.darkLimitNm, title)];
-  if (pixelSizeUm !== null && pixelSizeUm > 0) overlays.push(scaleBarSvg(canvasWidth, canvasHeight, margin, top, width, height, pixelSizeUm, unit));
+  // Tall enough for the legend below the colour bar.
+  const canvasHeight = Math.max(height + top + margin, height + top + Math.ceil(unit * 2.9), unit * 16);
+  // Small overlays at their places: drawing canvas-sized SVGs would cost more than the map.
+  const panelLeft = width + margin;
+  const overlays: Array<{ svg: string; left: number; top: number }> = [
+    { svg: titleSvg(Math.min(canvasWidth, unit * 60), top, unit, title), left: 0, top: 0 },
+    { svg: colourBarSvg(canvasWidth - panelLeft, canvasHeight, margin, top, barWidth, height, range, unit, result.darkLimitNm), left: panelLeft, top: 0 },
+  ];
+  if (pixelSizeUm !== null && pixelSizeUm > 0) overlays.push(scaleBarSvg(margin, top, width, height, pixelSizeUm, unit));
   return composeImagePng({
     canvasWidth,
     canvasHeight,
@@ -101,9 +123,10 @@ export async function renderMapPng(result: MapResult, range: ScaleRange, pixelSi
   });
 }
 
+/** The right-hand panel (its own size, placed beside the map): colour bar, ticks, legend. */
 function colourBarSvg(
-  canvasWidth: number,
-  canvasHeight: number,
+  panelWidth: number,
+  panelHeight: number,
   left: number,
   top: number,
   barWidth: number,
@@ -111,7 +134,6 @@ function colourBarSvg(
   range: ScaleRange,
   unit: number,
   darkLimitNm: number,
-  title: string,
 ): string {
   const scale = colourScaleBytes();
   const stops: string[] = [];
@@ -132,11 +154,9 @@ function colourBarSvg(
         `<text x="${left + barWidth + unit * 0.6}" y="${(y + unit * 0.35).toFixed(1)}">${formatNm(nm)}</text>`,
     );
   }
-  const legendY = Math.min(canvasHeight - unit * 1.2, top + barHeight + unit * 1.4);
-  const escapedTitle = escapeHtml(title);
-  return `<svg xmlns="http://www.w3.org/2000/svg" width="${canvasWidth}" height="${canvasHeight}" font-family="DejaVu Sans, sans-serif" font-size="${unit * 0.8}" fill="#222">
+  const legendY = Math.min(panelHeight - unit * 1.2, top + barHeight + unit * 1.4);
+  return `<svg xmlns="http://www.w3.org/2000/svg" width="${panelWidth}" height="${panelHeight}" font-family="DejaVu Sans, sans-serif" font-size="${unit * 0.8}" fill="#222">
 <defs><linearGradient id="bar" x1="0" y1="0" x2="0" y2="1">${stops.join('')}</linearGradient></defs>
-<text x="${unit * 0.8}" y="${unit * 1.3}" font-size="${unit}" font-weight="bold">${escapedTitle}</text>
 <rect x="${left}" y="${top}" width="${barWidth}" height="${barHeight}" fill="url(#bar)" stroke="#222" stroke-width="1"/>
 <text x="${left}" y="${top - unit * 0.4}">nm</text>
 ${ticks.join('\n')}
@@ -147,27 +167,41 @@ ${ticks.join('\n')}
 </svg>`;
 }
 
+/** The title strip across the top (its own size, placed at the canvas origin). */
+function titleSvg(width: number, height: number, unit: number, title: string): string {
+  return `<svg xmlns="http://www.w3.org/2000/svg" width="${width}" height="${height}" font-family="DejaVu Sans, sans-serif" fill="#222">
+<text x="${unit * 0.8}" y="${unit * 1.3}" font-size="${unit}" font-weight="bold">${escapeHtml(title)}</text>
+</svg>`;
+}
+
+/** The scale bar in the map's lower-left corner, as a small document and its place on the canvas. */
 function scaleBarSvg(
-  canvasWidth: number,
-  canvasHeight: number,
   left: number,
   top: number,
   width: number,
   height: number,
   pixelSizeUm: number,
   unit: number,
-): string {
+): { svg: string; left: number; top: number } {
   const targetUm = (width * pixelSizeUm) / 5;
   const lengthUm = niceStep(targetUm);
   const lengthPx = lengthUm / pixelSizeUm;
   const label = lengthUm >= 1000 ? `${formatNm(lengthUm / 1000)} mm` : `${formatNm(lengthUm)} µm`;
+  // Canvas position of the bar, and of the box behind it (whole pixels).
   const x = left + unit * 0.6;
   const y = top + height - unit * 0.9;
-  return `<svg xmlns="http://www.w3.org/2000/svg" width="${canvasWidth}" height="${canvasHeight}" font-family="DejaVu Sans, sans-serif" font-size="${unit * 0.7}">
-<rect x="${x - unit * 0.3}" y="${y - unit * 1.2}" width="${lengthPx + unit * 0.6}" height="${unit * 1.7}" fill="#ffffff" fill-opacity="0.8" rx="3"/>
-<rect x="${x}" y="${y}" width="${lengthPx.toFixed(1)}" height="${Math.max(3, unit * 0.25)}" fill="#111"/>
-<text x="${x}" y="${y - unit * 0.25}" fill="#111">${label}</text>
+  const boxLeft = Math.floor(x - unit * 0.3);
+  const boxTop = Math.floor(y - unit * 1.2);
+  const boxWidth = Math.ceil(lengthPx + unit * 0.6) + 1;
+  const boxHeight = Math.ceil(unit * 1.7) + 1;
+  const lx = x - boxLeft;
+  const ly = y - boxTop;
+  const svg = `<svg xmlns="http://www.w3.org/2000/svg" width="${boxWidth}" height="${boxHeight}" font-family="DejaVu Sans, sans-serif" font-size="${unit * 0.7}">
+<rect x="${lx - unit * 0.3}" y="${ly - unit * 1.2}" width="${lengthPx + unit * 0.6}" height="${unit * 1.7}" fill="#ffffff" fill-opacity="0.8" rx="3"/>
+<rect x="${lx}" y="${ly}" width="${lengthPx.toFixed(1)}" height="${Math.max(3, unit * 0.25)}" fill="#111"/>
+<text x="${lx}" y="${ly - unit * 0.25}" fill="#111">${label}</text>
 </svg>`;
+  return { svg, left: boxLeft, top: boxTop };
 }
 
 function formatNm(value: number): string {

@@ -114,7 +114,9 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
     anchors: options.anchors,
     prior: options.prior ?? null,
     exposureFixed: options.exposureFixed ?? null,
+    keepConsistent: options.keepConsistent ?? true,
     chromaWeight: chromaWeightFor(photo.format, photo.chromaSubsampling),
+    eightBit: photo.bitDepth === 8,
   });
   return {
     ...result,
@@ -125,6 +127,7 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
       noise_sigma: result.noiseSigma,
       washout_nm: result.washoutNm,
       no_estimate_reasons: result.ambiguousReasons,
+      poor_matches_kept_by_neighbours: result.keptByNeighbours,
       chroma_subsampling: photo.chromaSubsampling ?? null,
       chroma_weight: chromaWeightFor(photo.format, photo.chromaSubsampling),
       fit: result.fit
@@ -186,36 +189,41 @@ async function writeEachOutput(
   written: string[],
 ): Promise<void> {
   const { width, height } = result;
+  if (what.json && !options) throw new TypeError('writeMapOutputs: options are required to write the JSON record');
+  // The writes and the image encoders run in the codec's and the file system's threads, so they
+  // are started together and overlap with each other and with the pictures' per-pixel work.
+  const tasks: Array<Promise<void>> = [];
+  const start = (path: string, write: () => Promise<void>): void => {
+    tasks.push(write().then(() => void written.push(path)));
+  };
   if (what.npy) {
     const thicknessPath = join(outDir, `${stem}.thickness.npy`);
-    await writeNpy(thicknessPath, result.thicknessNm, [height, width]);
-    written.push(thicknessPath);
+    start(thicknessPath, () => writeNpy(thicknessPath, result.thicknessNm, [height, width]));
     const confidencePath = join(outDir, `${stem}.confidence.npy`);
-    await writeNpy(confidencePath, result.confidence, [height, width]);
-    written.push(confidencePath);
+    start(confidencePath, () => writeNpy(confidencePath, result.confidence, [height, width]));
   }
   if (what.tiff) {
     const tiffPath = join(outDir, `${stem}.thickness.tif`);
-    await writeFloatTiff(tiffPath, result.thicknessNm, width, height);
-    written.push(tiffPath);
+    start(tiffPath, () => writeFloatTiff(tiffPath, result.thicknessNm, width, height));
+  }
+  if (what.json) {
+    const jsonPath = join(outDir, `${stem}.json`);
+    const json = record ?? mapResultJson(result, options!, photoPath);
+    start(jsonPath, () => atomicWriteFile(jsonPath, Buffer.from(`${JSON.stringify(json, null, 2)}\n`, 'utf8')));
   }
   if (what.images) {
     const range = scaleRangeOf(result);
     const mapPath = join(outDir, `${stem}.map.png`);
-    await atomicWriteFile(mapPath, await renderMapPng(result, range, options?.pixelSizeUm ?? null, `${basename(photoPath)} — thickness`));
-    written.push(mapPath);
+    const mapPng = renderMapPng(result, range, options?.pixelSizeUm ?? null, `${basename(photoPath)} — thickness`);
+    start(mapPath, async () => atomicWriteFile(mapPath, await mapPng));
     if (result.photoRgb) {
       const labels = result.thinLabels ?? findThinRegions(result.thicknessNm, result.status, width, height, options?.thinBelowNm ?? null, null).labels;
       const flagsPath = join(outDir, `${stem}.flags.png`);
-      await atomicWriteFile(flagsPath, await renderFlagsPng(result.photoRgb, width, height, labels));
-      written.push(flagsPath);
+      const flagsPng = renderFlagsPng(result.photoRgb, width, height, labels);
+      start(flagsPath, async () => atomicWriteFile(flagsPath, await flagsPng));
     }
   }
-  if (what.json) {
-    if (!options) throw new TypeError('writeMapOutputs: options are required to write the JSON record');
-    const jsonPath = join(outDir, `${stem}.json`);
-    const json = record ?? mapResultJson(result, options, photoPath);
-    await atomicWriteFile(jsonPath, Buffer.from(`${JSON.stringify(json, null, 2)}\n`, 'utf8'));
-    written.push(jsonPath);
-  }
+  const outcomes = await Promise.allSettled(tasks);
+  const failure = outcomes.find((o): o is PromiseRejectedResult => o.status === 'rejected');
+  if (failure) throw failure.reason;
 }

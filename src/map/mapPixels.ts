@@ -14,14 +14,16 @@
 import { createCandidateCube } from './candidateCube.js';
 import { createCandidateField } from './candidateField.js';
 import { type ColourTable, predictEncodedTable, thicknessAt } from './colourTable.js';
-import { estimateNoise, sigmaAt } from './estimateNoise.js';
-import { distinctColourCount, fitPhotoFormation, interpolateColour, type PhotoFormationFit } from './fitPhotoFormation.js';
+import { estimateNoise } from './estimateNoise.js';
+import { distinctColourCount, fitPhotoFormation, type PhotoFormationFit } from './fitPhotoFormation.js';
 import { matchSpace, toMatchSpace } from './matchSpace.js';
-import { createMatchScratch, matchColour, matchNear } from './matchColour.js';
+import { createMatchScratch, matchColour } from './matchColour.js';
+import { createAlternativeMemo, matchPixelRows, scorePixelRows } from './pixelPass.js';
+import { keepConsistentPixels } from './keepConsistent.js';
 import { resolveOrders } from './resolveOrders.js';
 import { percentileSelect } from './statistics.js';
 import { summariseMap } from './summariseMap.js';
-import { brightnessOf, lumaOf, tableLimits } from './tableLimits.js';
+import { tableLimits } from './tableLimits.js';
 import { type Anchor, type ExposureParameters, type MapResult, PixelStatus } from './types.js';
 
 export interface MapPixelsInput {
@@ -40,6 +42,10 @@ export interface MapPixelsInput {
   readonly exposureFixed?: ExposureParameters | null;
   readonly fitWhiteBalance?: boolean;
   readonly initialWhiteBalance?: readonly [number, number, number];
+  /** Second look at poor colour matches (keepConsistent.ts); default true. */
+  readonly keepConsistent?: boolean;
+  /** The photo holds 8-bit values (k/255): lets the pixel pass remember work per exact colour. */
+  readonly eightBit?: boolean;
   /** Weight of chroma in colour matching (< 1 for chroma-subsampled JPEGs; see matchSpace.ts). */
   readonly chromaWeight?: number;
 }
@@ -50,6 +56,8 @@ export interface MapPixelsResult extends MapResult {
   readonly washoutNm: number;
   /** Why pixels have no estimate: no resolved order nearby, no continuous candidate, poor colour match. */
   readonly ambiguousReasons: { unresolved: number; discontinuous: number; poorMatch: number };
+  /** Poor colour matches kept because they agree with their well-matched neighbours (keepConsistent.ts). */
+  readonly keptByNeighbours: number;
   /** Wall time of each stage, ms. */
   readonly timingsMs: Record<string, number>;
   /** Per-pixel thin-region id (0 = none), for the flags image. */
@@ -138,7 +146,6 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   const periodIndex = input.orderPeriodNm / table.stepNm;
   const limits = tableLimits(predictedRgb, table.rgbLinear, count, noiseSigma, Math.round(periodIndex));
   const predicted = space ? toMatchSpace(space, predictedRgb, new Float32Array(predictedRgb.length)) : predictedRgb;
-  const matchRgb = space ? toMatchSpace(space, rgb, new Float32Array(rgb.length)) : rgb;
   markDarkPixels(rgb, status, width, height, limits.darkLuma);
 
   lap('limits');
@@ -148,7 +155,9 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   const gridHeight = Math.ceil(height / block);
   const cellColour = new Float32Array(gridWidth * gridHeight * 3);
   const cellDark = new Uint8Array(gridWidth * gridHeight);
-  const usable = averageCells(matchRgb, status, width, height, block, gridWidth, gridHeight, cellColour, cellDark);
+  const usable = averageCells(rgb, status, width, height, block, gridWidth, gridHeight, cellColour, cellDark);
+  // Averaging commutes with the (affine) matching space: transform the cell means.
+  if (space) toMatchSpace(space, cellColour, cellColour);
   const cube = createCandidateCube(CUBE_LEVELS, PER_CELL);
   const scratch = createMatchScratch(PER_CELL);
   const field = createCandidateField(gridWidth, gridHeight, PER_CELL);
@@ -180,71 +189,48 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   // 4. Full resolution.
   const thicknessNm = new Float32Array(pixels).fill(NaN);
   const confidence = new Float32Array(pixels);
+  const pass = {
+    rgb,
+    width,
+    height,
+    status,
+    gridPosition: order.position,
+    block,
+    gridWidth,
+    gridHeight,
+    predictedRgb,
+    count,
+    cube: space ? createCandidateCube(CUBE_LEVELS, PER_CELL) : cube,
+    space,
+    pixelJump: 0.3 * periodIndex,
+    washoutIndex: limits.washoutIndex,
+    startNm: table.startNm,
+    stepNm: table.stepNm,
+    memo: input.eightBit ? createAlternativeMemo(count) : null,
+  };
+  const passOut = { thicknessNm, cost: confidence, alternativeCost: new Float32Array(pixels) };
+  const dropped = matchPixelRows(pass, passOut, scratch, 0, height);
+  // The empirical scale of the colour residual: JPEG smooths the pixel-to-pixel noise the noise
+  // profile sees, while its chroma errors and the model's own error remain.
+  const medianCost = medianOfOk(confidence, status);
   // Allowance for model error (dispersion data, camera model) on top of the noise.
   const modelSlack = 3 * (2 / 255) ** 2;
-  const pixelJump = 0.3 * periodIndex;
-  const reasons = { unresolved: 0, discontinuous: 0, poorMatch: 0 };
-  const near = new Float64Array(3);
-  const fitted = new Float64Array(3);
-  const pixelCube = space ? createCandidateCube(CUBE_LEVELS, PER_CELL) : cube;
-  const alternativeCost = new Float32Array(pixels);
-  for (let y = 0; y < height; y++) {
-    for (let x = 0; x < width; x++) {
-      const i = y * width + x;
-      if (status[i] !== PixelStatus.ok) continue;
-      const reference = referenceAt(order.position, x, y, block, gridWidth, gridHeight);
-      if (reference !== reference) {
-        status[i] = PixelStatus.ambiguous;
-        reasons.unresolved++;
-        continue;
+  const poor = scorePixelRows({ rgb, width, status, noise, medianCost, modelSlack }, passOut, 0, height);
+  // Poor colour matches that agree with the smooth field of their well-matched neighbours stay.
+  const keptByNeighbours =
+    poor > 0 && input.keepConsistent !== false
+      ? keepConsistentPixels({ width, height, status, thicknessNm, confidence, orderPeriodNm: input.orderPeriodNm })
+      : 0;
+  // Poor matches not kept lose their estimate.
+  if (poor > keptByNeighbours) {
+    for (let i = 0; i < pixels; i++) {
+      if (status[i] === PixelStatus.ambiguous && thicknessNm[i] === thicknessNm[i]) {
+        thicknessNm[i] = NaN;
+        confidence[i] = 0;
       }
-      // Which candidate: in encoded RGB (full colour discrimination between orders).
-      matchNear(pixelCube, predictedRgb, count, rgb[i * 3], rgb[i * 3 + 1], rgb[i * 3 + 2], reference, pixelJump, scratch, near);
-      const position = near[0];
-      // How well it fits: in the matching space (chroma down-weighted for subsampled JPEGs).
-      let cost = near[1];
-      if (space) {
-        interpolateColour(predicted, count, position, fitted, 0);
-        cost = (fitted[0] - matchRgb[i * 3]) ** 2 + (fitted[1] - matchRgb[i * 3 + 1]) ** 2 + (fitted[2] - matchRgb[i * 3 + 2]) ** 2;
-      }
-      // Margin to the next-best order, in encoded RGB: alternative cost minus this one.
-      const alternative = near[2] === Infinity ? Infinity : cost + (near[2] - near[1]);
-      if (Math.abs(position - reference) > pixelJump) {
-        status[i] = PixelStatus.ambiguous;
-        reasons.discontinuous++;
-        continue;
-      }
-      if (position >= limits.washoutIndex) {
-        status[i] = PixelStatus.tooThick;
-        continue;
-      }
-      thicknessNm[i] = thicknessAt(table, position);
-      confidence[i] = cost; // the colour cost for now; turned into a confidence below
-      alternativeCost[i] = alternative;
     }
   }
-  // The empirical scale of the colour residual: JPEG smooths the pixel-to-pixel noise the noise
-  // profile sees, while its chroma errors and the model's own error remain. A match is poor when
-  // its cost exceeds both the noise-based limit and 9× the median cost (≈ the 99.99th percentile
-  // of a χ² with 3 degrees of freedom, relative to its median; common practice for outliers).
-  const medianCost = medianOfOk(confidence, status);
-  for (let i = 0; i < pixels; i++) {
-    if (status[i] !== PixelStatus.ok) continue;
-    const cost = confidence[i];
-    const sigma = sigmaAt(noise, lumaOf(rgb[i * 3], rgb[i * 3 + 1], rgb[i * 3 + 2]));
-    const pixelNoiseCost = Math.max(3 * sigma * sigma, medianCost / 2.37);
-    if (cost > Math.max(10 * pixelNoiseCost + modelSlack, 9 * medianCost)) {
-      status[i] = PixelStatus.ambiguous;
-      reasons.poorMatch++;
-      thicknessNm[i] = NaN;
-      confidence[i] = 0;
-      continue;
-    }
-    const alternative = alternativeCost[i];
-    const fitTerm = Math.exp(-cost / (4 * pixelNoiseCost + modelSlack));
-    const marginTerm = alternative === Infinity ? 1 : 1 - Math.exp(-Math.max(0, alternative - cost) / pixelNoiseCost);
-    confidence[i] = fitTerm * marginTerm;
-  }
+  const reasons = { unresolved: dropped.unresolved, discontinuous: dropped.discontinuous, poorMatch: poor - keptByNeighbours };
 
   lap('pixels');
   // 5. Summaries.
@@ -267,6 +253,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
     noiseSigma,
     washoutNm,
     ambiguousReasons: reasons,
+    keptByNeighbours,
     timingsMs: (lap('summaries'), timingsMs),
     thinLabels,
   };
@@ -352,28 +339,6 @@ function averageCells(
   return usable;
 }
 
-/** Resolved table position for pixel (x, y): the cell's, or bilinear between cell centres. */
-function referenceAt(position: Float32Array, x: number, y: number, block: number, gridWidth: number, gridHeight: number): number {
-  if (block === 1) return position[y * gridWidth + x];
-  const fx = (x + 0.5) / block - 0.5;
-  const fy = (y + 0.5) / block - 0.5;
-  const cx = Math.floor(x / block);
-  const cy = Math.floor(y / block);
-  const own = position[cy * gridWidth + cx];
-  const x0 = Math.max(0, Math.min(gridWidth - 1, Math.floor(fx)));
-  const y0 = Math.max(0, Math.min(gridHeight - 1, Math.floor(fy)));
-  const x1 = Math.min(gridWidth - 1, x0 + 1);
-  const y1 = Math.min(gridHeight - 1, y0 + 1);
-  const tx = Math.max(0, Math.min(1, fx - x0));
-  const ty = Math.max(0, Math.min(1, fy - y0));
-  const v00 = position[y0 * gridWidth + x0];
-  const v10 = position[y0 * gridWidth + x1];
-  const v01 = position[y1 * gridWidth + x0];
-  const v11 = position[y1 * gridWidth + x1];
-  const value = (1 - ty) * ((1 - tx) * v00 + tx * v10) + ty * ((1 - tx) * v01 + tx * v11);
-  return value === value ? value : own;
-}
-
 function priorOnGrid(
   prior: Float32Array,
   width: number,
@@ -420,48 +385,67 @@ function anchorCell(
  * of film pixels (so that noise does not speckle the black film), below the dark limit's.
  */
 function markDarkPixels(rgb: Float32Array, status: Uint8Array, width: number, height: number, darkLuma: number): void {
-  // Separable 3×3 box sums of luma and of the count of non-excluded pixels.
-  const n = width * height;
-  const luma = new Float32Array(n);
-  const weight = new Float32Array(n);
-  for (let i = 0; i < n; i++) {
-    if (status[i] === PixelStatus.excluded) continue;
-    luma[i] = brightnessOf(rgb[i * 3], rgb[i * 3 + 1], rgb[i * 3 + 2]);
-    weight[i] = 1;
-  }
-  const rowLuma = new Float32Array(n);
-  const rowWeight = new Float32Array(n);
-  for (let y = 0; y < height; y++) {
+  // Running 3×3 box sums of brightness and of the count of non-excluded pixels, from three
+  // horizontal row sums kept in a ring (no full-size temporaries).
+  const rowBrightness = [new Float64Array(width), new Float64Array(width), new Float64Array(width)];
+  const rowWeight = [new Float64Array(width), new Float64Array(width), new Float64Array(width)];
+  const brightness = new Float64Array(width);
+  const weight = new Float64Array(width);
+  const sumRow = (y: number, slot: number): void => {
+    const outB = rowBrightness[slot];
+    const outW = rowWeight[slot];
     const row = y * width;
     for (let x = 0; x < width; x++) {
       const i = row + x;
-      let l = luma[i];
-      let w = weight[i];
+      if (status[i] === PixelStatus.excluded) {
+        brightness[x] = 0;
+        weight[x] = 0;
+      } else {
+        const r = rgb[i * 3];
+        const g = rgb[i * 3 + 1];
+        const b = rgb[i * 3 + 2];
+        brightness[x] = r > g ? (r > b ? r : b) : g > b ? g : b;
+        weight[x] = 1;
+      }
+    }
+    for (let x = 0; x < width; x++) {
+      let l = brightness[x];
+      let w = weight[x];
       if (x > 0) {
-        l += luma[i - 1];
-        w += weight[i - 1];
+        l += brightness[x - 1];
+        w += weight[x - 1];
       }
       if (x + 1 < width) {
-        l += luma[i + 1];
-        w += weight[i + 1];
+        l += brightness[x + 1];
+        w += weight[x + 1];
       }
-      rowLuma[i] = l;
-      rowWeight[i] = w;
+      outB[x] = l;
+      outW[x] = w;
     }
-  }
-  for (let i = 0; i < n; i++) {
-    if (status[i] !== PixelStatus.ok) continue;
-    let l = rowLuma[i];
-    let w = rowWeight[i];
-    if (i >= width) {
-      l += rowLuma[i - width];
-      w += rowWeight[i - width];
+  };
+  if (height === 0) return;
+  sumRow(0, 0);
+  for (let y = 0; y < height; y++) {
+    if (y + 1 < height) sumRow(y + 1, (y + 1) % 3);
+    const here = y % 3;
+    const above = (y + 2) % 3;
+    const below = (y + 1) % 3;
+    const row = y * width;
+    for (let x = 0; x < width; x++) {
+      const i = row + x;
+      if (status[i] !== PixelStatus.ok) continue;
+      let l = rowBrightness[here][x];
+      let w = rowWeight[here][x];
+      if (y > 0) {
+        l += rowBrightness[above][x];
+        w += rowWeight[above][x];
+      }
+      if (y + 1 < height) {
+        l += rowBrightness[below][x];
+        w += rowWeight[below][x];
+      }
+      if (l < darkLuma * w) status[i] = PixelStatus.dark;
     }
-    if (i + width < n) {
-      l += rowLuma[i + width];
-      w += rowWeight[i + width];
-    }
-    if (l < darkLuma * w) status[i] = PixelStatus.dark;
   }
 }
 

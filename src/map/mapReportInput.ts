@@ -8,7 +8,7 @@ import { encodePng } from '../io/encodeImage.js';
 import { makeReportGrid } from '../report/makeReportGrid.js';
 import type { MapReportInput } from '../report/types.js';
 import { colourScaleStops } from './colourScale.js';
-import { mapRaster, scaleRangeOf } from './mapImages.js';
+import { mapRaster, type ScaleRange, scaleRangeOf } from './mapImages.js';
 import type { MappedPhoto } from './mapPhoto.js';
 import { mapResultJson } from './mapResultJson.js';
 import type { MapOptions } from './types.js';
@@ -24,18 +24,21 @@ export async function mapReportInput(
   const { width, height } = result;
   const range = scaleRangeOf(result);
   const step = Math.max(1, Math.ceil(Math.max(width, height) / MAX_PICTURE_SIDE));
-  const photoBytes = new Uint8Array(width * height * 3);
-  if (result.photoRgb) for (let i = 0; i < photoBytes.length; i++) photoBytes[i] = Math.round(result.photoRgb[i] * 255);
-  const photoSmall = downsample(photoBytes, width, height, step);
-  const mapSmall = downsample(mapRaster(result, range), width, height, step);
+  const small = sampledPictures(result, range, step);
+  // The encoders run in the codec's threads while the grid is cut here.
+  const pictures = Promise.all([
+    encodePng({ data: small.photo, width: small.width, height: small.height, channels: 3 }),
+    encodePng({ data: small.map, width: small.width, height: small.height, channels: 3 }),
+  ]);
   const grid = makeReportGrid({ width, height, thicknessNm: result.thicknessNm, confidence: result.confidence });
+  const [photoPng, mapPng] = await pictures;
   const notes: string[] = [];
   if (step > 1) notes.push(`pictures shown at 1/${step} scale`);
   return {
     title: `Thickness map of ${basename(photoPath)}`,
     generatedAt: new Date().toISOString(),
-    photoPng: await encodePng({ data: photoSmall.data, width: photoSmall.width, height: photoSmall.height, channels: 3 }),
-    mapPng: await encodePng({ data: mapSmall.data, width: mapSmall.width, height: mapSmall.height, channels: 3 }),
+    photoPng,
+    mapPng,
     colourBar: { minNm: range.minNm, maxNm: range.maxNm, stops: colourScaleStops(range.minNm, range.maxNm) },
     grid,
     thinBelowNm: options.thinBelowNm,
@@ -58,19 +61,24 @@ export async function mapReportInput(
   };
 }
 
-function downsample(bytes: Uint8Array, width: number, height: number, step: number): { data: Uint8Array; width: number; height: number } {
-  if (step === 1) return { data: bytes, width, height };
+/**
+ * The photo and the map at 1/step scale, each picture pixel the top-left pixel of its block
+ * (as the embedded grid), computed only at the sampled pixels.
+ */
+function sampledPictures(result: MappedPhoto, range: ScaleRange, step: number): { photo: Uint8Array; map: Uint8Array; width: number; height: number } {
+  const { width, height } = result;
   const w = Math.ceil(width / step);
   const h = Math.ceil(height / step);
-  const out = new Uint8Array(w * h * 3);
-  for (let y = 0; y < h; y++) {
-    for (let x = 0; x < w; x++) {
-      const src = (y * step * width + x * step) * 3;
-      const dst = (y * w + x) * 3;
-      out[dst] = bytes[src];
-      out[dst + 1] = bytes[src + 1];
-      out[dst + 2] = bytes[src + 2];
+  const picked = new Int32Array(w * h);
+  for (let y = 0; y < h; y++) for (let x = 0; x < w; x++) picked[y * w + x] = y * step * width + x * step;
+  const photo = new Uint8Array(w * h * 3);
+  if (result.photoRgb) {
+    for (let k = 0; k < picked.length; k++) {
+      const src = picked[k] * 3;
+      photo[k * 3] = Math.round(result.photoRgb[src] * 255);
+      photo[k * 3 + 1] = Math.round(result.photoRgb[src + 1] * 255);
+      photo[k * 3 + 2] = Math.round(result.photoRgb[src + 2] * 255);
     }
   }
-  return { data: out, width: w, height: h };
+  return { photo, map: mapRaster(result, range, picked), width: w, height: h };
 }

@@ -174,14 +174,14 @@ export function resolveOrders(field: CandidateField, options: OrderOptions): Ord
       let bestTotal = Infinity;
       let bestVariant = 0;
       for (let k = 0; k < count[seed]; k++) {
-        const total = evaluateVariant(id, start, end, k, trial, trialChosen, decided, anchorsByPatch.get(id));
+        const total = evaluateVariant(id, start, end, k, trial, trialChosen, decided, anchorsByPatch.get(id), bestTotal);
         if (total < bestTotal) {
           bestTotal = total;
           bestVariant = k;
         }
       }
       if (bestVariant !== 0 || chosen[seed] !== 0) {
-        evaluateVariant(id, start, end, bestVariant, trial, trialChosen, decided, anchorsByPatch.get(id));
+        evaluateVariant(id, start, end, bestVariant, trial, trialChosen, decided, anchorsByPatch.get(id), Infinity);
         for (let o = start; o < end; o++) {
           const j = order[o];
           value[j] = trial[j];
@@ -201,6 +201,8 @@ export function resolveOrders(field: CandidateField, options: OrderOptions): Ord
     trialChosen: Uint8Array,
     decided: Uint8Array,
     anchors: Array<{ cell: number; position: number }> | undefined,
+    /** Total to beat: every term is ≥ 0, so once the running total reaches it the variant has lost. */
+    bound: number,
   ): number {
     let total = 0;
     const maxJump = options.maxJump;
@@ -225,6 +227,7 @@ export function resolveOrders(field: CandidateField, options: OrderOptions): Ord
       trial[j] = position[base + k];
       trialChosen[j] = k;
       total += cost[base + k];
+      if (total >= bound) return Infinity;
     }
     // Boundary with decided patches and with dark cells; prior; anchors.
     const dark = options.dark;
@@ -249,6 +252,7 @@ export function resolveOrders(field: CandidateField, options: OrderOptions): Ord
         const p = prior[j];
         if (p === p) total += priorWeight * Math.min(1, Math.abs(v - p) / maxJump);
       }
+      if (total >= bound) return Infinity;
     }
     for (const anchor of anchors ?? []) {
       if (Math.abs(trial[anchor.cell] - anchor.position) > maxJump * 0.5) total += 1e12;

@@ -103,7 +103,7 @@ export function percentileSelect(values: Float32Array | Float64Array, percent: n
 }
 
 /** k-th smallest (0-based); afterwards values[0..k-1] ≤ values[k] ≤ values[k+1..]. */
-function selectKth(values: Float32Array | Float64Array, k: number): number {
+export function selectKth(values: Float32Array | Float64Array, k: number): number {
   let left = 0;
   let right = values.length - 1;
   while (right > left) {

@@ -53,6 +53,11 @@ export interface MapOptions {
   readonly exposureFixed?: ExposureParameters | null;
   /** Previous frame's thickness map (same size) used as an order prior in a series. */
   readonly prior?: Float32Array | null;
+  /**
+   * Keep poor colour matches that agree with the smooth field of their well-matched neighbours
+   * (src/map/keepConsistent.ts); default true. False: the colour test alone decides.
+   */
+  readonly keepConsistent?: boolean;
 }
 
 export interface ThinRegion {
