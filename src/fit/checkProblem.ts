@@ -13,6 +13,7 @@ export interface CheckedProblem {
   scale: number[];
   maxIterations: number;
   tolerance: number;
+  restartFromInitial: boolean;
 }
 
 function finiteArray(name: string, values: ArrayLike<number>, length?: number): Float64Array {
@@ -61,5 +62,9 @@ export function checkProblem(problem: LeastSquaresProblem): CheckedProblem {
   if (!Number.isInteger(maxIterations) || maxIterations < 1) throw new RangeError(`maxIterations must be an integer >= 1, received ${maxIterations}`);
   const tolerance = problem.tolerance ?? 1e-12;
   if (!(tolerance > 0 && tolerance < 1)) throw new RangeError(`tolerance must be a number in (0, 1), received ${tolerance}`);
-  return { x, y, sqrtWeights, model: problem.model, initial, lower, upper, scale, maxIterations, tolerance };
+  if (problem.restartFromInitial !== undefined && typeof problem.restartFromInitial !== 'boolean') {
+    throw new TypeError(`restartFromInitial must be a boolean, received ${typeof problem.restartFromInitial}`);
+  }
+  const restartFromInitial = problem.restartFromInitial ?? true;
+  return { x, y, sqrtWeights, model: problem.model, initial, lower, upper, scale, maxIterations, tolerance, restartFromInitial };
 }

@@ -14,7 +14,8 @@
  *     absolute error threshold.
  *  3. Our own Marquardt-scaled loop (./polishLevenbergMarquardt.ts) finishes the descent and
  *     decides convergence. The same loop is also run from the initial point (a restart), and the
- *     lower sum of squares wins: see the comment in the code for why.
+ *     lower sum of squares wins: see the comment in the code for why (`restartFromInitial: false`
+ *     skips the restart).
  *  4. Standard errors from the Jacobian at the optimum: cov = s²·(JᵀWJ)⁻¹, s² = RSS/(n − p)
  *     (./covarianceFromJacobian.ts). Singular or ill-conditioned JᵀWJ → warning and NaN errors.
  * For vector residuals (e.g. three colour channels per pixel) pass x = observation index and let
@@ -89,10 +90,12 @@ export function fitLeastSquares(problem: LeastSquaresProblem): LeastSquaresResul
   // from NIST's first start of Rat43 and second start of MGH09 it wanders to a worse minimum.
   // The lower of the two results is kept.
   const viaLibrary = polishLevenbergMarquardt(normalised, q, maxIterations, tolerance);
-  const direct = polishLevenbergMarquardt(normalised, checked.initial.map((v, k) => v / scale[k]), maxIterations, tolerance);
-  const polished = direct.rss < viaLibrary.rss ? direct : viaLibrary;
+  const direct = checked.restartFromInitial
+    ? polishLevenbergMarquardt(normalised, checked.initial.map((v, k) => v / scale[k]), maxIterations, tolerance)
+    : null;
+  const polished = direct !== null && direct.rss < viaLibrary.rss ? direct : viaLibrary;
   q = polished.q;
-  iterations += viaLibrary.iterations + direct.iterations;
+  iterations += viaLibrary.iterations + (direct?.iterations ?? 0);
   if (!polished.converged) warnings.push(`did not converge within ${maxIterations} iterations; result is the best point found`);
 
   // Phase 4: statistics in the original parameters (no normalisation, Jacobian columns / scale).

@@ -18,6 +18,12 @@ export interface LeastSquaresProblem {
   maxIterations?: number;
   /** Relative change of the residual sum of squares that counts as converged (default 1e-12). */
   tolerance?: number;
+  /**
+   * Also polish from the initial point and keep the better result (default true): guards against
+   * the library wandering to a worse minimum from a poor start. A caller whose start is already
+   * good (e.g. from a scan) and who fits many times may turn it off to halve the work.
+   */
+  restartFromInitial?: boolean;
 }
 
 export interface LeastSquaresResult {

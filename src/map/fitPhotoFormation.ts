@@ -300,6 +300,10 @@ function innerFit(
     scale: active.map((slot) => scaleFull[slot]),
     maxIterations: 25,
     tolerance: 1e-8,
+    // The start comes from the exposure scan (first outer iteration) or the previous inner fit:
+    // no second polish from it (a third fewer model evaluations, the same parameters on the
+    // demo and benchmark photos).
+    restartFromInitial: false,
   });
   const v = expand(fit.parameters);
   const se = [NaN, 0, 0, 0, 0, 0];
