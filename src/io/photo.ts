@@ -14,7 +14,10 @@ export interface PhotoTime {
 export interface Photo {
   width: number;
   height: number;
-  /** Interleaved RGB, encoded values scaled to 0..1 (8-bit / 255, 16-bit / 65535). */
+  /**
+   * Interleaved RGB, encoded values scaled to 0..1 (8-bit / 255, 16-bit / 65535). readPhoto()
+   * allocates it in a SharedArrayBuffer (the mapper's threads read it in place).
+   */
   rgb: Float32Array;
   bitDepth: 8 | 16;
   /** Decoder that read the content: 'jpeg' | 'png' | 'tiff' | 'webp' | … (sniffed, not the suffix). */

@@ -65,7 +65,8 @@ export async function readPhoto(path: string, options: ReadPhotoOptions = {}): P
   const scale = is16 ? 1 / 65535 : 1 / 255;
   const colourChannels = channels === 2 || channels === 4 ? channels - 1 : channels;
   const hasAlpha = channels === 2 || channels === 4;
-  const rgb = new Float32Array(pixelCount * 3);
+  // In a SharedArrayBuffer, so that the mapper's pixel threads read it without a copy.
+  const rgb = new Float32Array(new SharedArrayBuffer(pixelCount * 3 * 4));
   const alpha = hasAlpha ? new Float32Array(pixelCount) : undefined;
   let allEqual = true;
   for (let i = 0, s = 0, o = 0; i < pixelCount; i++, s += channels, o += 3) {

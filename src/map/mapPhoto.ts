@@ -21,6 +21,7 @@ import { isMonochromaticLight, mapMonochromatic } from '../mono/index.js';
 import { type BuiltColourTable, buildColourTable } from './buildColourTable.js';
 import { buildFilmMask } from './filmMask.js';
 import { mapPixels } from './mapPixels.js';
+import { defaultThreads } from './pixelThreads.js';
 import { chromaWeightFor } from './matchSpace.js';
 import { renderFlagsPng, renderMapPng, scaleRangeOf } from './mapImages.js';
 import { findThinRegions } from './thinRegions.js';
@@ -115,6 +116,7 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
     prior: options.prior ?? null,
     exposureFixed: options.exposureFixed ?? null,
     keepConsistent: options.keepConsistent ?? true,
+    threads: options.threads ?? defaultThreads(),
     chromaWeight: chromaWeightFor(photo.format, photo.chromaSubsampling),
     eightBit: photo.bitDepth === 8,
   });

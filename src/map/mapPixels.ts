@@ -20,6 +20,7 @@ import { matchSpace, toMatchSpace } from './matchSpace.js';
 import { createMatchScratch, matchColour } from './matchColour.js';
 import { createAlternativeMemo, matchPixelRows, scorePixelRows } from './pixelPass.js';
 import { keepConsistentPixels } from './keepConsistent.js';
+import { matchPixelsThreaded, scorePixelsThreaded, sharedCopy, sharedFloat32, sharedUint8 } from './pixelThreads.js';
 import { resolveOrders } from './resolveOrders.js';
 import { percentileSelect } from './statistics.js';
 import { summariseMap } from './summariseMap.js';
@@ -42,6 +43,11 @@ export interface MapPixelsInput {
   readonly exposureFixed?: ExposureParameters | null;
   readonly fitWhiteBalance?: boolean;
   readonly initialWhiteBalance?: readonly [number, number, number];
+  /**
+   * Threads for the per-pixel pass (the calling thread plus helpers; default 1). Used for photos
+   * of at least MIN_THREADED_PIXELS; the map is the same whatever the count.
+   */
+  readonly threads?: number;
   /** Second look at poor colour matches (keepConsistent.ts); default true. */
   readonly keepConsistent?: boolean;
   /** The photo holds 8-bit values (k/255): lets the pixel pass remember work per exact colour. */
@@ -73,12 +79,17 @@ const MIN_FIT_SAMPLES = 64;
 const MIN_DISTINCT_COLOURS = 12;
 /** Pixels sampled (on a regular stride) for the photo-formation fit. */
 const FIT_SAMPLES = 2000;
+/** Smaller photos are mapped on one thread (starting helpers would cost more than it saves). */
+export const MIN_THREADED_PIXELS = 1_000_000;
 
 export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   const { rgb, width, height, film, table } = input;
   const pixels = width * height;
   const warnings: string[] = [];
-  const status = new Uint8Array(pixels);
+  // With helper threads, the arrays they read or write live in SharedArrayBuffers.
+  const threads = Math.max(1, Math.floor(input.threads ?? 1));
+  const threaded = threads > 1 && pixels >= MIN_THREADED_PIXELS;
+  const status = threaded ? sharedUint8(pixels) : new Uint8Array(pixels);
   let saturatedCount = 0;
   for (let i = 0; i < pixels; i++) {
     if (!film[i]) status[i] = PixelStatus.excluded;
@@ -187,10 +198,10 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
 
   lap('orders');
   // 4. Full resolution.
-  const thicknessNm = new Float32Array(pixels).fill(NaN);
-  const confidence = new Float32Array(pixels);
-  const pass = {
-    rgb,
+  const thicknessNm = (threaded ? sharedFloat32(pixels) : new Float32Array(pixels)).fill(NaN);
+  const confidence = threaded ? sharedFloat32(pixels) : new Float32Array(pixels);
+  const common = {
+    rgb: threaded ? sharedCopy(rgb) : rgb,
     width,
     height,
     status,
@@ -200,22 +211,26 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
     gridHeight,
     predictedRgb,
     count,
-    cube: space ? createCandidateCube(CUBE_LEVELS, PER_CELL) : cube,
     space,
     pixelJump: 0.3 * periodIndex,
     washoutIndex: limits.washoutIndex,
     startNm: table.startNm,
     stepNm: table.stepNm,
-    memo: input.eightBit ? createAlternativeMemo(count) : null,
   };
-  const passOut = { thicknessNm, cost: confidence, alternativeCost: new Float32Array(pixels) };
-  const dropped = matchPixelRows(pass, passOut, scratch, 0, height);
+  const pass = { ...common, cube: space ? createCandidateCube(CUBE_LEVELS, PER_CELL) : cube, memo: input.eightBit ? createAlternativeMemo(count) : null };
+  const passOut = { thicknessNm, cost: confidence, alternativeCost: threaded ? sharedFloat32(pixels) : new Float32Array(pixels) };
+  const matchRows = (y0: number, y1: number) => matchPixelRows(pass, passOut, scratch, y0, y1);
+  const dropped = threaded
+    ? matchPixelsThreaded({ ...common, cubeLevels: CUBE_LEVELS, perCell: PER_CELL, eightBit: input.eightBit === true }, passOut, threads, matchRows)
+    : matchRows(0, height);
   // The empirical scale of the colour residual: JPEG smooths the pixel-to-pixel noise the noise
   // profile sees, while its chroma errors and the model's own error remain.
   const medianCost = medianOfOk(confidence, status);
   // Allowance for model error (dispersion data, camera model) on top of the noise.
   const modelSlack = 3 * (2 / 255) ** 2;
-  const poor = scorePixelRows({ rgb, width, status, noise, medianCost, modelSlack }, passOut, 0, height);
+  const score = { rgb: common.rgb, width, status, noise, medianCost, modelSlack };
+  const scoreRows = (y0: number, y1: number) => scorePixelRows(score, passOut, y0, y1);
+  const poor = threaded ? scorePixelsThreaded(score, passOut, height, threads, scoreRows) : scoreRows(0, height);
   // Poor colour matches that agree with the smooth field of their well-matched neighbours stay.
   const keptByNeighbours =
     poor > 0 && input.keepConsistent !== false

@@ -58,6 +58,11 @@ export interface MapOptions {
    * (src/map/keepConsistent.ts); default true. False: the colour test alone decides.
    */
   readonly keepConsistent?: boolean;
+  /**
+   * Threads for the per-pixel pass of photos of 1 MP or more (the calling thread plus helper
+   * worker threads); default: the available cores, at most 4. The map is the same whatever the count.
+   */
+  readonly threads?: number;
 }
 
 export interface ThinRegion {

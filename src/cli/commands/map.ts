@@ -40,6 +40,7 @@ interface MapCliOptions extends StackCliOptions {
   report: boolean;
   failIfThin?: boolean;
   quiet?: boolean;
+  threads?: string;
 }
 
 export const OUTPUT_SUFFIXES = ['.thickness.npy', '.thickness.tif', '.confidence.npy', '.map.png', '.flags.png', '.json', '.report.html'];
@@ -66,6 +67,7 @@ export function register(program: Command): void {
     .option('--json', 'print the JSON record(s) on stdout')
     .option('--no-report', 'do not write the HTML report')
     .option('--fail-if-thin', 'exit with status 1 when any photo has a thin region')
+    .option('--threads <n>', 'threads for the per-pixel pass of photos of 1 MP or more (default: the cores, at most 4)')
     .option('--quiet', 'print nothing but errors')
     .action(async (photos: string[], opts: MapCliOptions) => {
       process.exitCode = await runMap(photos, opts);
@@ -117,6 +119,7 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
     maxThicknessNm,
     pixelSizeUm,
     exposureFixed: calibration?.exposureFixed ?? null,
+    ...(opts.threads !== undefined ? { threads: parseThreads(opts.threads) } : {}),
   };
   const known = (opts.known ?? []).map(parseKnown);
   // Build the colour table once before any photo: a film, light or angle the model cannot use
@@ -195,4 +198,10 @@ function summaryLine(photo: string, result: ReturnType<typeof mapDecodedPhoto>):
   const f = (v: number | null, d = 1): string => (v === null ? '–' : v.toFixed(d));
   const thin = s.thin_fraction === null ? '' : `, thin ${f(s.thin_fraction * 100)} %`;
   return `${photo}: median ${f(s.median_nm)} nm (p05 ${f(s.p05_nm)}, p95 ${f(s.p95_nm)}), coverage ${f(s.coverage * 100)} %${thin}, ${result.thinRegions.length} thin region(s), exposure ×${result.fitted.exposure.toFixed(2)}`;
+}
+
+function parseThreads(value: string): number {
+  const n = Number(value);
+  if (!(Number.isInteger(n) && n >= 1 && n <= 64)) throw new UsageError(`--threads must be a whole number from 1 to 64, received ${value}`);
+  return n;
 }
