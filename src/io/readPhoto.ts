@@ -69,7 +69,22 @@ export async function readPhoto(path: string, options: ReadPhotoOptions = {}): P
   const rgb = new Float32Array(new SharedArrayBuffer(pixelCount * 3 * 4));
   const alpha = hasAlpha ? new Float32Array(pixelCount) : undefined;
   let allEqual = true;
-  for (let i = 0, s = 0, o = 0; i < pixelCount; i++, s += channels, o += 3) {
+  if (!is16 && channels === 3) {
+    // The common case (8-bit RGB) in a tight loop through a table of the 256 levels.
+    const level = new Float32Array(256);
+    for (let v = 0; v < 256; v++) level[v] = v * scale;
+    let differ = 0;
+    for (let i = 0, n = pixelCount * 3; i < n; i += 3) {
+      const r = samples[i];
+      const g = samples[i + 1];
+      const b = samples[i + 2];
+      differ |= (r ^ g) | (g ^ b);
+      rgb[i] = level[r];
+      rgb[i + 1] = level[g];
+      rgb[i + 2] = level[b];
+    }
+    allEqual = differ === 0;
+  } else for (let i = 0, s = 0, o = 0; i < pixelCount; i++, s += channels, o += 3) {
     if (colourChannels === 1) {
       const v = samples[s] * scale;
       rgb[o] = v;

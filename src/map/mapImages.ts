@@ -71,7 +71,7 @@ export function mapRaster(result: MapResult, range: ScaleRange, pixels?: Int32Ar
     if (s === PixelStatus.ok) {
       let t = ((thicknessNm[i] - range.minNm) / span) * top;
       t = t < 0 ? 0 : t > top ? top : t;
-      const c = Math.round(t) * 3;
+      const c = ((t + 0.5) | 0) * 3; // t ≥ 0: the same as Math.round, cheaper
       r = scale[c];
       g = scale[c + 1];
       b = scale[c + 2];
@@ -211,7 +211,8 @@ function formatNm(value: number): string {
 /** The photo (encoded 0..1 RGB) with the outlines of labelled thin regions. */
 export async function renderFlagsPng(rgb: Float32Array, width: number, height: number, labels: Int32Array): Promise<Buffer> {
   const out = new Uint8Array(width * height * 3);
-  for (let i = 0; i < width * height * 3; i++) out[i] = Math.round(rgb[i] * 255);
+  // rgb ∈ [0, 1]: (v·255 + 0.5) | 0 is Math.round(v·255), cheaper over tens of millions of values.
+  for (let i = 0, n = width * height * 3; i < n; i++) out[i] = (rgb[i] * 255 + 0.5) | 0;
   const thickness = Math.max(1, Math.round(Math.min(width, height) / 300));
   const edge = new Uint8Array(width * height);
   for (let y = 0; y < height; y++) {
