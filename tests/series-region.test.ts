@@ -54,6 +54,18 @@ describe('lamella series --region', () => {
     expect(run.stderr).toMatch(/--anchor 330,10 lies outside the 320×240 frames/);
   });
 
+  it('film-area options are parsed as by lamella map (one parser): bad values are one usage error naming the option', () => {
+    for (const [option, value, message] of [
+      ['--thin-below', '-5', '--thin-below must be a number of nm >= 0, received -5'],
+      ['--pixel-size', '0', '--pixel-size must be a number of micrometres > 0, received 0'],
+      ['--max-thickness', '30000', '--max-thickness must be a number of nm in (0, 20000], received 30000'],
+    ]) {
+      const run = series(`bad${option}`, option, value);
+      expect(run.status).toBe(2);
+      expect(run.stderr.trim()).toBe(`lamella: ${message}`);
+    }
+  });
+
   it('a mask of another size is one line naming it before any frame is mapped (exit 3)', async () => {
     // Kept outside the frames' folder, which the series reads whole.
     const mask = join(dir, 'smallmask-input.png.d', 'small-mask.png');

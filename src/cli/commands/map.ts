@@ -3,11 +3,12 @@
  * and its outputs written atomically; a bad photo is reported and the others go on (exit 3 at
  * the end). `--fail-if-thin` turns a thin region into exit status 1.
  */
-import { Option, type Command } from 'commander';
+import type { Command } from 'commander';
 import { basename, extname, join } from 'node:path';
 import { EXIT_FINDING, EXIT_INPUT, oneLine } from '../errors.js';
-import { addStackOptions, parseNumberOption, stackFromOptions, type StackCliOptions } from '../stackOptions.js';
-import { collect, parseAnchor, parseKnown, parseRegion } from '../parseGeometry.js';
+import { addStackOptions, stackFromOptions, type StackCliOptions } from '../stackOptions.js';
+import { addFilmAreaOptions, filmAreaFromOptions, type FilmAreaCliOptions } from '../filmAreaOptions.js';
+import { collect, parseKnown } from '../parseGeometry.js';
 import { UsageError } from '../errors.js';
 import { ensureOutputDir, assertNoInputOverwritten } from '../../io/ensureOutputDir.js';
 import { atomicWriteFile } from '../../io/atomicWriteFile.js';
@@ -23,15 +24,9 @@ import type { MapOptions } from '../../map/types.js';
 import { loadCalibrationForRun } from '../../calibrate/calibrationFile.js';
 import { mapIndexPage } from '../../map/mapIndexPage.js';
 
-interface MapCliOptions extends StackCliOptions {
+interface MapCliOptions extends StackCliOptions, FilmAreaCliOptions {
   light: string;
   whiteBalance?: string;
-  thinBelow?: string;
-  region?: string;
-  mask?: string;
-  anchor?: string[];
-  maxThickness: string;
-  pixelSize?: string;
   calibration?: string;
   known?: string[];
   ignoreCalibrationMismatch?: boolean;
@@ -53,13 +48,8 @@ export function register(program: Command): void {
   addStackOptions(command);
   command
     .option('--light <light>', 'light: D65, D50, A, F2, F7, F11, LED-B1…, blackbody:<K>, line:<nm>, or an SPD CSV file', 'D65')
-    .option('--white-balance <light>', 'the light the camera was white-balanced for, if not the light itself')
-    .option('--thin-below <nm>', 'thin (rupture-risk) threshold in nm (default 50 for soap-film, none otherwise)')
-    .addOption(new Option('--region <x,y,w,h>', 'measure only this rectangle (pixels)').conflicts('mask'))
-    .option('--mask <file>', 'measure only where this mask image is non-zero')
-    .option('--anchor <x,y=nm>', 'a pixel of known thickness (repeatable)', collect)
-    .option('--max-thickness <nm>', 'largest thickness considered', '2000')
-    .option('--pixel-size <um>', 'size of one pixel on the sample, micrometres (for areas and a scale bar)')
+    .option('--white-balance <light>', 'the light the camera was white-balanced for, if not the light itself');
+  addFilmAreaOptions(command, 'photo')
     .option('--calibration <file>', 'photo-formation parameters from `lamella calibrate` instead of fitting them')
     .option('--ignore-calibration-mismatch', 'use a calibration made for another stack or light')
     .option('--known <x,y,w,h=nm>', 'calibrate on each photo itself from a rectangle of known thickness (repeatable)', collect)
@@ -83,17 +73,7 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
   lightFromOption(opts.light, '--light');
   lineOfLight(opts.light);
   if (opts.whiteBalance) lightFromOption(opts.whiteBalance, '--white-balance');
-  const maxThicknessNm = parseNumberOption(opts.maxThickness, '--max-thickness', 'a number of nm > 0');
-  if (maxThicknessNm <= 0 || maxThicknessNm > 20000) throw new UsageError(`--max-thickness must be a number of nm in (0, 20000], received ${opts.maxThickness}`);
-  const thinBelowNm =
-    opts.thinBelow !== undefined
-      ? parseNumberOption(opts.thinBelow, '--thin-below', 'a number of nm >= 0')
-      : opts.stack === 'soap-film'
-        ? 50
-        : null;
-  if (thinBelowNm !== null && thinBelowNm < 0) throw new UsageError(`--thin-below must be a number of nm >= 0, received ${opts.thinBelow}`);
-  const pixelSizeUm = opts.pixelSize !== undefined ? parseNumberOption(opts.pixelSize, '--pixel-size', 'a number of micrometres > 0') : null;
-  if (pixelSizeUm !== null && pixelSizeUm <= 0) throw new UsageError(`--pixel-size must be a number of micrometres > 0, received ${opts.pixelSize}`);
+  const { thinBelowNm, maxThicknessNm, region, maskPath, anchors, pixelSizeUm } = filmAreaFromOptions(opts);
   if ((opts.known ?? []).length > 0 && opts.calibration) {
     throw new UsageError('give either --known (calibrate on the photo) or --calibration (a calibration file), not both');
   }
@@ -113,9 +93,9 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
     whiteBalanceLight: opts.whiteBalance ?? null,
     filmIndexScale: calibration?.filmIndexScale ?? undefined,
     thinBelowNm,
-    region: opts.region ? parseRegion(opts.region) : null,
-    maskPath: opts.mask ?? null,
-    anchors: (opts.anchor ?? []).map(parseAnchor),
+    region,
+    maskPath,
+    anchors,
     maxThicknessNm,
     pixelSizeUm,
     exposureFixed: calibration?.exposureFixed ?? null,

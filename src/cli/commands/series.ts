@@ -6,9 +6,9 @@
 import { availableParallelism } from 'node:os';
 import { Option, type Command } from 'commander';
 import { resolve } from 'node:path';
-import { collect, parseAnchor, parseRegion } from '../parseGeometry.js';
 import { InputError, UsageError, EXIT_INPUT } from '../errors.js';
 import { addStackOptions, parseNumberOption, stackFromOptions, type StackCliOptions } from '../stackOptions.js';
+import { addFilmAreaOptions, filmAreaFromOptions, type FilmAreaCliOptions } from '../filmAreaOptions.js';
 import { parseShard } from '../../series/parseShard.js';
 import { runSeries, DEFAULT_CHUNK_FRAMES, type SeriesOptions } from '../../series/runSeries.js';
 import { loadCalibrationForRun } from '../../calibrate/calibrationFile.js';
@@ -20,19 +20,13 @@ import { lightFromOption } from './chart.js';
 import { checkRegion } from '../../map/filmMask.js';
 import { readMask } from '../../map/mapPhoto.js';
 
-interface SeriesCliOptions extends StackCliOptions {
+interface SeriesCliOptions extends StackCliOptions, FilmAreaCliOptions {
   light: string;
   whiteBalance?: string;
   ignoreCalibrationMismatch?: boolean;
   fps?: string;
   interval?: string;
   calibration?: string;
-  thinBelow?: string;
-  maxThickness: string;
-  region?: string;
-  mask?: string;
-  anchor?: string[];
-  pixelSize?: string;
   workers: string;
   shard?: string;
   chunkFrames: string;
@@ -69,10 +63,9 @@ async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions, warn:
   const fps = positive(opts.fps, '--fps');
   const intervalS = positive(opts.interval, '--interval');
   if (fps !== null && intervalS !== null) throw new UsageError('give --fps or --interval, not both');
-  // Same defaults and limits as `lamella map`: 50 nm thin threshold for soap films, none otherwise.
-  const thinBelowNm = opts.thinBelow !== undefined ? positive(opts.thinBelow, '--thin-below') : opts.stack === 'soap-film' ? 50 : null;
-  const maxThicknessNm = positive(opts.maxThickness, '--max-thickness')!;
-  if (maxThicknessNm > 20000) throw new UsageError(`--max-thickness must be a number of nm in (0, 20000], received ${opts.maxThickness}`);
+  // The same film-area options, defaults and limits as `lamella map`.
+  const area = filmAreaFromOptions(opts);
+  const { thinBelowNm, maxThicknessNm, region, anchors, pixelSizeUm } = area;
   let shard = null;
   if (opts.shard !== undefined) {
     try {
@@ -90,15 +83,12 @@ async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions, warn:
     : await loadCalibrationForRun(opts.calibration, { stack: opts.stack ?? '', light: opts.light, angleRad, whiteBalanceLight: opts.whiteBalance ?? null, ignoreMismatch: opts.ignoreCalibrationMismatch === true });
   const stackOptions: StackCliOptions = { stack: opts.stack, filmIndex: opts.filmIndex, angle: opts.angle, extrapolate: opts.extrapolate };
   const whiteBalanceLight = opts.whiteBalance ?? null;
-  const region = opts.region ? parseRegion(opts.region) : null;
-  const maskPath = opts.mask ? resolve(opts.mask) : null;
+  const maskPath = area.maskPath ? resolve(area.maskPath) : null;
   if (maskPath) {
     const { stat } = await import('node:fs/promises');
     const info = await stat(maskPath).catch(() => null);
     if (!info || !info.isFile()) throw new InputError(opts.mask ?? '', '--mask: no such image file');
   }
-  const anchors = (opts.anchor ?? []).map(parseAnchor);
-  const pixelSizeUm = positive(opts.pixelSize, '--pixel-size');
   const config: MapFrameConfig = {
     stackOptions, light: opts.light, whiteBalanceLight, thinBelowNm, maxThicknessNm,
     filmIndexScale: calibration?.filmIndexScale ?? null, exposureFixed: calibration?.exposureFixed ?? null,
@@ -193,13 +183,8 @@ export function register(program: Command): void {
     .option('--interval <s>', 'seconds between frames, for frames without an EXIF capture time')
     .option('--white-balance <light>', 'the light the camera was white-balanced for, if not the light itself')
     .option('--calibration <file>', 'photo-formation parameters from `lamella calibrate` instead of fitting them on every frame')
-    .option('--ignore-calibration-mismatch', 'use a calibration made for another stack or light')
-    .option('--thin-below <nm>', 'thin threshold in nm for thin fraction, thin regions and predicted crossing times (default 50 for soap-film, none otherwise)')
-    .option('--max-thickness <nm>', 'largest thickness considered, nm', '2000')
-    .addOption(new Option('--region <x,y,w,h>', 'measure only this rectangle of every frame (pixels)').conflicts('mask'))
-    .option('--mask <file>', 'measure only where this mask image is non-zero (same size as the frames)')
-    .option('--anchor <x,y=nm>', 'a pixel of known thickness in every frame (repeatable)', collect)
-    .option('--pixel-size <um>', 'size of one pixel on the sample, micrometres (areas of thin regions)')
+    .option('--ignore-calibration-mismatch', 'use a calibration made for another stack or light');
+  addFilmAreaOptions(command, 'frames')
     .option('--workers <n>', 'worker threads', String(availableParallelism()))
     .option('--shard <K/N>', 'map only the K-th of N contiguous parts of the series (1-based), then aggregate what OUT holds')
     .option('--chunk-frames <n>', 'frames per chunk: each chunk starts without a prior map; keep equal across shards', String(DEFAULT_CHUNK_FRAMES))

@@ -1,0 +1,62 @@
+/**
+ * The options that say what part of a photo is film and how to read it, shared by `lamella map`
+ * and `lamella series` (one declaration, one parser, the same defaults and messages):
+ * `--thin-below`, `--max-thickness`, `--region` | `--mask`, `--anchor` (repeatable), `--pixel-size`.
+ */
+import { Option, type Command } from 'commander';
+import type { Anchor } from '../map/types.js';
+import { UsageError } from './errors.js';
+import { collect, parseAnchor, parseRegion } from './parseGeometry.js';
+import { parseNumberOption } from './stackOptions.js';
+
+export interface FilmAreaCliOptions {
+  readonly stack?: string;
+  thinBelow?: string;
+  maxThickness: string;
+  region?: string;
+  mask?: string;
+  anchor?: string[];
+  pixelSize?: string;
+}
+
+export interface FilmArea {
+  /** Default 50 nm for `soap-film` (films below a few tens of nm look black; common practice), else none. */
+  readonly thinBelowNm: number | null;
+  readonly maxThicknessNm: number;
+  readonly region: [number, number, number, number] | null;
+  /** As given (not yet checked or resolved). */
+  readonly maskPath: string | null;
+  readonly anchors: Anchor[];
+  readonly pixelSizeUm: number | null;
+}
+
+/** Declares the options; `scope` words the help for one photo or every frame of a series. */
+export function addFilmAreaOptions(command: Command, scope: 'photo' | 'frames'): Command {
+  const each = scope === 'frames' ? ' of every frame' : '';
+  return command
+    .option('--thin-below <nm>', `thin (rupture-risk) threshold in nm for thin regions and the thin fraction${scope === 'frames' ? ' and predicted crossing times' : ''} (default 50 for soap-film, none otherwise)`)
+    .option('--max-thickness <nm>', 'largest thickness considered, nm', '2000')
+    .addOption(new Option('--region <x,y,w,h>', `measure only this rectangle${each} (pixels)`).conflicts('mask'))
+    .option('--mask <file>', `measure only where this mask image is non-zero${scope === 'frames' ? ' (same size as the frames)' : ''}`)
+    .option('--anchor <x,y=nm>', `a pixel of known thickness${scope === 'frames' ? ' in every frame' : ''} (repeatable)`, collect)
+    .option('--pixel-size <um>', 'size of one pixel on the sample, micrometres (areas of thin regions, scale bar)');
+}
+
+/** Parses the options; bad values are usage errors naming the option. */
+export function filmAreaFromOptions(opts: FilmAreaCliOptions): FilmArea {
+  const maxThicknessNm = parseNumberOption(opts.maxThickness, '--max-thickness', 'a number of nm > 0');
+  if (!(maxThicknessNm > 0 && maxThicknessNm <= 20000)) throw new UsageError(`--max-thickness must be a number of nm in (0, 20000], received ${opts.maxThickness}`);
+  const thinBelowNm =
+    opts.thinBelow !== undefined ? parseNumberOption(opts.thinBelow, '--thin-below', 'a number of nm >= 0') : opts.stack === 'soap-film' ? 50 : null;
+  if (thinBelowNm !== null && thinBelowNm < 0) throw new UsageError(`--thin-below must be a number of nm >= 0, received ${opts.thinBelow}`);
+  const pixelSizeUm = opts.pixelSize !== undefined ? parseNumberOption(opts.pixelSize, '--pixel-size', 'a number of micrometres > 0') : null;
+  if (pixelSizeUm !== null && !(pixelSizeUm > 0)) throw new UsageError(`--pixel-size must be a number of micrometres > 0, received ${opts.pixelSize}`);
+  return {
+    thinBelowNm,
+    maxThicknessNm,
+    region: opts.region ? parseRegion(opts.region) : null,
+    maskPath: opts.mask ?? null,
+    anchors: (opts.anchor ?? []).map(parseAnchor),
+    pixelSizeUm,
+  };
+}
