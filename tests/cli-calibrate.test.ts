@@ -81,10 +81,19 @@ describe('lamella calibrate + map --calibration: F2 light, camera white balance 
   it('calibrate with one known region prints the warnings (flare and white balance held) on stderr and still writes the file', () => {
     const run = lamella(dir, 'calibrate', 'step.jpg', ...STACK, '--light', 'F2', '--known', '120,120,60,60=370', '--out', 'cal-one.json');
     expect(run.status, run.stderr).toBe(0);
-    expect(run.stderr).toBe(
-      'lamella: warning: 1 known region(s) give 3 colour values: too few to fit the flare as well; held at its default\n' +
-        'lamella: warning: 1 known region(s) give 3 colour values: too few to fit the white balance as well; held at its default\n',
-    );
+    const lines = run.stderr.trim().split('\n');
+    expect(lines.slice(0, 2)).toEqual([
+      'lamella: warning: 1 known region(s) give 3 colour values: too few to fit the flare as well; held at its default',
+      'lamella: warning: 1 known region(s) give 3 colour values: too few to fit the white balance as well; held at its default',
+    ]);
+    // With flare and white balance held at their defaults while the shot had both, exposure alone
+    // cannot reproduce the patch: the misfit is named (ΔE2000 above 2; ≈ 1 is just noticeable,
+    // common practice) and equals the residual recorded in the file.
+    const residual = readJson<CalibrationJson & { known_regions: Array<{ residual_delta_e2000: number }> }>(join(dir, 'cal-one.json')).known_regions[0].residual_delta_e2000;
+    expect(residual).toBeGreaterThan(2);
+    expect(lines.slice(2)).toEqual([
+      `lamella: warning: known region 120,120,60,60 = 370 nm: the fitted colour misses the photo by ΔE2000 ${residual.toFixed(1)} (above 2); check the thickness given, that the region is one flat film, and the light`,
+    ]);
     expect(readJson<CalibrationJson>(join(dir, 'cal-one.json')).fitted_parameters).toEqual(['exposure']);
   });
 

@@ -55,6 +55,14 @@ export function calibrateDecoded(
     clipped_fraction: round4(r.clippedFraction),
   }));
   const { parameters } = result;
+  // A known region the fit cannot reproduce is the first thing to check: ΔE2000 ≈ 1 is a
+  // just-noticeable difference (common practice); twice that is worth a warning.
+  const misfits = known
+    .filter((k) => k.residual_delta_e2000 > MISFIT_DELTA_E)
+    .map(
+      (k) =>
+        `known region ${k.region_px.join(',')} = ${k.thickness_nm} nm: the fitted colour misses the photo by ΔE2000 ${k.residual_delta_e2000.toFixed(1)} (above ${MISFIT_DELTA_E}); check the thickness given, that the region is one flat film, and the light`,
+    );
   return {
     lamella_calibration: CALIBRATION_VERSION,
     created: new Date().toISOString(),
@@ -79,11 +87,13 @@ export function calibrateDecoded(
     uncertainty: result.uncertainties,
     residual_rms_encoded: result.rmsResidual,
     known_regions: known,
-    warnings: result.warnings,
+    warnings: [...result.warnings, ...misfits],
     caution:
       'Calibrated photo thickness is still an estimate: not a substitute for qualified metrology for release or safety decisions.',
   };
 }
+
+const MISFIT_DELTA_E = 2;
 
 const WHITE = SRGB_WHITE_XYZ.map((v) => v * 100);
 
