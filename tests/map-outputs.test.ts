@@ -16,6 +16,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { mapResultJson } from '../src/map/mapResultJson.js';
 import { mapPhotoFile, type MappedPhoto } from '../src/map/mapPhoto.js';
 import { resolveStack } from '../src/optics/index.js';
 import { sampleField, shoot, writePhoto } from './map-scenes.js';
@@ -146,6 +147,9 @@ describe('lamella map outputs, read back', () => {
     expect(record.settings.thin_below_nm).toBe(50);
     for (const key of ['exposure', 'white_balance', 'flare', 'source']) expect(record.fitted).toHaveProperty(key);
     expect(typeof record.limits.dark_limit_nm).toBe('number');
+    // A free film looks black when very thin, so it has a dark limit (common practice: black film).
+    expect(record.limits.dark_limit_nm).toBeGreaterThan(0);
+    expect(record.limits.dark_meaning).toBe(`pixels marked too dark are "thinner than ${record.limits.dark_limit_nm} nm or no film"`);
     expect(typeof record.caution).toBe('string');
 
     const npy = readNpyFloat32(readFileSync(join(out, 'wedge.thickness.npy'))).data;
@@ -181,5 +185,16 @@ describe('lamella map outputs, read back', () => {
     expect(html.trimStart().toLowerCase().startsWith('<!doctype html')).toBe(true);
     expect(html).toContain('wedge.jpg');
     expect(html.trimEnd().toLowerCase().endsWith('</html>')).toBe(true);
+  });
+});
+
+describe('the dark limit of a film that never looks dark (oxide on silicon)', () => {
+  it('is 0 nm, and the JSON says what a too-dark pixel then means', () => {
+    const result = { ...inProcess, darkLimitNm: 0 };
+    const record = mapResultJson(result, { stack: resolveStack('oxide-on-silicon'), angleRad: 0, light: 'D65', thinBelowNm: null, maxThicknessNm: 2000 }, 'wafer.jpg') as {
+      limits: { dark_limit_nm: number; dark_meaning: string };
+    };
+    expect(record.limits.dark_limit_nm).toBe(0);
+    expect(record.limits.dark_meaning).toBe('pixels marked too dark are darker than any thickness of this film can look (a shadow, dirt, or no film); they get no thickness');
   });
 });

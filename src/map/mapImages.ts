@@ -161,7 +161,7 @@ function colourBarSvg(
 <text x="${left}" y="${top - unit * 0.4}">nm</text>
 ${ticks.join('\n')}
 <rect x="${left}" y="${legendY - unit * 0.7}" width="${unit * 0.8}" height="${unit * 0.8}" fill="#000"/>
-<text x="${left + unit}" y="${legendY}" font-size="${unit * 0.6}">&lt; ${formatNm(darkLimitNm)} nm or no film</text>
+<text x="${left + unit}" y="${legendY}" font-size="${unit * 0.6}">${darkLimitNm > 0 ? `&lt; ${formatNm(darkLimitNm)} nm or no film` : 'darker than any film'}</text>
 <rect x="${left}" y="${legendY + unit * 0.4}" width="${unit * 0.8}" height="${unit * 0.8}" fill="rgb(128,128,128)"/>
 <text x="${left + unit}" y="${legendY + unit * 1.1}" font-size="${unit * 0.6}">no estimate</text>
 </svg>`;

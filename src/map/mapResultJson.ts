@@ -64,7 +64,12 @@ export function mapResultJson(
     },
     limits: {
       dark_limit_nm: result.darkLimitNm,
-      dark_meaning: `pixels marked too dark are "thinner than ${round(result.darkLimitNm)} nm or no film"`,
+      // A film whose reflectance vanishes as it thins (a free film) looks black when very thin;
+      // one that never looks dark (oxide on silicon) has no dark limit (0 nm).
+      dark_meaning:
+        result.darkLimitNm > 0
+          ? `pixels marked too dark are "thinner than ${round(result.darkLimitNm)} nm or no film"`
+          : 'pixels marked too dark are darker than any thickness of this film can look (a shadow, dirt, or no film); they get no thickness',
     },
     statistics: result.stats,
     histogram: { edges_nm: result.histogram.edgesNm, counts: result.histogram.counts },
