@@ -9,8 +9,8 @@
  * candidate when it continues the field, else it gets no estimate. Its colour cost (in the
  * matching space) and the cost of the best other order are kept for scoring.
  *
- * scorePixelRows(): turns cost and margin into a confidence, or drops poor matches, once the
- * photo's median cost is known.
+ * scorePixelRows(): turns cost and margin into a confidence once the photo's median cost is
+ * known, and marks poor matches (keepConsistent.ts then keeps or drops them).
  *
  * Both work on a band of rows [y0, y1) so that bands can be processed independently; neither
  * allocates per pixel. For 8-bit photos the other-order search (two downhill walks from the

@@ -19,7 +19,6 @@ function finish(state: number): void {
   Atomics.notify(control, CONTROL.state);
 }
 
-
 parentPort?.on('message', (task: BandTask) => {
   try {
     if (task.kind === 'match') {
