@@ -51,17 +51,28 @@ function uniformResult(value: number, width = W, height = H): MapResult {
   };
 }
 
-/** Test double: thickness = number written in the file; records the prior it was given. */
-function double(calls: Call[], options: { failOn?: string; delayMs?: number } = {}): FrameProcessor {
+/** The test double's fitted exposure for a frame of thickness `value`: many digits, to test exactness. */
+function exposureOf(value: number): number {
+  return 6 + value / 7919;
+}
+
+/**
+ * Test double: thickness = number written in the file; records the prior it was given (and, in
+ * `fitStarts` when given, the exposure of the fit it was told to start from).
+ */
+function double(calls: Call[], options: { failOn?: string; delayMs?: number; fitStarts?: Array<number | null> } = {}): FrameProcessor {
   return {
-    async map(path, prior) {
+    async map(path, prior, previousFit) {
       const frame = basename(path);
       calls.push({ frame, prior: prior === null ? null : prior[0] });
+      options.fitStarts?.push(previousFit ? previousFit.exposure : null);
       if (options.delayMs) await new Promise((r) => setTimeout(r, options.delayMs));
       if (frame === options.failOn) throw new Error('cannot decode JPEG data');
       const text = await readFile(path, 'utf8');
       const [value, w, h] = text.split(' ').map(Number);
-      return uniformResult(value, w || W, h || H);
+      const result = uniformResult(value, w || W, h || H);
+      // Only the fit-start tests give frames distinct exposures (the others check exact CSV rows).
+      return options.fitStarts ? { ...result, fitted: { ...result.fitted, exposure: exposureOf(value) } } : result;
     },
   };
 }
@@ -129,6 +140,24 @@ describe('runSeries() with a test-double mapper', () => {
     const priors = calls.map((c) => c.prior);
     // chunks of 4: f1–f4, f5–f8, f9–f10
     expect(priors).toEqual([null, 980, 960, 940, null, 900, 880, 860, null, 820]);
+  });
+
+  it("starts each frame's photo-formation fit from the previous frame's fit within a chunk, from scratch at chunk starts", async () => {
+    await makeFrames(10);
+    const fitStarts: Array<number | null> = [];
+    await runSeries(options(double([], { fitStarts })));
+    const e = (value: number) => exposureOf(value);
+    // Frame fN holds 1000 − 20·N nm; chunks of 4: f1–f4, f5–f8, f9–f10.
+    expect(fitStarts).toEqual([null, e(980), e(960), e(940), null, e(900), e(880), e(860), null, e(820)]);
+  });
+
+  it('a redone frame starts from the fit stored with its predecessor, exactly (JSON keeps every double)', async () => {
+    await makeFrames(6);
+    await runSeries(options(double([], { fitStarts: [] })));
+    await unlink(join(outDir, 'frames', 'f3.json'));
+    const fitStarts: Array<number | null> = [];
+    await runSeries(options(double([], { fitStarts })));
+    expect(fitStarts).toEqual([exposureOf(960)]);
   });
 
   it('skips frames done with the same settings on a rerun, and the CSV is unchanged', async () => {

@@ -47,6 +47,11 @@ export interface PhotoFormationOptions {
   readonly space?: MatchSpace | null;
   /** The same samples in encoded RGB (for the flare start); default `samples`. */
   readonly samplesRgb?: Float32Array;
+  /**
+   * Where to start instead of the flare estimate and the exposure scan: e.g. the previous frame's
+   * parameters in a series, where the light and camera rarely change between frames.
+   */
+  readonly start?: ExposureParameters | null;
 }
 
 /** Predicted table in the matching space. */
@@ -68,10 +73,15 @@ export function fitPhotoFormation(options: PhotoFormationOptions): PhotoFormatio
   const { table, samples, noiseSigma } = options;
   const sampleCount = samples.length / 3;
   const warnings: string[] = [];
-  const initialFlare = estimateFlare(options.samplesRgb ?? samples, table.encoding);
-  const initialWb = options.initialWhiteBalance ?? [1, 1, 1];
-  const exposure0 = scanExposure(table, samples, initialWb, initialFlare, options.space);
-  let current: ExposureParameters = { exposure: exposure0, whiteBalance: [...initialWb], flare: initialFlare };
+  let current: ExposureParameters;
+  if (options.start) {
+    current = { exposure: options.start.exposure, whiteBalance: [...options.start.whiteBalance], flare: [...options.start.flare] };
+  } else {
+    const initialFlare = estimateFlare(options.samplesRgb ?? samples, table.encoding);
+    const initialWb = options.initialWhiteBalance ?? [1, 1, 1];
+    const exposure0 = scanExposure(table, samples, initialWb, initialFlare, options.space);
+    current = { exposure: exposure0, whiteBalance: [...initialWb], flare: initialFlare };
+  }
   const assigned = new Int32Array(sampleCount);
   const keep = new Uint8Array(sampleCount).fill(1);
   const predicted = new Float32Array(table.count * 3);

@@ -115,6 +115,7 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
     anchors: options.anchors,
     prior: options.prior ?? null,
     exposureFixed: options.exposureFixed ?? null,
+    fitStart: options.fitStart ?? null,
     keepConsistent: options.keepConsistent ?? true,
     threads: options.threads ?? defaultThreads(),
     chromaWeight: chromaWeightFor(photo.format, photo.chromaSubsampling),

@@ -48,6 +48,8 @@ export interface MapPixelsInput {
    * of at least MIN_THREADED_PIXELS; the map is the same whatever the count.
    */
   readonly threads?: number;
+  /** Start of the photo-formation fit instead of its scan (a series: the previous frame's fit). */
+  readonly fitStart?: ExposureParameters | null;
   /** Second look at poor colour matches (keepConsistent.ts); default true. */
   readonly keepConsistent?: boolean;
   /** The photo holds 8-bit values (k/255): lets the pixel pass remember work per exact colour. */
@@ -138,6 +140,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
       space,
       samplesRgb,
       fixedIndex,
+      start: input.fitStart ?? null,
     });
     const distinct = distinctColourCount(samplesRgb);
     if (distinct < MIN_DISTINCT_COLOURS) {

@@ -54,6 +54,11 @@ export interface MapOptions {
   /** Previous frame's thickness map (same size) used as an order prior in a series. */
   readonly prior?: Float32Array | null;
   /**
+   * Previous frame's fitted photo formation, where a series starts this frame's fit (instead of
+   * the exposure scan); ignored with `exposureFixed`.
+   */
+  readonly fitStart?: ExposureParameters | null;
+  /**
    * Keep poor colour matches that agree with the smooth field of their well-matched neighbours
    * (src/map/keepConsistent.ts); default true. False: the colour test alone decides.
    */

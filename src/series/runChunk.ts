@@ -1,14 +1,17 @@
 /**
  * Maps one chunk of consecutive frames in order, each with the previous frame's map as its order
- * prior (the chunk's first frame without). Frames already done with the same settings are skipped
- * and their stored map is read back as the next frame's prior, so a resumed run maps every frame
- * exactly as an uninterrupted one. A failing frame is reported and the next frame starts afresh.
+ * prior and the previous frame's fitted photo formation as the start of its fit (the chunk's
+ * first frame without either). Frames already done with the same settings are skipped and their
+ * stored map and fit (exact: JSON keeps every double) are read back for the next frame, so a
+ * resumed run maps every frame exactly as an uninterrupted one. A failing frame is reported and
+ * the next frame starts afresh.
  */
 import { readFile } from 'node:fs/promises';
 import { decodeNpy } from '../io/decodeNpy.js';
-import { frameNpyPath, isFrameDone } from './frameFiles.js';
+import { frameNpyPath, isFrameDone, readFrameRecord } from './frameFiles.js';
 import { frameRecordOf, writeFrameOutputs } from './writeFrameOutputs.js';
 import type { FrameEvent, FrameJob, FrameProcessor } from './types.js';
+import type { MapResult } from '../map/types.js';
 
 export interface ChunkContext {
   readonly outDir: string;
@@ -39,25 +42,29 @@ function messageOf(error: unknown): string {
 export async function runChunk(chunk: readonly FrameJob[], processor: FrameProcessor, context: ChunkContext): Promise<void> {
   const { outDir, settingsHash, previews, expectedSize, onFrame } = context;
   const writePreviews = previews && processor.writePreviews ? processor.writePreviews.bind(processor) : null;
-  let previous: { frame: FrameJob; map: Float32Array | null; stored: boolean } | null = null;
+  let previous: { frame: FrameJob; map: Float32Array | null; fitted: MapResult['fitted'] | null; stored: boolean } | null = null;
   for (const frame of chunk) {
     if (context.isAborted?.()) return;
     if (await isFrameDone(outDir, frame.stem, settingsHash, previews)) {
-      previous = { frame, map: null, stored: true };
+      previous = { frame, map: null, fitted: null, stored: true };
       onFrame({ index: frame.index, name: frame.name, outcome: 'skipped' });
       continue;
     }
     try {
       let prior: Float32Array | null = null;
-      if (previous !== null) prior = previous.stored ? await storedMap(outDir, previous.frame, expectedSize) : previous.map;
+      let previousFit: MapResult['fitted'] | null = null;
+      if (previous !== null) {
+        prior = previous.stored ? await storedMap(outDir, previous.frame, expectedSize) : previous.map;
+        previousFit = previous.stored ? ((await readFrameRecord(outDir, previous.frame.stem))?.fitted ?? null) : previous.fitted;
+      }
       const priorFrame = prior === null ? null : previous!.frame.name;
-      const result = await processor.map(frame.path, prior);
+      const result = await processor.map(frame.path, prior, prior === null ? null : previousFit);
       if (expectedSize && (result.width !== expectedSize.width || result.height !== expectedSize.height)) {
         throw new RangeError(`size ${result.width}x${result.height} differs from the series' ${expectedSize.width}x${expectedSize.height}; skipped`);
       }
       const record = frameRecordOf(frame, result, settingsHash, priorFrame);
       await writeFrameOutputs(outDir, frame, result, record, writePreviews);
-      previous = { frame, map: result.thicknessNm, stored: false };
+      previous = { frame, map: result.thicknessNm, fitted: result.fitted, stored: false };
       onFrame({ index: frame.index, name: frame.name, outcome: 'mapped' });
     } catch (error) {
       previous = null;
