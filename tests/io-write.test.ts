@@ -130,6 +130,30 @@ describe('composeImagePng() places a raster on a canvas and draws SVG overlays o
     expect(at(7, 2)).toEqual([255, 255, 255]);
     expect(at(4, 5)).toEqual([0, 0, 255]);
   });
+  it('a small overlay at an offset is drawn there only, and a half-transparent fill blends (source over)', async () => {
+    const image = { data: new Uint8Array(10 * 6 * 3).fill(200), width: 10, height: 6, channels: 3 as const };
+    // 3 × 2 opaque red at (6, 3) and a 2 × 1 black at 50 % opacity at (0, 0) (SVG fill-opacity).
+    const red = { svg: '<svg xmlns="http://www.w3.org/2000/svg" width="3" height="2"><rect width="3" height="2" fill="#ff0000"/></svg>', left: 6, top: 3 };
+    const grey = { svg: '<svg xmlns="http://www.w3.org/2000/svg" width="2" height="1"><rect width="2" height="1" fill="#000000" fill-opacity="0.5"/></svg>', left: 0, top: 0 };
+    const png = await composeImagePng({ canvasWidth: 10, canvasHeight: 6, background: '#fff', image, imageLeft: 0, imageTop: 0, overlays: [red, grey] });
+    const { data } = await sharp(png).removeAlpha().raw().toBuffer({ resolveWithObject: true });
+    const at = (x: number, y: number) => Array.from(data.subarray((y * 10 + x) * 3, (y * 10 + x) * 3 + 3));
+    expect(at(6, 3)).toEqual([255, 0, 0]);
+    expect(at(8, 4)).toEqual([255, 0, 0]);
+    expect(at(5, 3)).toEqual([200, 200, 200]);
+    expect(at(9, 5)).toEqual([200, 200, 200]);
+    // 200 × (1 − α) with α = 0.5 (±1 for the rasteriser's 8-bit alpha): 100.
+    for (const v of at(0, 0)) expect(Math.abs(v - 100)).toBeLessThanOrEqual(1);
+    expect(at(2, 0)).toEqual([200, 200, 200]);
+  });
+
+  it('refuses a background that is not #rgb or #rrggbb', async () => {
+    const image = { data: new Uint8Array(3), width: 1, height: 1, channels: 3 as const };
+    await expect(composeImagePng({ canvasWidth: 2, canvasHeight: 2, background: 'white', image, imageLeft: 0, imageTop: 0, overlays: [] })).rejects.toThrow(
+      /background must be a colour '#rrggbb' or '#rgb', received "white"/,
+    );
+  });
+
   it('refuses 16-bit data', async () => {
     const image = { data: new Uint16Array(3), width: 1, height: 1, channels: 3 as const };
     await expect(composeImagePng({ canvasWidth: 2, canvasHeight: 2, background: '#000', image, imageLeft: 0, imageTop: 0, overlays: [] })).rejects.toThrow(/8-bit images/);
