@@ -32,6 +32,8 @@ export interface KeepConsistentInput {
   readonly confidence: Float32Array;
   /** Interference order period, nm. */
   readonly orderPeriodNm: number;
+  /** False: no second look, every poor match loses its estimate (default true). */
+  readonly keep?: boolean;
 }
 
 const RADIUS = 2;
@@ -59,7 +61,7 @@ export function keepConsistentPixels(input: KeepConsistentInput): number {
       if (status[i] !== PixelStatus.ambiguous) continue;
       const t = thicknessNm[i];
       if (t !== t) continue;
-      if (agreesWithPlane(input, x, y, t, maxRms, maxSlope, minTolerance)) {
+      if (input.keep !== false && agreesWithPlane(input, x, y, t, maxRms, maxSlope, minTolerance)) {
         status[i] = KEPT;
         kept++;
       } else {

@@ -236,18 +236,9 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   const poor = threaded ? scorePixelsThreaded(score, passOut, height, threads, scoreRows) : scoreRows(0, height);
   // Poor colour matches that agree with the smooth field of their well-matched neighbours stay.
   const keptByNeighbours =
-    poor > 0 && input.keepConsistent !== false
-      ? keepConsistentPixels({ width, height, status, thicknessNm, confidence, orderPeriodNm: input.orderPeriodNm })
+    poor > 0
+      ? keepConsistentPixels({ width, height, status, thicknessNm, confidence, orderPeriodNm: input.orderPeriodNm, keep: input.keepConsistent !== false })
       : 0;
-  // Poor matches not kept lose their estimate.
-  if (poor > keptByNeighbours) {
-    for (let i = 0; i < pixels; i++) {
-      if (status[i] === PixelStatus.ambiguous && thicknessNm[i] === thicknessNm[i]) {
-        thicknessNm[i] = NaN;
-        confidence[i] = 0;
-      }
-    }
-  }
   const reasons = { unresolved: dropped.unresolved, discontinuous: dropped.discontinuous, poorMatch: poor - keptByNeighbours };
 
   lap('pixels');
