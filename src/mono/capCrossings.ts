@@ -8,6 +8,7 @@
  * layers beyond the ring then belong to the branch across the extreme. The turn-back must exceed
  * three times the noise of a layer mean and 0.01 of the fringe swing (our thresholds).
  */
+import { growBreadthFirst } from './breadthFirst.js';
 import type { FringeSegments } from './fringeSegments.js';
 import type { PixelBranches } from './fillPixelBranches.js';
 import { NO_BRANCH, branchAcross, type ZoneBranches } from './zoneBranches.js';
@@ -34,7 +35,6 @@ export function crossCaps(
     const across = branchAcross(zoneBranch, seg.bandKind[b], firstKind);
     if (across < 0) continue;
     // Layers: breadth-first from the band pixels touching the zone, inside the band only.
-    let head = 0;
     let tail = 0;
     for (let p = 0; p < n; p++) {
       if (seg.bandOf[p] !== b) continue;
@@ -48,20 +48,11 @@ export function crossCaps(
         queue[tail++] = p;
       }
     }
-    while (head < tail) {
-      const p = queue[head++];
-      const x = p % width;
-      const y = (p - x) / width;
-      for (let k = 0; k < 4; k++) {
-        const nx = k === 0 ? x - 1 : k === 1 ? x + 1 : x;
-        const ny = k === 2 ? y - 1 : k === 3 ? y + 1 : y;
-        if (nx < 0 || ny < 0 || nx >= width || ny >= height) continue;
-        const q = ny * width + nx;
-        if (seg.bandOf[q] !== b || layer[q] >= 0) continue;
-        layer[q] = layer[p] + 1;
-        queue[tail++] = q;
-      }
-    }
+    tail = growBreadthFirst(queue, tail, width, height, (from, to) => {
+      if (seg.bandOf[to] !== b || layer[to] >= 0) return false;
+      layer[to] = layer[from] + 1;
+      return true;
+    });
     const layers = tail > 0 ? layer[queue[tail - 1]] + 1 : 0;
     const sum = new Float64Array(layers);
     const count = new Float64Array(layers);

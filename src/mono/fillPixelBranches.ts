@@ -4,6 +4,7 @@
  * usable pixels only). On each side of a band the pixels thus join the zone they border, so the
  * thickness stays continuous through the extreme (both branches meet at the extreme's thickness).
  */
+import { growBreadthFirst } from './breadthFirst.js';
 import type { FringeSegments } from './fringeSegments.js';
 import { NO_BRANCH, type ZoneBranches } from './zoneBranches.js';
 
@@ -25,7 +26,6 @@ export function fillPixelBranches(
   const branch = new Int32Array(n).fill(NO_BRANCH);
   const sourceZone = new Int32Array(n).fill(-1);
   const queue = new Int32Array(n);
-  let head = 0;
   let tail = 0;
   for (let p = 0; p < n; p++) {
     const z = seg.zoneOf[p];
@@ -34,20 +34,11 @@ export function fillPixelBranches(
     sourceZone[p] = z;
     queue[tail++] = p;
   }
-  while (head < tail) {
-    const p = queue[head++];
-    const x = p % width;
-    const y = (p - x) / width;
-    for (let k = 0; k < 4; k++) {
-      const nx = k === 0 ? x - 1 : k === 1 ? x + 1 : x;
-      const ny = k === 2 ? y - 1 : k === 3 ? y + 1 : y;
-      if (nx < 0 || ny < 0 || nx >= width || ny >= height) continue;
-      const q = ny * width + nx;
-      if (!usable[q] || sourceZone[q] >= 0) continue;
-      branch[q] = branch[p];
-      sourceZone[q] = sourceZone[p];
-      queue[tail++] = q;
-    }
-  }
+  growBreadthFirst(queue, tail, width, height, (from, to) => {
+    if (!usable[to] || sourceZone[to] >= 0) return false;
+    branch[to] = branch[from];
+    sourceZone[to] = sourceZone[from];
+    return true;
+  });
   return { branch, sourceZone };
 }
