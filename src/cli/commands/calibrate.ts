@@ -11,7 +11,7 @@ import { UsageError } from '../errors.js';
 import { checkOutputFile } from '../outputFile.js';
 import { collect, parseKnown } from '../parseGeometry.js';
 import { addStackOptions, stackFromOptions, type StackCliOptions } from '../stackOptions.js';
-import { lightFromOption } from './chart.js';
+import { addLightOptions, lightsFromOptions } from '../lightOptions.js';
 
 interface CalibrateCliOptions extends StackCliOptions {
   light: string;
@@ -39,10 +39,7 @@ export function register(program: Command): void {
     .command('calibrate')
     .description('fit exposure, flare and white balance (optionally film index and angle) from regions of known thickness; writes a calibration file')
     .argument('<photo>', 'photo of a reference sample (e.g. a step wafer with measured patches)');
-  addStackOptions(command);
-  command
-    .option('--light <light>', 'light: D65, D50, A, F2, F7, F11, LED-B1…, blackbody:<K>, or an SPD CSV file', 'D65')
-    .option('--white-balance <light>', 'the light the camera was white-balanced for, when known')
+  addLightOptions(addStackOptions(command), { required: false })
     .option('--known <x,y,w,h=nm>', 'a rectangle of known film thickness (repeatable, at least one)', collect)
     .option('--fit <list>', `parameters to fit, from ${CALIBRATION_PARAMETERS.join(',')}`, 'exposure,flare,white-balance')
     .requiredOption('--out <file>', 'calibration file to write (JSON)')
@@ -50,8 +47,7 @@ export function register(program: Command): void {
     .option('--json', 'print the calibration record on stdout')
     .action(async (photo: string, opts: CalibrateCliOptions) => {
       const { stack, angleRad } = stackFromOptions(opts);
-      lightFromOption(opts.light, '--light');
-      if (opts.whiteBalance) lightFromOption(opts.whiteBalance, '--white-balance');
+      lightsFromOptions(opts);
       const known = (opts.known ?? []).map(parseKnown);
       if (known.length === 0) throw new UsageError('--known is required at least once: X,Y,W,H=NM (a rectangle of known thickness)');
       await checkOutputFile(opts.out, { force: opts.force === true, inputs: [photo], example: 'cal.json' });

@@ -4,9 +4,6 @@
  * 8-bit sRGB and #rrggbb; interference order) or as a PNG chart to hold next to a sample.
  */
 import { Option, type Command } from 'commander';
-import { CsvFormatError } from '../../colour/readNumericCsv.js';
-import { resolveLight } from '../../colour/lights.js';
-import type { Light } from '../../colour/light.js';
 import type { ObserverName } from '../../colour/observers.js';
 import { atomicWriteFile } from '../../io/atomicWriteFile.js';
 import { rasteriseSvg } from '../../io/rasteriseSvg.js';
@@ -15,6 +12,7 @@ import type { Polarisation } from '../../optics/types.js';
 import { chartSvg } from '../../render/chartSvg.js';
 import { chartTable, DEFAULT_CHART_RANGE, type ChartTable } from '../../render/chartTable.js';
 import { InputError, UsageError } from '../errors.js';
+import { addLightOptions, lightsFromOptions } from '../lightOptions.js';
 import { addStackOptions, parseNumberOption, stackFromOptions, type StackCliOptions } from '../stackOptions.js';
 import { checkOutputFile } from '../outputFile.js';
 
@@ -31,17 +29,6 @@ interface ChartCliOptions extends StackCliOptions {
   format: 'csv' | 'json' | 'png';
   out?: string;
   force?: boolean;
-}
-
-/** A light from a CLI option: unknown names are usage errors, bad files input errors. */
-export function lightFromOption(spec: string, option: string): Light {
-  try {
-    return resolveLight(spec);
-  } catch (error) {
-    if (error instanceof CsvFormatError) throw new InputError(error.file, error.message.slice(error.file.length).replace(/^[,:]\s*/, ''));
-    if (error instanceof RangeError || error instanceof TypeError) throw new UsageError(`${option}: ${error.message}`);
-    throw error;
-  }
 }
 
 function number(value: number, digits: number): string {
@@ -77,8 +64,7 @@ async function run(opts: ChartCliOptions): Promise<void> {
   if (resolution < 1 || resolution > 4) throw new UsageError(`--resolution must be a pixel-density factor from 1 to 4, received ${resolution}`);
   const exposure = opts.exposure === 'auto' ? 'auto' : parseNumberOption(opts.exposure, '--exposure', "a gain > 0 or 'auto'");
   if (exposure !== 'auto' && exposure <= 0) throw new UsageError(`--exposure must be a gain > 0 or 'auto', received ${exposure}`);
-  const light = lightFromOption(opts.light, '--light');
-  const whiteBalance = opts.whiteBalance ? lightFromOption(opts.whiteBalance, '--white-balance') : undefined;
+  const { light, whiteBalance } = lightsFromOptions(opts);
   const { stack, angleRad } = stackFromOptions(opts, { onWarning: (message) => process.stderr.write(`lamella: warning: ${message}\n`) });
   let table: ChartTable;
   try {
@@ -150,9 +136,7 @@ export function register(program: Command): void {
         'Do not base release decisions on a visual chart alone; use qualified metrology (ellipsometry, reflectometry).\n' +
         'Follow local safety codes for UV lamps, lasers and etch or soap chemicals used to prepare samples.',
     );
-  addStackOptions(command)
-    .requiredOption('--light <name|file>', 'light: D65, D50, A, F2, F7, F11, LED-B1…B5, LED-BH1, LED-RGB1, LED-V1, LED-V2, blackbody:<K>, line:<nm>, or an SPD CSV file')
-    .option('--white-balance <name|file>', 'camera white balance left at another light (default: balanced to --light)')
+  addLightOptions(addStackOptions(command), { required: true })
     .addOption(new Option('--observer <year>', 'CIE standard observer').choices(['1931', '1964']).default('1931'))
     .addOption(new Option('--polarisation <mode>', 'polarisation of the light').choices(['s', 'p', 'mixed']).default('mixed'))
     .option('--from <nm>', 'first thickness, nm', String(DEFAULT_CHART_RANGE.fromNm))

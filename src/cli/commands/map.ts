@@ -14,7 +14,7 @@ import { ensureOutputDir, assertNoInputOverwritten } from '../../io/ensureOutput
 import { atomicWriteFile } from '../../io/atomicWriteFile.js';
 import { writeOutputSet } from '../../io/writeOutputSet.js';
 import { colourTableFor, lineOfLight, mapDecodedPhoto, readMask, writeMapOutputs, mapResultJson } from '../../map/mapPhoto.js';
-import { lightFromOption } from './chart.js';
+import { addLightOptions, lightsFromOptions } from '../lightOptions.js';
 import { readPhoto } from '../../io/readPhoto.js';
 import { MAP_MAX_PIXELS } from '../../io/limits.js';
 import { calibrateDecoded } from '../../calibrate/calibrate.js';
@@ -45,11 +45,7 @@ export function register(program: Command): void {
     .command('map')
     .description('map film thickness from colour photos; writes .npy/.tif maps, confidence, previews, JSON and an HTML report per photo')
     .argument('<photo...>', 'photos (JPEG, PNG, TIFF; 8 or 16 bit)');
-  addStackOptions(command);
-  command
-    .option('--light <light>', 'light: D65, D50, A, F2, F7, F11, LED-B1…, blackbody:<K>, line:<nm>, or an SPD CSV file', 'D65')
-    .option('--white-balance <light>', 'the light the camera was white-balanced for, if not the light itself');
-  addFilmAreaOptions(command, 'photo')
+  addFilmAreaOptions(addLightOptions(addStackOptions(command), { required: false }), 'photo')
     .option('--calibration <file>', 'photo-formation parameters from `lamella calibrate` instead of fitting them')
     .option('--ignore-calibration-mismatch', 'use a calibration made for another stack or light')
     .option('--known <x,y,w,h=nm>', 'calibrate on each photo itself from a rectangle of known thickness (repeatable)', collect)
@@ -70,9 +66,8 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
   };
   const { stack, angleRad } = stackFromOptions(opts, { onWarning: warn });
   // Check the lights before any photo is read: a bad name is a usage error, not a failed photo.
-  lightFromOption(opts.light, '--light');
+  lightsFromOptions(opts);
   lineOfLight(opts.light);
-  if (opts.whiteBalance) lightFromOption(opts.whiteBalance, '--white-balance');
   const { thinBelowNm, maxThicknessNm, region, maskPath, anchors, pixelSizeUm } = filmAreaFromOptions(opts);
   if ((opts.known ?? []).length > 0 && opts.calibration) {
     throw new UsageError('give either --known (calibrate on the photo) or --calibration (a calibration file), not both');

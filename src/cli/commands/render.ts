@@ -20,7 +20,7 @@ import type { Polarisation } from '../../optics/types.js';
 import { renderPhoto } from '../../render/renderPhoto.js';
 import { InputError, UsageError } from '../errors.js';
 import { addStackOptions, parseNumberOption, stackFromOptions, type StackCliOptions } from '../stackOptions.js';
-import { lightFromOption } from './chart.js';
+import { addLightOptions, lightsFromOptions } from '../lightOptions.js';
 
 interface RenderCliOptions extends StackCliOptions {
   light: string;
@@ -67,8 +67,7 @@ async function run(file: string, opts: RenderCliOptions): Promise<void> {
   const pngScaleNm = opts.pngScale === undefined ? undefined : parseNumberOption(opts.pngScale, '--png-scale', 'nm per count > 0');
   if (pngScaleNm !== undefined && pngScaleNm <= 0) throw new UsageError(`--png-scale must be nm per count > 0, received ${pngScaleNm}`);
 
-  const light = lightFromOption(opts.light, '--light');
-  const whiteBalanceLight = opts.whiteBalance ? lightFromOption(opts.whiteBalance, '--white-balance') : undefined;
+  const { light, whiteBalance: whiteBalanceLight } = lightsFromOptions(opts);
   let camera;
   if (opts.camera) {
     try {
@@ -99,11 +98,9 @@ export function register(program: Command): void {
     .command('render')
     .argument('<thickness-file>', 'thickness map in nm: .npy (float), 32-bit float TIFF, or 16-bit PNG/TIFF with --png-scale')
     .description('render a thickness map into the photo a camera would take of the film (synthetic test images, demos)');
-  addStackOptions(command)
-    .requiredOption('--light <name|file>', 'light: D65, D50, A, F2, F7, F11, LED-B1…B5, LED-BH1, LED-RGB1, LED-V1, LED-V2, blackbody:<K>, line:<nm>, or an SPD CSV file')
+  addLightOptions(addStackOptions(command), { required: true })
     .requiredOption('--out <photo>', 'output photo: .png or .jpg (8-bit sRGB), .tif (16-bit); written atomically')
     .option('--force', 'replace an existing --out file')
-    .option('--white-balance <name|file>', 'camera white balance left at another light (default: balanced to --light)')
     .option('--camera <file>', 'raw camera spectral sensitivities CSV (wavelength_nm,r,g,b); output is then linear, not sRGB')
     .addOption(new Option('--observer <year>', 'CIE standard observer of the sRGB camera').choices(['1931', '1964']).default('1931'))
     .addOption(new Option('--polarisation <mode>', 'polarisation of the light').choices(['s', 'p', 'mixed']).default('mixed'))

@@ -16,7 +16,7 @@ import { MAP_FRAME_PROCESSOR_URL, type MapFrameConfig } from '../../series/mapFr
 import { formatProgressBar, formatProgressLine } from '../../series/progressText.js';
 import { formatSeriesSummary } from '../../series/summaryText.js';
 import type { SeriesProgress } from '../../series/types.js';
-import { lightFromOption } from './chart.js';
+import { addLightOptions, lightsFromOptions } from '../lightOptions.js';
 import { checkRegion } from '../../map/filmMask.js';
 import { readMask } from '../../map/mapPhoto.js';
 
@@ -76,8 +76,7 @@ async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions, warn:
   }
   const { angleRad } = stackFromOptions(opts, { onWarning: warn });
   // Lights are checked here, once, not by every frame's worker.
-  lightFromOption(opts.light, '--light');
-  if (opts.whiteBalance) lightFromOption(opts.whiteBalance, '--white-balance');
+  lightsFromOptions(opts);
   const calibration = opts.calibration === undefined
     ? null
     : await loadCalibrationForRun(opts.calibration, { stack: opts.stack ?? '', light: opts.light, angleRad, whiteBalanceLight: opts.whiteBalance ?? null, ignoreMismatch: opts.ignoreCalibrationMismatch === true });
@@ -177,11 +176,9 @@ export function register(program: Command): void {
     .command('series')
     .description('thickness maps of a photo series (worker threads, resumable, shardable), drainage fits and a report')
     .argument('<inputs...>', 'photos, folders of photos, or glob patterns; frames are taken in natural order of their names');
-  addStackOptions(command)
-    .option('--light <spec>', 'light the film is viewed under: D65, F11, blackbody:3200, line:546, or an SPD file', 'D65')
+  addLightOptions(addStackOptions(command), { required: false })
     .option('--fps <n>', 'frames per second, for frames without an EXIF capture time')
     .option('--interval <s>', 'seconds between frames, for frames without an EXIF capture time')
-    .option('--white-balance <light>', 'the light the camera was white-balanced for, if not the light itself')
     .option('--calibration <file>', 'photo-formation parameters from `lamella calibrate` instead of fitting them on every frame')
     .option('--ignore-calibration-mismatch', 'use a calibration made for another stack or light');
   addFilmAreaOptions(command, 'frames')
