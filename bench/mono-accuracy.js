@@ -9,18 +9,12 @@ import { branchOfThickness } from '../dist/mono/lineReflectanceTable.js';
 import { mapLineIntensity } from '../dist/mono/mapLineIntensity.js';
 import { stackLineTable } from '../dist/mono/stackLineReflectance.js';
 import { resolveStack } from '../dist/optics/resolveStack.js';
+import { createUniform } from '../dist/colour/seededNormal.js';
 
 const LINE_NM = 546.07;
 
 function normalSource(seed) {
-  let a = seed >>> 0;
-  const uniform = () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
+  const uniform = createUniform(seed);
   return () => Math.sqrt(-2 * Math.log(1 - uniform())) * Math.cos(2 * Math.PI * uniform());
 }
 

@@ -4,18 +4,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { fitLeastSquares } from '../src/fit/index.js';
-
-/** Small deterministic generator (mulberry32, common practice for seeded test data). */
-function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+import { createUniform } from '../src/colour/seededNormal.js';
 
 /** Standard normal deviate by Box–Muller (Box & Muller 1958, Ann. Math. Stat. 29, 610). */
 function gaussian(random: () => number): number {
@@ -92,7 +81,8 @@ describe('fitLeastSquares() weighted nonlinear round trip (data generated here f
   // Scenario of our own: y = A·exp(−x/τ) + C with noise whose σ grows with x; 400 points.
   const truth = [50, 3.5, 2];
   const model = (b: readonly number[]) => (x: number) => b[0] * Math.exp(-x / b[1]) + b[2];
-  const random = mulberry32(20240611);
+  // The project's seeded uniform stream (mulberry32, common practice for seeded test data).
+  const random = createUniform(20240611);
   const x = Array.from({ length: 400 }, (_, i) => (i * 15) / 399);
   const sigma = x.map((v) => 0.05 + 0.1 * v);
   const y = x.map((v, i) => model(truth)(v) + sigma[i] * gaussian(random));

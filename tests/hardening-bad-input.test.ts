@@ -14,10 +14,10 @@ import { spawn, spawnSync } from 'node:child_process';
 import { copyFileSync, existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { crc32, deflateSync } from 'node:zlib';
 import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { MAP_MAX_PIXELS } from '../src/io/limits.js';
+import { pngHeaderClaiming } from './png-header.js';
 import { sampleField, shoot, writePhoto } from './map-scenes.js';
 
 const bin = new URL('../bin/lamella.js', import.meta.url).pathname;
@@ -48,23 +48,6 @@ function lamellaAsync(args: readonly string[]): Promise<Run> {
     child.stderr.on('data', (chunk: Buffer) => (stderr += chunk.toString()));
     child.on('close', (status) => resolve({ status, stdout, stderr }));
   });
-}
-
-/** A PNG whose header claims width × height (ISO/IEC 15948:2004 §5.3 chunks, §11.2.2 IHDR); tiny body. */
-function pngHeaderClaiming(width: number, height: number): Buffer {
-  const chunk = (type: string, data: Buffer): Buffer => {
-    const body = Buffer.concat([Buffer.from(type, 'latin1'), data]);
-    const length = Buffer.alloc(4);
-    length.writeUInt32BE(data.length);
-    const crc = Buffer.alloc(4);
-    crc.writeUInt32BE(crc32(body));
-    return Buffer.concat([length, body, crc]);
-  };
-  const ihdr = Buffer.alloc(13);
-  ihdr.writeUInt32BE(width, 0);
-  ihdr.writeUInt32BE(height, 4);
-  ihdr.set([8, 2, 0, 0, 0], 8);
-  return Buffer.concat([Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]), chunk('IHDR', ihdr), chunk('IDAT', deflateSync(Buffer.alloc(16))), chunk('IEND', Buffer.alloc(0))]);
 }
 
 /** A light or camera table 380–780 nm every 10 nm; `row(nm)` gives the values after the wavelength. */

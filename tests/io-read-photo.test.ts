@@ -8,7 +8,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { mkdtemp, rm, writeFile, mkdir, copyFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
-import { crc32, deflateSync } from 'node:zlib';
+import { pngHeaderClaiming } from './png-header.js';
 import { join } from 'node:path';
 import sharp from 'sharp';
 import { MAX_PIXELS, parseExifTime, readPhoto, readPhotoMetadata } from '../src/io/index.js';
@@ -288,26 +288,8 @@ describe('readPhoto() input errors are InputError naming the file, with a plain 
     expect((await readPhoto(path, { maxPixels: 100 })).width).toBe(10);
   });
   it('a header claiming 20000×20000 pixels is refused by the default limit before decoding', async () => {
-    // Hand-made PNG (ISO/IEC 15948:2004, sections 5.3 chunk layout and 11.2.2 IHDR) with a
-    // tiny IDAT: only the header is needed to refuse it.
-    const chunk = (type: string, data: Buffer) => {
-      const body = Buffer.concat([Buffer.from(type, 'latin1'), data]);
-      const length = Buffer.alloc(4);
-      length.writeUInt32BE(data.length);
-      const crc = Buffer.alloc(4);
-      crc.writeUInt32BE(crc32(body));
-      return Buffer.concat([length, body, crc]);
-    };
-    const ihdr = Buffer.alloc(13);
-    ihdr.writeUInt32BE(20000, 0);
-    ihdr.writeUInt32BE(20000, 4);
-    ihdr.set([8, 2, 0, 0, 0], 8);
-    const png = Buffer.concat([
-      Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]),
-      chunk('IHDR', ihdr),
-      chunk('IDAT', deflateSync(Buffer.alloc(16))),
-      chunk('IEND', Buffer.alloc(0)),
-    ]);
+    // Hand-made PNG with a tiny IDAT: only the header is needed to refuse it.
+    const png = pngHeaderClaiming(20000, 20000);
     const path = join(dir, 'huge.png');
     await writeFile(path, png);
     await expectInputError(path, /limit of 100000000 pixels/);

@@ -14,6 +14,7 @@ import { mapMonochromatic } from '../src/mono/mapMonochromatic.js';
 import { stackLineTable } from '../src/mono/stackLineReflectance.js';
 import { PixelStatus, type MapOptions } from '../src/map/types.js';
 import { resolveStack } from '../src/optics/resolveStack.js';
+import { createUniform } from '../src/colour/seededNormal.js';
 
 const LINE_NM = 546.07;
 const W = 200;
@@ -25,16 +26,9 @@ function options(extra: Partial<MapOptions> = {}): MapOptions {
   return { stack, angleRad: 0, light: `line:${LINE_NM}`, thinBelowNm: 30, maxThicknessNm: 1500, ...extra };
 }
 
-/** Deterministic normal deviates (mulberry32 + Box–Muller). */
+/** Deterministic normal deviates: the project's seeded uniform stream (mulberry32) through Box–Muller. */
 function normalSource(seed: number): () => number {
-  let a = seed >>> 0;
-  const uniform = (): number => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
+  const uniform = createUniform(seed);
   return () => Math.sqrt(-2 * Math.log(1 - uniform())) * Math.cos(2 * Math.PI * uniform());
 }
 
