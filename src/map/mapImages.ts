@@ -20,8 +20,20 @@ export interface ScaleRange {
   readonly maxNm: number;
 }
 
+/** Ranges already found, per map (the map images and the report both need it). */
+const rangeOf = new WeakMap<MapResult, ScaleRange>();
+
 /** Colour-bar range: the 0.5th–99.5th percentile of the estimates, widened to round numbers. */
 export function scaleRangeOf(result: MapResult): ScaleRange {
+  let range = rangeOf.get(result);
+  if (!range) {
+    range = findScaleRange(result);
+    rangeOf.set(result, range);
+  }
+  return range;
+}
+
+function findScaleRange(result: MapResult): ScaleRange {
   const { thicknessNm, status } = result;
   let n = 0;
   for (let i = 0; i < status.length; i++) if (status[i] === PixelStatus.ok) n++;
