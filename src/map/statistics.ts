@@ -1,6 +1,7 @@
 /**
- * Statistics of a thickness map over its film pixels (the region or mask if given, else the
- * whole frame; excluded pixels never count):
+ * Statistics of a thickness map over its film pixels (the film area: inside the region or mask,
+ * and, with `--film-area auto`, what was found to be film; excluded, not-film and undecided
+ * pixels never count):
  * - mean, median, std, min, max, 5th/95th percentiles over pixels with an estimate;
  * - uniformity = (p95 − p05) / median (a common coating-uniformity figure; common practice);
  * - coverage = pixels with an estimate / film pixels;
@@ -24,7 +25,7 @@ export function computeMapStatistics(
   let n = 0;
   for (let i = 0; i < status.length; i++) {
     const s = status[i];
-    if (s === PixelStatus.excluded) continue;
+    if (s === PixelStatus.excluded || s === PixelStatus.notFilm || s === PixelStatus.undecided) continue;
     film++;
     if (s === PixelStatus.dark) dark++;
     else if (s === PixelStatus.ok) n++;
@@ -44,7 +45,7 @@ export function computeMapStatistics(
   if (n === 0) {
     return {
       mean_nm: null, median_nm: null, std_nm: null, min_nm: null, max_nm: null, p05_nm: null,
-      p95_nm: null, uniformity: null, coverage, thin_fraction: thinFraction, thin_regions: thinRegionCount,
+      p95_nm: null, uniformity: null, coverage, thin_fraction: thinFraction, thin_regions: thinRegionCount, film_area_px: film,
     };
   }
   const mean = sum / n;
@@ -72,6 +73,7 @@ export function computeMapStatistics(
     coverage,
     thin_fraction: thinFraction,
     thin_regions: thinRegionCount,
+    film_area_px: film,
   };
 }
 

@@ -17,8 +17,62 @@ export const PixelStatus = {
   excluded: 4,
   /** Clipped / saturated channels. */
   saturated: 5,
+  /**
+   * Found not to be film by the automatic film area (`--film-area auto`): dark surroundings,
+   * frames and wires, holders, labels, glints, colours no thickness gives (src/map/filmArea.ts).
+   */
+  notFilm: 6,
+  /**
+   * Dark pixels the film-area search cannot place: black film or dark surroundings (e.g. a film
+   * cut by the photo border with black at that border). Neither thin nor film in the statistics.
+   */
+  undecided: 7,
 } as const;
 export type PixelStatusCode = (typeof PixelStatus)[keyof typeof PixelStatus];
+
+/** How the film area is chosen: found automatically (default), or every pixel in region/mask. */
+export type FilmAreaMode = 'auto' | 'whole';
+
+/** Why pixels are not part of the film area, in pixels (JSON `film_area.excluded_px`). */
+export interface FilmAreaExclusions {
+  /** Outside `--region` / `--mask`, or transparent in the photo. */
+  readonly outside_region: number;
+  /** Dark surroundings: too dark to measure and outside the film's outline. */
+  readonly dark_surroundings: number;
+  /** Colours no thickness of this film can give under the fitted light (frames, holders, labels, backgrounds). */
+  readonly not_film_colour: number;
+  /** Clipped highlights outside the film or joined to what is not film (lamp glints). */
+  readonly glint: number;
+  /** Small specks whose colour matches a film by chance, apart from the film. */
+  readonly isolated: number;
+  /** Dark pixels that could be black film or background (see PixelStatus.undecided). */
+  readonly undecided: number;
+}
+
+/** The film area of one photo. */
+export interface FilmAreaSummary {
+  readonly mode: FilmAreaMode;
+  /** Film pixels (every status but excluded, notFilm and undecided). */
+  readonly areaPx: number;
+  /** areaPx / all pixels of the photo. */
+  readonly fraction: number;
+  readonly areaUm2: number | null;
+  /** False when the photo holds no film (warning "no film found"; no statistics). */
+  readonly found: boolean;
+  readonly excludedPx: FilmAreaExclusions;
+}
+
+/** How well the fitted model explains the film's colours (JSON `fit_quality`). */
+export interface FitQuality {
+  /** Median ΔE2000 (CIEDE2000) between photo and model over measured film pixels. */
+  readonly median_delta_e2000: number | null;
+  /** 95th percentile of the same. */
+  readonly p95_delta_e2000: number | null;
+  /** Share of film pixels whose colour matches no thickness (no estimate for that reason). */
+  readonly unmatched_fraction: number;
+  /** 'good' | 'fair' | 'poor' by the thresholds in src/map/fitQuality.ts. */
+  readonly verdict: 'good' | 'fair' | 'poor';
+}
 
 export interface Anchor {
   readonly x: number;
@@ -68,6 +122,13 @@ export interface MapOptions {
    * worker threads); default: the available cores, at most 4. The map is the same whatever the count.
    */
   readonly threads?: number;
+  /** `auto` (default): find the film area; `whole`: every pixel in region/mask is film. */
+  readonly filmArea?: FilmAreaMode;
+  /**
+   * `--expect MIN-MAX`: the thickness range the film is known to lie in (nm); orders and the fit
+   * are restricted to it; pixels that fit only outside it are reported, not forced.
+   */
+  readonly expectNm?: readonly [number, number] | null;
 }
 
 export interface ThinRegion {
@@ -96,6 +157,8 @@ export interface MapStatistics {
   /** Share of film pixels below the thin threshold, dark pixels counted as thin. */
   readonly thin_fraction: number | null;
   readonly thin_regions: number;
+  /** Pixels of the film area (the statistics' population). */
+  readonly film_area_px: number;
 }
 
 export interface MapResult {
@@ -115,4 +178,8 @@ export interface MapResult {
   readonly warnings: readonly string[];
   /** Per-pixel thin-region id (0 = none), for the flags image. */
   readonly thinLabels?: Int32Array;
+  /** The film area (absent only in results made before film areas existed). */
+  readonly filmArea?: FilmAreaSummary;
+  /** How well the model explains the film's colours; null when nothing was measured. */
+  readonly fitQuality?: FitQuality | null;
 }

@@ -11,4 +11,6 @@ export const statusLabels: Record<number, string> = {
   [PixelStatus.ambiguous]: 'colour or interference order ambiguous',
   [PixelStatus.excluded]: 'outside the region or mask',
   [PixelStatus.saturated]: 'clipped or saturated in the photo',
+  [PixelStatus.notFilm]: 'not film (background, frame, holder or glint)',
+  [PixelStatus.undecided]: 'dark: black film or background, cannot tell (give --region or --mask)',
 };
