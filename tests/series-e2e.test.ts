@@ -65,7 +65,7 @@ describe('series frame times from EXIF headers (JPEGs written with EXIF by sharp
       return {
         width: 4, height: 3, thicknessNm: new Float32Array(n).fill(500), confidence: new Float32Array(n).fill(1), status: new Uint8Array(n),
         fitted: { exposure: 1, whiteBalance: [1, 1, 1], flare: [0, 0, 0] },
-        stats: { mean_nm: 500, median_nm: 500, std_nm: 0, min_nm: 500, max_nm: 500, p05_nm: 500, p95_nm: 500, uniformity: 0, coverage: 1, thin_fraction: 0, thin_regions: 0 },
+        stats: { mean_nm: 500, median_nm: 500, std_nm: 0, min_nm: 500, max_nm: 500, p05_nm: 500, p95_nm: 500, uniformity: 0, coverage: 1, thin_fraction: 0, thin_regions: 0, film_area_px: n },
         histogram: { edgesNm: [], counts: [] }, thinRegions: [], darkLimitNm: 20, warnings: [],
       };
     },

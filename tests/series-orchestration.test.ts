@@ -43,6 +43,7 @@ function uniformResult(value: number, width = W, height = H): MapResult {
       coverage: 1,
       thin_fraction: value < 100 ? 1 : 0,
       thin_regions: value < 100 ? 1 : 0,
+      film_area_px: n,
     },
     histogram: { edgesNm: [], counts: [] },
     thinRegions: [],
