@@ -80,12 +80,12 @@ describe('lamella render', () => {
     lamella('render', rampPath, '--stack', 'soap-film', '--light', 'D65', '--exposure', '8', '--noise', '0.02', '--seed', '3', '--out', b);
     expect(readFileSync(a).equals(readFileSync(b))).toBe(true);
   });
-  it('refuses to overwrite its input (exit 3) and leaves it unchanged', () => {
+  it('refuses to overwrite its input (usage error, exit 2) and leaves it unchanged', () => {
     const tiffIn = join(dir, 'keep.tif');
     writeFileSync(tiffIn, encodeFloatTiff(new Float32Array(4).fill(100), 2, 2));
     const before = readFileSync(tiffIn);
     const result = lamella('render', tiffIn, '--stack', 'soap-film', '--light', 'D65', '--out', tiffIn);
-    expect(result.status).toBe(3);
+    expect(result.status).toBe(2);
     expect(result.stderr).toContain('output would overwrite an input file');
     expect(readFileSync(tiffIn).equals(before)).toBe(true);
   });

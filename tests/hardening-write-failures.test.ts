@@ -7,9 +7,10 @@
  *
  * The map written here is of an INVENTED 24×16 wedge rendered by our own forward model.
  */
-import { existsSync, mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
+import { spawnSync } from 'node:child_process';
 import { tmpdir } from 'node:os';
-import { join } from 'node:path';
+import { basename, join } from 'node:path';
 import { afterAll, afterEach, describe, expect, it, vi } from 'vitest';
 
 /** Which call to fail next: the n-th `open` from now (1 = the next one) with this errno code. */
@@ -50,7 +51,7 @@ vi.mock('node:fs/promises', async (importOriginal) => {
 
 const { atomicWriteFile } = await import('../src/io/atomicWriteFile.js');
 const { ensureOutputDir } = await import('../src/io/ensureOutputDir.js');
-const { writeOutputSet } = await import('../src/io/writeOutputSet.js');
+const { writeOutputSet, recoverStagedSets } = await import('../src/io/writeOutputSet.js');
 const { cleanupTempFiles } = await import('../src/io/tempFiles.js');
 const { InputError } = await import('../src/cli/errors.js');
 
@@ -93,32 +94,90 @@ describe('atomicWriteFile() when the write fails', () => {
   });
 });
 
-describe('writeOutputSet(): a group of outputs is all there or none', () => {
-  it('a failure on the third file removes the two written before it', async () => {
+describe('writeOutputSet(): a set of outputs replaces the old set whole, or not at all', () => {
+  const oldSet = (paths: string[]): void => {
+    for (const path of paths) writeFileSync(path, `old ${path}`);
+  };
+  const leftovers = (): string[] => readdirSync(dir).filter((n) => n.startsWith('.lamella-staging-') || n.endsWith('.tmp'));
+
+  it('a full disk on the third file of a re-run keeps the whole old set and leaves no staging folder', async () => {
     const paths = ['a.npy', 'a.tif', 'a.json'].map((n) => join(dir, 'set-' + n));
+    oldSet(paths);
     failNextOpen('ENOSPC', 3);
     await expect(
-      writeOutputSet(paths, async () => {
-        for (const path of paths) await atomicWriteFile(path, Buffer.from(path));
+      writeOutputSet(paths, async (staging) => {
+        for (const path of paths) await atomicWriteFile(join(staging, basename(path)), Buffer.from(`new ${path}`));
       }),
-    ).rejects.toThrow(/set-a\.json: cannot write output file \(no space left on the device, ENOSPC\)/);
-    for (const path of paths) expect(existsSync(path), path).toBe(false);
+    ).rejects.toThrow(new RegExp(`^${join(dir, 'set-a.json')}: cannot write output file \\(no space left on the device, ENOSPC\\)$`));
+    for (const path of paths) expect(readFileSync(path, 'utf8'), path).toBe(`old ${path}`);
+    expect(leftovers()).toEqual([]);
   });
 
-  it('while the set is being written, the interrupt clean-up removes its finished files too', async () => {
+  it('the interrupt clean-up during the write removes the staging folder; the old set stays whole', async () => {
     const paths = ['b.npy', 'b.json'].map((n) => join(dir, 'set-' + n));
-    await writeOutputSet(paths, async () => {
-      await atomicWriteFile(paths[0], Buffer.from('done'));
+    oldSet(paths);
+    await writeOutputSet(paths, async (staging) => {
+      await atomicWriteFile(join(staging, 'set-b.npy'), Buffer.from('new'));
       // What the SIGINT/SIGTERM handler calls (src/io/tempFiles.ts) before exiting:
       cleanupTempFiles();
-      expect(existsSync(paths[0])).toBe(false);
+      expect(existsSync(staging)).toBe(false);
+      throw new Error('stopped');
+    }).catch(() => undefined);
+    for (const path of paths) expect(readFileSync(path, 'utf8')).toBe(`old ${path}`);
+    expect(leftovers()).toEqual([]);
+  });
+
+  it('a complete set replaces every old member, and old members the new set lacks are removed', async () => {
+    const paths = ['c.npy', 'c.json', 'c.report.html'].map((n) => join(dir, 'set-' + n));
+    oldSet(paths);
+    await writeOutputSet(paths, async (staging) => {
+      for (const path of paths.slice(0, 2)) await atomicWriteFile(join(staging, basename(path)), Buffer.from('new'));
     });
+    expect(readFileSync(paths[0], 'utf8')).toBe('new');
+    expect(readFileSync(paths[1], 'utf8')).toBe('new');
+    expect(existsSync(paths[2])).toBe(false);
     // After the set completes, its files are no longer the clean-up's business.
-    await writeOutputSet(paths, async () => {
-      for (const path of paths) await atomicWriteFile(path, Buffer.from('done'));
-    });
     cleanupTempFiles();
-    for (const path of paths) expect(existsSync(path)).toBe(true);
+    expect(existsSync(paths[0])).toBe(true);
+    expect(leftovers()).toEqual([]);
+  });
+});
+
+describe('recoverStagedSets(): what a SIGKILL left is finished or dropped by the next run', () => {
+  // A process id that has surely ended: a child we waited for.
+  const deadPid = spawnSync(process.execPath, ['-e', '0']).pid!;
+
+  it('an uncommitted staging folder and a stray temp file of a dead run are removed; the old set stays', () => {
+    const folder = mkdtempSync(join(dir, 'killed-'));
+    writeFileSync(join(folder, 'p.json'), 'old');
+    const staging = join(folder, `.lamella-staging-${deadPid}-0badcafe`);
+    mkdirSync(staging);
+    writeFileSync(join(staging, 'p.json'), 'new, half');
+    writeFileSync(join(folder, `.p.map.png.${deadPid}.deadbeef.tmp`), 'half');
+    expect(recoverStagedSets(folder).sort()).toEqual([`.lamella-staging-${deadPid}-0badcafe`, `.p.map.png.${deadPid}.deadbeef.tmp`].sort());
+    expect(readdirSync(folder)).toEqual(['p.json']);
+    expect(readFileSync(join(folder, 'p.json'), 'utf8')).toBe('old');
+  });
+
+  it('a committed staging folder (killed part-way through the swap) is finished: the whole new set', () => {
+    const folder = mkdtempSync(join(dir, 'killed-'));
+    writeFileSync(join(folder, 'p.json'), 'new'); // already moved before the kill
+    writeFileSync(join(folder, 'p.npy'), 'old');
+    writeFileSync(join(folder, 'p.report.html'), 'old');
+    const staging = join(folder, `.lamella-staging-${deadPid}-00c0ffee`);
+    mkdirSync(staging);
+    writeFileSync(join(staging, 'p.npy'), 'new');
+    writeFileSync(join(staging, '.lamella-commit'), JSON.stringify({ replace: ['p.json', 'p.npy'], remove: ['p.report.html'] }));
+    recoverStagedSets(folder);
+    expect(readdirSync(folder).sort()).toEqual(['p.json', 'p.npy']);
+    expect(readFileSync(join(folder, 'p.npy'), 'utf8')).toBe('new');
+  });
+
+  it('a staging folder of a run still going is left alone', () => {
+    const folder = mkdtempSync(join(dir, 'live-'));
+    mkdirSync(join(folder, `.lamella-staging-${process.pid}-12345678`));
+    expect(recoverStagedSets(folder)).toEqual([]);
+    expect(readdirSync(folder)).toEqual([`.lamella-staging-${process.pid}-12345678`]);
   });
 });
 

@@ -22,7 +22,7 @@ import {
 } from '../src/io/index.js';
 import { registerTempFile } from '../src/io/tempFiles.js';
 import { composeImagePng } from '../src/io/composeImage.js';
-import { InputError } from '../src/cli/errors.js';
+import { InputError, UsageError } from '../src/cli/errors.js';
 
 let dir: string;
 beforeAll(async () => {
@@ -282,7 +282,8 @@ describe('ensureOutputDir()', () => {
     await writeFile(input, 'x');
     await expect(ensureOutputDir(folder, { inputs: [input], outputs: [join(folder, 'film-thickness.png')] })).resolves.toBe(folder);
     const error = await ensureOutputDir(folder, { inputs: [input], outputs: [join(folder, '.', 'film.png')] }).catch((e: unknown) => e);
-    expect(error).toBeInstanceOf(InputError);
-    expect((error as Error).message).toMatch(/output would overwrite an input file/);
+    // A usage error (exit 2) naming both the output and the input.
+    expect(error).toBeInstanceOf(UsageError);
+    expect((error as Error).message).toBe(`${join(folder, '.', 'film.png')}: output would overwrite an input file (it is the input file ${input}); choose another output folder or name`);
   });
 });

@@ -9,6 +9,7 @@
  * the user overrides.
  */
 import { readFile } from 'node:fs/promises';
+import { describeJsonSyntaxError, noteInputFile, regularFileProblemSync } from '../io/inputFiles.js';
 import { InputError, UsageError } from '../cli/errors.js';
 import type { ExposureParameters } from '../map/types.js';
 
@@ -42,6 +43,10 @@ function triple(file: string, field: string, value: unknown, positive = false): 
 
 export async function readCalibrationFile(file: string): Promise<CalibrationForRun & { appliesTo: Record<string, unknown> }> {
   let text: string;
+  const problem = regularFileProblemSync(file);
+  if (problem === 'file not found') throw new InputError(file, 'cannot read calibration file (ENOENT)');
+  if (problem !== null) throw new InputError(file, `cannot read calibration file: it ${problem}`);
+  noteInputFile(file, '--calibration file');
   try {
     text = await readFile(file, 'utf8');
   } catch (error) {
@@ -51,7 +56,7 @@ export async function readCalibrationFile(file: string): Promise<CalibrationForR
   try {
     raw = JSON.parse(text);
   } catch (error) {
-    throw new InputError(file, `calibration file is not valid JSON (${error instanceof Error ? error.message : String(error)})`);
+    throw new InputError(file, `calibration file is not valid JSON (${describeJsonSyntaxError(error)})`);
   }
   if (raw === null || typeof raw !== 'object' || Array.isArray(raw)) throw new InputError(file, 'calibration must be a JSON object');
   const record = raw as Record<string, unknown>;

@@ -16,7 +16,7 @@ export interface CameraSensitivities {
 }
 
 export function readCameraSensitivities(file: string): CameraSensitivities {
-  const table = readNumericCsv(file, 4);
+  const table = readNumericCsv(file, 4, 'camera file');
   const [wavelengthsNm, r, g, b] = table.columns;
   const lineOf = (row: number): number => table.lineNumbers[row];
   checkCoverage(file, wavelengthsNm, lineOf);

@@ -5,6 +5,7 @@
  * Errors name the file and the 1-based line, and say what was expected and what was found.
  */
 import { readFileSync } from 'node:fs';
+import { noteInputFile, regularFileProblemSync, showCell } from '../io/inputFiles.js';
 
 export interface NumericCsv {
   readonly header: readonly string[];
@@ -44,17 +45,17 @@ export function parseNumericCsv(text: string, file: string, expectedColumns: num
     if (header === null) {
       header = cells;
       if (cells.length !== expectedColumns) {
-        throw new CsvFormatError(file, lineNumber, `expected a header of ${expectedColumns} columns, found ${cells.length} ("${raw}")`);
+        throw new CsvFormatError(file, lineNumber, `expected a header of ${expectedColumns} columns, found ${cells.length}`);
       }
       continue;
     }
     if (cells.length !== expectedColumns) {
-      throw new CsvFormatError(file, lineNumber, `expected ${expectedColumns} comma-separated numbers, found ${cells.length} ("${raw}")`);
+      throw new CsvFormatError(file, lineNumber, `expected ${expectedColumns} comma-separated numbers, found ${cells.length}`);
     }
     const values = cells.map(Number);
     for (let c = 0; c < values.length; c++) {
       if (cells[c] === '' || !Number.isFinite(values[c])) {
-        throw new CsvFormatError(file, lineNumber, `column "${header[c]}" must be a finite number, found "${cells[c]}"`);
+        throw new CsvFormatError(file, lineNumber, `column "${header[c]}" must be a finite number, found ${showCell(cells[c])}`);
       }
     }
     if (!(values[0] > previousAxis)) {
@@ -71,7 +72,10 @@ export function parseNumericCsv(text: string, file: string, expectedColumns: num
 }
 
 /** Reads and parses a CSV file; an unreadable file throws with the path in the message. */
-export function readNumericCsv(file: string, expectedColumns: number): NumericCsv {
+export function readNumericCsv(file: string, expectedColumns: number, role = 'data file'): NumericCsv {
+  const problem = regularFileProblemSync(file);
+  if (problem !== null) throw new CsvFormatError(file, 0, problem);
+  noteInputFile(file, role);
   let text: string;
   try {
     text = readFileSync(file, 'utf8');

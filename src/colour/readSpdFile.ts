@@ -25,7 +25,7 @@ export function checkCoverage(file: string, wavelengthsNm: Float64Array, dataLin
 }
 
 export function readSpdFile(file: string): Light {
-  const table = readNumericCsv(file, 2);
+  const table = readNumericCsv(file, 2, 'light SPD file');
   const [wavelengthsNm, relativeSpd] = table.columns;
   const lineOf = (row: number): number => table.lineNumbers[row];
   checkCoverage(file, wavelengthsNm, lineOf);

@@ -30,9 +30,15 @@ export function describeWriteError(error: unknown): string {
   return (error instanceof Error ? error.message : String(error)).replace(/\s*\n\s*/g, ' ');
 }
 
-/** Name of the temp file used while writing `path` (hidden, same folder). */
+/**
+ * Name of the temp file used while writing `path` (hidden, same folder). Long names are cut so
+ * that the temp name stays within the usual 255-byte limit of a file name whenever the final
+ * name does (a 240-character photo name must not fail on its temp file).
+ */
 export function tempPathFor(path: string): string {
-  return join(dirname(path), `.${basename(path)}.${process.pid}.${randomBytes(4).toString('hex')}.tmp`);
+  const name = basename(path);
+  const short = Buffer.byteLength(name) > 200 ? Buffer.from(name).subarray(0, 200).toString('utf8').replace(/\uFFFD+$/, '') : name;
+  return join(dirname(path), `.${short}.${process.pid}.${randomBytes(4).toString('hex')}.tmp`);
 }
 
 export async function atomicWriteFile(path: string, bytes: Uint8Array): Promise<void> {

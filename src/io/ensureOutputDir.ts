@@ -4,24 +4,56 @@
  * (inputs are never overwritten).
  */
 import { access, mkdir, stat } from 'node:fs/promises';
-import { constants } from 'node:fs';
+import { constants, statSync } from 'node:fs';
+import { notedInputFiles } from './inputFiles.js';
 import { dirname, resolve } from 'node:path';
 import { describeWriteError } from './atomicWriteFile.js';
-import { InputError } from '../cli/errors.js';
+import { InputError, UsageError } from '../cli/errors.js';
 
 export interface EnsureOutputDirOptions {
   /** Input files of the run; none of them may be an output. */
-  inputs?: readonly string[];
+  inputs?: readonly (string | RunInput)[];
   /** Output files planned for the run (absolute, or relative to the current folder). */
   outputs?: readonly string[];
 }
 
-/** Throws InputError if any output resolves to the same path as an input. */
-export function assertNoInputOverwritten(inputs: readonly string[], outputs: readonly string[]): void {
-  const inputSet = new Set(inputs.map((p) => resolve(p)));
+/** An input of the run: its path and what it is for (shown when an output would replace it). */
+export interface RunInput {
+  readonly path: string;
+  readonly role: string;
+}
+
+function identity(path: string): string | null {
+  try {
+    const info = statSync(path);
+    return `${info.dev}:${info.ino}`;
+  } catch {
+    return null;
+  }
+}
+
+/**
+ * Throws UsageError when an output of the run is an input of the run: the same path, or the same
+ * file reached another way (a symlinked folder or file, a hard link, `..`), compared by device and
+ * inode after following links. Inputs are the given ones (plain paths are "input file"s) and every
+ * data file the run has read so far (stack and material files, SPD, camera, calibration; see
+ * ./inputFiles.ts). An output that does not exist yet cannot be an input.
+ */
+export function assertNoInputOverwritten(inputs: readonly (string | RunInput)[], outputs: readonly string[]): void {
+  const all: RunInput[] = [...inputs.map((i) => (typeof i === 'string' ? { path: i, role: 'input file' } : i)), ...notedInputFiles()];
+  const byPath = new Map<string, RunInput>();
+  const byIdentity = new Map<string, RunInput>();
+  for (const input of all) {
+    if (!byPath.has(resolve(input.path))) byPath.set(resolve(input.path), input);
+    const id = identity(input.path);
+    if (id !== null && !byIdentity.has(id)) byIdentity.set(id, input);
+  }
   for (const output of outputs) {
-    if (inputSet.has(resolve(output))) {
-      throw new InputError(output, 'output would overwrite an input file; choose another output folder or name');
+    const id = identity(output);
+    const input = byPath.get(resolve(output)) ?? (id === null ? undefined : byIdentity.get(id));
+    if (input) {
+      const same = resolve(input.path) === resolve(output) ? `it is the ${input.role} ${input.path}` : `it is the same file as the ${input.role} ${input.path}`;
+      throw new UsageError(`${output}: output would overwrite an input file (${same}); choose another output folder or name`);
     }
   }
 }

@@ -1,9 +1,9 @@
 /**
- * Registry of temporary files that are being written. An interrupt handler (installed by the
+ * Registry of temporary files (and staging folders) that are being written. An interrupt handler (installed by the
  * CLI, see `removeTempFilesOnSignals`) calls `cleanupTempFiles()` so that Ctrl-C leaves no partial
  * output behind. The library itself installs no handler unless asked.
  */
-import { unlinkSync } from 'node:fs';
+import { rmSync } from 'node:fs';
 
 const inFlight = new Set<string>();
 
@@ -25,7 +25,8 @@ export function cleanupTempFiles(): number {
   let removed = 0;
   for (const path of inFlight) {
     try {
-      unlinkSync(path);
+      // A file, or a staging folder of a set being written (./writeOutputSet.ts).
+      rmSync(path, { recursive: true });
       removed++;
     } catch {
       // Already gone (renamed into place or removed): nothing to do.

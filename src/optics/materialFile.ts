@@ -6,12 +6,16 @@
 import { readFileSync } from 'node:fs';
 import { basename, extname } from 'node:path';
 import { DataFileError } from './dataFileError.js';
+import { describeJsonSyntaxError, noteInputFile, regularFileProblemSync } from '../io/inputFiles.js';
 import type { MaterialOptions } from './material.js';
 import { materialFromRecord } from './materialRecord.js';
 import { materialFromNkTable, parseNkCsv } from './materialTable.js';
 import type { Material } from './types.js';
 
-function readText(path: string): string {
+function readText(path: string, role: string): string {
+  const problem = regularFileProblemSync(path);
+  if (problem !== null) throw new DataFileError(path, problem);
+  noteInputFile(path, role);
   try {
     return readFileSync(path, 'utf8');
   } catch (error) {
@@ -21,12 +25,12 @@ function readText(path: string): string {
 }
 
 /** Parses a JSON file, naming the file in the error. */
-export function readJsonFile(path: string): unknown {
-  const text = readText(path);
+export function readJsonFile(path: string, role = 'material file'): unknown {
+  const text = readText(path, role);
   try {
     return JSON.parse(text) as unknown;
   } catch (error) {
-    throw new DataFileError(path, `not valid JSON (${(error as Error).message})`);
+    throw new DataFileError(path, `not valid JSON (${describeJsonSyntaxError(error)})`);
   }
 }
 
@@ -35,7 +39,7 @@ export function loadMaterialFile(path: string, options: MaterialOptions = {}): M
   if (typeof path !== 'string' || path === '') throw new TypeError(`material file path must be a non-empty string, received ${JSON.stringify(path)}`);
   const extension = extname(path).toLowerCase();
   if (extension === '.csv') {
-    const table = parseNkCsv(readText(path), path);
+    const table = parseNkCsv(readText(path, 'material file'), path);
     return materialFromNkTable(table, { name: path, description: `n, k table from ${basename(path)}`, source: `user file ${path}` }, options);
   }
   if (extension === '.json') return materialFromRecord(readJsonFile(path), path, path, options);

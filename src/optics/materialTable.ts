@@ -5,6 +5,7 @@
  */
 import { linearTable } from './dispersion/linearTable.js';
 import { DataFileError } from './dataFileError.js';
+import { showCell } from '../io/inputFiles.js';
 import { makeMaterial, type MaterialOptions } from './material.js';
 import type { Material } from './types.js';
 
@@ -19,7 +20,7 @@ export function parseNkCsv(text: string, file: string): NkTable {
   const lines = text.replace(/^\uFEFF/, '').split(/\r?\n/);
   const header = lines[0].trim().toLowerCase().replace(/\s+/g, '');
   if (header !== 'wavelength_nm,n,k') {
-    throw new DataFileError(file, `line 1: expected the header "wavelength_nm,n,k", received "${lines[0].trim()}"`);
+    throw new DataFileError(file, `line 1: expected the header "wavelength_nm,n,k", received a first line of ${lines[0].trim().length} characters`);
   }
   const wl: number[] = [];
   const ns: number[] = [];
@@ -31,9 +32,9 @@ export function parseNkCsv(text: string, file: string): NkTable {
     const where = `line ${i + 1}`;
     if (cells.length !== 3) throw new DataFileError(file, `${where}: expected 3 values (wavelength_nm,n,k), received ${cells.length}`);
     const [w, n, k] = cells.map((cell) => (cell.trim() === '' ? Number.NaN : Number(cell)));
-    if (!Number.isFinite(w) || w <= 0) throw new DataFileError(file, `${where}: wavelength_nm must be a finite number > 0, received "${cells[0]}"`);
-    if (!Number.isFinite(n) || n <= 0) throw new DataFileError(file, `${where}: n must be a finite number > 0, received "${cells[1]}"`);
-    if (!Number.isFinite(k)) throw new DataFileError(file, `${where}: k must be a finite number, received "${cells[2]}"`);
+    if (!Number.isFinite(w) || w <= 0) throw new DataFileError(file, `${where}: wavelength_nm must be a finite number > 0, received ${showCell(cells[0])}`);
+    if (!Number.isFinite(n) || n <= 0) throw new DataFileError(file, `${where}: n must be a finite number > 0, received ${showCell(cells[1])}`);
+    if (!Number.isFinite(k)) throw new DataFileError(file, `${where}: k must be a finite number, received ${showCell(cells[2])}`);
     if (k < 0) throw new DataFileError(file, `${where}: k must be >= 0, received ${k}`);
     if (wl.length > 0 && !(w > wl[wl.length - 1])) {
       throw new DataFileError(file, `${where}: wavelengths must increase strictly, received ${w} nm after ${wl[wl.length - 1]} nm`);

@@ -80,7 +80,7 @@ export function materialFromSpec(spec: unknown, file: string, field: string, opt
 
 /** Reads and checks a stack file. */
 export function loadStackFile(path: string, options: MaterialOptions = {}): Stack {
-  const record = readJsonFile(path);
+  const record = readJsonFile(path, '--stack file');
   if (!isObject(record)) throw new DataFileError(path, 'expected a JSON object with ambient, layers and substrate');
   for (const key of ['ambient', 'layers', 'substrate']) {
     if (record[key] === undefined) throw new DataFileError(path, `missing field "${key}"`);

@@ -6,6 +6,7 @@
 import { Option, type Command } from 'commander';
 import type { ObserverName } from '../../colour/observers.js';
 import { atomicWriteFile } from '../../io/atomicWriteFile.js';
+import { assertNoInputOverwritten } from '../../io/ensureOutputDir.js';
 import { rasteriseSvg } from '../../io/rasteriseSvg.js';
 import { DataFileError } from '../../optics/dataFileError.js';
 import type { Polarisation } from '../../optics/types.js';
@@ -66,6 +67,8 @@ async function run(opts: ChartCliOptions): Promise<void> {
   if (exposure !== 'auto' && exposure <= 0) throw new UsageError(`--exposure must be a gain > 0 or 'auto', received ${exposure}`);
   const { light, whiteBalance } = lightsFromOptions(opts);
   const { stack, angleRad } = stackFromOptions(opts, { onWarning: (message) => process.stderr.write(`lamella: warning: ${message}\n`) });
+  // The stack, material and SPD files were read after the first check: none may be --out.
+  if (opts.out) assertNoInputOverwritten([], [opts.out]);
   let table: ChartTable;
   try {
     table = chartTable({ stack, light, angleRad, observer: opts.observer, polarisation: opts.polarisation, whiteBalance, fromNm, toNm, stepNm, exposure });

@@ -12,7 +12,7 @@ import { collect, parseKnown } from '../parseGeometry.js';
 import { UsageError } from '../errors.js';
 import { ensureOutputDir, assertNoInputOverwritten } from '../../io/ensureOutputDir.js';
 import { atomicWriteFile } from '../../io/atomicWriteFile.js';
-import { writeOutputSet } from '../../io/writeOutputSet.js';
+import { recoverStagedSets, writeOutputSet } from '../../io/writeOutputSet.js';
 import { colourTableFor, lineOfLight, mapDecodedPhoto, readMask, writeMapOutputs, mapResultJson } from '../../map/mapPhoto.js';
 import { addLightOptions, lightsFromOptions } from '../lightOptions.js';
 import { readPhoto } from '../../io/readPhoto.js';
@@ -97,17 +97,20 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
     ...(opts.threads !== undefined ? { threads: parseThreads(opts.threads) } : {}),
   };
   const known = (opts.known ?? []).map(parseKnown);
-  // Build the colour table once before any photo: a film, light or angle the model cannot use
-  // (e.g. a material outside its wavelength range) is a usage error, not a failed photo.
-  if (lineOfLight(options.light) === null) colourTableFor(options);
   const stems = photos.map((p) => basename(p, extname(p)));
   const duplicate = stems.find((s, i) => stems.indexOf(s) !== i);
   if (duplicate) throw new UsageError(`two photos share the name '${duplicate}': their outputs would collide; map them into different --out folders`);
-  const outDir = await ensureOutputDir(opts.out, {
-    inputs: [...photos, ...(opts.mask ? [opts.mask] : [])],
-    outputs: stems.flatMap((stem) => OUTPUT_SUFFIXES.map((suffix) => join(opts.out, stem + suffix))).concat(join(opts.out, 'report.html')),
-  });
-  assertNoInputOverwritten(photos, []);
+  // Every file the run reads (photos, mask, and the stack, material, SPD, camera and calibration
+  // files read above) against every output, by identity, before any work.
+  const plannedOutputs = stems.flatMap((stem) => OUTPUT_SUFFIXES.map((suffix) => join(opts.out, stem + suffix))).concat(join(opts.out, 'report.html'));
+  const runInputs = [...photos.map((path) => ({ path, role: 'photo' })), ...(opts.mask ? [{ path: opts.mask, role: '--mask' }] : [])];
+  assertNoInputOverwritten(runInputs, plannedOutputs);
+  // Build the colour table once before any photo: a film, light or angle the model cannot use
+  // (e.g. a material outside its wavelength range) is a usage error, not a failed photo.
+  if (lineOfLight(options.light) === null) colourTableFor(options);
+  const outDir = await ensureOutputDir(opts.out, { inputs: runInputs, outputs: plannedOutputs });
+  // What a run killed outright (SIGKILL) left here: finish or drop its output set.
+  recoverStagedSets(outDir);
   const failed: string[] = [];
   let thin = 0;
   const records: Record<string, unknown>[] = [];
@@ -134,17 +137,18 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
       }
       const result = mapDecodedPhoto(decoded, photoOptions, mask, photo);
       const record = mapResultJson(result, photoOptions, photo);
-      // All of a photo's outputs or none, even when interrupted or the disk fills up.
-      await writeOutputSet(OUTPUT_SUFFIXES.map((suffix) => join(outDir, stem + suffix)), async () => {
-        await writeMapOutputs(result, photo, outDir, stem, { images: true, json: true, npy: true, tiff: true }, photoOptions, record);
+      // The photo's new outputs replace its old ones all together or not at all, even when
+      // interrupted or the disk fills up (with one photo, report.html belongs to the set).
+      const setNames = OUTPUT_SUFFIXES.map((suffix) => stem + suffix).concat(photos.length === 1 ? ['report.html'] : []);
+      await writeOutputSet(setNames.map((name) => join(outDir, name)), async (staging) => {
+        await writeMapOutputs(result, photo, staging, stem, { images: true, json: true, npy: true, tiff: true }, photoOptions, record);
         if (opts.report) {
           const html = renderMapReport({ ...(await mapReportInput(result, photoOptions, photo, record)), calibration: calibration?.raw ?? null });
-          const file = `${stem}.report.html`;
-          await atomicWriteFile(join(outDir, file), Buffer.from(html, 'utf8'));
-          reports.push({ stem, file });
-          if (photos.length === 1) await atomicWriteFile(join(outDir, 'report.html'), Buffer.from(html, 'utf8'));
+          await atomicWriteFile(join(staging, `${stem}.report.html`), Buffer.from(html, 'utf8'));
+          if (photos.length === 1) await atomicWriteFile(join(staging, 'report.html'), Buffer.from(html, 'utf8'));
         }
       });
+      if (opts.report) reports.push({ stem, file: `${stem}.report.html` });
       records.push(record);
       if (result.thinRegions.length > 0) thin++;
       for (const warning of result.warnings) warn(`${photo}: ${warning}`);

@@ -78,6 +78,8 @@ async function run(file: string, opts: RenderCliOptions): Promise<void> {
     }
   }
   const { stack, angleRad } = stackFromOptions(opts, { onWarning: (message) => process.stderr.write(`lamella: warning: ${message}\n`) });
+  // The stack, material, SPD and camera files were read after the first check: none may be --out.
+  assertNoInputOverwritten([], [opts.out]);
   const grid = await readThicknessGrid(file, { pngScaleNm });
   let result;
   try {
