@@ -90,6 +90,8 @@ export async function writeOutputSet<T>(paths: readonly string[], write: (stagin
     } catch (error) {
       throw aboutFinalFile(error, staging, finalDir);
     }
+    // The interrupt clean-up removes the staging folder: then there is nothing to swap in.
+    if (!existsSync(staging)) throw new Error('the new outputs were removed by an interrupt before they were complete');
     // Everything is on disk: swap, in one synchronous step.
     const list: CommitList = { replace: names.filter((n) => existsSync(join(staging, n))), remove: names.filter((n) => !existsSync(join(staging, n))) };
     const commitTemp = join(staging, `${COMMIT_NAME}.tmp`);

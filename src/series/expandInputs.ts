@@ -10,11 +10,17 @@ import { glob } from 'tinyglobby';
 import { compareNatural } from './naturalOrder.js';
 import { isImageFileName } from './imageExtensions.js';
 import type { FrameJob } from './types.js';
+import { InputError } from '../cli/errors.js';
 
 export interface ExpandedInputs {
   readonly frames: FrameJob[];
   /** Inputs that matched nothing, and duplicates removed, as one-line warnings. */
   readonly warnings: string[];
+}
+
+/** True when `input` uses glob syntax (*, ?, [ ], { }, a leading !). */
+function isGlobPattern(input: string): boolean {
+  return /[*?[\]{}]/.test(input) || input.startsWith('!');
 }
 
 async function kindOf(path: string): Promise<'file' | 'dir' | null> {
@@ -37,11 +43,18 @@ export async function expandInputs(inputs: readonly string[], cwd: string = proc
     if (kind === 'file') {
       found.push(absolute);
     } else if (kind === 'dir') {
-      const names = (await readdir(absolute, { withFileTypes: true }))
-        .filter((entry) => entry.isFile() && isImageFileName(entry.name))
-        .map((entry) => join(absolute, entry.name));
+      // Symlinked frames count like files (the link is followed when the frame is read).
+      const entries = (await readdir(absolute, { withFileTypes: true })).filter((entry) => isImageFileName(entry.name));
+      const names: string[] = [];
+      for (const entry of entries) {
+        const path = join(absolute, entry.name);
+        if (entry.isFile() || (entry.isSymbolicLink() && (await kindOf(path)) === 'file')) names.push(path);
+      }
       if (names.length === 0) warnings.push(`input folder ${input} holds no image files (.jpg, .png, .tif, .webp)`);
       found.push(...names);
+    } else if (!isGlobPattern(input)) {
+      // A plain path that does not exist is a mistake, not an empty pattern: stop before any frame.
+      throw new InputError(input, 'no such file or folder (give photos, folders of photos or a glob pattern)');
     } else {
       const matches = await glob(input, { cwd, absolute: true, onlyFiles: true, expandDirectories: false });
       if (matches.length === 0) warnings.push(`input ${input} matches no file`);

@@ -10,12 +10,15 @@ import { readFile } from 'node:fs/promises';
 import { decodeNpy } from '../io/decodeNpy.js';
 import { frameNpyPath, isFrameDone, readFrameRecord } from './frameFiles.js';
 import { frameRecordOf, writeFrameOutputs } from './writeFrameOutputs.js';
+import { frameSettingsHash } from './frameSource.js';
 import type { FrameEvent, FrameJob, FrameProcessor } from './types.js';
 import type { MapResult } from '../map/types.js';
 
 export interface ChunkContext {
   readonly outDir: string;
   readonly settingsHash: string;
+  /** SHA-256 of the run's data files, stored in each frame record (./frameSource.ts). */
+  readonly inputFiles?: Readonly<Record<string, string>>;
   readonly previews: boolean;
   /** Size every frame must have (from the series' reference frame), or null to accept any. */
   readonly expectedSize: { readonly width: number; readonly height: number } | null;
@@ -42,11 +45,14 @@ function messageOf(error: unknown): string {
 export async function runChunk(chunk: readonly FrameJob[], processor: FrameProcessor, context: ChunkContext): Promise<void> {
   const { outDir, settingsHash, previews, expectedSize, onFrame } = context;
   const writePreviews = previews && processor.writePreviews ? processor.writePreviews.bind(processor) : null;
-  let previous: { frame: FrameJob; map: Float32Array | null; fitted: MapResult['fitted'] | null; stored: boolean } | null = null;
+  let previous: { frame: FrameJob; map: Float32Array | null; fitted: MapResult['fitted'] | null; stored: boolean; hash: string } | null = null;
   for (const frame of chunk) {
     if (context.isAborted?.()) return;
-    if (await isFrameDone(outDir, frame.stem, settingsHash, previews)) {
-      previous = { frame, map: null, fitted: null, stored: true };
+    // The series' settings and data files combined with the frame's own file.
+    // (and the frame before it in the chunk, whose map is the prior).
+    const frameHash = frameSettingsHash(settingsHash, frame, previous?.hash ?? null);
+    if (await isFrameDone(outDir, frame.stem, frameHash, previews)) {
+      previous = { frame, map: null, fitted: null, stored: true, hash: frameHash };
       onFrame({ index: frame.index, name: frame.name, outcome: 'skipped' });
       continue;
     }
@@ -62,9 +68,15 @@ export async function runChunk(chunk: readonly FrameJob[], processor: FrameProce
       if (expectedSize && (result.width !== expectedSize.width || result.height !== expectedSize.height)) {
         throw new RangeError(`size ${result.width}x${result.height} differs from the series' ${expectedSize.width}x${expectedSize.height}; skipped`);
       }
-      const record = frameRecordOf(frame, result, settingsHash, priorFrame);
+      const mappedHash = frameSettingsHash(settingsHash, frame, prior === null ? null : previous!.hash);
+      const record = {
+        ...frameRecordOf(frame, result, mappedHash, priorFrame),
+        seriesHash: settingsHash,
+        ...(frame.source ? { source: frame.source } : {}),
+        ...(context.inputFiles ? { inputFiles: context.inputFiles } : {}),
+      };
       await writeFrameOutputs(outDir, frame, result, record, writePreviews);
-      previous = { frame, map: result.thicknessNm, fitted: result.fitted, stored: false };
+      previous = { frame, map: result.thicknessNm, fitted: result.fitted, stored: false, hash: mappedHash };
       onFrame({ index: frame.index, name: frame.name, outcome: 'mapped' });
     } catch (error) {
       previous = null;

@@ -13,6 +13,7 @@ export interface RunFramesOptions {
   readonly chunks: readonly FrameJob[][];
   readonly outDir: string;
   readonly settingsHash: string;
+  readonly inputFiles?: Readonly<Record<string, string>>;
   readonly previews: boolean;
   readonly expectedSize: ChunkContext['expectedSize'];
   /** Number of worker threads; 0 maps in this thread and needs `processor` to be an object. */
@@ -48,7 +49,7 @@ export async function runFrames(options: RunFramesOptions): Promise<RunFramesRes
     const progress = { done: events.length, total, ...counts, elapsedMs: Date.now() - started };
     options.onFrame?.(event, progress);
   };
-  const base = { outDir, settingsHash, previews, expectedSize };
+  const base = { outDir, settingsHash, previews, expectedSize, ...(options.inputFiles ? { inputFiles: options.inputFiles } : {}) };
   if (options.workers === 0) {
     if (isSource(options.processor)) throw new TypeError('processor must be a FrameProcessor object when workers is 0');
     for (const chunk of chunks) {

@@ -14,7 +14,10 @@ import { assignFrameTimes } from './frameTimes.js';
 import { chunkFrames, shardChunks } from './chunkFrames.js';
 import type { Shard } from './parseShard.js';
 import { settingsHash } from './settingsHash.js';
-import { framesDir, removePartialFrames } from './frameFiles.js';
+import { framesDir, isFrameDone, readFrameRecord, removePartialFrames } from './frameFiles.js';
+import { describeRemapReasons, fingerprintFrame, fingerprintInputFiles, frameSettingsHash, remapReason, type RemapReason } from './frameSource.js';
+import { assertNoInputOverwritten } from '../io/ensureOutputDir.js';
+import { recoverStagedSets, writeOutputSet } from '../io/writeOutputSet.js';
 import { runFrames } from './runFrames.js';
 import { collectSeriesRows } from './seriesRows.js';
 import { formatSeriesCsv } from './seriesCsv.js';
@@ -27,6 +30,10 @@ import { seriesSummary, type SeriesSummary } from './seriesSummary.js';
 import type { FrameEvent, FrameProcessor, ProcessorSource, SeriesProgress } from './types.js';
 
 export const DEFAULT_CHUNK_FRAMES = 10;
+/** The aggregate outputs in OUT, replaced as one set. */
+export const AGGREGATE_OUTPUTS = ['series.csv', 'series.json', 'report.html'] as const;
+/** Per-frame outputs in OUT/frames (./frameFiles.ts). */
+const FRAME_SUFFIXES = ['.json', '.thickness.npy', '.status.npy', '.map.png', '.flags.png'];
 
 export interface SeriesOptions {
   readonly inputs: readonly string[];
@@ -63,7 +70,23 @@ export interface SeriesOptions {
    * mapped, e.g. to check a region or anchors against it; an error it throws stops the run.
    */
   readonly checkFrameSize?: (size: { readonly width: number; readonly height: number }) => void | Promise<void>;
-  readonly onPlan?: (plan: { readonly frames: number; readonly toVisit: number; readonly chunks: number; readonly workers: number }) => void;
+  readonly onPlan?: (plan: SeriesPlan) => void;
+  /**
+   * The data files the frames' results depend on (stack and material files, calibration, mask,
+   * light SPD): their contents are part of the settings hash, and no output may be one of them.
+   */
+  readonly inputFiles?: readonly { readonly path: string; readonly role: string }[];
+}
+
+export interface SeriesPlan {
+  readonly frames: number;
+  readonly toVisit: number;
+  readonly chunks: number;
+  readonly workers: number;
+  /** Frames of this run's share that have a stored result, current or not. */
+  readonly stored: number;
+  /** How many frames this run maps (again), and why, e.g. "3 photo file changed, 1 not mapped before". */
+  readonly remap: { readonly count: number; readonly why: string };
 }
 
 export interface SeriesResult {
@@ -100,23 +123,53 @@ export async function runSeries(options: SeriesOptions): Promise<SeriesResult> {
   const timed = probed.readable
     .map(({ frame }, i) => ({ frame, timeS: stepS !== null ? frame.index * stepS : timing.timesS[i] }))
     .filter(({ frame }) => !probed.wrongSize.has(frame.index));
+  // Each frame's own file, by content: a replaced photo is mapped again.
+  for (const t of timed) {
+    const source = await fingerprintFrame(t.frame.path);
+    if (source) t.frame = { ...t.frame, source };
+  }
   const frames = timed.map((t) => t.frame);
+  const dataFiles = options.inputFiles ?? [];
+  // No output may be a frame or a data file of the run, however the folder is reached.
+  assertNoInputOverwritten(
+    [...frames.map((f) => ({ path: f.path, role: 'frame' })), ...dataFiles],
+    [...AGGREGATE_OUTPUTS.map((n) => join(outDir, n)), ...frames.flatMap((f) => FRAME_SUFFIXES.map((s) => join(framesDir(outDir), f.stem + s)))],
+  );
   if (probed.size && options.checkFrameSize) await options.checkFrameSize(probed.size);
-  const hash = settingsHash({ format: 1, chunkFrames: chunkSize, map: options.mapSettings, calibration: options.calibration ?? null });
+  const inputFiles = await fingerprintInputFiles(dataFiles);
+  const hash = settingsHash({ format: 1, chunkFrames: chunkSize, map: options.mapSettings, calibration: options.calibration ?? null, ...(dataFiles.length > 0 ? { inputFiles } : {}) });
   await ensureOutputDir(outDir);
   await mkdir(framesDir(outDir), { recursive: true });
+  // What a run killed outright left of the aggregate outputs: finish or drop it.
+  recoverStagedSets(outDir);
   const chunks = chunkFrames(frames, chunkSize);
   const mine = options.shard ? shardChunks(chunks, options.shard) : chunks;
   const toVisit = options.aggregateOnly ? [] : mine;
   await removePartialFrames(outDir, new Set(toVisit.flat().map((f) => f.stem)));
   const visitCount = toVisit.reduce((n, c) => n + c.length, 0);
   const workers = Math.min(options.workers, toVisit.length);
-  options.onPlan?.({ frames: frames.length, toVisit: visitCount, chunks: toVisit.length, workers });
+  const reasons: RemapReason[] = [];
+  let stored = 0;
+  for (const chunk of toVisit) {
+    // Walk each chunk's prior chain as runChunk will (a failing frame aside).
+    let priorHash: string | null = null;
+    for (const frame of chunk) {
+      const record = await readFrameRecord(outDir, frame.stem);
+      if (record !== null) stored++;
+      const expected = frameSettingsHash(hash, frame, priorHash);
+      let reason = remapReason(record, frame, expected, { seriesHash: hash, inputFiles });
+      if (reason === null && !(await isFrameDone(outDir, frame.stem, expected, options.previews ?? false))) reason = 'incomplete';
+      if (reason !== null) reasons.push(reason);
+      priorHash = expected;
+    }
+  }
+  options.onPlan?.({ frames: frames.length, toVisit: visitCount, chunks: toVisit.length, workers, stored, remap: { count: reasons.length, why: describeRemapReasons(reasons) } });
   if (options.shard && mine.length === 0) warnings.push(`shard ${options.shard.index}/${options.shard.count} has no frames (${chunks.length} chunk(s) of ${chunkSize} frames)`);
   const run = toVisit.length === 0 ? { events: [], interrupted: false } : await runFrames({
     chunks: toVisit,
     outDir,
     settingsHash: hash,
+    ...(dataFiles.length > 0 ? { inputFiles } : {}),
     previews: options.previews ?? false,
     expectedSize: probed.size,
     workers: options.workers === 0 ? 0 : workers,
@@ -126,8 +179,11 @@ export async function runSeries(options: SeriesOptions): Promise<SeriesResult> {
   });
   for (const event of run.events) if (event.outcome === 'failed') failures.push(event.message ?? `${event.name}: failed`);
   if (run.interrupted) return { interrupted: true, summary: null, failures, warnings, events: run.events, outputs: [] };
+  const aborted = (): boolean => options.signal?.aborted === true;
+  const interrupted: SeriesResult = { interrupted: true, summary: null, failures, warnings, events: run.events, outputs: [] };
+  if (aborted()) return interrupted;
   const collected = await collectSeriesRows(outDir, frames, timed.map((t) => t.timeS), hash);
-  if (collected.stale.length > 0) warnings.push(`${collected.stale.length} frame(s) have results from other settings (e.g. ${collected.stale[0]}); they are left out until mapped again`);
+  if (collected.stale.length > 0) warnings.push(`${collected.stale.length} frame(s) have results from other settings or another photo file (e.g. ${collected.stale[0]}); they are left out until mapped again`);
   const drainage = fitSeriesDrainage(collected.rows, options.thinBelowNm);
   warnings.push(...drainage.warnings);
   const summary = seriesSummary({
@@ -140,31 +196,43 @@ export async function runSeries(options: SeriesOptions): Promise<SeriesResult> {
     size: probed.size,
     warnings: [...warnings, ...failures],
   });
-  const csvPath = join(outDir, 'series.csv');
-  const jsonPath = join(outDir, 'series.json');
-  await writeAtomic(csvPath, formatSeriesCsv(collected.rows));
-  await writeAtomic(jsonPath, `${JSON.stringify(summary, null, 2)}\n`);
+  const [csvPath, jsonPath, reportPath] = AGGREGATE_OUTPUTS.map((name) => join(outDir, name));
   const outputs = [csvPath, jsonPath];
-  if (options.report !== false) {
-    const input = await seriesReportInput(summary, collected.rows, {
-      title: options.reportTitle ?? `Series of ${frames.length} frames`,
-      generatedAt: options.generatedAt ?? new Date().toISOString(),
-      outDir,
-      stems: new Map(frames.map((f) => [f.name, f.stem])),
-    });
-    const last = collected.rows.length > 0 ? frames.find((f) => f.name === collected.rows[collected.rows.length - 1].frame) : undefined;
-    let lastMap: MapReportInput | null = null;
-    if (last && options.reportLastMap !== false) {
-      try {
-        lastMap = await lastFrameView(outDir, last, frames, options.processor);
-      } catch (error) {
-        warnings.push(`report: the map view of the last frame ${last.name} was left out (${error instanceof Error ? error.message : String(error)})`);
+  // series.csv, series.json and report.html replace the old ones all together or not at all: a
+  // signal before the swap leaves the old three (and the run exits as interrupted).
+  try {
+    await writeOutputSet([csvPath, jsonPath, reportPath], async (staging) => {
+      await writeAtomic(join(staging, AGGREGATE_OUTPUTS[0]), formatSeriesCsv(collected.rows));
+      await writeAtomic(join(staging, AGGREGATE_OUTPUTS[1]), `${JSON.stringify(summary, null, 2)}\n`);
+      if (options.report !== false) {
+        const input = await seriesReportInput(summary, collected.rows, {
+          title: options.reportTitle ?? `Series of ${frames.length} frames`,
+          generatedAt: options.generatedAt ?? new Date().toISOString(),
+          outDir,
+          stems: new Map(frames.map((f) => [f.name, f.stem])),
+        });
+        const last = collected.rows.length > 0 ? frames.find((f) => f.name === collected.rows[collected.rows.length - 1].frame) : undefined;
+        let lastMap: MapReportInput | null = null;
+        if (last && options.reportLastMap !== false && !aborted()) {
+          try {
+            lastMap = await lastFrameView(outDir, last, frames, options.processor);
+          } catch (error) {
+            warnings.push(`report: the map view of the last frame ${last.name} was left out (${error instanceof Error ? error.message : String(error)})`);
+          }
+        }
+        await writeAtomic(join(staging, AGGREGATE_OUTPUTS[2]), renderSeriesReport(lastMap ? { ...input, lastMap: { ...lastMap, calibration: options.calibration ?? null } } : input));
+        outputs.push(reportPath);
       }
-    }
-    const reportPath = join(outDir, 'report.html');
-    await writeAtomic(reportPath, renderSeriesReport(lastMap ? { ...input, lastMap: { ...lastMap, calibration: options.calibration ?? null } } : input));
-    outputs.push(reportPath);
+      // The last look before the swap (which runs in the same turn of the event loop).
+      if (aborted()) throw new Error('interrupted');
+    });
+  } catch (error) {
+    // The interrupt clean-up may have removed the staging folder under a write: not a write error.
+    if (aborted()) return interrupted;
+    throw error;
   }
+  // A signal that came after the swap: the new set is whole; the run still reports the signal.
+  if (aborted()) return { ...interrupted, summary, outputs };
   return { interrupted: false, summary, failures, warnings, events: run.events, outputs };
 }
 

@@ -4,8 +4,9 @@
  * This is the whole of aggregation: any run, shard or not, ends with it, so N shards plus one
  * aggregation give exactly what a single run gives.
  */
+import { frameSettingsHash } from './frameSource.js';
 import { readFrameRecord } from './frameFiles.js';
-import type { FrameJob } from './types.js';
+import type { FrameJob, FrameRecord } from './types.js';
 
 export interface SeriesRow {
   readonly frame: string;
@@ -37,9 +38,13 @@ export async function collectSeriesRows(outDir: string, frames: readonly FrameJo
   const rows: SeriesRow[] = [];
   const missing: string[] = [];
   const stale: string[] = [];
+  const records = new Map<string, FrameRecord | null>();
+  for (const frame of frames) records.set(frame.name, await readFrameRecord(outDir, frame.stem));
   for (let i = 0; i < frames.length; i++) {
-    const record = await readFrameRecord(outDir, frames[i].stem);
-    if (record === null || record.settingsHash !== settingsHash || record.frame !== frames[i].name) {
+    const record = records.get(frames[i].name) ?? null;
+    // Current when made with these settings, from this photo file, after this prior.
+    const priorHash = record?.priorFrame ? (records.get(record.priorFrame)?.settingsHash ?? 'missing') : null;
+    if (record === null || record.settingsHash !== frameSettingsHash(settingsHash, frames[i], priorHash) || record.frame !== frames[i].name) {
       missing.push(frames[i].name);
       if (record !== null) stale.push(frames[i].name);
       continue;

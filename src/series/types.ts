@@ -13,6 +13,15 @@ export interface FrameJob {
   readonly name: string;
   /** File name without extension: prefix of the per-frame outputs in `frames/`. */
   readonly stem: string;
+  /** The frame file's fingerprint when known (./frameSource.ts): a changed photo is mapped again. */
+  readonly source?: FrameSource;
+}
+
+/** Size, modification time and SHA-256 of a frame's file. */
+export interface FrameSource {
+  readonly sizeBytes: number;
+  readonly mtimeMs: number;
+  readonly sha256: string;
 }
 
 /**
@@ -72,4 +81,10 @@ export interface FrameRecord {
   readonly darkLimitNm: number;
   readonly thinRegions: MapResult['thinRegions'];
   readonly warnings: readonly string[];
+  /** The series' settings hash the frame was mapped with (`settingsHash` adds the frame's own file and prior). */
+  readonly seriesHash?: string;
+  /** The frame file it was mapped from (absent in records of older versions and test doubles). */
+  readonly source?: FrameSource;
+  /** SHA-256 of each data file the run read (stack, materials, calibration, mask, light), by "role path". */
+  readonly inputFiles?: Readonly<Record<string, string>>;
 }

@@ -19,6 +19,7 @@ import type { SeriesProgress } from '../../series/types.js';
 import { addLightOptions, lightsFromOptions } from '../lightOptions.js';
 import { checkRegion } from '../../map/filmMask.js';
 import { readMask } from '../../map/mapPhoto.js';
+import { notedInputFiles } from '../../io/inputFiles.js';
 
 interface SeriesCliOptions extends StackCliOptions, FilmAreaCliOptions {
   light: string;
@@ -104,6 +105,8 @@ async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions, warn:
       ...(anchors.length > 0 ? { anchors } : {}), ...(pixelSizeUm !== null ? { pixelSizeUm } : {}),
     },
     calibration: calibration?.raw ?? null,
+    // Stack, material, SPD and calibration files read above, and the mask: by content.
+    inputFiles: [...notedInputFiles(), ...(maskPath ? [{ path: maskPath, role: '--mask' }] : [])],
     processor: { moduleUrl: MAP_FRAME_PROCESSOR_URL, config },
     // Region, anchors and mask against the frames, once, before any frame is mapped.
     checkFrameSize: async ({ width, height }: { width: number; height: number }) => {
@@ -148,6 +151,12 @@ async function run(inputs: string[], opts: SeriesCliOptions): Promise<void> {
     result = await runSeries({
       ...options,
       signal: controller.signal,
+      onPlan: (plan) => {
+        // On a re-run, say how many frames are mapped again and why.
+        if (!opts.quiet && plan.stored > 0 && plan.remap.count > 0) {
+          process.stderr.write(`lamella: ${plan.remap.count} of ${plan.frames} frame(s) to map: ${plan.remap.why}\n`);
+        }
+      },
       onFrame: (event, p) => {
         if (event.outcome === 'failed') process.stderr.write(`${process.stderr.isTTY && !opts.quiet ? '\n' : ''}lamella: ${event.message}\n`);
         progress(p);
@@ -159,7 +168,7 @@ async function run(inputs: string[], opts: SeriesCliOptions): Promise<void> {
     process.off('SIGINT', onSignal);
     process.off('SIGTERM', onSignal);
   }
-  if (result.interrupted) {
+  if (result.interrupted || signalName !== null) {
     process.stderr.write(`\nlamella: series interrupted by ${signalName ?? 'a signal'}; finished frames are kept, rerun the same command to resume\n`);
     process.exitCode = signalName === 'SIGTERM' ? 143 : 130;
     return;
