@@ -1,9 +1,11 @@
 /**
  * `series.csv`: one row per mapped frame, RFC 4180 CSV (comma separated, CRLF-free `\n` line ends
  * as most tools accept, fields quoted only when they contain a comma, quote or line break).
- * Fixed decimals: time 3, thicknesses 2, fractions 4, exposure 4; empty cell = no value.
+ * Fixed decimals: time 3, thicknesses 2, fractions 4, exposure 4; empty cell = no value. Frame
+ * names a spreadsheet would run as formulas get a leading apostrophe (../io/csvCell.ts).
  */
 import type { SeriesRow } from './seriesRows.js';
+import { csvText } from '../io/csvCell.js';
 
 export const SERIES_CSV_COLUMNS = [
   'frame',
@@ -19,9 +21,6 @@ export const SERIES_CSV_COLUMNS = [
   'exposure',
 ] as const;
 
-function quote(text: string): string {
-  return /[",\n\r]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
-}
 
 function fixed(value: number | null, decimals: number): string {
   return value === null || !Number.isFinite(value) ? '' : value.toFixed(decimals);
@@ -32,7 +31,7 @@ export function formatSeriesCsv(rows: readonly SeriesRow[]): string {
   for (const r of rows) {
     lines.push(
       [
-        quote(r.frame),
+        csvText(r.frame),
         fixed(r.timeS, 3),
         fixed(r.meanNm, 2),
         fixed(r.medianNm, 2),
