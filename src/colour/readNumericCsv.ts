@@ -74,6 +74,7 @@ export function parseNumericCsv(text: string, file: string, expectedColumns: num
 /** Reads and parses a CSV file; an unreadable file throws with the path in the message. */
 export function readNumericCsv(file: string, expectedColumns: number, role = 'data file'): NumericCsv {
   const problem = regularFileProblemSync(file);
+  if (problem === 'file not found') throw new CsvFormatError(file, 0, 'cannot read the file (ENOENT)');
   if (problem !== null) throw new CsvFormatError(file, 0, problem);
   noteInputFile(file, role);
   let text: string;

@@ -52,6 +52,12 @@ export interface PhotoMetadata {
 export interface ReadPhotoOptions {
   /** Refuse images with more pixels than this (default and upper bound: MAX_PIXELS). */
   maxPixels?: number;
+  /**
+   * Decode a file the decoder reports as damaged (corrupt data, fewer rows than the header says)
+   * instead of refusing it: rows the decoder filled in are made transparent (so they get no
+   * estimate) and `warnings` says so. Default false: any decoder warning is an error.
+   */
+  allowDamaged?: boolean;
 }
 
 /** Plain raster for writing: interleaved samples, 8-bit (Uint8Array) or 16-bit (Uint16Array). */

@@ -46,13 +46,27 @@ export async function readPhoto(path: string, options: ReadPhotoOptions = {}): P
   // converting to 'b-w' would drop the alpha band of grey + alpha images.
   const space = is16 ? 'rgb16' : 'srgb';
   let raw: { data: Buffer; info: OutputInfo };
-  try {
-    raw = await sharp(bytes, { autoOrient: true, limitInputPixels: maxPixels, failOn: 'error', ignoreIcc: is16 })
+  const decode = (failOn: 'warning' | 'none') =>
+    sharp(bytes, { autoOrient: true, limitInputPixels: maxPixels, failOn, ignoreIcc: is16 })
       .toColourspace(space)
       .raw({ depth: is16 ? 'ushort' : 'uchar' })
       .toBuffer({ resolveWithObject: true });
+  // The decoder's warnings (corrupt data, a premature end of the data) are errors: a damaged
+  // photo would give a map half of garbage. `allowDamaged` decodes what it can instead.
+  let damage: string | null = null;
+  try {
+    raw = await decode('warning');
   } catch (error) {
-    throw decodeInputError(path, error, maxPixels);
+    const refused = decodeInputError(path, error, maxPixels);
+    if (!options.allowDamaged || !/truncated or corrupt/.test(refused.message)) {
+      throw /truncated or corrupt/.test(refused.message) ? new InputError(path, `${refused.message.slice(path.length + 2)}; add --allow-damaged to map what decodes`) : refused;
+    }
+    damage = (error instanceof Error ? error.message : String(error)).replace(/\s*\n\s*/g, ' ').trim();
+    try {
+      raw = await decode('none');
+    } catch (again) {
+      throw decodeInputError(path, again, maxPixels);
+    }
   }
   const { width, height, channels } = raw.info;
   const pixelCount = width * height;
@@ -114,10 +128,33 @@ export async function readPhoto(path: string, options: ReadPhotoOptions = {}): P
     exif: parseExifTime(meta.exif),
   };
   if (typeof meta.chromaSubsampling === 'string') photo.chromaSubsampling = meta.chromaSubsampling;
-  if (alpha) photo.alpha = alpha;
+  if (typeof meta.pages === 'number' && meta.pages > 1) {
+    // Only the first page is decoded; say so, since a stack of frames may hide in one file.
+    photo.warnings = [...(photo.warnings ?? []), `the file holds ${meta.pages} pages (images); page 1 of ${meta.pages} was used (split the pages into separate files to map the others)`];
+  }
+  if (damage !== null) {
+    // Rows the decoder could not read come back as flat mid-grey (every sample 128, or 32896 at
+    // 16 bits) from the bottom up; those are made transparent, so they get no estimate.
+    const fill = is16 ? 32896 : 128;
+    const rowSamples = width * channels;
+    let firstFilled = height;
+    for (let y = height - 1; y >= 0; y--) {
+      const row = samples.subarray(y * rowSamples, (y + 1) * rowSamples);
+      if (!row.every((v) => v === fill)) break;
+      firstFilled = y;
+    }
+    const a = alpha ?? new Float32Array(pixelCount).fill(1);
+    a.fill(0, firstFilled * width);
+    photo.alpha = a;
+    photo.warnings = [
+      ...(photo.warnings ?? []),
+      `damaged image (${damage}); mapped what decodes${firstFilled < height ? `, the ${height - firstFilled} row(s) from row ${firstFilled} on that did not decode have no estimate` : '; parts of the map may be wrong'}`,
+    ];
+  }
+  if (alpha && !photo.alpha) photo.alpha = alpha;
   const profile = iccDescription(meta.icc);
   if (is16 && meta.icc && !isSrgbDescription(profile)) {
-    photo.warnings = [`16-bit image carries the colour profile "${profile ?? 'unnamed'}"; its values are used as if sRGB. Convert it to sRGB first for calibrated results.`];
+    photo.warnings = [...(photo.warnings ?? []), `16-bit image carries the colour profile "${profile ?? 'unnamed'}"; its values are used as if sRGB. Convert it to sRGB first for calibrated results.`];
   }
   return photo;
 }

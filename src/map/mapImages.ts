@@ -107,6 +107,9 @@ export function mapRaster(result: MapResult, range: ScaleRange, pixels?: Int32Ar
   return out;
 }
 
+/** Longest colour bar beside a map, pixels (well inside the SVG rasteriser's 32767-pixel side). */
+const MAX_BAR_PX = 16000;
+
 export async function renderMapPng(result: MapResult, range: ScaleRange, pixelSizeUm: number | null, title: string): Promise<Buffer> {
   const { width, height } = result;
   const unit = Math.max(12, Math.round(Math.min(width, height) / 28));
@@ -119,9 +122,13 @@ export async function renderMapPng(result: MapResult, range: ScaleRange, pixelSi
   const canvasHeight = Math.max(height + top + margin, height + top + Math.ceil(unit * 2.9), unit * 16);
   // Small overlays at their places: drawing canvas-sized SVGs would cost more than the map.
   const panelLeft = width + margin;
+  // The SVG rasteriser refuses pictures over 32767 pixels a side: beside a very tall photo the
+  // colour bar stops at MAX_BAR_PX, so the preview never limits which photos can be mapped.
+  const barHeight = Math.min(height, MAX_BAR_PX);
+  const panelHeight = barHeight === height ? canvasHeight : Math.max(barHeight + top + margin, barHeight + top + Math.ceil(unit * 2.9), unit * 16);
   const overlays: Array<{ svg: string; left: number; top: number }> = [
     { svg: titleSvg(Math.min(canvasWidth, unit * 60), top, unit, title), left: 0, top: 0 },
-    { svg: colourBarSvg(canvasWidth - panelLeft, canvasHeight, margin, top, barWidth, height, range, unit, result.darkLimitNm), left: panelLeft, top: 0 },
+    { svg: colourBarSvg(canvasWidth - panelLeft, panelHeight, margin, top, barWidth, barHeight, range, unit, result.darkLimitNm), left: panelLeft, top: 0 },
   ];
   if (pixelSizeUm !== null && pixelSizeUm > 0) overlays.push(scaleBarSvg(margin, top, width, height, pixelSizeUm, unit));
   return composeImagePng({

@@ -140,13 +140,15 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
   };
 }
 
-export async function mapPhotoFile(path: string, options: MapOptions): Promise<MappedPhoto> {
-  const photo = await readPhoto(path, { maxPixels: MAP_MAX_PIXELS });
+export async function mapPhotoFile(path: string, options: MapOptions, read: { allowDamaged?: boolean } = {}): Promise<MappedPhoto> {
+  const photo = await readPhoto(path, { maxPixels: MAP_MAX_PIXELS, allowDamaged: read.allowDamaged === true });
   const mask = options.maskPath ? await readMask(options.maskPath, photo.width, photo.height) : null;
   if (options.prior && options.prior.length !== photo.width * photo.height) {
     throw new InputError(path, `frame is ${photo.width}×${photo.height}, a different size from the previous frame`);
   }
-  return mapDecodedPhoto(photo, options, mask, path);
+  const result = mapDecodedPhoto(photo, options, mask, path);
+  // The reader's warnings (a damaged file, a colour profile) come first.
+  return photo.warnings?.length ? { ...result, warnings: [...photo.warnings, ...result.warnings] } : result;
 }
 
 export interface OutputSelection {

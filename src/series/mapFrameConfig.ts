@@ -19,6 +19,8 @@ export interface MapFrameConfig {
   readonly maskPath?: string | null;
   readonly anchors?: ReadonlyArray<{ readonly x: number; readonly y: number; readonly thicknessNm: number }>;
   readonly pixelSizeUm?: number | null;
+  /** Map damaged frames as far as they decode (`--allow-damaged`). */
+  readonly allowDamaged?: boolean;
 }
 
 /** Module URL of the real processor, for `ProcessorSource.moduleUrl`. */

@@ -36,6 +36,7 @@ interface MapCliOptions extends StackCliOptions, FilmAreaCliOptions {
   failIfThin?: boolean;
   quiet?: boolean;
   threads?: string;
+  allowDamaged?: boolean;
 }
 
 export const OUTPUT_SUFFIXES = ['.thickness.npy', '.thickness.tif', '.confidence.npy', '.map.png', '.flags.png', '.json', '.report.html'];
@@ -54,6 +55,7 @@ export function register(program: Command): void {
     .option('--no-report', 'do not write the HTML report')
     .option('--fail-if-thin', 'exit with status 1 when any photo has a thin region')
     .option('--threads <n>', 'threads for the per-pixel pass of photos of 1 MP or more (default: the cores, at most 4)')
+    .option('--allow-damaged', 'map photos the decoder reports as damaged as far as they decode (a warning; the rest has no estimate)')
     .option('--quiet', 'print nothing but errors')
     .action(async (photos: string[], opts: MapCliOptions) => {
       process.exitCode = await runMap(photos, opts);
@@ -118,7 +120,8 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
   for (const [index, photo] of photos.entries()) {
     const stem = stems[index];
     try {
-      const decoded = await readPhoto(photo, { maxPixels: MAP_MAX_PIXELS });
+      const decoded = await readPhoto(photo, { maxPixels: MAP_MAX_PIXELS, allowDamaged: opts.allowDamaged === true });
+      for (const warning of decoded.warnings ?? []) warn(`${photo}: ${warning}`);
       const mask = options.maskPath ? await readMask(options.maskPath, decoded.width, decoded.height) : null;
       let photoOptions = options;
       if (known.length > 0) {

@@ -36,6 +36,7 @@ interface SeriesCliOptions extends StackCliOptions, FilmAreaCliOptions {
   quiet?: boolean;
   report: boolean;
   out: string;
+  allowDamaged?: boolean;
 }
 
 function positive(value: string | undefined, option: string, integer = false): number | null {
@@ -93,6 +94,7 @@ async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions, warn:
     stackOptions, light: opts.light, whiteBalanceLight, thinBelowNm, maxThicknessNm,
     filmIndexScale: calibration?.filmIndexScale ?? null, exposureFixed: calibration?.exposureFixed ?? null,
     region, maskPath, anchors, pixelSizeUm,
+    ...(opts.allowDamaged ? { allowDamaged: true } : {}),
   };
   return {
     inputs, outDir: opts.out, fps, intervalS, thinBelowNm, shard,
@@ -103,6 +105,7 @@ async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions, warn:
       ...stackOptions, light: opts.light, whiteBalanceLight, thinBelowNm, maxThicknessNm,
       ...(region ? { region } : {}), ...(maskPath ? { mask: maskPath } : {}),
       ...(anchors.length > 0 ? { anchors } : {}), ...(pixelSizeUm !== null ? { pixelSizeUm } : {}),
+      ...(opts.allowDamaged ? { allowDamaged: true } : {}),
     },
     calibration: calibration?.raw ?? null,
     // Stack, material, SPD and calibration files read above, and the mask: by content.
@@ -196,6 +199,7 @@ export function register(program: Command): void {
     .option('--chunk-frames <n>', 'frames per chunk: each chunk starts without a prior map; keep equal across shards', String(DEFAULT_CHUNK_FRAMES))
     .option('--aggregate-only', 'map nothing; aggregate the per-frame results already in OUT (after shard runs)')
     .option('--previews', 'also write <frame>.map.png and <frame>.flags.png per frame')
+    .option('--allow-damaged', 'map frames the decoder reports as damaged as far as they decode (a warning; the rest has no estimate)')
     .option('--quiet', 'no progress display, warnings or summary (failed frames are still reported)')
     .addOption(new Option('--no-report', 'do not write report.html'))
     .requiredOption('--out <dir>', 'output folder')
