@@ -112,3 +112,27 @@ describe('previews do not limit which photos can be mapped; multi-page files say
     expect(r.stderr).toContain('lamella: warning: two.tif: the file holds 2 pages (images); page 1 of 2 was used (split the pages into separate files to map the others)');
   }, 60_000);
 });
+
+describe('implausible EXIF capture times in a series', () => {
+  it('are named in a usage error (exit 2) that says which option to give; with --interval they are a warning', async () => {
+    const sharp = (await import('sharp')).default;
+    const folder = join(dir, 'exif-frames');
+    mkdirSync(folder, { recursive: true });
+    // Invented capture times: a zeroed clock and a month 13 (CIPA DC-008 form "YYYY:MM:DD HH:MM:SS").
+    const times = ['2025:03:01 10:00:00', '0000:00:00 00:00:00', '2025:13:01 10:00:02'];
+    for (const [i, time] of times.entries()) {
+      await sharp(join(demo, `film_00${i + 1}.jpg`)).withExif({ IFD2: { DateTimeOriginal: time } }).jpeg({ quality: 95 }).toFile(join(folder, `e${i + 1}.jpg`));
+    }
+    const refused = cli('series', 'exif-frames', '--stack', 'soap-film', '--workers', '1', '--out', 'exif-out');
+    expect(refused.status).toBe(2);
+    expect(refused.stderr.trim()).toBe(
+      'lamella: frame times: implausible EXIF capture times: e2.jpg (impossible DateTimeOriginal (a field out of range, e.g. month 13 or 0000:00:00)), e3.jpg (impossible DateTimeOriginal (a field out of range, e.g. month 13 or 0000:00:00)); give --fps or --interval to time the frames uniformly',
+    );
+    const timed = cli('series', 'exif-frames', '--stack', 'soap-film', '--workers', '1', '--interval', '0.5', '--out', 'exif-out');
+    expect(timed.status, timed.stderr).toBe(0);
+    expect(timed.stderr).toContain('lamella: warning: implausible EXIF capture times: e2.jpg');
+    expect(timed.stderr).not.toMatch(/intervalS|\bfps or\b(?! --)/);
+    const rows = readFileSync(join(dir, 'exif-out', 'series.csv'), 'utf8').trim().split('\n').slice(1);
+    expect(rows.map((r) => r.split(',')[1])).toEqual(['0.000', '0.500', '1.000']);
+  }, 120_000);
+});

@@ -207,6 +207,13 @@ describe('readPhoto() applies EXIF orientation 1–8 (TIFF 6.0 tag 274 / Exif 2.
 });
 
 describe('readPhoto() and readPhotoMetadata() read the EXIF capture time', () => {
+  it.each(['2024:13:06 07:08:09', '0000:00:00 00:00:00', '2024:02:30 07:08:09', '2024:05:06 25:08:09'])('an impossible DateTimeOriginal %s gives no time but a problem', async (text) => {
+    const path = join(dir, `impossible-${text.slice(0, 10).replace(/:/g, '')}.jpg`);
+    await sharp({ create: { width: 4, height: 4, channels: 3, background: '#808080' } }).withExif({ IFD2: { DateTimeOriginal: text } }).jpeg().toFile(path);
+    const photo = await readPhoto(path);
+    expect(photo.exif.timestampS).toBeUndefined();
+    expect(photo.exif.problem).toMatch(/^impossible DateTimeOriginal/);
+  });
   it('DateTimeOriginal + SubSecTimeOriginal → text and seconds since epoch (local time taken as UTC)', async () => {
     const path = join(dir, 'timed.jpg');
     await sharp({ create: { width: 8, height: 8, channels: 3, background: '#808080' } })

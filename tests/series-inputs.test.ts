@@ -58,7 +58,9 @@ describe('expandInputs()', () => {
 });
 
 describe('assignFrameTimes()', () => {
-  const named = (times: Array<number | null>) => times.map((t, i) => ({ name: `f${i}.jpg`, exifTimeMs: t }));
+  // Times in ms after an invented but plausible first capture (2024-05-01 10:00:00).
+  const T0 = Date.UTC(2024, 4, 1, 10, 0, 0);
+  const named = (times: Array<number | null>) => times.map((t, i) => ({ name: `f${i}.jpg`, exifTimeMs: t === null ? null : T0 + t }));
   it('uses EXIF capture times relative to the first frame, with sub-seconds', () => {
     const result = assignFrameTimes(named([1_000_000_250, 1_000_000_750, 1_000_001_250]));
     expect(result.timesS).toEqual([0, 0.5, 1]);
@@ -101,9 +103,27 @@ describe('assignFrameTimes()', () => {
     expect(uniform.timesS).toEqual([0, 0.5, 1, 1.5]);
     expect(uniform.warnings[0]).toMatch(/same EXIF capture time: f1\.jpg=f2\.jpg; all frames timed from the frame rate/);
   });
-  it('names frames taken earlier than their predecessor in name order', () => {
-    const result = assignFrameTimes(named([0, 3000, 2000]));
-    expect(result.warnings[0]).toMatch(/earlier than the frame before them.*f2\.jpg/);
+  it('times that run backwards are implausible: an error without a frame rate, the frame rate with one', () => {
+    expect(() => assignFrameTimes(named([0, 3000, 2000]))).toThrow('frame times: implausible EXIF capture times: f2.jpg (taken 1.00 s before f1.jpg); give fps or intervalS to time the frames uniformly');
+    const result = assignFrameTimes(named([0, 3000, 2000]), 2);
+    expect(result.timesS).toEqual([0, 0.5, 1]);
+    expect(result.source).toBe('fps');
+    expect(result.warnings).toEqual(['implausible EXIF capture times: f2.jpg (taken 1.00 s before f1.jpg); all frames timed from the frame rate instead of EXIF']);
+  });
+  it('impossible, too early, future and decades-apart times are implausible and named', () => {
+    const impossible = [{ name: 'a.jpg', exifTimeMs: T0 }, { name: 'b.jpg', exifTimeMs: null, exifProblem: 'impossible DateTimeOriginal' }];
+    expect(() => assignFrameTimes(impossible)).toThrow(/implausible EXIF capture times: b\.jpg \(impossible DateTimeOriginal\); give fps or intervalS/);
+    expect(assignFrameTimes(impossible, null, 2).timesS).toEqual([0, 2]);
+    const year9999 = [{ name: 'a.jpg', exifTimeMs: T0 }, { name: 'b.jpg', exifTimeMs: Date.UTC(9999, 0, 1) }];
+    expect(() => assignFrameTimes(year9999)).toThrow(/b\.jpg \(taken 9999-01-01 00:00:00\)/);
+    const year1980 = [{ name: 'a.jpg', exifTimeMs: Date.UTC(1980, 0, 1) }, { name: 'b.jpg', exifTimeMs: Date.UTC(1980, 0, 1, 0, 0, 1) }];
+    expect(() => assignFrameTimes(year1980)).toThrow(/a\.jpg \(taken 1980-01-01 00:00:00\), b\.jpg/);
+    // A clock 30 years off in one frame of a 1 s series (invented).
+    const back = -30 * 365.25 * 86_400_000;
+    const decades = named([back, back + 1000, back + 2000, 0, 1000]);
+    expect(() => assignFrameTimes(decades)).toThrow(/implausible EXIF capture times: f3\.jpg \(1\.10e\+4 days after f2\.jpg\); give fps/);
+    // A day-long time-lapse with a steady step is plausible.
+    expect(assignFrameTimes(named([0, 3_600_000, 7_200_000])).timesS).toEqual([0, 3600, 7200]);
   });
 });
 

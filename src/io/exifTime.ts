@@ -38,7 +38,14 @@ export function parseExifTime(exifBuffer: Buffer | undefined): PhotoTime {
   const subSecRaw = photo.SubSecTimeOriginal as unknown;
   const result: PhotoTime = {};
   if (original instanceof Date && Number.isFinite(original.getTime())) {
-    result.dateTimeOriginal = formatExifDate(original);
+    const text = formatExifDate(original);
+    // The parser rolls impossible fields over (month 13 becomes January of the next year,
+    // 0000:00:00 a date in 1899): a valid date formats back to the text stored in the block.
+    if (!exifBuffer.includes(Buffer.from(text, 'latin1'))) {
+      result.problem = 'impossible DateTimeOriginal (a field out of range, e.g. month 13 or 0000:00:00)';
+      return result;
+    }
+    result.dateTimeOriginal = text;
     result.timestampS = original.getTime() / 1000;
   }
   if (typeof subSecRaw === 'string') {

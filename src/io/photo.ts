@@ -8,6 +8,8 @@ export interface PhotoTime {
   subSecTimeOriginal?: string;
   /** Seconds since 1970-01-01, the camera's local time treated as UTC, with sub-seconds. */
   timestampS?: number;
+  /** Set when DateTimeOriginal is present but impossible (e.g. 0000:00:00, month 13): no timestampS then. */
+  problem?: string;
 }
 
 /** A decoded photograph with upright pixels. */

@@ -8,13 +8,45 @@
  * 3. Some frames lack an EXIF time: with `fps`/`intervalS`, uniform spacing for all frames; without,
  *    the missing times are interpolated linearly by frame number between the nearest frames with
  *    EXIF times (extrapolated at the ends with the median EXIF step); a warning names the frames.
- * Duplicate and decreasing times that remain are kept and named in warnings.
+ * 4. EXIF times that are implausible — impossible fields, a year before 1990 or in the future,
+ *    times that run backwards, or a step between neighbours longer than a day and more than 1000
+ *    times the median step (a clock decades off) — are never used: with `fps`/`intervalS` all
+ *    frames are timed uniformly (a warning names the frames), without them it is an error that
+ *    says to give one.
+ * Duplicate times that remain are kept and named in warnings.
  */
+
+/** Earliest plausible capture time (1990-01-01T00:00:00Z, before consumer digital cameras), ms. */
+const EARLIEST_PLAUSIBLE_MS = Date.UTC(1990, 0, 1);
+const DAY_MS = 86_400_000;
+
+/** Frames whose EXIF times cannot be right, each with the reason ("name (reason)"). */
+function implausibleTimes(frames: readonly FrameTimingInput[], nowMs: number): string[] {
+  const found: string[] = [];
+  const pad = (t: number): string => new Date(t).toISOString().slice(0, 19).replace('T', ' ');
+  for (const f of frames) {
+    if (f.exifProblem) found.push(`${f.name} (${f.exifProblem})`);
+    else if (f.exifTimeMs !== null && (f.exifTimeMs < EARLIEST_PLAUSIBLE_MS || f.exifTimeMs > nowMs + DAY_MS)) found.push(`${f.name} (taken ${pad(f.exifTimeMs)})`);
+  }
+  if (found.length > 0) return found;
+  const timed = frames.flatMap((f, i) => (f.exifTimeMs === null ? [] : [{ f, i, t: f.exifTimeMs }]));
+  const steps = timed.slice(1).map((cur, j) => ({ name: cur.f.name, previous: timed[j].f.name, stepMs: (cur.t - timed[j].t) / (cur.i - timed[j].i) }));
+  for (const s of steps) if (s.stepMs < 0) found.push(`${s.name} (taken ${((-s.stepMs) / 1000).toPrecision(3)} s before ${s.previous})`);
+  if (steps.length >= 2) {
+    const typical = median(steps.map((s) => Math.abs(s.stepMs)));
+    for (const s of steps) {
+      if (s.stepMs > DAY_MS && s.stepMs > 1000 * Math.max(typical, 1)) found.push(`${s.name} (${(s.stepMs / DAY_MS).toPrecision(3)} days after ${s.previous})`);
+    }
+  }
+  return found;
+}
 
 export interface FrameTimingInput {
   readonly name: string;
   /** Capture time from EXIF in ms since the epoch (any fixed origin), or null when absent. */
   readonly exifTimeMs: number | null;
+  /** Set when the frame has an EXIF capture time that is impossible (then exifTimeMs is null). */
+  readonly exifProblem?: string | null;
 }
 
 export interface FrameTiming {
@@ -74,6 +106,14 @@ export function assignFrameTimes(
   const warnings: string[] = [];
   const uniform = (): number[] => frames.map((_, i) => i * stepS!);
   if (frames.length === 0) return { timesS: [], source: stepS === null ? 'exif' : 'fps', warnings };
+  const implausible = implausibleTimes(frames, Date.now());
+  if (implausible.length > 0) {
+    if (stepS === null) {
+      throw new RangeError(`frame times: implausible EXIF capture times: ${listNames(implausible, 3)}; give fps or intervalS to time the frames uniformly`);
+    }
+    warnings.push(`implausible EXIF capture times: ${listNames(implausible, 3)}; all frames timed from the frame rate instead of EXIF`);
+    return { timesS: uniform(), source: 'fps', warnings };
+  }
   const missing = frames.filter((f) => f.exifTimeMs === null).map((f) => f.name);
   if (missing.length === frames.length) {
     if (stepS === null) throw new RangeError(`frame times: no frame has an EXIF capture time (DateTimeOriginal); give fps or intervalS`);
@@ -97,8 +137,6 @@ export function assignFrameTimes(
   }
   if (stepS !== null) warnings.push(`every frame has an EXIF capture time; the frame rate / interval given is ignored`);
   if (duplicates.length > 0) warnings.push(`frames with the same EXIF capture time (kept; give fps or intervalS to time frames uniformly): ${listNames(duplicates)}`);
-  const decreasing = frames.flatMap((f, i) => (i > 0 && timesMs[i] < timesMs[i - 1] ? [f.name] : []));
-  if (decreasing.length > 0) warnings.push(`frames taken earlier than the frame before them in name order (kept in name order): ${listNames(decreasing)}`);
   const originMs = timesMs[0];
   return { timesS: timesMs.map((t) => (t - originMs) / 1000), source: missing.length > 0 ? 'exif+interpolated' : 'exif', warnings };
 }

@@ -11,6 +11,8 @@ export interface FrameHeader {
   readonly height: number;
   /** EXIF capture time in ms (DateTimeOriginal + SubSecTimeOriginal), or null. */
   readonly exifTimeMs: number | null;
+  /** Why the EXIF capture time was not usable (impossible fields), if so. */
+  readonly exifProblem?: string;
 }
 
 export type ReadFrameHeader = (path: string) => Promise<FrameHeader>;
@@ -18,7 +20,12 @@ export type ReadFrameHeader = (path: string) => Promise<FrameHeader>;
 export async function readFrameHeader(path: string): Promise<FrameHeader> {
   const meta = await readPhotoMetadata(path);
   const s = meta.exif.timestampS;
-  return { width: meta.width, height: meta.height, exifTimeMs: typeof s === 'number' && Number.isFinite(s) ? Math.round(s * 1e6) / 1e3 : null };
+  return {
+    width: meta.width,
+    height: meta.height,
+    exifTimeMs: typeof s === 'number' && Number.isFinite(s) ? Math.round(s * 1e6) / 1e3 : null,
+    ...(meta.exif.problem ? { exifProblem: meta.exif.problem } : {}),
+  };
 }
 
 export interface ProbedFrames {

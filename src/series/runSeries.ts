@@ -112,7 +112,7 @@ export async function runSeries(options: SeriesOptions): Promise<SeriesResult> {
   const failures = [...probed.messages];
   if (probed.readable.length === 0) throw new RangeError(`inputs ${options.inputs.join(' ')}: none of the ${expanded.frames.length} frames could be read (${failures[0]})`);
   const timing = assignFrameTimes(
-    probed.readable.map(({ frame, header }) => ({ name: frame.name, exifTimeMs: header.exifTimeMs })),
+    probed.readable.map(({ frame, header }) => ({ name: frame.name, exifTimeMs: header.exifTimeMs, exifProblem: header.exifProblem ?? null })),
     options.fps ?? null,
     options.intervalS ?? null,
   );

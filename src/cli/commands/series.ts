@@ -129,11 +129,16 @@ async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions, warn:
   };
 }
 
+/** The library's parameter names in a message as the options a user types. */
+function optionNames(message: string): string {
+  return message.replace(/\bfps or intervalS\b/g, '--fps or --interval').replace(/\bintervalS\b/g, '--interval');
+}
+
 /** Library errors about the inputs or frame times, as the CLI's error classes. */
 function cliError(error: unknown, inputs: string[]): unknown {
   const prefix = `inputs ${inputs.join(' ')}: `;
   if (error instanceof RangeError && error.message.startsWith(prefix)) return new InputError(inputs.join(' '), error.message.slice(prefix.length));
-  if (error instanceof RangeError && /^frame times:/.test(error.message)) return new UsageError(error.message.replace(/fps or intervalS$/, '--fps or --interval'));
+  if (error instanceof RangeError && /^frame times:/.test(error.message)) return new UsageError(optionNames(error.message));
   return error;
 }
 
@@ -177,7 +182,7 @@ async function run(inputs: string[], opts: SeriesCliOptions): Promise<void> {
     return;
   }
   const failedNow = new Set(result.events.filter((e) => e.outcome === 'failed').map((e) => e.message));
-  for (const w of result.warnings) warn(w);
+  for (const w of result.warnings) warn(optionNames(w));
   for (const f of result.failures) if (!failedNow.has(f)) process.stderr.write(`lamella: ${f}\n`);
   if (!opts.quiet) process.stdout.write(`${formatSeriesSummary(result).join('\n')}\n`);
   if (result.failures.length > 0) process.exitCode = EXIT_INPUT;
