@@ -286,7 +286,7 @@ describe('readPhoto() input errors are InputError naming the file, with a plain 
     const noisy = Uint8Array.from({ length: 64 * 64 * 3 }, (_, i) => (i * 7919) % 251);
     const bytes = await raw8(Array.from(noisy), 64, 64, 3).png().toBuffer();
     await writeFile(join(dir, 'cut.png'), bytes.subarray(0, Math.floor(bytes.length * 0.6)));
-    await expectInputError(join(dir, 'cut.png'), /truncated or corrupt/);
+    await expectInputError(join(dir, 'cut.png'), /damaged PNG: its image data cannot be read \(cut short or corrupt\)/);
   });
   it('over the pixel limit (caller limit below the image size)', async () => {
     const path = join(dir, 'limit.png');

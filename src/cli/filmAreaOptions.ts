@@ -42,21 +42,34 @@ export function addFilmAreaOptions(command: Command, scope: 'photo' | 'frames'):
     .option('--pixel-size <um>', 'size of one pixel on the sample, micrometres (areas of thin regions, scale bar)');
 }
 
+/**
+ * Smallest `--max-thickness`, nm: the colour table needs a span of thicknesses to fit exposure
+ * and to tell orders apart; below this the fit has nothing to work with.
+ */
+export const MIN_MAX_THICKNESS_NM = 10;
+
 /** Parses the options; bad values are usage errors naming the option. */
 export function filmAreaFromOptions(opts: FilmAreaCliOptions): FilmArea {
   const maxThicknessNm = parseNumberOption(opts.maxThickness, '--max-thickness', 'a number of nm > 0');
-  if (!(maxThicknessNm > 0 && maxThicknessNm <= 20000)) throw new UsageError(`--max-thickness must be a number of nm in (0, 20000], received ${opts.maxThickness}`);
+  if (!(maxThicknessNm >= MIN_MAX_THICKNESS_NM && maxThicknessNm <= 20000)) throw new UsageError(`--max-thickness must be a number of nm from ${MIN_MAX_THICKNESS_NM} to 20000, received ${opts.maxThickness}`);
   const thinBelowNm =
     opts.thinBelow !== undefined ? parseNumberOption(opts.thinBelow, '--thin-below', 'a number of nm >= 0') : opts.stack === 'soap-film' ? 50 : null;
   if (thinBelowNm !== null && thinBelowNm < 0) throw new UsageError(`--thin-below must be a number of nm >= 0, received ${opts.thinBelow}`);
   const pixelSizeUm = opts.pixelSize !== undefined ? parseNumberOption(opts.pixelSize, '--pixel-size', 'a number of micrometres > 0') : null;
-  if (pixelSizeUm !== null && !(pixelSizeUm > 0)) throw new UsageError(`--pixel-size must be a number of micrometres > 0, received ${opts.pixelSize}`);
+  if (pixelSizeUm !== null && !(pixelSizeUm > 0 && pixelSizeUm <= 1e6)) throw new UsageError(`--pixel-size must be a number of micrometres > 0 and at most 1e6 (1 m), received ${opts.pixelSize}`);
+  const anchors = (opts.anchor ?? []).map(parseAnchor);
+  // An anchor the colour table cannot reach would be ignored without a word.
+  for (const a of anchors) {
+    if (a.thicknessNm > maxThicknessNm) {
+      throw new UsageError(`--anchor ${a.x},${a.y}=${a.thicknessNm} lies above --max-thickness ${maxThicknessNm} nm; raise --max-thickness or correct the anchor`);
+    }
+  }
   return {
     thinBelowNm,
     maxThicknessNm,
     region: opts.region ? parseRegion(opts.region) : null,
     maskPath: opts.mask ?? null,
-    anchors: (opts.anchor ?? []).map(parseAnchor),
+    anchors,
     pixelSizeUm,
   };
 }

@@ -3,10 +3,11 @@
  * Pixels of the upright photo; errors name the option and show the expected form.
  */
 import { UsageError } from './errors.js';
+import { parseDecimal } from './parseDecimal.js';
 
 function numbers(text: string, count: number, option: string, form: string): number[] {
   const parts = text.split(',').map((p) => p.trim());
-  const values = parts.map(Number);
+  const values = parts.map(parseDecimal);
   if (parts.length !== count || parts.some((p) => p === '') || values.some((v) => !Number.isFinite(v))) {
     throw new UsageError(`${option} must be ${form}, received ${JSON.stringify(text)}`);
   }
@@ -26,7 +27,7 @@ function splitValue(text: string, option: string, form: string): [string, number
   const at = text.lastIndexOf('=');
   if (at < 0) throw new UsageError(`${option} must be ${form}, received ${JSON.stringify(text)}`);
   const valueText = text.slice(at + 1).trim().replace(/nm$/i, '');
-  const value = Number(valueText);
+  const value = parseDecimal(valueText);
   if (valueText === '' || !Number.isFinite(value) || value < 0) {
     throw new UsageError(`${option} thickness must be a number of nm >= 0, received ${JSON.stringify(text.slice(at + 1))}`);
   }

@@ -12,6 +12,7 @@ import { listStackPresetNames } from '../optics/presets.js';
 import { resolveStack } from '../optics/resolveStack.js';
 import type { Stack } from '../optics/types.js';
 import { InputError, UsageError } from './errors.js';
+import { parseDecimal } from './parseDecimal.js';
 
 export interface StackCliOptions {
   readonly stack?: string;
@@ -30,7 +31,7 @@ export function addStackOptions(command: Command): Command {
 
 /** Parses a number option; UsageError naming the option otherwise. */
 export function parseNumberOption(value: string | number | undefined, option: string, expected: string): number {
-  const number = typeof value === 'number' ? value : value === undefined || value.trim() === '' ? Number.NaN : Number(value);
+  const number = typeof value === 'number' ? value : value === undefined ? Number.NaN : parseDecimal(value);
   if (!Number.isFinite(number)) throw new UsageError(`${option} must be ${expected}, received ${JSON.stringify(value ?? '')}`);
   return number;
 }

@@ -34,7 +34,10 @@ export async function readPhoto(path: string, options: ReadPhotoOptions = {}): P
   }
   if (!(meta.width > 0 && meta.height > 0)) throw new InputError(path, 'image has no pixels');
   if (meta.width * meta.height > maxPixels) {
-    const mp = (pixels: number): string => `${Number((pixels / 1e6).toPrecision(3))} MP`;
+    // Enough digits that the photo's size and the limit never read the same ("50 MP, more than 50 MP").
+    let digits = 3;
+    const mp = (pixels: number): string => `${Number((pixels / 1e6).toPrecision(digits))} MP`;
+    while (digits < 12 && mp(meta.width * meta.height) === mp(maxPixels)) digits++;
     throw new InputError(
       path,
       `image has ${meta.width}×${meta.height} pixels (${mp(meta.width * meta.height)}), more than the limit of ${maxPixels} pixels (${mp(maxPixels)}); crop or down-sample it first`,
@@ -58,8 +61,8 @@ export async function readPhoto(path: string, options: ReadPhotoOptions = {}): P
     raw = await decode('warning');
   } catch (error) {
     const refused = decodeInputError(path, error, maxPixels);
-    if (!options.allowDamaged || !/truncated or corrupt/.test(refused.message)) {
-      throw /truncated or corrupt/.test(refused.message) ? new InputError(path, `${refused.message.slice(path.length + 2)}; add --allow-damaged to map what decodes`) : refused;
+    if (!options.allowDamaged || !/truncated or corrupt|damaged PNG/.test(refused.message)) {
+      throw /truncated or corrupt|damaged PNG/.test(refused.message) ? new InputError(path, `${refused.message.slice(path.length + 2)}; add --allow-damaged to map what decodes`) : refused;
     }
     damage = (error instanceof Error ? error.message : String(error)).replace(/\s*\n\s*/g, ' ').trim();
     try {
@@ -108,7 +111,8 @@ export async function readPhoto(path: string, options: ReadPhotoOptions = {}): P
       const r = samples[s];
       const g = samples[s + 1];
       const b = samples[s + 2];
-      if (allEqual && (r !== g || g !== b)) allEqual = false;
+      // Transparent pixels say nothing about colour (they are often black or white).
+      if (allEqual && (r !== g || g !== b) && (!hasAlpha || samples[s + colourChannels] * scale >= 0.5)) allEqual = false;
       rgb[o] = r * scale;
       rgb[o + 1] = g * scale;
       rgb[o + 2] = b * scale;

@@ -95,6 +95,9 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
     const result = mapMonochromatic(photo, options, lineNm, mask);
     return { ...result, photoRgb: photo.rgb };
   }
+  if (photo.alpha && !photo.alpha.some((a) => a >= 0.5)) {
+    throw new InputError(source, 'holds no film: every pixel is transparent');
+  }
   if (photo.isGrey) {
     throw new InputError(
       source,

@@ -10,6 +10,7 @@ import { addStackOptions, stackFromOptions, type StackCliOptions } from '../stac
 import { addFilmAreaOptions, filmAreaFromOptions, type FilmAreaCliOptions } from '../filmAreaOptions.js';
 import { collect, parseKnown } from '../parseGeometry.js';
 import { UsageError } from '../errors.js';
+import { parseDecimal } from '../parseDecimal.js';
 import { ensureOutputDir, assertNoInputOverwritten } from '../../io/ensureOutputDir.js';
 import { atomicWriteFile } from '../../io/atomicWriteFile.js';
 import { recoverStagedSets, writeOutputSet } from '../../io/writeOutputSet.js';
@@ -183,7 +184,7 @@ function summaryLine(photo: string, result: ReturnType<typeof mapDecodedPhoto>):
 }
 
 function parseThreads(value: string): number {
-  const n = Number(value);
+  const n = parseDecimal(value);
   if (!(Number.isInteger(n) && n >= 1 && n <= 64)) throw new UsageError(`--threads must be a whole number from 1 to 64, received ${value}`);
   return n;
 }

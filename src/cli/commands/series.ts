@@ -39,6 +39,8 @@ interface SeriesCliOptions extends StackCliOptions, FilmAreaCliOptions {
   allowDamaged?: boolean;
 }
 
+const YEAR_S = 31_536_000;
+
 function positive(value: string | undefined, option: string, integer = false): number | null {
   if (value === undefined) return null;
   const n = parseNumberOption(value, option, integer ? 'a whole number >= 1' : 'a number > 0');
@@ -65,6 +67,10 @@ async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions, warn:
   const fps = positive(opts.fps, '--fps');
   const intervalS = positive(opts.interval, '--interval');
   if (fps !== null && intervalS !== null) throw new UsageError('give --fps or --interval, not both');
+  // Frame times must stay finite and meaningful: at most a year between frames, at most a
+  // million frames a second.
+  if (intervalS !== null && intervalS > YEAR_S) throw new UsageError(`--interval must be a number of seconds > 0 and at most ${YEAR_S} (a year), received ${opts.interval}`);
+  if (fps !== null && !(fps >= 1 / YEAR_S && fps <= 1e6)) throw new UsageError(`--fps must be a number of frames per second from 1/${YEAR_S} (one a year) to 1e6, received ${opts.fps}`);
   // The same film-area options, defaults and limits as `lamella map`.
   const area = filmAreaFromOptions(opts);
   const { thinBelowNm, maxThicknessNm, region, anchors, pixelSizeUm } = area;
