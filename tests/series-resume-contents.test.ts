@@ -81,6 +81,20 @@ describe('resume by contents', () => {
     expect(r.stderr).toContain('lamella: 2 of 2 frame(s) to map: 2 after a stack, material, calibration, mask or light file changed');
   }, 120_000);
 
+  it('a stack file called series.json in the output folder is refused before any frame (usage error naming both)', () => {
+    const cwd = project('stack-is-output', 1);
+    writeFileSync(join(cwd, 'series.json'), stackOf(1.33));
+    // (frames/ would be the output's own per-frame folder: the photos sit in shots/.)
+    mkdirSync(join(cwd, 'shots'));
+    copyFileSync(join(cwd, 'frames', 'f1.jpg'), join(cwd, 'shots', 'f1.jpg'));
+    rmSync(join(cwd, 'frames'), { recursive: true });
+    const r = cli(cwd, 'series', 'shots', '--stack', 'series.json', '--fps', '2', '--out', '.');
+    expect(r.status).toBe(2);
+    expect(r.stderr.trim()).toBe(`lamella: ${join(cwd, 'series.json')}: output would overwrite an input file (it is the --stack file series.json); choose another output folder or name`);
+    expect(readFileSync(join(cwd, 'series.json'), 'utf8')).toBe(stackOf(1.33));
+    expect(readdirSync(cwd).sort()).toEqual(['series.json', 'shots', 'stack.json']);
+  }, 60_000);
+
   it('a folder of symlinked frames is read like a folder of files; a missing input is an error before any frame', () => {
     const cwd = project('links', 2);
     mkdirSync(join(cwd, 'linked'));
