@@ -112,7 +112,7 @@ describe('lamella chart: bad input', () => {
     writeFileSync(path, 'wavelength_nm,relative_spd\n380,1\n390,x\n780,1\n');
     const out = lamella('chart', '--stack', 'soap-film', '--light', path);
     expect(out.status).toBe(3);
-    expect(out.stderr.trim()).toBe(`lamella: ${path}: line 3: column "relative_spd" must be a finite number, found "x"`);
+    expect(out.stderr.trim()).toBe(`lamella: ${path}: line 3: column "relative_spd" must be a finite number, found text of 1 character`);
   });
   it('a bad thickness range exits 2', () => {
     const out = lamella('chart', '--stack', 'soap-film', '--light', 'D65', '--from', '500', '--to', '100');

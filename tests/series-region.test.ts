@@ -57,8 +57,8 @@ describe('lamella series --region', () => {
   it('film-area options are parsed as by lamella map (one parser): bad values are one usage error naming the option', () => {
     for (const [option, value, message] of [
       ['--thin-below', '-5', '--thin-below must be a number of nm >= 0, received -5'],
-      ['--pixel-size', '0', '--pixel-size must be a number of micrometres > 0, received 0'],
-      ['--max-thickness', '30000', '--max-thickness must be a number of nm in (0, 20000], received 30000'],
+      ['--pixel-size', '0', '--pixel-size must be a number of micrometres > 0 and at most 1e6 (1 m), received 0'],
+      ['--max-thickness', '30000', '--max-thickness must be a number of nm from 10 to 20000, received 30000'],
     ]) {
       const run = series(`bad${option}`, option, value);
       expect(run.status).toBe(2);
