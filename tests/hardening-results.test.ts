@@ -157,6 +157,7 @@ describe('a stopped re-run leaves the whole old set or the whole new one', () =>
     return { code, signal: sig, sawWriting, path };
   }
 
+  const outcomes: string[] = [];
   const trials: Array<[NodeJS.Signals, number]> = [];
   for (const signal of ['SIGINT', 'SIGTERM', 'SIGKILL'] as const) for (const delayMs of [0, 80]) trials.push([signal, delayMs]);
 
@@ -166,6 +167,7 @@ describe('a stopped re-run leaves the whole old set or the whole new one', () =>
     const now = outputSet(run.path);
     const whole = JSON.stringify(now) === JSON.stringify(oldSet) ? 'old' : JSON.stringify(now) === JSON.stringify(newSet) ? 'new' : 'mixed';
     expect(whole, JSON.stringify({ now, run: { code: run.code, signal: run.signal } })).not.toBe('mixed');
+    outcomes.push(whole);
     if (whole === 'old') {
       // Stopped before the swap: the run says so with the signal's status.
       if (signal === 'SIGKILL') expect(run.signal).toBe('SIGKILL');
@@ -177,6 +179,11 @@ describe('a stopped re-run leaves the whole old set or the whole new one', () =>
     expect(hidden(run.path)).toEqual([]);
     expect(outputSet(run.path)).toEqual(newSet);
   }, 60_000);
+
+  it('the stops above did land during the write: some left the old set', () => {
+    expect(outcomes).toHaveLength(trials.length);
+    expect(outcomes).toContain('old');
+  });
 });
 
 /** Can this process make a private mount namespace with a tmpfs in it? */
