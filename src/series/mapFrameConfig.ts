@@ -4,7 +4,7 @@
  * each worker rebuilds it from the same CLI stack options.
  */
 import type { StackCliOptions } from '../cli/stackOptions.js';
-import type { ExposureParameters } from '../map/types.js';
+import type { ExposureParameters, FilmAreaMode } from '../map/types.js';
 
 export interface MapFrameConfig {
   readonly stackOptions: StackCliOptions;
@@ -19,6 +19,9 @@ export interface MapFrameConfig {
   readonly maskPath?: string | null;
   readonly anchors?: ReadonlyArray<{ readonly x: number; readonly y: number; readonly thicknessNm: number }>;
   readonly pixelSizeUm?: number | null;
+  /** `--film-area` and `--expect`, as for `lamella map` (MapOptions.filmArea, expectNm). */
+  readonly filmArea?: FilmAreaMode;
+  readonly expectNm?: readonly [number, number] | null;
 }
 
 /** Module URL of the real processor, for `ProcessorSource.moduleUrl`. */

@@ -20,7 +20,7 @@ import { addLightOptions, lightsFromOptions } from '../lightOptions.js';
 import { checkRegion } from '../../map/filmMask.js';
 import { readMask } from '../../map/mapPhoto.js';
 
-interface SeriesCliOptions extends StackCliOptions, FilmAreaCliOptions {
+export interface SeriesCliOptions extends StackCliOptions, FilmAreaCliOptions {
   light: string;
   whiteBalance?: string;
   ignoreCalibrationMismatch?: boolean;
@@ -59,13 +59,13 @@ function progressWriter(quiet: boolean): (p: SeriesProgress) => void {
 }
 
 /** Checks the options and builds the library call (everything but callbacks and the signal). */
-async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions, warn: (m: string) => void): Promise<SeriesOptions> {
+export async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions, warn: (m: string) => void): Promise<SeriesOptions> {
   const fps = positive(opts.fps, '--fps');
   const intervalS = positive(opts.interval, '--interval');
   if (fps !== null && intervalS !== null) throw new UsageError('give --fps or --interval, not both');
   // The same film-area options, defaults and limits as `lamella map`.
   const area = filmAreaFromOptions(opts);
-  const { thinBelowNm, maxThicknessNm, region, anchors, pixelSizeUm } = area;
+  const { thinBelowNm, maxThicknessNm, region, anchors, pixelSizeUm, filmArea, expectNm } = area;
   let shard = null;
   if (opts.shard !== undefined) {
     try {
@@ -91,7 +91,7 @@ async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions, warn:
   const config: MapFrameConfig = {
     stackOptions, light: opts.light, whiteBalanceLight, thinBelowNm, maxThicknessNm,
     filmIndexScale: calibration?.filmIndexScale ?? null, exposureFixed: calibration?.exposureFixed ?? null,
-    region, maskPath, anchors, pixelSizeUm,
+    region, maskPath, anchors, pixelSizeUm, filmArea, expectNm,
   };
   return {
     inputs, outDir: opts.out, fps, intervalS, thinBelowNm, shard,
@@ -102,6 +102,8 @@ async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions, warn:
       ...stackOptions, light: opts.light, whiteBalanceLight, thinBelowNm, maxThicknessNm,
       ...(region ? { region } : {}), ...(maskPath ? { mask: maskPath } : {}),
       ...(anchors.length > 0 ? { anchors } : {}), ...(pixelSizeUm !== null ? { pixelSizeUm } : {}),
+      // Part of the settings hash: changing either re-maps the frames.
+      filmArea, ...(expectNm !== null ? { expectNm } : {}),
     },
     calibration: calibration?.raw ?? null,
     processor: { moduleUrl: MAP_FRAME_PROCESSOR_URL, config },
