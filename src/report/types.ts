@@ -57,6 +57,30 @@ export interface MapReportInput {
   downsampleNote?: string;
   /** Optional: column (original pixels) of the default vertical profile; default the centre. */
   profileColumn?: number;
+  /** Optional: the film area (absent for maps made before film areas); `found: false` = no film in the photo. */
+  filmArea?: ReportFilmArea | null;
+  /** Optional: how well the model explains the film's colours (the JSON `fit_quality`). */
+  fitQuality?: ReportFitQuality | null;
+}
+
+/** The film area of a map, as in the JSON `film_area` block (`FilmAreaSummary` of src/map/types.ts). */
+export interface ReportFilmArea {
+  mode: 'auto' | 'whole';
+  areaPx: number;
+  /** Share of the photo's pixels. */
+  fraction: number;
+  areaUm2: number | null;
+  found: boolean;
+  /** Pixels left out, by reason (outside_region, dark_surroundings, not_film_colour, glint, isolated, undecided). */
+  excludedPx: Record<string, number>;
+}
+
+/** As the JSON `fit_quality` block. */
+export interface ReportFitQuality {
+  median_delta_e2000: number | null;
+  p95_delta_e2000: number | null;
+  unmatched_fraction: number;
+  verdict: 'good' | 'fair' | 'poor';
 }
 
 export interface SeriesFrameRow {
