@@ -91,9 +91,24 @@ export interface SeriesFrameRow {
   minNm: number | null;
   thinFraction: number | null;
   thinRegions: number;
-  coverage: number;
+  /** Share of the film area with an estimate; null for a frame without film. */
+  coverage: number | null;
+  /** Optional: pixels of the film area (0 without film), null when unknown. */
+  filmAreaPx?: number | null;
+  /** Optional: false when the frame's map found no film. */
+  filmFound?: boolean;
   /** Small thumbnail map for the slider, optional. */
   mapPng?: Buffer;
+}
+
+/** When the film of a series ruptured: the last frame with film and the first without. */
+export interface SeriesRupture {
+  lastFrame: string;
+  firstFrame: string;
+  lastTimeS: number;
+  firstTimeS: number;
+  /** Midpoint of the two. */
+  timeS: number;
 }
 
 export interface DrainageFitSummary {
@@ -109,6 +124,8 @@ export interface DrainageFitSummary {
     lowS: number | null;
     highS: number | null;
     extrapolated: boolean;
+    /** Optional: the fitted curve would reach the threshold only after the rupture (no time predicted). */
+    beyondRupture?: boolean;
   } | null;
 }
 
@@ -121,6 +138,8 @@ export interface SeriesReportInput {
   settings: Record<string, unknown>;
   calibration?: Record<string, unknown> | null;
   warnings: string[];
+  /** Optional: the rupture of the film (a marker on the charts, a headline line); null or absent: none. */
+  rupture?: SeriesRupture | null;
   /** The full map view for the last (or a chosen) frame. */
   lastMap?: MapReportInput;
 }

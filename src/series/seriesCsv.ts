@@ -2,6 +2,8 @@
  * `series.csv`: one row per mapped frame, RFC 4180 CSV (comma separated, CRLF-free `\n` line ends
  * as most tools accept, fields quoted only when they contain a comma, quote or line break).
  * Fixed decimals: time 3, thicknesses 2, fractions 4, exposure 4; empty cell = no value.
+ * `film_area_px` (whole pixels, 0 for a frame without film) follows `coverage`, the other share
+ * of the film area; a frame without film has empty statistics cells.
  */
 import type { SeriesRow } from './seriesRows.js';
 
@@ -16,6 +18,7 @@ export const SERIES_CSV_COLUMNS = [
   'thin_fraction',
   'thin_regions',
   'coverage',
+  'film_area_px',
   'exposure',
 ] as const;
 
@@ -42,6 +45,7 @@ export function formatSeriesCsv(rows: readonly SeriesRow[]): string {
         fixed(r.thinFraction, 4),
         String(r.thinRegions),
         fixed(r.coverage, 4),
+        r.filmAreaPx === null || r.filmAreaPx === undefined ? '' : String(Math.round(r.filmAreaPx)),
         fixed(r.exposure, 4),
       ].join(','),
     );

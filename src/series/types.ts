@@ -72,4 +72,9 @@ export interface FrameRecord {
   readonly darkLimitNm: number;
   readonly thinRegions: MapResult['thinRegions'];
   readonly warnings: readonly string[];
+  /**
+   * The frame's film area (`found: false` when the map found no film). Absent in records written
+   * before film areas existed: such a frame counts as film, its area the pixels not excluded.
+   */
+  readonly filmArea?: MapResult['filmArea'];
 }
