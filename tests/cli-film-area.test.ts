@@ -3,7 +3,8 @@
  * `npm run build` first): bad values are usage errors (exit 2, README "Exit statuses") in ONE line
  * naming the option, for `map` and `series`; and on a real `lamella map` run the JSON record
  * carries the settings, the `film_area` and `fit_quality` blocks and the pixel counts by status,
- * consistent with each other (definitions in src/map/types.ts and README). The photo is an
+ * consistent with each other (definitions in src/map/types.ts and README); an anchor outside the
+ * film area gives a warning naming it. The photo is an
  * INVENTED soap-film wedge rendered by our own forward model (round trip), as in map-outputs.
  */
 import { spawn } from 'node:child_process';
@@ -105,7 +106,7 @@ describe('lamella map: film area in the JSON record', () => {
   it('--film-area whole --expect --region --pixel-size: the region is the film area, in px, µm² and mm²', async () => {
     const run = await lamella([
       'map', 'wedge.png', '--stack', 'soap-film', '--out', 'out-whole', '--json', '--no-report',
-      '--film-area', 'whole', '--expect', '100-1100', '--region', '10,10,100,60', '--pixel-size', '4',
+      '--film-area', 'whole', '--expect', '100-1100', '--region', '10,10,100,60', '--pixel-size', '4', '--anchor', '2,3=300',
     ]);
     expect(run.status, run.stderr).toBe(0);
     const record = JSON.parse(run.stdout) as Record<string, any>;
@@ -122,5 +123,8 @@ describe('lamella map: film area in the JSON record', () => {
     expect(area.area_um2).toBeCloseTo(6000 * 16, 6);
     expect(area.area_mm2).toBeCloseTo(0.096, 12);
     expect(area.fraction).toBeCloseTo(6000 / (W * H), 12);
+    // The anchor lies outside the region: a warning naming it, on stderr and in the record.
+    expect(record.warnings.filter((w: string) => w.includes('--anchor 2,3=300 lies outside the film area'))).toHaveLength(1);
+    expect(run.stderr).toContain('--anchor 2,3=300 lies outside the film area');
   });
 });
