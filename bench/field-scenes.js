@@ -446,8 +446,9 @@ export function soapFilmThicknessNm(/** @type {number} */ u, /** @type {number} 
   const drained = 1 / Math.sqrt(1 + 2.5 * stage);
   let h = 30 + 1170 * drained * Math.pow(w > 0 ? w : 0, 1.45);
   for (const [su, sv, ru, rv, depth] of SWIRLS) {
+    // swirls rise along the wires as the film drains
     const du = (u - su) / ru;
-    const dv = (v - sv) / rv;
+    const dv = (v - sv + 0.06 * stage) / rv;
     h *= 1 - depth * Math.exp(-(du * du + dv * dv));
   }
   return h;
