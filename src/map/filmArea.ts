@@ -153,13 +153,16 @@ export function findFilmArea(input: FilmAreaInput): FilmAreaCells {
 
 /** Mean chroma below this: a neutral surface (grey, white, silver), whose colour many thicknesses give. */
 const NEUTRAL_CHROMA = 0.05;
+/** Standard deviation of best thickness below this share of an order: a flat surface. */
+const FLAT_SPREAD = 0.08;
 
 /**
  * Which cells of the seed components are film: those of large enough components, less the
  * neutral surfaces around the film. Neutral colours (a grey bench, steel tweezers, a white card)
  * are given by first-order greys and washed-out high orders alike, so a neutral part belongs to
- * the film only where it continues the coloured film: when less than half of its outline against
- * coloured film continues in thickness, it is surroundings. When no large coloured film exists,
+ * the film only where it continues the coloured film: a neutral part that reaches the photo
+ * border, is flat (its thickness spread below 8 % of an order) and continues the coloured film
+ * along less than half of its outline is surroundings. When no large coloured film exists,
  * nothing says film (a grey card), unless the user asserted the thickness.
  */
 function keepComponents(seeds: Components, input: FilmAreaInput, minSize: number): { film: Uint8Array; dropped: Uint8Array } {
@@ -199,11 +202,29 @@ function keepComponents(seeds: Components, input: FilmAreaInput, minSize: number
       else breaking[id]++;
     }
   }
+  // Spread of each part's best thickness and the photo edges it reaches: a surface around the
+  // film is flat in "thickness" and reaches the photo border; a grey band of film has a gradient.
+  const sum = new Float64Array(parts.count + 1);
+  const squares = new Float64Array(parts.count + 1);
+  const edges = new Uint8Array(parts.count + 1);
+  for (let c = 0; c < cells; c++) {
+    const id = parts.labels[c];
+    if (id === 0) continue;
+    const v = p[c * perCell];
+    sum[id] += v;
+    squares[id] += v * v;
+    const x = c % w;
+    const y = (c - x) / w;
+    if (x === 0 || y === 0 || x === w - 1 || y === h - 1) edges[id] = 1;
+  }
   for (let c = 0; c < cells; c++) {
     const id = parts.labels[c];
     if (id === 0) continue;
     const outline = continuing[id] + breaking[id];
-    const surroundings = coloured ? continuing[id] < 0.5 * outline || outline === 0 : !input.filmAsserted;
+    const mean = sum[id] / parts.sizes[id];
+    const flat = Math.sqrt(Math.max(0, squares[id] / parts.sizes[id] - mean * mean)) < FLAT_SPREAD * input.thinPosition;
+    const apart = continuing[id] < 0.5 * outline || outline === 0;
+    const surroundings = coloured ? apart && flat && edges[id] === 1 : !input.filmAsserted;
     if (surroundings) {
       film[c] = 0;
       dropped[c] = 1;
@@ -283,7 +304,8 @@ function classifyDark(dark: Components, input: FilmAreaInput, film: Uint8Array):
         border[id] = 1;
         continue;
       }
-      if (cellClass[j] === CellClass.darkish) continue;
+      // Colour mixtures (steep rings, JPEG) and what no thickness gives say nothing either way.
+      if (cellClass[j] === CellClass.darkish || cellClass[j] === CellClass.unexplained) continue;
       const isThin = film[j] === 1 && candidateCount[j] > 0 && candidatePosition[j * perCell] < thinPosition;
       if (isThin) thin[id]++;
       else other[id]++;

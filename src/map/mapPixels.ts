@@ -15,6 +15,7 @@ import { createCandidateCube } from './candidateCube.js';
 import { type CandidateField, createCandidateField } from './candidateField.js';
 import { type ColourTable, predictEncodedTable, thicknessAt } from './colourTable.js';
 import { emptyExclusions } from './filmArea.js';
+import { fitQualityOf, poorFitWarning } from './fitQuality.js';
 import { estimateNoise } from './estimateNoise.js';
 import { distinctColourCount, fitPhotoFormation, type PhotoFormationFit } from './fitPhotoFormation.js';
 import { matchSpace, toMatchSpace } from './matchSpace.js';
@@ -96,9 +97,16 @@ const FIT_SAMPLES = 2000;
 export const MIN_THREADED_PIXELS = 1_000_000;
 
 export function mapPixels(input: MapPixelsInput): MapPixelsResult {
-  const { rgb, width, height, film, table } = input;
+  const { rgb, width, height, film } = input;
   const pixels = width * height;
   const warnings: string[] = [];
+  // --expect: the film lies in this range; orders and the fit see only those thicknesses.
+  const table = input.expectNm ? restrictTable(input.table, input.expectNm) : input.table;
+  const anchors = (input.anchors ?? []).filter((a: Anchor) => {
+    const inside = a.thicknessNm >= table.startNm && a.thicknessNm <= thicknessAt(table, table.count - 1);
+    if (!inside) warnings.push(`--anchor ${a.x},${a.y}=${a.thicknessNm} lies outside the thicknesses considered (${round1(table.startNm)}–${round1(thicknessAt(table, table.count - 1))} nm): it is ignored`);
+    return inside;
+  });
   // With helper threads, the arrays they read or write live in SharedArrayBuffers.
   const threads = Math.max(1, Math.floor(input.threads ?? 1));
   const threaded = threads > 1 && pixels >= MIN_THREADED_PIXELS;
@@ -124,13 +132,13 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   };
   lap('prepare');
   const autoArea = input.filmArea !== 'whole';
-  const asserted = (input.anchors ?? []).length > 0 || (input.expectNm ?? null) !== null;
+  const asserted = anchors.length > 0 || (input.expectNm ?? null) !== null;
   // 1. Photo-formation parameters, from film pixels (colour-balanced samples, see fitSamples.ts).
   let fit: PhotoFormationFit | null = null;
   const fitOnFilm = (start: ExposureParameters | null): ExposureParameters => {
     const plain = sampleFitPixels(rgb, status, pixels, FIT_SAMPLES);
     // Anchors take part in the fit: their pixels are samples of known thickness.
-    const anchored = anchorSamples(rgb, status, width, height, input.anchors ?? [], table, plain.length / 3, distinctColourCount(sampleFitPixels(rgb, status, pixels, FIT_SAMPLES, false)));
+    const anchored = anchorSamples(rgb, status, width, height, anchors, table, plain.length / 3, distinctColourCount(sampleFitPixels(rgb, status, pixels, FIT_SAMPLES, false)));
     const samplesRgb = anchored ? concatFloat32(plain, anchored.colours) : plain;
     const fixedIndex = anchored ? new Int32Array(samplesRgb.length / 3).fill(-1) : null;
     if (anchored && fixedIndex) fixedIndex.set(anchored.index, plain.length / 3);
@@ -217,7 +225,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
     priorWeight: 4 * noiseCost,
     dark: cellDark,
     darkPosition: limits.darkLimitIndex,
-    anchors: (input.anchors ?? []).map((a) => anchorCell(a, width, height, block, gridWidth, table)),
+    anchors: anchors.map((a) => anchorCell(a, width, height, block, gridWidth, table)),
   });
 
   fillUnresolved(order.position, field, cellDark, gridWidth, gridHeight, limits.darkLimitIndex, maxJump);
@@ -275,6 +283,24 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
       `${filmArea.excludedPx.undecided} dark pixels at the photo border could be black film or dark background: they are counted neither as film nor as thin; give --region or --mask around the film to decide`,
     );
   }
+  const fitQuality = fitQualityOf({
+    rgb,
+    status,
+    thicknessNm,
+    predictedRgb,
+    startNm: table.startNm,
+    stepNm: table.stepNm,
+    filmAreaPx: filmArea.areaPx,
+    unmatchedPx: reasons.poorMatch,
+    encoded: table.encoding === 'srgb',
+  });
+  if (fitQuality && fitQuality.verdict === 'poor' && filmArea.found) warnings.push(poorFitWarning(fitQuality));
+  if (input.expectNm && filmArea.found && reasons.poorMatch + filmArea.excludedPx.not_film_colour > 0.01 * pixels) {
+    warnings.push(
+      `${reasons.poorMatch + filmArea.excludedPx.not_film_colour} pixels match no thickness within --expect ${input.expectNm[0]}-${input.expectNm[1]} nm: they get no estimate (not film, or film outside the range; check the range)`,
+    );
+  }
+  checkAnchors(anchors, thicknessNm, status, width, warnings, 0.05 * input.orderPeriodNm);
   // 5. Summaries.
   const { thinRegions, thinLabels, stats, histogram } = summariseMap(thicknessNm, status, width, height, input.thinBelowNm, input.pixelSizeUm ?? null);
   if (saturatedCount > 0) warnings.push(`${saturatedCount} pixels are clipped (saturated) and have no estimate`);
@@ -299,6 +325,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
     timingsMs: (lap('summaries'), timingsMs),
     thinLabels,
     filmArea,
+    fitQuality,
   };
 }
 
@@ -834,4 +861,41 @@ function summariseFilmArea(
     found: areaPx > 0,
     excludedPx,
   };
+}
+
+/** The part of the table within [min, max] nm (a view: no copy of the colours). */
+function restrictTable(table: ColourTable, [minNm, maxNm]: readonly [number, number]): ColourTable {
+  const first = Math.max(0, Math.floor((minNm - table.startNm) / table.stepNm));
+  const last = Math.min(table.count - 1, Math.ceil((maxNm - table.startNm) / table.stepNm));
+  if (last - first < 2) throw new RangeError(`--expect ${minNm}-${maxNm} leaves fewer than three thicknesses of the colour table (${table.startNm}–${thicknessAt(table, table.count - 1)} nm in steps of ${table.stepNm} nm)`);
+  return {
+    ...table,
+    startNm: thicknessAt(table, first),
+    count: last - first + 1,
+    rgbLinear: table.rgbLinear.subarray(first * 3, (last + 1) * 3),
+  };
+}
+
+function round1(value: number): number {
+  return Math.round(value * 10) / 10;
+}
+
+/**
+ * An anchor binds the map: its pixel must read its given thickness within the model's precision
+ * (here 5 % of an order); otherwise a warning says so and why it may be.
+ */
+function checkAnchors(anchors: readonly Anchor[], thicknessNm: Float32Array, status: Uint8Array, width: number, warnings: string[], toleranceNm: number): void {
+  for (const anchor of anchors) {
+    const i = anchor.y * width + anchor.x;
+    const value = thicknessNm[i];
+    if (status[i] === PixelStatus.notFilm || status[i] === PixelStatus.undecided) {
+      warnings.push(`--anchor ${anchor.x},${anchor.y}=${anchor.thicknessNm} lies outside the film area found; check the position, or give --film-area whole`);
+    } else if (!(value === value)) {
+      warnings.push(`--anchor ${anchor.x},${anchor.y}=${anchor.thicknessNm}: that pixel got no estimate (its colour matches no thickness well); the anchor could not be checked`);
+    } else if (Math.abs(value - anchor.thicknessNm) > toleranceNm) {
+      warnings.push(
+        `--anchor ${anchor.x},${anchor.y}=${anchor.thicknessNm}: the map reads ${round1(value)} nm there; the photo's colour at the anchor does not fit the given thickness under the fitted light (a wrong thickness, stack or --light, or a camera picture style)`,
+      );
+    }
+  }
 }
