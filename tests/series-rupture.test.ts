@@ -151,14 +151,14 @@ describe('series rupture: the record', () => {
     expect(result.warnings.filter((w) => /reappears/.test(w))).toEqual([]);
   });
 
-  it('series.csv has film_area_px after coverage: 12 px with film, 0 and empty statistics without', async () => {
+  it('series.csv has film_area_px after coverage: 12 px with film; 0, empty statistics and exposure without', async () => {
     await makeFrames(bursting);
     await runSeries(options(double()));
     const rows = await csvRows();
     expect(rows[0]).toEqual(['frame', 'time_s', 'mean_nm', 'median_nm', 'min_nm', 'max_nm', 'std_nm', 'thin_fraction', 'thin_regions', 'coverage', 'film_area_px', 'exposure']);
     expect(rows).toHaveLength(13); // every frame keeps its row
     expect(rows[8]).toEqual(['f8.jpg', '3.500', draining(3.5).toFixed(2), draining(3.5).toFixed(2), draining(3.5).toFixed(2), draining(3.5).toFixed(2), '0.00', '0.0000', '0', '1.0000', '12', '6.0000']);
-    expect(rows[9]).toEqual(['f9.jpg', '4.000', '', '', '', '', '', '', '0', '', '0', '6.0000']);
+    expect(rows[9]).toEqual(['f9.jpg', '4.000', '', '', '', '', '', '', '0', '', '0', '']);
   });
 
   it('no rupture when the film lasts to the last frame: rupture null', async () => {

@@ -1,8 +1,8 @@
 /**
  * Collects the per-frame records a series has in OUT into one row per frame, in input order.
  * Only records made with the current settings count; frames without one are listed as missing.
- * A frame whose map found no film (`filmArea.found` false) keeps its row with no statistics and a
- * film area of 0 px; a record from before film areas existed counts as film, its area the pixels
+ * A frame whose map found no film (`filmArea.found` false) keeps its row with no statistics, no
+ * exposure and a film area of 0 px; a record from before film areas existed counts as film, its area the pixels
  * not excluded (from `stats.film_area_px`, else counted in its `.status.npy`).
  * This is the whole of aggregation: any run, shard or not, ends with it, so N shards plus one
  * aggregation give exactly what a single run gives.
@@ -60,8 +60,9 @@ export async function collectSeriesRows(outDir: string, frames: readonly FrameJo
     const found = record.filmArea?.found !== false;
     const common = { frame: frames[i].name, timeS: timesS[i], exposure: num(record.fitted?.exposure), darkLimitNm: num(record.darkLimitNm) };
     if (!found) {
+      // No film: no statistics, and no exposure either (a photo-formation fit to no film means nothing).
       rows.push({
-        ...common, meanNm: null, medianNm: null, minNm: null, maxNm: null, stdNm: null, thinFraction: null,
+        ...common, exposure: null, meanNm: null, medianNm: null, minNm: null, maxNm: null, stdNm: null, thinFraction: null,
         thinRegions: 0, coverage: null, filmAreaPx: 0, filmFound: false,
       });
       continue;
