@@ -20,7 +20,6 @@ import {
 import type { MappedPhoto } from '../src/map/mapPhoto.js';
 import { mapReportInput } from '../src/map/mapReportInput.js';
 import { mapResultJson } from '../src/map/mapResultJson.js';
-import { anchorWarnings } from '../src/map/anchorWarnings.js';
 import { type FilmAreaSummary, type MapOptions, type MapResult, PixelStatus } from '../src/map/types.js';
 import { resolveStack } from '../src/optics/index.js';
 import { renderMapReport } from '../src/report/index.js';
@@ -357,25 +356,5 @@ describe('CLI: summary line, --film-area and --expect', () => {
     const hashes = new Set([auto, whole, expected].map((o) => settingsHash(o.mapSettings)));
     expect(hashes.size).toBe(3);
     await expect(seriesOptionsFrom(['a.png'], { ...base, filmArea: 'half' }, () => undefined)).rejects.toThrow(/--film-area/);
-  });
-});
-
-describe('anchors outside the film area', () => {
-  it('warns once per anchor that lies on a not-film, undecided or excluded pixel, naming it', () => {
-    const { status } = handMadeResult();
-    status[0] = PixelStatus.excluded;
-    const anchors = [
-      { x: 20, y: 5, thicknessNm: 300 }, // film: no warning
-      { x: 3, y: 5, thicknessNm: 310 }, // not film
-      { x: W - 2, y: H - 2, thicknessNm: 320 }, // undecided
-      { x: 0, y: 0, thicknessNm: 330 }, // outside region/mask
-    ];
-    const lines = anchorWarnings(anchors, status, W, H);
-    expect(lines).toHaveLength(3);
-    expect(lines[0]).toMatch(/^--anchor 3,5=310 lies outside the film area \(a pixel found not to be film\)/);
-    expect(lines[1]).toMatch(/^--anchor 38,28=320 lies outside the film area \(a dark pixel that may be background\)/);
-    expect(lines[2]).toMatch(/^--anchor 0,0=330 lies outside the film area \(outside --region\/--mask\)/);
-    // Not repeated when the mapper already named the anchor.
-    expect(anchorWarnings(anchors, status, W, H, ['--anchor 3,5 could not be used: …'])).toHaveLength(2);
   });
 });

@@ -23,7 +23,6 @@ import { renderMapReport } from '../../report/index.js';
 import type { MapOptions, MapResult } from '../../map/types.js';
 import { loadCalibrationForRun } from '../../calibrate/calibrationFile.js';
 import { mapIndexPage } from '../../map/mapIndexPage.js';
-import { anchorWarnings } from '../../map/anchorWarnings.js';
 
 interface MapCliOptions extends StackCliOptions, FilmAreaCliOptions {
   light: string;
@@ -135,9 +134,7 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
         photoOptions = { ...options, exposureFixed: fitted };
         for (const warning of onPhoto.warnings) warn(`${photo}: calibration: ${warning}`);
       }
-      const mapped = mapDecodedPhoto(decoded, photoOptions, mask, photo);
-      const outsideFilm = anchorWarnings(photoOptions.anchors ?? [], mapped.status, mapped.width, mapped.height, mapped.warnings);
-      const result = outsideFilm.length > 0 ? { ...mapped, warnings: [...mapped.warnings, ...outsideFilm] } : mapped;
+      const result = mapDecodedPhoto(decoded, photoOptions, mask, photo);
       const record = mapResultJson(result, photoOptions, photo);
       // All of a photo's outputs or none, even when interrupted or the disk fills up.
       await writeOutputSet(OUTPUT_SUFFIXES.map((suffix) => join(outDir, stem + suffix)), async () => {
