@@ -83,6 +83,8 @@ const BLACK_FILM_INSIDE = 0.25;
 /** At the border: film from this share up, surroundings below UNDECIDED_FROM, undecided between. */
 const BLACK_FILM_AT_BORDER = 0.6;
 const UNDECIDED_FROM = 0.15;
+/** A non-film pocket at the photo border, bounded by film, up to this share of the search area is film. */
+const BORDER_POCKET_SHARE = 0.02;
 
 export function findFilmArea(input: FilmAreaInput): FilmAreaCells {
   const { gridWidth: w, gridHeight: h, cellClass } = input;
@@ -128,7 +130,7 @@ export function findFilmArea(input: FilmAreaInput): FilmAreaCells {
   settleThinDark(darkMask, darkOpened, verdict, film, w, h);
 
   // 3. Enclosed cells join the film; the rest is not film, by reason.
-  const enclosed = enclosedByFilm(film, cellClass, verdict, w, h);
+  const enclosed = enclosedByFilm(film, cellClass, verdict, dropped, w, h, searchArea);
   let found = false;
   for (let c = 0; c < cells; c++) {
     const k = cellClass[c];
@@ -136,7 +138,7 @@ export function findFilmArea(input: FilmAreaInput): FilmAreaCells {
       verdict[c] = CellVerdict.excluded;
       continue;
     }
-    if (film[c] || (enclosed[c] && k !== CellClass.darkish && k !== CellClass.saturated)) {
+    if (film[c] || (enclosed[c] && k !== CellClass.darkish && k !== CellClass.saturated && !dropped[c])) {
       verdict[c] = CellVerdict.film;
       found = true;
       continue;
@@ -224,7 +226,7 @@ function keepComponents(seeds: Components, input: FilmAreaInput, minSize: number
     const mean = sum[id] / parts.sizes[id];
     const flat = Math.sqrt(Math.max(0, squares[id] / parts.sizes[id] - mean * mean)) < FLAT_SPREAD * input.thinPosition;
     const apart = continuing[id] < 0.5 * outline || outline === 0;
-    const surroundings = coloured ? apart && flat && edges[id] === 1 : !input.filmAsserted;
+    const surroundings = coloured ? apart && edges[id] === 1 && (flat || parts.sizes[id] >= minSize) : !input.filmAsserted;
     if (surroundings) {
       film[c] = 0;
       dropped[c] = 1;
@@ -358,29 +360,35 @@ function settleThinDark(darkMask: Uint8Array, darkOpened: Uint8Array, verdict: U
 }
 
 /**
- * Cells enclosed by the film: components (4-connected) of non-film cells that touch neither the
- * grid border, nor excluded cells, nor cells already judged surroundings or undecided.
+ * Cells enclosed by the film: components (4-connected) of non-film cells that hold no excluded,
+ * surroundings, undecided or dropped neutral cells, and either do not reach the photo border or
+ * are small pockets there.
  */
-function enclosedByFilm(film: Uint8Array, cellClass: Uint8Array, verdict: Uint8Array, w: number, h: number): Uint8Array {
+function enclosedByFilm(film: Uint8Array, cellClass: Uint8Array, verdict: Uint8Array, dropped: Uint8Array, w: number, h: number, searchArea: number): Uint8Array {
   const cells = w * h;
   const rest = new Uint8Array(cells);
   for (let c = 0; c < cells; c++) rest[c] = film[c] ? 0 : 1;
   const parts = labelComponents(rest, w, h, 4);
   const open = new Uint8Array(parts.count + 1);
+  const border = new Uint8Array(parts.count + 1);
   for (let c = 0; c < cells; c++) {
     const id = parts.labels[c];
     if (id === 0) continue;
     const x = c % w;
     const y = (c - x) / w;
+    if (x === 0 || y === 0 || x === w - 1 || y === h - 1) border[id] = 1;
     if (
-      x === 0 || y === 0 || x === w - 1 || y === h - 1 ||
       cellClass[c] === CellClass.excluded ||
+      dropped[c] ||
       verdict[c] === CellVerdict.darkSurroundings ||
       verdict[c] === CellVerdict.undecided
     ) {
       open[id] = 1;
     }
   }
+  // A pocket at the photo border bounded only by film (a swirl cut by the border, colour
+  // mixtures on a steep ring there) is the film's too when it is small.
+  for (let id = 1; id <= parts.count; id++) if (border[id] && parts.sizes[id] > BORDER_POCKET_SHARE * searchArea) open[id] = 1;
   const out = new Uint8Array(cells);
   for (let c = 0; c < cells; c++) {
     const id = parts.labels[c];
