@@ -19,8 +19,11 @@
  *    first-order sequence (thin film, below one order), a background meets frames, holders and
  *    the photo border. Not touching the photo border: film when at least a quarter of its
  *    outline is thin film, else dark surroundings. Touching the photo border (or the edge of the
- *    region/mask): film when at least 60 % of its outline inside the photo is thin film, dark
- *    surroundings below 15 %, undecided between (the caller warns and suggests --region/--mask).
+ *    region/mask): film when at least 60 % of its outline inside the photo is thin film. When the
+ *    film itself runs off the photo too and at least 15 % of the outline is thin film or a
+ *    thin-looking band of film colour (a steep black front whose first-order band was cut as a
+ *    strip looks exactly like a grey wire before a cloth), the evidence cannot decide: undecided
+ *    (the caller warns). Otherwise dark surroundings (a cloth around a film held in view).
  * 3. Cells enclosed by the film (unexplained colour mixtures on steep rings, small isolated
  *    matches) belong to it; what is not enclosed is not film (by reason). Clipped cells are glints.
  */
@@ -290,6 +293,16 @@ function classifyDark(dark: Components, input: FilmAreaInput, film: Uint8Array):
   const thin = new Float64Array(dark.count + 1);
   const other = new Float64Array(dark.count + 1);
   const border = new Uint8Array(dark.count + 1);
+  const band = new Float64Array(dark.count + 1);
+  // Does the film itself run off the photo (or the region)? Only then can black at the border be film.
+  let filmAtBorder = false;
+  for (let c = 0; c < w * h && !filmAtBorder; c++) {
+    if (!film[c]) continue;
+    const x = c % w;
+    const y = (c - x) / w;
+    if (x === 0 || y === 0 || x === w - 1 || y === h - 1) filmAtBorder = true;
+  }
+  const foreign = new Float64Array(dark.count + 1);
   for (let c = 0; c < w * h; c++) {
     const id = dark.labels[c];
     if (id === 0) continue;
@@ -307,10 +320,20 @@ function classifyDark(dark: Components, input: FilmAreaInput, film: Uint8Array):
         continue;
       }
       // Colour mixtures (steep rings, JPEG) and what no thickness gives say nothing either way.
-      if (cellClass[j] === CellClass.darkish || cellClass[j] === CellClass.unexplained) continue;
-      const isThin = film[j] === 1 && candidateCount[j] > 0 && candidatePosition[j * perCell] < thinPosition;
-      if (isThin) thin[id]++;
-      else other[id]++;
+      if (cellClass[j] === CellClass.darkish) continue;
+      if (cellClass[j] === CellClass.unexplained) {
+        foreign[id]++;
+        continue;
+      }
+      const thinPositioned = candidateCount[j] > 0 && candidatePosition[j * perCell] < thinPosition;
+      if (film[j] === 1 && thinPositioned) thin[id]++;
+      else {
+        other[id]++;
+        // A first-order band the strips test removed (black | white | colours) looks like a
+        // grey wire: it counts only towards "undecided".
+        if (cellClass[j] === CellClass.filmColour && thinPositioned) band[id]++;
+        else foreign[id]++;
+      }
     }
   }
   const out = new Uint8Array(dark.count + 1);
@@ -319,7 +342,7 @@ function classifyDark(dark: Components, input: FilmAreaInput, film: Uint8Array):
     const share = total > 0 ? thin[id] / total : 0;
     if (!border[id]) out[id] = share >= BLACK_FILM_INSIDE ? CellVerdict.film : CellVerdict.darkSurroundings;
     else if (share >= BLACK_FILM_AT_BORDER) out[id] = CellVerdict.film;
-    else if (share >= UNDECIDED_FROM) out[id] = CellVerdict.undecided;
+    else if (filmAtBorder && (thin[id] + band[id]) >= UNDECIDED_FROM * (thin[id] + band[id] + foreign[id] + other[id] - band[id])) out[id] = CellVerdict.undecided;
     else out[id] = CellVerdict.darkSurroundings;
   }
   return out;

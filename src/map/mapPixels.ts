@@ -280,7 +280,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
     );
   } else if (filmArea.excludedPx.undecided > 0) {
     warnings.push(
-      `${filmArea.excludedPx.undecided} dark pixels at the photo border could be black film or dark background: they are counted neither as film nor as thin; give --region or --mask around the film to decide`,
+      `${filmArea.excludedPx.undecided} dark pixels at the photo border could be black film or dark background: they are counted neither as film nor as thin. If the photo shows only film, give --film-area whole; otherwise give --region or --mask around the film`,
     );
   }
   const fitQuality = fitQualityOf({
