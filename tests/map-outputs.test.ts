@@ -155,7 +155,7 @@ describe('lamella map outputs, read back', () => {
     const npy = readNpyFloat32(readFileSync(join(out, 'wedge.thickness.npy'))).data;
     const values = [...npy].filter((v) => !Number.isNaN(v)).sort((a, b) => a - b);
     const counts = record.pixel_counts;
-    expect(counts.ok + counts.too_dark + counts.too_thick + counts.ambiguous + counts.excluded + counts.saturated).toBe(W * H);
+    expect(counts.ok + counts.too_dark + counts.too_thick + counts.ambiguous + counts.excluded + counts.saturated + counts.not_film + counts.undecided).toBe(W * H);
     expect(counts.ok).toBe(values.length);
     expect(counts.too_dark).toBeGreaterThan(0);
     const s = record.statistics;
@@ -168,7 +168,8 @@ describe('lamella map outputs, read back', () => {
     expect(s.p95_nm).toBeCloseTo(type7(values, 0.95), 6);
     expect(s.min_nm).toBe(values[0]);
     expect(s.max_nm).toBe(values[values.length - 1]);
-    expect(s.coverage).toBeCloseTo(values.length / (W * H - counts.excluded), 12);
+    // Coverage is over the film area: every pixel but those outside region/mask, not film or undecided.
+    expect(s.coverage).toBeCloseTo(values.length / (W * H - counts.excluded - counts.not_film - counts.undecided), 12);
     const thin = values.filter((v) => v < 50).length;
     expect(s.thin_fraction).toBeCloseTo((thin + counts.too_dark) / (values.length + counts.too_dark), 12);
     expect(record.histogram.counts.reduce((a: number, b: number) => a + b, 0)).toBe(values.length);

@@ -129,9 +129,9 @@ describe('runSeries() with a test-double mapper', () => {
     await runSeries(options(double(calls)));
     expect(calls.map((c) => c.frame)).toEqual(Array.from({ length: 12 }, (_, i) => `f${i + 1}.jpg`));
     const lines = (await csv()).trim().split('\n');
-    expect(lines[0]).toBe('frame,time_s,mean_nm,median_nm,min_nm,max_nm,std_nm,thin_fraction,thin_regions,coverage,exposure');
-    expect(lines[1]).toBe('f1.jpg,0.000,980.00,980.00,980.00,980.00,0.00,0.0000,0,1.0000,6.0000');
-    expect(lines[12]).toBe('f12.jpg,5.500,760.00,760.00,760.00,760.00,0.00,0.0000,0,1.0000,6.0000');
+    expect(lines[0]).toBe('frame,time_s,mean_nm,median_nm,min_nm,max_nm,std_nm,thin_fraction,thin_regions,coverage,film_area_px,exposure');
+    expect(lines[1]).toBe('f1.jpg,0.000,980.00,980.00,980.00,980.00,0.00,0.0000,0,1.0000,12,6.0000');
+    expect(lines[12]).toBe('f12.jpg,5.500,760.00,760.00,760.00,760.00,0.00,0.0000,0,1.0000,12,6.0000');
   });
 
   it('passes the previous frame map as prior within a chunk and none at chunk starts', async () => {

@@ -1,10 +1,12 @@
 /**
  * The options that say what part of a photo is film and how to read it, shared by `lamella map`
  * and `lamella series` (one declaration, one parser, the same defaults and messages):
- * `--thin-below`, `--max-thickness`, `--region` | `--mask`, `--anchor` (repeatable), `--pixel-size`.
+ * `--thin-below`, `--max-thickness`, `--region` | `--mask`, `--anchor` (repeatable), `--pixel-size`,
+ * `--film-area auto|whole` (find the film inside region/mask, or take all of it) and
+ * `--expect MIN-MAX` (the thickness range the film is known to lie in, nm).
  */
 import { Option, type Command } from 'commander';
-import type { Anchor } from '../map/types.js';
+import type { Anchor, FilmAreaMode } from '../map/types.js';
 import { UsageError } from './errors.js';
 import { collect, parseAnchor, parseRegion } from './parseGeometry.js';
 import { parseNumberOption } from './stackOptions.js';
@@ -17,6 +19,8 @@ export interface FilmAreaCliOptions {
   mask?: string;
   anchor?: string[];
   pixelSize?: string;
+  filmArea?: string;
+  expect?: string;
 }
 
 export interface FilmArea {
@@ -28,7 +32,13 @@ export interface FilmArea {
   readonly maskPath: string | null;
   readonly anchors: Anchor[];
   readonly pixelSizeUm: number | null;
+  /** `auto` (default): find the film inside region/mask; `whole`: all of region/mask is film. */
+  readonly filmArea: FilmAreaMode;
+  /** `--expect MIN-MAX`: [min, max] nm with 0 ≤ min < max ≤ max thickness, or null. */
+  readonly expectNm: [number, number] | null;
 }
+
+export const FILM_AREA_MODES: readonly FilmAreaMode[] = ['auto', 'whole'];
 
 /** Declares the options; `scope` words the help for one photo or every frame of a series. */
 export function addFilmAreaOptions(command: Command, scope: 'photo' | 'frames'): Command {
@@ -39,7 +49,41 @@ export function addFilmAreaOptions(command: Command, scope: 'photo' | 'frames'):
     .addOption(new Option('--region <x,y,w,h>', `measure only this rectangle${each} (pixels)`).conflicts('mask'))
     .option('--mask <file>', `measure only where this mask image is non-zero${scope === 'frames' ? ' (same size as the frames)' : ''}`)
     .option('--anchor <x,y=nm>', `a pixel of known thickness${scope === 'frames' ? ' in every frame' : ''} (repeatable)`, collect)
-    .option('--pixel-size <um>', 'size of one pixel on the sample, micrometres (areas of thin regions, scale bar)');
+    .option('--pixel-size <um>', 'size of one pixel on the sample, micrometres (areas of thin regions, scale bar)')
+    .option(
+      '--film-area <mode>',
+      `which pixels${each} are film: auto = found in the photo (dark surroundings, frames, holders, glints and colours no film gives are left out), ` +
+        'whole = every pixel inside --region/--mask (the whole photo without them)',
+      'auto',
+    )
+    .option('--expect <min-max>', 'thickness range the film is known to lie in, nm (e.g. 80-140): orders and the fit keep to it');
+}
+
+/** `--film-area`: `auto` or `whole`. */
+export function parseFilmAreaMode(text: string | undefined): FilmAreaMode {
+  const mode = (text ?? 'auto').trim();
+  if (mode === 'auto' || mode === 'whole') return mode;
+  throw new UsageError(`--film-area must be auto or whole, received ${JSON.stringify(text)}`);
+}
+
+const DECIMAL = String.raw`-?(?:\d+(?:\.\d*)?|\.\d+)`;
+const EXPECT_FORM = new RegExp(`^\\s*(${DECIMAL})\\s*[-–]\\s*(${DECIMAL})\\s*(?:nm)?\\s*$`, 'i');
+
+/**
+ * `--expect MIN-MAX` in nm (decimal numbers, e.g. `80-140` or `92.5-110`): 0 ≤ MIN < MAX ≤
+ * `maxThicknessNm` (the largest thickness the map considers).
+ */
+export function parseExpect(text: string, maxThicknessNm: number): [number, number] {
+  const match = EXPECT_FORM.exec(text);
+  if (!match) throw new UsageError(`--expect must be MIN-MAX in nm with decimal numbers (e.g. 80-140), received ${JSON.stringify(text)}`);
+  const minNm = Number(match[1]);
+  const maxNm = Number(match[2]);
+  if (minNm < 0 || maxNm < 0) throw new UsageError(`--expect must not be negative (MIN-MAX in nm, 0 <= MIN < MAX), received ${JSON.stringify(text)}`);
+  if (!(minNm < maxNm)) throw new UsageError(`--expect MIN must be below MAX (MIN-MAX in nm), received ${JSON.stringify(text)}`);
+  if (maxNm > maxThicknessNm) {
+    throw new UsageError(`--expect must lie within 0-${maxThicknessNm} nm (--max-thickness), received ${JSON.stringify(text)}`);
+  }
+  return [minNm, maxNm];
 }
 
 /**
@@ -71,5 +115,7 @@ export function filmAreaFromOptions(opts: FilmAreaCliOptions): FilmArea {
     maskPath: opts.mask ?? null,
     anchors,
     pixelSizeUm,
+    filmArea: parseFilmAreaMode(opts.filmArea),
+    expectNm: opts.expect !== undefined ? parseExpect(opts.expect, maxThicknessNm) : null,
   };
 }

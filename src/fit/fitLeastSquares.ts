@@ -107,7 +107,10 @@ export function fitLeastSquares(problem: LeastSquaresProblem): LeastSquaresResul
   if (stats.warning) warnings.push(stats.warning);
   q.forEach((v, k) => {
     if (v <= normalised.lowerQ[k] || v >= normalised.upperQ[k]) {
-      warnings.push(`parameter ${k} ended at its ${v <= normalised.lowerQ[k] ? 'lower' : 'upper'} bound; its standard error treats it as free`);
+      const name = problem.parameterNames?.[k] ?? `parameter ${k}`;
+      const bound = v <= normalised.lowerQ[k] ? 'lower' : 'upper';
+      const value = plain.toParams(q)[k];
+      warnings.push(`${name} ended at its ${bound} bound (${Number(value.toPrecision(3))}); its standard error treats it as free`);
     }
   });
   return {

@@ -24,6 +24,8 @@ export interface LeastSquaresProblem {
    * good (e.g. from a scan) and who fits many times may turn it off to halve the work.
    */
   restartFromInitial?: boolean;
+  /** Names of the parameters in words, for warnings (default "parameter k"). */
+  parameterNames?: readonly string[];
 }
 
 export interface LeastSquaresResult {

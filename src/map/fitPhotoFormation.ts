@@ -232,6 +232,8 @@ interface InnerResult {
   warnings: string[];
 }
 
+const PARAMETER_NAMES = ['the exposure', 'the red white-balance gain', 'the blue white-balance gain', 'the red flare', 'the green flare', 'the blue flare'];
+
 /** Parameter vector: [exposure, wbR, wbB, flareR, flareG, flareB] (wbG ≡ 1, exposure absorbs it). */
 function innerFit(
   options: PhotoFormationOptions,
@@ -314,6 +316,7 @@ function innerFit(
     // no second polish from it (a third fewer model evaluations, the same parameters on the
     // demo and benchmark photos).
     restartFromInitial: false,
+    parameterNames: active.map((slot) => PARAMETER_NAMES[slot]),
   });
   const v = expand(fit.parameters);
   const se = [NaN, 0, 0, 0, 0, 0];
@@ -325,7 +328,11 @@ function innerFit(
     parameters: toParameters(v),
     standardErrors: { exposure: se[0], whiteBalance: [se[1], 0, se[2]], flare: [se[3], se[4], se[5]] },
     rms: Math.sqrt(Math.max(0, fit.residualSumOfSquares - priorRss) / Math.max(1, m * 3)),
-    warnings: fit.warnings,
+    warnings: fit.warnings.map((w) =>
+      w.startsWith('did not converge')
+        ? `the exposure, white-balance and flare fit did not settle within ${25} iterations: the map uses the best values found, which may be slightly off (see fit_quality; a calibration removes the doubt)`
+        : w,
+    ),
   };
 }
 

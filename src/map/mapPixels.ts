@@ -12,20 +12,28 @@
  * 5. Statistics, histogram and thin regions.
  */
 import { createCandidateCube } from './candidateCube.js';
-import { createCandidateField } from './candidateField.js';
+import { type CandidateField, createCandidateField } from './candidateField.js';
 import { type ColourTable, predictEncodedTable, thicknessAt } from './colourTable.js';
+import { emptyExclusions } from './filmArea.js';
+import { fitQualityOf, poorFitWarning } from './fitQuality.js';
 import { estimateNoise } from './estimateNoise.js';
 import { distinctColourCount, fitPhotoFormation, type PhotoFormationFit } from './fitPhotoFormation.js';
 import { matchSpace, toMatchSpace } from './matchSpace.js';
 import { createMatchScratch, matchColour } from './matchColour.js';
 import { createAlternativeMemo, matchPixelRows, scorePixelRows } from './pixelPass.js';
 import { keepConsistentPixels } from './keepConsistent.js';
+import { CellClass, CellVerdict, type FilmAreaCells, findFilmArea } from './filmArea.js';
+import { sampleFitPixels } from './fitSamples.js';
+import { brightnessOf, type TableLimits } from './tableLimits.js';
+import type { CandidateCube } from './candidateCube.js';
+import type { MatchSpace } from './matchSpace.js';
+import type { MatchScratch } from './matchColour.js';
 import { matchPixelsThreaded, scorePixelsThreaded, sharedCopy, sharedFloat32, sharedUint8 } from './pixelThreads.js';
 import { resolveOrders } from './resolveOrders.js';
 import { percentileSelect } from './statistics.js';
 import { summariseMap } from './summariseMap.js';
 import { tableLimits } from './tableLimits.js';
-import { type Anchor, type ExposureParameters, type MapResult, PixelStatus } from './types.js';
+import { type Anchor, type ExposureParameters, type FilmAreaMode, type FilmAreaSummary, type MapResult, PixelStatus } from './types.js';
 
 export interface MapPixelsInput {
   readonly rgb: Float32Array;
@@ -56,6 +64,10 @@ export interface MapPixelsInput {
   readonly eightBit?: boolean;
   /** Weight of chroma in colour matching (< 1 for chroma-subsampled JPEGs; see matchSpace.ts). */
   readonly chromaWeight?: number;
+  /** `auto` (default): find the film area (filmArea.ts); `whole`: every `film` pixel is film. */
+  readonly filmArea?: FilmAreaMode;
+  /** Thickness range the film is known to lie in (nm), from `--expect`. */
+  readonly expectNm?: readonly [number, number] | null;
 }
 
 export interface MapPixelsResult extends MapResult {
@@ -85,9 +97,16 @@ const FIT_SAMPLES = 2000;
 export const MIN_THREADED_PIXELS = 1_000_000;
 
 export function mapPixels(input: MapPixelsInput): MapPixelsResult {
-  const { rgb, width, height, film, table } = input;
+  const { rgb, width, height, film } = input;
   const pixels = width * height;
   const warnings: string[] = [];
+  // --expect: the film lies in this range; orders and the fit see only those thicknesses.
+  const table = input.expectNm ? restrictTable(input.table, input.expectNm) : input.table;
+  const anchors = (input.anchors ?? []).filter((a: Anchor) => {
+    const inside = a.thicknessNm >= table.startNm && a.thicknessNm <= thicknessAt(table, table.count - 1);
+    if (!inside) warnings.push(`--anchor ${a.x},${a.y}=${a.thicknessNm} lies outside the thicknesses considered (${round1(table.startNm)}–${round1(thicknessAt(table, table.count - 1))} nm): it is ignored`);
+    return inside;
+  });
   // With helper threads, the arrays they read or write live in SharedArrayBuffers.
   const threads = Math.max(1, Math.floor(input.threads ?? 1));
   const threaded = threads > 1 && pixels >= MIN_THREADED_PIXELS;
@@ -112,24 +131,22 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
     clock = now;
   };
   lap('prepare');
-  // 1. Photo-formation parameters.
+  const autoArea = input.filmArea !== 'whole';
+  const asserted = anchors.length > 0 || (input.expectNm ?? null) !== null;
+  // 1. Photo-formation parameters, from film pixels (colour-balanced samples, see fitSamples.ts).
   let fit: PhotoFormationFit | null = null;
-  let parameters: ExposureParameters;
-  if (input.exposureFixed) parameters = input.exposureFixed;
-  else {
-    const plain = samplePixels(rgb, status, pixels, FIT_SAMPLES);
+  const fitOnFilm = (start: ExposureParameters | null): ExposureParameters => {
+    const plain = sampleFitPixels(rgb, status, pixels, FIT_SAMPLES);
     // Anchors take part in the fit: their pixels are samples of known thickness.
-    const anchored = anchorSamples(rgb, status, width, height, input.anchors ?? [], table, plain.length / 3);
+    const anchored = anchorSamples(rgb, status, width, height, anchors, table, plain.length / 3, distinctColourCount(sampleFitPixels(rgb, status, pixels, FIT_SAMPLES, false)));
     const samplesRgb = anchored ? concatFloat32(plain, anchored.colours) : plain;
     const fixedIndex = anchored ? new Int32Array(samplesRgb.length / 3).fill(-1) : null;
     if (anchored && fixedIndex) fixedIndex.set(anchored.index, plain.length / 3);
     const samples = space ? toMatchSpace(space, samplesRgb, new Float32Array(samplesRgb.length)) : samplesRgb;
     if (samples.length < 3 * MIN_FIT_SAMPLES) {
-      parameters = { exposure: 1, whiteBalance: [1, 1, 1], flare: [0, 0, 0] };
-      warnings.push(
-        `only ${samples.length / 3} usable film pixels: too few to fit exposure, white balance and flare; assumed exposure 1, no flare (give --calibration for real numbers)`,
-      );
-    } else {
+      fit = null;
+      return { exposure: 1, whiteBalance: [1, 1, 1], flare: [0, 0, 0] };
+    }
     fit = fitPhotoFormation({
       table,
       samples,
@@ -140,52 +157,66 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
       space,
       samplesRgb,
       fixedIndex,
-      start: input.fitStart ?? null,
+      start,
     });
-    const distinct = distinctColourCount(samplesRgb);
-    if (distinct < MIN_DISTINCT_COLOURS) {
-      warnings.push(
-        `the photo holds only ${distinct} distinct colour(s): exposure, white balance and flare are poorly determined from it and rest on weak assumptions; map it with --calibration or --known for trustworthy numbers`,
-      );
-    }
-    parameters = fit.parameters;
-    warnings.push(...fit.warnings);
-    }
-  }
+    return fit.parameters;
+  };
+  let parameters: ExposureParameters = input.exposureFixed ?? fitOnFilm(input.fitStart ?? null);
 
   lap('fit');
-  // 2. Predicted colours and limits.
-  const predictedRgb = predictEncodedTable(table, parameters);
-  const count = table.count;
   const periodIndex = input.orderPeriodNm / table.stepNm;
-  const limits = tableLimits(predictedRgb, table.rgbLinear, count, noiseSigma, Math.round(periodIndex));
-  const predicted = space ? toMatchSpace(space, predictedRgb, new Float32Array(predictedRgb.length)) : predictedRgb;
-  markDarkPixels(rgb, status, width, height, limits.darkLuma);
-
-  lap('limits');
-  // 3. Order resolution on the cell grid.
+  const count = table.count;
   const block = Math.max(1, Math.ceil(Math.sqrt(pixels / MAX_GRID_CELLS)));
   const gridWidth = Math.ceil(width / block);
   const gridHeight = Math.ceil(height / block);
-  const cellColour = new Float32Array(gridWidth * gridHeight * 3);
-  const cellDark = new Uint8Array(gridWidth * gridHeight);
-  const usable = averageCells(rgb, status, width, height, block, gridWidth, gridHeight, cellColour, cellDark);
-  // Averaging commutes with the (affine) matching space: transform the cell means.
-  if (space) toMatchSpace(space, cellColour, cellColour);
   const cube = createCandidateCube(CUBE_LEVELS, PER_CELL);
   const scratch = createMatchScratch(PER_CELL);
-  const field = createCandidateField(gridWidth, gridHeight, PER_CELL);
-  for (let c = 0; c < gridWidth * gridHeight; c++) {
-    if (!usable[c]) continue;
-    const n = matchColour(cube, predicted, count, cellColour[c * 3], cellColour[c * 3 + 1], cellColour[c * 3 + 2], scratch);
-    field.count[c] = n;
-    for (let k = 0; k < n; k++) {
-      field.position[c * PER_CELL + k] = scratch.position[k];
-      field.cost[c * PER_CELL + k] = scratch.cost[k];
+  const maxJump = (block === 1 ? 0.3 : 0.4) * periodIndex;
+  // 2–3. Predicted colours, limits, and every cell's candidates (again after a refit).
+  let cells = matchCells(rgb, status, width, height, block, gridWidth, gridHeight, table, parameters, noiseSigma, periodIndex, space, cube, scratch);
+  let area: FilmAreaCells | null = null;
+  if (autoArea) {
+    area = filmAreaOf(cells, gridWidth, gridHeight, block, noiseSigma, periodIndex, maxJump, table.rgbLinear, asserted);
+    const excluded = applyFilmArea(area, status, width, height, block, gridWidth, false);
+    // What was fitted included pixels that are not film: fit again on the film alone, from there.
+    if (!input.exposureFixed && area.found && excluded > 0.01 * pixels) {
+      resetDerivedStatus(status);
+      applyFilmArea(area, status, width, height, block, gridWidth, false);
+      parameters = fitOnFilm(parameters);
+      resetDerivedStatus(status);
+      cells = matchCells(rgb, status, width, height, block, gridWidth, gridHeight, table, parameters, noiseSigma, periodIndex, space, createCandidateCube(CUBE_LEVELS, PER_CELL), scratch);
+      area = filmAreaOf(cells, gridWidth, gridHeight, block, noiseSigma, periodIndex, maxJump, table.rgbLinear, asserted);
+    }
+    applyFilmArea(area, status, width, height, block, gridWidth, true);
+    for (let c = 0; c < gridWidth * gridHeight; c++) {
+      if (area.verdict[c] !== CellVerdict.film) {
+        cells.usable[c] = 0;
+        cells.cellDark[c] = 0;
+        cells.field.count[c] = 0;
+      }
     }
   }
+  if (!input.exposureFixed) {
+    const currentFit = fit as PhotoFormationFit | null;
+    if (currentFit === null) {
+      warnings.push(
+        `too few usable film pixels to fit exposure, white balance and flare; assumed exposure 1, no flare (give --calibration for real numbers)`,
+      );
+    } else {
+      const distinct = distinctColourCount(sampleFitPixels(rgb, status, pixels, FIT_SAMPLES, false));
+      if (distinct < MIN_DISTINCT_COLOURS && (area === null || area.found)) {
+        warnings.push(
+          `the photo holds only ${distinct} distinct colour(s): exposure, white balance and flare are poorly determined from it and rest on weak assumptions; map it with --calibration, --known, --anchor or --expect for trustworthy numbers`,
+        );
+      }
+      warnings.push(...currentFit.warnings);
+    }
+  }
+  const { predictedRgb, predicted, limits, cellDark, field } = cells;
+
+  lap('orders');
+  // 3. Order resolution on the cell grid.
   const noiseCost = 3 * noiseSigma * noiseSigma;
-  const maxJump = (block === 1 ? 0.3 : 0.4) * periodIndex;
   const order = resolveOrders(field, {
     maxJump,
     noiseCost: noiseCost / (block === 1 ? 9 : block * block),
@@ -194,7 +225,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
     priorWeight: 4 * noiseCost,
     dark: cellDark,
     darkPosition: limits.darkLimitIndex,
-    anchors: (input.anchors ?? []).map((a) => anchorCell(a, width, height, block, gridWidth, table)),
+    anchors: anchors.map((a) => anchorCell(a, width, height, block, gridWidth, table)),
   });
 
   fillUnresolved(order.position, field, cellDark, gridWidth, gridHeight, limits.darkLimitIndex, maxJump);
@@ -220,7 +251,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
     startNm: table.startNm,
     stepNm: table.stepNm,
   };
-  const pass = { ...common, cube: space ? createCandidateCube(CUBE_LEVELS, PER_CELL) : cube, memo: input.eightBit ? createAlternativeMemo(count) : null };
+  const pass = { ...common, cube: space ? createCandidateCube(CUBE_LEVELS, PER_CELL) : cells.cube, memo: input.eightBit ? createAlternativeMemo(count) : null };
   const passOut = { thicknessNm, cost: confidence, alternativeCost: threaded ? sharedFloat32(pixels) : new Float32Array(pixels) };
   const matchRows = (y0: number, y1: number) => matchPixelRows(pass, passOut, scratch, y0, y1);
   const dropped = threaded
@@ -242,6 +273,34 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   const reasons = { unresolved: dropped.unresolved, discontinuous: dropped.discontinuous, poorMatch: poor - keptByNeighbours };
 
   lap('pixels');
+  const filmArea = summariseFilmArea(autoArea ? 'auto' : 'whole', area, status, width, height, block, gridWidth, input.pixelSizeUm ?? null);
+  if (area && !filmArea.found) {
+    warnings.push(
+      'no film found: no part of the photo shows colours this film gives under the fitted light in a continuous field (a background, a card or a scene that is not a thin film?); nothing was measured. Check --stack and --light, or give --region / --mask around the film, or --film-area whole to measure every pixel',
+    );
+  } else if (filmArea.excludedPx.undecided > 0) {
+    warnings.push(
+      `${filmArea.excludedPx.undecided} dark pixels at the photo border could be black film or dark background: they are counted neither as film nor as thin. If the photo shows only film, give --film-area whole; otherwise give --region or --mask around the film`,
+    );
+  }
+  const fitQuality = fitQualityOf({
+    rgb,
+    status,
+    thicknessNm,
+    predictedRgb,
+    startNm: table.startNm,
+    stepNm: table.stepNm,
+    filmAreaPx: filmArea.areaPx,
+    unmatchedPx: reasons.poorMatch,
+    encoded: table.encoding === 'srgb',
+  });
+  if (fitQuality && fitQuality.verdict === 'poor' && filmArea.found) warnings.push(poorFitWarning(fitQuality));
+  if (input.expectNm && filmArea.found && reasons.poorMatch + filmArea.excludedPx.not_film_colour > 0.01 * pixels) {
+    warnings.push(
+      `${reasons.poorMatch + filmArea.excludedPx.not_film_colour} pixels match no thickness within --expect ${input.expectNm[0]}-${input.expectNm[1]} nm: they get no estimate (not film, or film outside the range; check the range)`,
+    );
+  }
+  checkAnchors(anchors, thicknessNm, status, width, warnings, 0.05 * input.orderPeriodNm);
   // 5. Summaries.
   const { thinRegions, thinLabels, stats, histogram } = summariseMap(thicknessNm, status, width, height, input.thinBelowNm, input.pixelSizeUm ?? null);
   if (saturatedCount > 0) warnings.push(`${saturatedCount} pixels are clipped (saturated) and have no estimate`);
@@ -265,26 +324,9 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
     keptByNeighbours,
     timingsMs: (lap('summaries'), timingsMs),
     thinLabels,
+    filmArea,
+    fitQuality,
   };
-}
-
-/** Up to `target` film pixels on a regular stride, as n × 3 encoded colours. */
-function samplePixels(rgb: Float32Array, status: Uint8Array, pixels: number, target: number): Float32Array {
-  let eligible = 0;
-  for (let i = 0; i < pixels; i++) if (status[i] === PixelStatus.ok) eligible++;
-  const stride = Math.max(1, Math.floor(eligible / target));
-  const out = new Float32Array(Math.ceil(eligible / stride) * 3);
-  let seen = 0;
-  let n = 0;
-  for (let i = 0; i < pixels; i++) {
-    if (status[i] !== PixelStatus.ok) continue;
-    if (seen++ % stride !== 0) continue;
-    out[n * 3] = rgb[i * 3];
-    out[n * 3 + 1] = rgb[i * 3 + 1];
-    out[n * 3 + 2] = rgb[i * 3 + 2];
-    n++;
-  }
-  return out.subarray(0, n * 3);
 }
 
 /**
@@ -301,6 +343,7 @@ function averageCells(
   gridHeight: number,
   out: Float32Array,
   dark: Uint8Array,
+  state: Uint8Array,
 ): Uint8Array {
   const usable = new Uint8Array(gridWidth * gridHeight);
   const radius = block === 1 ? 1 : 0;
@@ -316,6 +359,7 @@ function averageCells(
       let b = 0;
       let n = 0;
       let darkCount = 0;
+      let saturatedCount = 0;
       let total = 0;
       for (let y = y0; y < y1; y++) {
         for (let x = x0; x < x1; x++) {
@@ -324,6 +368,7 @@ function averageCells(
           if (s === PixelStatus.excluded) continue;
           total++;
           if (s === PixelStatus.dark) darkCount++;
+          else if (s === PixelStatus.saturated) saturatedCount++;
           if (s !== PixelStatus.ok) continue;
           r += rgb[i * 3];
           g += rgb[i * 3 + 1];
@@ -333,12 +378,23 @@ function averageCells(
       }
       if (block === 1) {
         const centre = gy * width + gx;
-        if (status[centre] !== PixelStatus.ok) {
-          if (status[centre] === PixelStatus.dark) dark[c] = 1;
+        const s = status[centre];
+        if (s !== PixelStatus.ok) {
+          if (s === PixelStatus.dark) dark[c] = 1;
+          state[c] = s === PixelStatus.dark ? 1 : s === PixelStatus.saturated ? 2 : s === PixelStatus.excluded ? 3 : 4;
           continue;
         }
-      } else if (darkCount * 2 > total && total > 0) dark[c] = 1;
-      if (n === 0 || n * 2 < total) continue;
+      } else if (total === 0) {
+        state[c] = 3;
+        continue;
+      } else if (darkCount * 2 > total) {
+        dark[c] = 1;
+        state[c] = 1;
+      } else if (saturatedCount * 2 > total) state[c] = 2;
+      if (n === 0 || n * 2 < total) {
+        if (state[c] === 0) state[c] = 4;
+        continue;
+      }
       out[c * 3] = r / n;
       out[c * 3 + 1] = g / n;
       out[c * 3 + 2] = b / n;
@@ -537,7 +593,8 @@ function medianOfOk(values: Float32Array, status: Uint8Array): number {
 
 /**
  * Fit samples at user anchors: the measurable pixels within 2 px of each anchor, repeated so
- * that each anchor weighs like 3 % of the regular samples (at least 40). Null when none.
+ * that each anchor weighs like 3 % of the regular samples (at least 40), or like all of them in a
+ * photo of few colours. Null when none.
  */
 function anchorSamples(
   rgb: Float32Array,
@@ -547,6 +604,7 @@ function anchorSamples(
   anchors: readonly Anchor[],
   table: ColourTable,
   regular: number,
+  distinctColours: number,
 ): { colours: Float32Array; index: Int32Array } | null {
   const colours: number[] = [];
   const index: number[] = [];
@@ -564,7 +622,9 @@ function anchorSamples(
       }
     }
     if (pixels.length === 0) continue;
-    const wanted = Math.max(40, Math.ceil(0.03 * regular));
+    // A photo of few colours cannot fix its exposure by itself: there the anchors weigh as much
+    // as all the other samples together, so they decide the order the fit settles in.
+    const wanted = distinctColours < MIN_DISTINCT_COLOURS ? Math.max(40, regular) : Math.max(40, Math.ceil(0.03 * regular));
     for (let k = 0; k < wanted; k++) {
       const i = pixels[k % pixels.length];
       colours.push(rgb[i * 3], rgb[i * 3 + 1], rgb[i * 3 + 2]);
@@ -579,4 +639,263 @@ function concatFloat32(a: Float32Array, b: Float32Array): Float32Array {
   out.set(a);
   out.set(b, a.length);
   return out;
+}
+
+interface CellMatches {
+  readonly predictedRgb: Float32Array;
+  /** The predicted table in the matching space (predictedRgb itself when there is none). */
+  readonly predicted: Float32Array;
+  readonly limits: TableLimits;
+  readonly cellColour: Float32Array;
+  readonly cellDark: Uint8Array;
+  readonly cellState: Uint8Array;
+  readonly usable: Uint8Array;
+  readonly field: CandidateField;
+  readonly cube: CandidateCube;
+}
+
+/** Cell states written by averageCells. */
+const CellState = { usable: 0, dark: 1, saturated: 2, excluded: 3, mixed: 4 } as const;
+
+/**
+ * Predicted colours and limits for these parameters, the too-dark pixels, and every cell's mean
+ * colour and candidate thicknesses.
+ */
+function matchCells(
+  rgb: Float32Array,
+  status: Uint8Array,
+  width: number,
+  height: number,
+  block: number,
+  gridWidth: number,
+  gridHeight: number,
+  table: ColourTable,
+  parameters: ExposureParameters,
+  noiseSigma: number,
+  periodIndex: number,
+  space: MatchSpace | null,
+  cube: CandidateCube,
+  scratch: MatchScratch,
+): CellMatches {
+  const predictedRgb = predictEncodedTable(table, parameters);
+  const count = table.count;
+  const limits = tableLimits(predictedRgb, table.rgbLinear, count, noiseSigma, Math.round(periodIndex));
+  const predicted = space ? toMatchSpace(space, predictedRgb, new Float32Array(predictedRgb.length)) : predictedRgb;
+  markDarkPixels(rgb, status, width, height, limits.darkLuma);
+  const cellColour = new Float32Array(gridWidth * gridHeight * 3);
+  const cellDark = new Uint8Array(gridWidth * gridHeight);
+  const cellState = new Uint8Array(gridWidth * gridHeight);
+  const usable = averageCells(rgb, status, width, height, block, gridWidth, gridHeight, cellColour, cellDark, cellState);
+  // Averaging commutes with the (affine) matching space: transform the cell means.
+  if (space) toMatchSpace(space, cellColour, cellColour);
+  const field = createCandidateField(gridWidth, gridHeight, PER_CELL);
+  for (let c = 0; c < gridWidth * gridHeight; c++) {
+    if (!usable[c]) continue;
+    const n = matchColour(cube, predicted, count, cellColour[c * 3], cellColour[c * 3 + 1], cellColour[c * 3 + 2], scratch);
+    field.count[c] = n;
+    for (let k = 0; k < n; k++) {
+      field.position[c * PER_CELL + k] = scratch.position[k];
+      field.cost[c * PER_CELL + k] = scratch.cost[k];
+    }
+  }
+  return { predictedRgb, predicted, limits, cellColour, cellDark, cellState, usable, field, cube };
+}
+
+/**
+ * Allowance on a cell's best colour cost for "some thickness gives this colour": the noise of a
+ * cell mean, JPEG's own error and the model's (dispersion data, camera model), in the squared
+ * distance of the matching space. Measured on the field scenes (bench/field-scenes.js): film
+ * cells of clean JPEG photos lie below 3·(4/255)², neutral and saturated non-film colours above.
+ */
+function explainedCost(noiseSigma: number, block: number): number {
+  const perCell = block === 1 ? 9 : block * block;
+  return 3 * (9 * (noiseSigma * noiseSigma) / perCell + (5 / 255) ** 2);
+}
+
+function filmAreaOf(
+  cells: CellMatches,
+  gridWidth: number,
+  gridHeight: number,
+  block: number,
+  noiseSigma: number,
+  periodIndex: number,
+  maxJump: number,
+  rgbLinear: Float64Array,
+  filmAsserted: boolean,
+): FilmAreaCells {
+  const { cellState, field, predictedRgb, limits } = cells;
+  const n = gridWidth * gridHeight;
+  const cellClass = new Uint8Array(n);
+  // A film that looks black when thin (its reflectance vanishes): its first-order greys are
+  // "darkish" like a dark background. Below this table position, a colour match cannot tell.
+  const vanishing = rgbLinear[0] + rgbLinear[1] + rgbLinear[2] < 0.03;
+  let darkishPosition = -1;
+  if (vanishing) {
+    let peak = 0;
+    const firstOrder = Math.min(predictedRgb.length / 3, Math.round(1.2 * periodIndex));
+    for (let i = 0; i < firstOrder; i++) peak = Math.max(peak, brightnessOf(predictedRgb[i * 3], predictedRgb[i * 3 + 1], predictedRgb[i * 3 + 2]));
+    darkishPosition = 0;
+    while (darkishPosition < firstOrder && brightnessOf(predictedRgb[darkishPosition * 3], predictedRgb[darkishPosition * 3 + 1], predictedRgb[darkishPosition * 3 + 2]) < 0.4 * peak) darkishPosition++;
+    darkishPosition = Math.max(darkishPosition, limits.darkLimitIndex);
+  }
+  const allowance = explainedCost(noiseSigma, block);
+  const cellChroma = new Float32Array(n);
+  for (let c = 0; c < n; c++) {
+    if (field.count[c] === 0) continue;
+    const i = Math.max(0, Math.min(predictedRgb.length / 3 - 1, Math.round(field.position[c * PER_CELL])));
+    const r = predictedRgb[i * 3];
+    const g = predictedRgb[i * 3 + 1];
+    const b = predictedRgb[i * 3 + 2];
+    cellChroma[c] = Math.max(r, g, b) - Math.min(r, g, b);
+  }
+  for (let c = 0; c < n; c++) {
+    const state = cellState[c];
+    if (state === CellState.excluded) cellClass[c] = CellClass.excluded;
+    else if (state === CellState.saturated) cellClass[c] = CellClass.saturated;
+    else if (state === CellState.dark) cellClass[c] = vanishing ? CellClass.darkish : CellClass.unexplained;
+    else if (state === CellState.mixed || field.count[c] === 0) cellClass[c] = CellClass.unexplained;
+    else if (field.cost[c * PER_CELL] > allowance) cellClass[c] = CellClass.unexplained;
+    else if (field.position[c * PER_CELL] < darkishPosition) cellClass[c] = CellClass.darkish;
+    else cellClass[c] = CellClass.filmColour;
+  }
+  return findFilmArea({
+    gridWidth,
+    gridHeight,
+    cellClass,
+    candidatePosition: field.position,
+    candidateCount: field.count,
+    perCell: PER_CELL,
+    maxJump,
+    thinPosition: periodIndex,
+    openingRadius: block === 1 ? 3 : 2,
+    cellChroma,
+    filmAsserted,
+  });
+}
+
+const VERDICT_STATUS: Record<number, number> = {
+  [CellVerdict.notFilmColour]: PixelStatus.notFilm,
+  [CellVerdict.darkSurroundings]: PixelStatus.notFilm,
+  [CellVerdict.glint]: PixelStatus.notFilm,
+  [CellVerdict.isolated]: PixelStatus.notFilm,
+  [CellVerdict.undecided]: PixelStatus.undecided,
+};
+
+/**
+ * Marks the pixels of cells that are not film (notFilm / undecided); `final` also records the
+ * reason per pixel in `reasonOut`. Returns how many pixels it marked.
+ */
+function applyFilmArea(
+  area: FilmAreaCells,
+  status: Uint8Array,
+  width: number,
+  height: number,
+  block: number,
+  gridWidth: number,
+  _final: boolean,
+): number {
+  let marked = 0;
+  for (let y = 0; y < height; y++) {
+    const gy = Math.floor(y / block);
+    for (let x = 0; x < width; x++) {
+      const i = y * width + x;
+      const s = status[i];
+      if (s === PixelStatus.excluded) continue;
+      const v = area.verdict[gy * gridWidth + Math.floor(x / block)];
+      if (v === CellVerdict.film || v === CellVerdict.excluded) continue;
+      status[i] = area.found ? VERDICT_STATUS[v] : PixelStatus.notFilm;
+      marked++;
+    }
+  }
+  return marked;
+}
+
+/** Undoes what the film area and the dark test wrote (before they are decided again). */
+function resetDerivedStatus(status: Uint8Array): void {
+  for (let i = 0; i < status.length; i++) {
+    const s = status[i];
+    if (s === PixelStatus.dark || s === PixelStatus.notFilm || s === PixelStatus.undecided) status[i] = PixelStatus.ok;
+  }
+}
+
+/** Film-area summary with the excluded pixels by reason (from the cell verdicts). */
+function summariseFilmArea(
+  mode: FilmAreaMode,
+  area: FilmAreaCells | null,
+  status: Uint8Array,
+  width: number,
+  height: number,
+  block: number,
+  gridWidth: number,
+  pixelSizeUm: number | null,
+): FilmAreaSummary {
+  const excludedPx = emptyExclusions();
+  let areaPx = 0;
+  for (let y = 0; y < height; y++) {
+    const gy = Math.floor(y / block);
+    for (let x = 0; x < width; x++) {
+      const i = y * width + x;
+      const s = status[i];
+      if (s === PixelStatus.excluded) {
+        excludedPx.outside_region++;
+        continue;
+      }
+      if (s !== PixelStatus.notFilm && s !== PixelStatus.undecided) {
+        areaPx++;
+        continue;
+      }
+      const v = area ? area.verdict[gy * gridWidth + Math.floor(x / block)] : CellVerdict.notFilmColour;
+      if (s === PixelStatus.undecided) excludedPx.undecided++;
+      else if (v === CellVerdict.darkSurroundings) excludedPx.dark_surroundings++;
+      else if (v === CellVerdict.glint) excludedPx.glint++;
+      else if (v === CellVerdict.isolated) excludedPx.isolated++;
+      else excludedPx.not_film_colour++;
+    }
+  }
+  const pixels = width * height;
+  return {
+    mode,
+    areaPx,
+    fraction: pixels > 0 ? areaPx / pixels : 0,
+    areaUm2: pixelSizeUm === null ? null : areaPx * pixelSizeUm * pixelSizeUm,
+    found: areaPx > 0,
+    excludedPx,
+  };
+}
+
+/** The part of the table within [min, max] nm (a view: no copy of the colours). */
+function restrictTable(table: ColourTable, [minNm, maxNm]: readonly [number, number]): ColourTable {
+  const first = Math.max(0, Math.floor((minNm - table.startNm) / table.stepNm));
+  const last = Math.min(table.count - 1, Math.ceil((maxNm - table.startNm) / table.stepNm));
+  if (last - first < 2) throw new RangeError(`--expect ${minNm}-${maxNm} leaves fewer than three thicknesses of the colour table (${table.startNm}–${thicknessAt(table, table.count - 1)} nm in steps of ${table.stepNm} nm)`);
+  return {
+    ...table,
+    startNm: thicknessAt(table, first),
+    count: last - first + 1,
+    rgbLinear: table.rgbLinear.subarray(first * 3, (last + 1) * 3),
+  };
+}
+
+function round1(value: number): number {
+  return Math.round(value * 10) / 10;
+}
+
+/**
+ * An anchor binds the map: its pixel must read its given thickness within the model's precision
+ * (here 5 % of an order); otherwise a warning says so and why it may be.
+ */
+function checkAnchors(anchors: readonly Anchor[], thicknessNm: Float32Array, status: Uint8Array, width: number, warnings: string[], toleranceNm: number): void {
+  for (const anchor of anchors) {
+    const i = anchor.y * width + anchor.x;
+    const value = thicknessNm[i];
+    if (status[i] === PixelStatus.notFilm || status[i] === PixelStatus.undecided) {
+      warnings.push(`--anchor ${anchor.x},${anchor.y}=${anchor.thicknessNm} lies outside the film area found; check the position, or give --film-area whole`);
+    } else if (!(value === value)) {
+      warnings.push(`--anchor ${anchor.x},${anchor.y}=${anchor.thicknessNm}: that pixel got no estimate (its colour matches no thickness well); the anchor could not be checked`);
+    } else if (Math.abs(value - anchor.thicknessNm) > toleranceNm) {
+      warnings.push(
+        `--anchor ${anchor.x},${anchor.y}=${anchor.thicknessNm}: the map reads ${round1(value)} nm there; the photo's colour at the anchor does not fit the given thickness under the fitted light (a wrong thickness, stack or --light, or a camera picture style)`,
+      );
+    }
+  }
 }

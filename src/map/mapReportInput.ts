@@ -1,16 +1,17 @@
 /**
  * Builds the report's input record for one map: downsampled pictures (≤ 1,200 px on the long
- * side), the embedded grid (≤ 250k cells, each a value of the map files at a known pixel), and
- * the tables.
+ * side; the photo with the film area's outline), the embedded grid (≤ 250k cells, each a value
+ * of the map files at a known pixel, with its status), the film area, the fit quality and the
+ * tables.
  */
 import { basename } from 'node:path';
 import { encodePng } from '../io/encodeImage.js';
 import { makeReportGrid } from '../report/makeReportGrid.js';
 import type { MapReportInput } from '../report/types.js';
 import { colourScaleStops } from './colourScale.js';
-import { mapRaster, type ScaleRange, scaleRangeOf } from './mapImages.js';
+import { mapRaster, paintFilmOutline, type ScaleRange, scaleRangeOf } from './mapImages.js';
 import type { MappedPhoto } from './mapPhoto.js';
-import { mapResultJson } from './mapResultJson.js';
+import { filmAreaOf, mapResultJson } from './mapResultJson.js';
 import type { MapOptions } from './types.js';
 
 const MAX_PICTURE_SIDE = 1200;
@@ -30,7 +31,8 @@ export async function mapReportInput(
     encodePng({ data: small.photo, width: small.width, height: small.height, channels: 3 }),
     encodePng({ data: small.map, width: small.width, height: small.height, channels: 3 }),
   ]);
-  const grid = makeReportGrid({ width, height, thicknessNm: result.thicknessNm, confidence: result.confidence });
+  const grid = makeReportGrid({ width, height, thicknessNm: result.thicknessNm, confidence: result.confidence, status: result.status });
+  const filmArea = filmAreaOf(result, options);
   const [photoPng, mapPng] = await pictures;
   const notes: string[] = [];
   if (step > 1) notes.push(`pictures shown at 1/${step} scale`);
@@ -57,13 +59,16 @@ export async function mapReportInput(
     fitted: { ...(record.fitted as Record<string, unknown>), ...(record.limits as Record<string, unknown>) },
     calibration: null,
     warnings: [...result.warnings],
+    filmArea: { ...filmArea, excludedPx: { ...filmArea.excludedPx } },
+    fitQuality: result.fitQuality ? { ...result.fitQuality } : null,
     ...(notes.length > 0 ? { downsampleNote: notes.join('; ') } : {}),
   };
 }
 
 /**
  * The photo and the map at 1/step scale, each picture pixel the top-left pixel of its block
- * (as the embedded grid), computed only at the sampled pixels.
+ * (as the embedded grid), computed only at the sampled pixels; the photo with the film area's
+ * outline (dashed cyan and black, as on the flags image).
  */
 function sampledPictures(result: MappedPhoto, range: ScaleRange, step: number): { photo: Uint8Array; map: Uint8Array; width: number; height: number } {
   const { width, height } = result;
@@ -80,5 +85,9 @@ function sampledPictures(result: MappedPhoto, range: ScaleRange, step: number): 
       photo[k * 3 + 2] = Math.round(result.photoRgb[src + 2] * 255);
     }
   }
-  return { photo, map: mapRaster(result, range, picked), width: w, height: h };
+  const status = new Uint8Array(picked.length);
+  for (let k = 0; k < picked.length; k++) status[k] = result.status[picked[k]];
+  const lineWidth = Math.max(1, Math.round(Math.min(w, h) / 400));
+  paintFilmOutline(photo, status, w, h, lineWidth, Math.max(6, lineWidth * 6));
+  return { photo, map: mapRaster(result, range, picked, w), width: w, height: h };
 }

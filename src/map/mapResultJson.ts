@@ -1,10 +1,83 @@
 /**
  * The JSON record written beside every map (`<stem>.json`): settings, fitted photo-formation
- * parameters, limits, statistics, histogram, coverage, thin regions and warnings. Field names
- * are snake_case with units in the name; null means "not available".
+ * parameters, limits, statistics, histogram, coverage, thin regions, the film area, how well the
+ * model fits, and warnings. Field names are snake_case with units in the name; null means "not
+ * available".
  */
 import { basename } from 'node:path';
-import { type MapOptions, type MapResult, PixelStatus } from './types.js';
+import { type FilmAreaSummary, type MapOptions, type MapResult, PixelStatus } from './types.js';
+
+/** Pixels by status (JSON `pixel_counts`); `unknown` only when some code is none of PixelStatus. */
+export interface PixelCounts {
+  ok: number;
+  too_dark: number;
+  too_thick: number;
+  ambiguous: number;
+  excluded: number;
+  saturated: number;
+  not_film: number;
+  undecided: number;
+  unknown?: number;
+}
+
+export function countPixelStatuses(status: Uint8Array): PixelCounts {
+  const byCode = new Float64Array(256);
+  for (let i = 0; i < status.length; i++) byCode[status[i]]++;
+  const counts: PixelCounts = {
+    ok: byCode[PixelStatus.ok],
+    too_dark: byCode[PixelStatus.dark],
+    too_thick: byCode[PixelStatus.tooThick],
+    ambiguous: byCode[PixelStatus.ambiguous],
+    excluded: byCode[PixelStatus.excluded],
+    saturated: byCode[PixelStatus.saturated],
+    not_film: byCode[PixelStatus.notFilm],
+    undecided: byCode[PixelStatus.undecided],
+  };
+  const known = Object.values(counts).reduce((a: number, b) => a + (b ?? 0), 0);
+  if (known !== status.length) counts.unknown = status.length - known;
+  return counts;
+}
+
+/**
+ * The film area of a result: the mapper's own summary, or (results made before film areas
+ * existed, the single-line path) one derived from the status counts, where every not-film pixel
+ * is counted under `not_film_colour` as the reason cannot be told from the status alone.
+ */
+export function filmAreaOf(result: Pick<MapResult, 'filmArea' | 'status' | 'width' | 'height'>, options: Pick<MapOptions, 'filmArea' | 'pixelSizeUm'>, counts?: PixelCounts): FilmAreaSummary {
+  if (result.filmArea) return result.filmArea;
+  const c = counts ?? countPixelStatuses(result.status);
+  const total = result.width * result.height;
+  const areaPx = total - c.excluded - c.not_film - c.undecided - (c.unknown ?? 0);
+  const pixelSizeUm = options.pixelSizeUm ?? null;
+  return {
+    mode: c.not_film + c.undecided > 0 ? (options.filmArea ?? 'auto') : 'whole',
+    areaPx,
+    fraction: total > 0 ? areaPx / total : 0,
+    areaUm2: pixelSizeUm !== null && pixelSizeUm > 0 ? areaPx * pixelSizeUm * pixelSizeUm : null,
+    found: areaPx > 0,
+    excludedPx: { outside_region: c.excluded, dark_surroundings: 0, not_film_colour: c.not_film, glint: 0, isolated: 0, undecided: c.undecided },
+  };
+}
+
+/** The JSON `film_area` block. */
+export function filmAreaJson(area: FilmAreaSummary): Record<string, unknown> {
+  return {
+    mode: area.mode,
+    area_px: area.areaPx,
+    fraction: area.fraction,
+    area_um2: area.areaUm2,
+    area_mm2: area.areaUm2 === null ? null : area.areaUm2 / 1e6,
+    found: area.found,
+    excluded_px: {
+      outside_region: area.excludedPx.outside_region,
+      dark_surroundings: area.excludedPx.dark_surroundings,
+      not_film_colour: area.excludedPx.not_film_colour,
+      glint: area.excludedPx.glint,
+      isolated: area.excludedPx.isolated,
+      undecided: area.excludedPx.undecided,
+    },
+  };
+}
 
 export const MAP_RECORD_VERSION = 1;
 
@@ -13,17 +86,8 @@ export function mapResultJson(
   options: MapOptions,
   photoPath: string,
 ): Record<string, unknown> {
-  const counts = { ok: 0, too_dark: 0, too_thick: 0, ambiguous: 0, excluded: 0, saturated: 0 };
-  for (let i = 0; i < result.status.length; i++) {
-    switch (result.status[i]) {
-      case PixelStatus.ok: counts.ok++; break;
-      case PixelStatus.dark: counts.too_dark++; break;
-      case PixelStatus.tooThick: counts.too_thick++; break;
-      case PixelStatus.ambiguous: counts.ambiguous++; break;
-      case PixelStatus.excluded: counts.excluded++; break;
-      default: counts.saturated++;
-    }
-  }
+  const counts = countPixelStatuses(result.status);
+  const filmArea = filmAreaOf(result, options, counts);
   const pixelSizeUm = options.pixelSizeUm ?? null;
   const layers = options.stack.layers.map((layer) => ({
     material: layer.material.name,
@@ -49,6 +113,8 @@ export function mapResultJson(
       mask: options.maskPath ?? null,
       anchors: (options.anchors ?? []).map((a) => ({ x: a.x, y: a.y, thickness_nm: a.thicknessNm })),
       pixel_size_um: pixelSizeUm,
+      film_area: options.filmArea ?? 'auto',
+      expect_nm: options.expectNm ? [options.expectNm[0], options.expectNm[1]] : null,
       calibrated: options.exposureFixed ? true : false,
       series_prior: options.prior ? true : false,
     },
@@ -74,6 +140,8 @@ export function mapResultJson(
     statistics: result.stats,
     histogram: { edges_nm: result.histogram.edgesNm, counts: result.histogram.counts },
     pixel_counts: counts,
+    film_area: filmAreaJson(filmArea),
+    fit_quality: result.fitQuality ? { ...result.fitQuality } : null,
     thin_regions: result.thinRegions.map((r) => ({
       id: r.id,
       area_px: r.areaPx,

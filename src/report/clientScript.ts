@@ -178,7 +178,8 @@ function initSeries(data) {
     setText('frame-min', fmt(f.minNm, 1, ' nm'));
     setText('frame-thin', f.thinFraction === null ? '—' : (f.thinFraction * 100).toFixed(1) + ' %');
     setText('frame-regions', String(f.thinRegions));
-    setText('frame-coverage', (f.coverage * 100).toFixed(1) + ' %');
+    setText('frame-coverage', f.coverage === null ? '—' : (f.coverage * 100).toFixed(1) + ' %');
+    setText('frame-film', f.filmFound === false ? 'no film' : f.filmAreaPx === null || f.filmAreaPx === undefined ? '—' : Math.round(f.filmAreaPx).toLocaleString('en-US') + ' px');
     markers.forEach(function (k) {
       if (!k) return;
       var x = k.m.x(f.timeS).toFixed(1);

@@ -25,6 +25,6 @@ export function renderFrameViewer(frames: SeriesFrameRow[]): string {
     + `<span id="frame-position" class="muted">${frames.length} / ${frames.length}</span></div></div>
 <div><p class="frame-name" id="frame-name">${escapeHtml(frames[last].frame)}</p>
 <table class="values"><tbody>${row('Time', 'frame-time')}${row('Mean', 'frame-mean')}${row('Median', 'frame-median')}`
-    + `${row('Minimum', 'frame-min')}${row('Thin fraction', 'frame-thin')}${row('Thin regions', 'frame-regions')}${row('Coverage', 'frame-coverage')}</tbody></table></div>
+    + `${row('Minimum', 'frame-min')}${row('Thin fraction', 'frame-thin')}${row('Thin regions', 'frame-regions')}${row('Coverage', 'frame-coverage')}${row('Film area', 'frame-film')}</tbody></table></div>
 </div></section>`;
 }

@@ -1,11 +1,13 @@
 /**
  * The sections of a map report (also embedded in a series report for its chosen frame):
  * key figures, photo and map side by side with the pointer readout and colour bar, histogram,
- * column profile, thin regions (table and outlines on the map), statistics and parameters.
+ * column profile, thin regions (table and outlines on the map), the film area and fit quality,
+ * statistics and parameters. A map that found no film says so instead of giving statistics.
  */
 import { checkColourStops, colourAtNm } from './colourRamp.js';
 import { encodeFloat32Base64 } from './encodeFloat32Base64.js';
 import { escapeHtml } from './escapeHtml.js';
+import { NO_FILM_TEXT, renderFilmAreaCard } from './filmAreaSection.js';
 import { formatFixed, formatNm, formatPercent } from './formatNumber.js';
 import { imageDataUri } from './imageDataUri.js';
 import { niceDomain } from './niceTicks.js';
@@ -60,17 +62,24 @@ export function renderMapSections(input: MapReportInput, name = 'input', options
   }
   if (input.downsampleNote) notes.push(String(input.downsampleNote));
 
-  const tiles = [
+  const area = input.filmArea ?? null;
+  const fitQuality = input.fitQuality ?? null;
+  const noFilm = area !== null && !area.found;
+  // The film area is outlined on the photo (by the caller) wherever part of the photo is not film.
+  const outlined = area !== null && area.found && area.areaPx < W * H;
+  const tiles = noFilm ? [tile('Film', NO_FILM_TEXT, true, 'no statistics, no thin regions')] : [
     tile('Median thickness', formatNm(input.stats.median_nm)),
     tile('5–95 % range', input.stats.p05_nm == null || input.stats.p95_nm == null ? '—' : `${formatFixed(input.stats.p05_nm, 0)}–${formatFixed(input.stats.p95_nm, 0)} nm`),
     tile('Coverage', formatPercent(input.stats.coverage)),
     ...(input.stats.thin_fraction !== undefined ? [tile('Thin fraction', formatPercent(input.stats.thin_fraction), (input.stats.thin_fraction ?? 0) > 0)] : []),
     tile('Thin regions', String(input.thinRegions.length), input.thinRegions.length > 0),
+    ...(area !== null ? [tile('Film area', formatPercent(area.fraction), false, 'of the photo')] : []),
+    ...(fitQuality !== null ? [tile('Model fit', fitQuality.verdict, fitQuality.verdict === 'poor', `median ΔE2000 ${formatFixed(fitQuality.median_delta_e2000, 2)}`)] : []),
   ];
 
   const view = `<section class="card" id="map-view"><h2>Photo and thickness map <span class="sub">${W} × ${H} px · ${escapeHtml(thinText)}</span></h2>
 <div class="pair">
-<figure${fit}><div class="stage photo"><img src="${photoUri}" alt="Photo"/>${marks(profileLine + cross)}</div><figcaption>Photo</figcaption></figure>
+<figure${fit}><div class="stage photo"><img src="${photoUri}" alt="Photo"/>${marks(profileLine + cross)}</div><figcaption>${outlined ? 'Photo; film area outlined (dashed cyan and black line)' : 'Photo'}</figcaption></figure>
 <figure${fit}><div class="stage map"><img src="${mapUri}" alt="Thickness map"/>${marks(renderThinRegionOutlines(input.thinRegions) + profileLine + cross)}</div>`
     + `<figcaption>Thickness map; thin regions outlined; dashed line: profile column</figcaption></figure>
 </div>
@@ -106,14 +115,14 @@ export function renderMapSections(input: MapReportInput, name = 'input', options
     + `${renderThinRegionTable(input.thinRegions)}</section>`;
 
   const tables = `<div class="two-col">
-<section class="card" id="statistics"><h2>Statistics</h2>${renderStatsTable(input.stats)}</section>
+<section class="card" id="statistics"><h2>Statistics</h2>${noFilm ? `<p class="no-film">${escapeHtml(NO_FILM_TEXT)}.</p>` : renderStatsTable(input.stats)}</section>
 <section class="card" id="fitted"><h2>Fitted photo parameters</h2>${renderValueTable(input.fitted)}</section>
 ${options.parameterTables ? renderParameterSections(input.settings, input.calibration) : ''}
 </div>`;
 
   return {
-    sections: [`<div class="tiles">${tiles.join('')}</div>`, view, charts, regions, tables],
-    nav: [['map-view', 'Map'], ['histogram', 'Histogram'], ['profile', 'Profile'], ['thin-regions', 'Thin regions'],
+    sections: [`<div class="tiles">${tiles.join('')}</div>`, view, renderFilmAreaCard(area, fitQuality, W * H), charts, regions, tables],
+    nav: [['map-view', 'Map'], ['film-area', 'Film area'], ['histogram', 'Histogram'], ['profile', 'Profile'], ['thin-regions', 'Thin regions'],
       ['statistics', 'Statistics'], ...(options.parameterTables ? [['settings', 'Settings'] as [string, string]] : [])],
     data: {
       'lamella-map-data': {

@@ -84,6 +84,9 @@ ol.nested { margin: 0; padding-left: 18px; }
 tr[data-region]:hover { background: #fff9d6; }
 .scroll { max-height: 420px; overflow: auto; }
 .muted { color: var(--muted); }
+.no-film { font-size: 17px; font-weight: 650; color: var(--warn); margin: 0 0 10px; }
+section.card h3 { font-size: 14px; margin: 14px 0 6px; color: var(--ink); }
+table.fit-quality.verdict-poor tr:first-child td { color: var(--warn); font-weight: 600; }
 .warnings { background: var(--warn-bg); border-color: #e8b9b9; }
 .warnings ul { margin: 0; padding-left: 20px; color: var(--warn); }
 .cautions { background: var(--care-bg); border-color: #f0cf9f; border-left: 5px solid var(--care); }

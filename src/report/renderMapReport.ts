@@ -4,6 +4,7 @@
  */
 import { checkRecord, checkString, checkStringArray } from './checkInput.js';
 import { checkHistogram } from './svgHistogram.js';
+import { checkFilmArea, checkFitQuality } from './filmAreaSection.js';
 import { renderMapSections } from './mapSections.js';
 import { renderPage } from './pageShell.js';
 import type { MapReportInput } from './types.js';
@@ -21,6 +22,8 @@ export function checkMapReportInput(input: MapReportInput, name = 'input'): void
   checkRecord(input.fitted, `${name}.fitted`);
   checkRecord(input.calibration, `${name}.calibration`, true);
   checkStringArray(input.warnings, `${name}.warnings`);
+  checkFilmArea(input.filmArea, `${name}.filmArea`);
+  checkFitQuality(input.fitQuality, `${name}.fitQuality`);
 }
 
 /** Full HTML document (UTF-8 text) of a map report. */

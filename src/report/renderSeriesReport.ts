@@ -1,7 +1,9 @@
 /**
  * `renderSeriesReport(input)`: the self-contained HTML report of a photo series (written as
  * `report.html` by `lamella series`): drainage charts with fits and crossings, a frame slider,
- * fit and frame tables, and the full map view of the chosen frame when given.
+ * fit and frame tables, and the full map view of the chosen frame when given. When the film
+ * ruptured, the page opens with "Film ruptured between … s (frame …) and … s (frame …)" and both
+ * charts mark the moment; the "last" figures are those of the last frame with film.
  */
 import { checkFiniteOrNull, checkRecord, checkString, checkStringArray, describeValue } from './checkInput.js';
 import { escapeHtml } from './escapeHtml.js';
@@ -10,9 +12,9 @@ import { renderFrameViewer } from './frameViewer.js';
 import { renderMapSections, renderParameterSections, tile } from './mapSections.js';
 import { renderPage } from './pageShell.js';
 import { checkMapReportInput } from './renderMapReport.js';
-import { renderDrainageChart, renderThinFractionChart } from './seriesCharts.js';
+import { describeRuptureLine, formatSecondsShort, renderDrainageChart, renderThinFractionChart, ruptureColour } from './seriesCharts.js';
 import { renderFitsTable, renderFramesTable } from './seriesTables.js';
-import type { DrainageFitSummary, SeriesFrameRow, SeriesReportInput } from './types.js';
+import type { DrainageFitSummary, SeriesFrameRow, SeriesReportInput, SeriesRupture } from './types.js';
 
 export function checkSeriesReportInput(input: SeriesReportInput): void {
   checkRecord(input, 'input');
@@ -26,7 +28,10 @@ export function checkSeriesReportInput(input: SeriesReportInput): void {
     if (typeof f.timeS !== 'number' || !Number.isFinite(f.timeS)) throw new RangeError(`${name}.timeS must be a finite number, received ${describeValue(f.timeS)}`);
     for (const key of ['meanNm', 'medianNm', 'minNm', 'thinFraction'] as const) checkFiniteOrNull(f[key], `${name}.${key}`);
     checkFiniteOrNull(f.coverage, `${name}.coverage`);
+    if (f.filmAreaPx !== undefined) checkFiniteOrNull(f.filmAreaPx, `${name}.filmAreaPx`);
+    if (f.filmFound !== undefined && typeof f.filmFound !== 'boolean') throw new TypeError(`${name}.filmFound must be true or false, received ${describeValue(f.filmFound)}`);
   });
+  if (input.rupture !== undefined && input.rupture !== null) checkRupture(input.rupture);
   checkFiniteOrNull(input.thinBelowNm, 'input.thinBelowNm');
   if (!Array.isArray(input.fits)) throw new TypeError(`input.fits must be an array, received ${describeValue(input.fits)}`);
   input.fits.forEach((fit, i) => {
@@ -41,9 +46,31 @@ export function checkSeriesReportInput(input: SeriesReportInput): void {
   if (input.lastMap !== undefined && input.lastMap !== null) checkMapReportInput(input.lastMap, 'input.lastMap');
 }
 
+function checkRupture(rupture: SeriesRupture): void {
+  checkRecord(rupture, 'input.rupture');
+  checkString(rupture.lastFrame, 'input.rupture.lastFrame');
+  checkString(rupture.firstFrame, 'input.rupture.firstFrame');
+  for (const key of ['lastTimeS', 'firstTimeS', 'timeS'] as const) {
+    if (typeof rupture[key] !== 'number' || !Number.isFinite(rupture[key])) throw new RangeError(`input.rupture.${key} must be a finite number, received ${describeValue(rupture[key])}`);
+  }
+  if (!(rupture.lastTimeS <= rupture.timeS && rupture.timeS <= rupture.firstTimeS)) {
+    throw new RangeError(`input.rupture.timeS must lie between lastTimeS and firstTimeS, received ${rupture.lastTimeS}, ${rupture.timeS}, ${rupture.firstTimeS}`);
+  }
+}
+
+/** The headline of a ruptured series: the sentence, and what it means for the fits. */
+function ruptureHeadline(rupture: SeriesRupture): string {
+  return `<section class="card" id="rupture" style="border-left: 5px solid ${ruptureColour}">`
+    + `<h2 style="color: ${ruptureColour}">${escapeHtml(describeRuptureLine(rupture))}</h2>`
+    + `<p class="note">The film is gone from ${escapeHtml(rupture.firstFrame)} on (no film area found in it or any later frame). `
+    + `Curves and drainage fits stop there: the fits use the frames up to ${escapeHtml(rupture.lastFrame)}, `
+    + 'and no threshold crossing is predicted past the rupture. The rupture time is fixed only to within the interval between the two frames.</p></section>';
+}
+
 function crossingTile(crossing: DrainageFitSummary['crossing']): string {
   if (!crossing) return tile('Threshold crossing', '—', false, 'no fit with a crossing');
   const label = `${crossing.quantity === 'min' ? 'Minimum' : 'Mean'} reaches threshold`;
+  if (crossing.beyondRupture) return tile(label, '—', false, 'the film ruptured first; not predicted past the rupture');
   if (crossing.timeS === null) return tile(label, '—', false, 'no crossing predicted');
   const interval = crossing.lowS !== null && crossing.highS !== null ? `${formatFixed(crossing.lowS, 1)}–${formatFixed(crossing.highS, 1)} s` : '';
   const note = [interval, crossing.extrapolated ? 'extrapolated beyond the last frame' : 'within the observed frames'].filter(Boolean).join(' · ');
@@ -55,28 +82,36 @@ export function renderSeriesReport(input: SeriesReportInput): string {
   checkSeriesReportInput(input);
   const frames = [...input.frames].sort((a, b) => a.timeS - b.timeS);
   const last = frames[frames.length - 1] as SeriesFrameRow | undefined;
+  const rupture = input.rupture ?? null;
+  // The last figures of the film: after a rupture, of the last frame with film.
+  const lastFilm = ([...frames].reverse().find((f) => f.filmFound !== false) ?? last) as SeriesFrameRow | undefined;
+  const lastNote = rupture && lastFilm ? `${lastFilm.frame}, before the rupture` : '';
   const crossingFit = input.fits.find((f) => f.crossing && f.crossing.timeS !== null) ?? input.fits.find((f) => f.crossing);
   const tiles = [
     tile('Frames', String(frames.length)),
     tile('Time span', frames.length === 0 ? '—' : `${formatFixed(frames[0].timeS, 0)}–${formatFixed(last?.timeS, 0)} s`),
-    tile('Last median', formatNm(last?.medianNm ?? null)),
-    tile('Last minimum', formatNm(last?.minNm ?? null)),
+    tile('Last median', formatNm(lastFilm?.medianNm ?? null), false, lastNote),
+    tile('Last minimum', formatNm(lastFilm?.minNm ?? null), false, lastNote),
+    ...(rupture ? [tile('Rupture', `${formatSecondsShort(rupture.timeS)} s`, true,
+      `between ${formatSecondsShort(rupture.lastTimeS)} and ${formatSecondsShort(rupture.firstTimeS)} s`)] : []),
     crossingTile(crossingFit?.crossing ?? null),
   ];
-  const thinChart = renderThinFractionChart(frames);
+  const thinChart = renderThinFractionChart(frames, rupture);
   const sections = [
+    ...(rupture ? [ruptureHeadline(rupture)] : []),
     `<div class="tiles">${tiles.join('')}</div>`,
     `<section class="card" id="drainage"><h2>Thickness against time <span class="sub">${input.thinBelowNm === null ? 'no thin threshold set'
       : `thin below ${escapeHtml(formatNm(input.thinBelowNm))}`}; dashed: fitted curves and predicted crossings</span></h2>`
-      + `${renderDrainageChart(frames, input.fits, input.thinBelowNm)}`
+      + `${renderDrainageChart(frames, input.fits, input.thinBelowNm, rupture)}`
       + (thinChart ?? '<p class="note">No thin fraction: no thin threshold was set.</p>') + '</section>',
     renderFrameViewer(frames),
     `<section class="card" id="fits"><h2>Drainage fits</h2>${renderFitsTable(input.fits)}`
-      + '<p class="note">Crossings beyond the last frame are extrapolations of the fitted model, not observations.</p></section>',
+      + '<p class="note">Crossings beyond the last frame are extrapolations of the fitted model, not observations'
+      + `${rupture ? `; the fits use the frames up to ${escapeHtml(rupture.lastFrame)} (the last with film), and no crossing is predicted past the rupture` : ''}.</p></section>`,
     `<section class="card" id="frame-table"><h2>All frames</h2><details${frames.length <= 30 ? ' open' : ''}><summary>${frames.length} frames</summary>`
       + `${renderFramesTable(frames)}</details></section>`,
   ];
-  const nav: Array<[string, string]> = [['drainage', 'Drainage'], ['frames', 'Frames'], ['fits', 'Fits'], ['frame-table', 'All frames']];
+  const nav: Array<[string, string]> = [...(rupture ? [['rupture', 'Rupture'] as [string, string]] : []), ['drainage', 'Drainage'], ['frames', 'Frames'], ['fits', 'Fits'], ['frame-table', 'All frames']];
   let data: Record<string, unknown> = {};
   if (input.lastMap) {
     const map = renderMapSections(input.lastMap, 'input.lastMap', { parameterTables: false });
@@ -93,8 +128,10 @@ export function renderSeriesReport(input: SeriesReportInput): string {
       ...data,
       'lamella-series-data': {
         thinBelowNm: input.thinBelowNm,
+        rupture,
         frames: frames.map((f) => ({ frame: f.frame, timeS: f.timeS, meanNm: f.meanNm, medianNm: f.medianNm, minNm: f.minNm,
-          thinFraction: f.thinFraction, thinRegions: f.thinRegions, coverage: f.coverage })),
+          thinFraction: f.thinFraction, thinRegions: f.thinRegions, coverage: f.coverage,
+          filmAreaPx: f.filmAreaPx ?? null, filmFound: f.filmFound !== false })),
       },
     },
   });

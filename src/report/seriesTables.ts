@@ -23,11 +23,18 @@ export function renderFitsTable(fits: DrainageFitSummary[]): string {
     + `<th class="num">R²</th><th>Threshold crossing</th></tr></thead><tbody>${rows.join('')}</tbody></table></div>`;
 }
 
+/** Film area of a frame: `12,345 px`, `no film`, or `—` when unknown. */
+export function formatFilmArea(frame: SeriesFrameRow): string {
+  if (frame.filmFound === false) return 'no film';
+  return frame.filmAreaPx === null || frame.filmAreaPx === undefined ? '—' : `${Math.round(frame.filmAreaPx).toLocaleString('en-US')} px`;
+}
+
 export function renderFramesTable(frames: SeriesFrameRow[]): string {
-  const rows = frames.map((f) => `<tr><td>${escapeHtml(f.frame)}</td><td class="num">${formatFixed(f.timeS, 1)}</td>`
+  const rows = frames.map((f) => `<tr${f.filmFound === false ? ' class="no-film"' : ''}><td>${escapeHtml(f.frame)}</td><td class="num">${formatFixed(f.timeS, 1)}</td>`
     + `<td class="num">${formatNm(f.meanNm)}</td><td class="num">${formatNm(f.medianNm)}</td><td class="num">${formatNm(f.minNm)}</td>`
-    + `<td class="num">${formatPercent(f.thinFraction)}</td><td class="num">${f.thinRegions}</td><td class="num">${formatPercent(f.coverage)}</td></tr>`);
+    + `<td class="num">${formatPercent(f.thinFraction)}</td><td class="num">${f.thinRegions}</td><td class="num">${formatPercent(f.coverage)}</td>`
+    + `<td class="num">${escapeHtml(formatFilmArea(f))}</td></tr>`);
   return '<div class="scroll"><table class="frames"><thead><tr><th>Frame</th><th class="num">Time (s)</th><th class="num">Mean</th>'
     + '<th class="num">Median</th><th class="num">Minimum</th><th class="num">Thin fraction</th><th class="num">Thin regions</th>'
-    + `<th class="num">Coverage</th></tr></thead><tbody>${rows.join('')}</tbody></table></div>`;
+    + `<th class="num">Coverage</th><th class="num">Film area</th></tr></thead><tbody>${rows.join('')}</tbody></table></div>`;
 }

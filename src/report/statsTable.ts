@@ -19,6 +19,7 @@ export const statLabels: Record<string, { label: string; kind: Kind }> = {
   coverage: { label: 'Coverage (pixels with an estimate)', kind: 'share' },
   thin_fraction: { label: 'Thin fraction', kind: 'share' },
   thin_regions: { label: 'Thin regions', kind: 'count' },
+  film_area_px: { label: 'Film area (pixels; the statistics are over these)', kind: 'count' },
 };
 
 /** One statistic formatted by its kind: nm with unit, share as %, count as integer. */

@@ -57,6 +57,30 @@ export interface MapReportInput {
   downsampleNote?: string;
   /** Optional: column (original pixels) of the default vertical profile; default the centre. */
   profileColumn?: number;
+  /** Optional: the film area (absent for maps made before film areas); `found: false` = no film in the photo. */
+  filmArea?: ReportFilmArea | null;
+  /** Optional: how well the model explains the film's colours (the JSON `fit_quality`). */
+  fitQuality?: ReportFitQuality | null;
+}
+
+/** The film area of a map, as in the JSON `film_area` block (`FilmAreaSummary` of src/map/types.ts). */
+export interface ReportFilmArea {
+  mode: 'auto' | 'whole';
+  areaPx: number;
+  /** Share of the photo's pixels. */
+  fraction: number;
+  areaUm2: number | null;
+  found: boolean;
+  /** Pixels left out, by reason (outside_region, dark_surroundings, not_film_colour, glint, isolated, undecided). */
+  excludedPx: Record<string, number>;
+}
+
+/** As the JSON `fit_quality` block. */
+export interface ReportFitQuality {
+  median_delta_e2000: number | null;
+  p95_delta_e2000: number | null;
+  unmatched_fraction: number;
+  verdict: 'good' | 'fair' | 'poor';
 }
 
 export interface SeriesFrameRow {
@@ -67,9 +91,24 @@ export interface SeriesFrameRow {
   minNm: number | null;
   thinFraction: number | null;
   thinRegions: number;
-  coverage: number;
+  /** Share of the film area with an estimate; null for a frame without film. */
+  coverage: number | null;
+  /** Optional: pixels of the film area (0 without film), null when unknown. */
+  filmAreaPx?: number | null;
+  /** Optional: false when the frame's map found no film. */
+  filmFound?: boolean;
   /** Small thumbnail map for the slider, optional. */
   mapPng?: Buffer;
+}
+
+/** When the film of a series ruptured: the last frame with film and the first without. */
+export interface SeriesRupture {
+  lastFrame: string;
+  firstFrame: string;
+  lastTimeS: number;
+  firstTimeS: number;
+  /** Midpoint of the two. */
+  timeS: number;
 }
 
 export interface DrainageFitSummary {
@@ -85,6 +124,8 @@ export interface DrainageFitSummary {
     lowS: number | null;
     highS: number | null;
     extrapolated: boolean;
+    /** Optional: the fitted curve would reach the threshold only after the rupture (no time predicted). */
+    beyondRupture?: boolean;
   } | null;
 }
 
@@ -97,6 +138,8 @@ export interface SeriesReportInput {
   settings: Record<string, unknown>;
   calibration?: Record<string, unknown> | null;
   warnings: string[];
+  /** Optional: the rupture of the film (a marker on the charts, a headline line); null or absent: none. */
+  rupture?: SeriesRupture | null;
   /** The full map view for the last (or a chosen) frame. */
   lastMap?: MapReportInput;
 }

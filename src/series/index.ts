@@ -15,3 +15,4 @@ export { DRAINAGE_MODELS, exponentialModel, powerLawModel, reynoldsModel, type D
 export { fitDrainage, type DrainageFit, type CrossingPrediction, type FitDrainageOptions } from './fits/fitDrainage.js';
 export { fitSeriesDrainage, type SeriesDrainage } from './fits/fitSeriesDrainage.js';
 export type { FrameJob, FrameProcessor, ProcessorSource, FrameEvent, FrameOutcome, SeriesProgress, FrameRecord } from './types.js';
+export { findRupture, describeRupture, RUPTURE_RULE, type RuptureRecord, type RuptureFinding } from './rupture.js';

@@ -4,7 +4,7 @@
  * each worker rebuilds it from the same CLI stack options.
  */
 import type { StackCliOptions } from '../cli/stackOptions.js';
-import type { ExposureParameters } from '../map/types.js';
+import type { ExposureParameters, FilmAreaMode } from '../map/types.js';
 
 export interface MapFrameConfig {
   readonly stackOptions: StackCliOptions;
@@ -21,6 +21,9 @@ export interface MapFrameConfig {
   readonly pixelSizeUm?: number | null;
   /** Map damaged frames as far as they decode (`--allow-damaged`). */
   readonly allowDamaged?: boolean;
+  /** `--film-area` and `--expect`, as for `lamella map` (MapOptions.filmArea, expectNm). */
+  readonly filmArea?: FilmAreaMode;
+  readonly expectNm?: readonly [number, number] | null;
 }
 
 /** Module URL of the real processor, for `ProcessorSource.moduleUrl`. */

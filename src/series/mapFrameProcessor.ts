@@ -27,6 +27,8 @@ export function mapOptionsFromConfig(config: MapFrameConfig): MapOptions {
     maskPath: config.maskPath ?? null,
     anchors: config.anchors ?? [],
     pixelSizeUm: config.pixelSizeUm ?? null,
+    filmArea: config.filmArea ?? 'auto',
+    expectNm: config.expectNm ?? null,
     // Frames are mapped in parallel by the series' workers: one thread per frame.
     threads: 1,
   };

@@ -22,6 +22,7 @@ import { runFrames } from './runFrames.js';
 import { collectSeriesRows } from './seriesRows.js';
 import { formatSeriesCsv } from './seriesCsv.js';
 import { fitSeriesDrainage } from './fits/fitSeriesDrainage.js';
+import { findRupture, rowHasFilm } from './rupture.js';
 import { renderSeriesReport } from '../report/renderSeriesReport.js';
 import { seriesReportInput } from './seriesReportInput.js';
 import { lastFrameView } from './lastFrameView.js';
@@ -184,7 +185,10 @@ export async function runSeries(options: SeriesOptions): Promise<SeriesResult> {
   if (aborted()) return interrupted;
   const collected = await collectSeriesRows(outDir, frames, timed.map((t) => t.timeS), hash);
   if (collected.stale.length > 0) warnings.push(`${collected.stale.length} frame(s) have results from other settings or another photo file (e.g. ${collected.stale[0]}); they are left out until mapped again`);
-  const drainage = fitSeriesDrainage(collected.rows, options.thinBelowNm);
+  // Rupture and fits from the aggregated rows only, so shards + aggregation give a single run's record.
+  const film = findRupture(collected.rows);
+  warnings.push(...film.warnings);
+  const drainage = fitSeriesDrainage(collected.rows, options.thinBelowNm, film);
   warnings.push(...drainage.warnings);
   const summary = seriesSummary({
     settings: { ...options.mapSettings, thinBelowNm: options.thinBelowNm, chunkFrames: chunkSize, timeSource: timing.source, settingsHash: hash },
@@ -193,6 +197,7 @@ export async function runSeries(options: SeriesOptions): Promise<SeriesResult> {
     rows: collected.rows,
     missing: collected.missing,
     fits: drainage.fits,
+    rupture: film.rupture,
     size: probed.size,
     warnings: [...warnings, ...failures],
   });
@@ -211,7 +216,9 @@ export async function runSeries(options: SeriesOptions): Promise<SeriesResult> {
           outDir,
           stems: new Map(frames.map((f) => [f.name, f.stem])),
         });
-        const last = collected.rows.length > 0 ? frames.find((f) => f.name === collected.rows[collected.rows.length - 1].frame) : undefined;
+        // The map view shows the last frame with film (after a rupture the last frames hold none).
+        const lastRow = [...collected.rows].reverse().find(rowHasFilm) ?? collected.rows[collected.rows.length - 1];
+        const last = lastRow ? frames.find((f) => f.name === lastRow.frame) : undefined;
         let lastMap: MapReportInput | null = null;
         if (last && options.reportLastMap !== false && !aborted()) {
           try {

@@ -3,6 +3,8 @@
  * as most tools accept, fields quoted only when they contain a comma, quote or line break).
  * Fixed decimals: time 3, thicknesses 2, fractions 4, exposure 4; empty cell = no value. Frame
  * names a spreadsheet would run as formulas get a leading apostrophe (../io/csvCell.ts).
+ * `film_area_px` (whole pixels, 0 for a frame without film) follows `coverage`, the other share
+ * of the film area; a frame without film has empty statistics cells.
  */
 import type { SeriesRow } from './seriesRows.js';
 import { csvText } from '../io/csvCell.js';
@@ -18,6 +20,7 @@ export const SERIES_CSV_COLUMNS = [
   'thin_fraction',
   'thin_regions',
   'coverage',
+  'film_area_px',
   'exposure',
 ] as const;
 
@@ -41,6 +44,7 @@ export function formatSeriesCsv(rows: readonly SeriesRow[]): string {
         fixed(r.thinFraction, 4),
         String(r.thinRegions),
         fixed(r.coverage, 4),
+        r.filmAreaPx === null || r.filmAreaPx === undefined ? '' : String(Math.round(r.filmAreaPx)),
         fixed(r.exposure, 4),
       ].join(','),
     );

@@ -1,11 +1,18 @@
 /**
  * Collects the per-frame records a series has in OUT into one row per frame, in input order.
  * Only records made with the current settings count; frames without one are listed as missing.
+ * A frame whose map found no film (`filmArea.found` false) keeps its row with no statistics, no
+ * exposure and a film area of 0 px; a record from before film areas existed counts as film, its area the pixels
+ * not excluded (from `stats.film_area_px`, else counted in its `.status.npy`).
  * This is the whole of aggregation: any run, shard or not, ends with it, so N shards plus one
  * aggregation give exactly what a single run gives.
  */
 import { frameSettingsHash } from './frameSource.js';
-import { readFrameRecord } from './frameFiles.js';
+import { readFile } from 'node:fs/promises';
+import { join } from 'node:path';
+import { decodeNpy } from '../io/decodeNpy.js';
+import { PixelStatus } from '../map/types.js';
+import { framesDir, readFrameRecord } from './frameFiles.js';
 import type { FrameJob, FrameRecord } from './types.js';
 
 export interface SeriesRow {
@@ -18,9 +25,14 @@ export interface SeriesRow {
   readonly stdNm: number | null;
   readonly thinFraction: number | null;
   readonly thinRegions: number;
-  readonly coverage: number;
+  /** Share of the film area with an estimate; null for a frame without film. */
+  readonly coverage: number | null;
   readonly exposure: number | null;
   readonly darkLimitNm: number | null;
+  /** Pixels of the film area (0 without film); null when an old record cannot tell. Absent: unknown. */
+  readonly filmAreaPx?: number | null;
+  /** False when the frame's map found no film; absent or true: film. */
+  readonly filmFound?: boolean;
 }
 
 export interface CollectedRows {
@@ -50,9 +62,18 @@ export async function collectSeriesRows(outDir: string, frames: readonly FrameJo
       continue;
     }
     const s = record.stats;
+    const found = record.filmArea?.found !== false;
+    const common = { frame: frames[i].name, timeS: timesS[i], exposure: num(record.fitted?.exposure), darkLimitNm: num(record.darkLimitNm) };
+    if (!found) {
+      // No film: no statistics, and no exposure either (a photo-formation fit to no film means nothing).
+      rows.push({
+        ...common, exposure: null, meanNm: null, medianNm: null, minNm: null, maxNm: null, stdNm: null, thinFraction: null,
+        thinRegions: 0, coverage: null, filmAreaPx: 0, filmFound: false,
+      });
+      continue;
+    }
     rows.push({
-      frame: frames[i].name,
-      timeS: timesS[i],
+      ...common,
       meanNm: num(s.mean_nm),
       medianNm: num(s.median_nm),
       minNm: num(s.min_nm),
@@ -61,9 +82,24 @@ export async function collectSeriesRows(outDir: string, frames: readonly FrameJo
       thinFraction: num(s.thin_fraction),
       thinRegions: num(s.thin_regions) ?? 0,
       coverage: num(s.coverage) ?? 0,
-      exposure: num(record.fitted?.exposure),
-      darkLimitNm: num(record.darkLimitNm),
+      filmAreaPx: await filmAreaPxOf(outDir, frames[i].stem, record),
+      filmFound: true,
     });
   }
   return { rows, missing, stale };
+}
+
+/** The film area of a frame with film: from its record, else its pixels not excluded (old records). */
+async function filmAreaPxOf(outDir: string, stem: string, record: FrameRecord): Promise<number | null> {
+  const recorded = num(record.filmArea?.areaPx) ?? num((record.stats as { film_area_px?: unknown }).film_area_px);
+  if (recorded !== null) return recorded;
+  try {
+    const npy = decodeNpy(await readFile(join(framesDir(outDir), `${stem}.status.npy`)), stem);
+    if (!(npy.data instanceof Uint8Array)) return null;
+    let count = 0;
+    for (let p = 0; p < npy.data.length; p++) if (npy.data[p] !== PixelStatus.excluded) count++;
+    return count;
+  } catch {
+    return null;
+  }
 }

@@ -1,10 +1,12 @@
 /**
  * `series.json`: the settings and calibration a series was mapped with, its frame count and
- * coverage, and the drainage fits with their threshold-crossing predictions. Contains no clock
- * time, so identical inputs give identical files.
+ * coverage, the rupture (./rupture.ts; null when the film lasts to the last frame) and the
+ * drainage fits with their threshold-crossing predictions. Contains no clock time, so identical
+ * inputs give identical files.
  */
 import type { DrainageFit } from './fits/fitDrainage.js';
 import type { SeriesRow } from './seriesRows.js';
+import type { RuptureRecord } from './rupture.js';
 
 export interface SeriesSummaryInput {
   readonly settings: Record<string, unknown>;
@@ -13,6 +15,7 @@ export interface SeriesSummaryInput {
   readonly rows: readonly SeriesRow[];
   readonly missing: readonly string[];
   readonly fits: readonly DrainageFit[];
+  readonly rupture: RuptureRecord | null;
   readonly size: { readonly width: number; readonly height: number } | null;
   readonly warnings: readonly string[];
 }
@@ -24,13 +27,15 @@ export interface SeriesSummary {
   readonly calibration: Record<string, unknown> | null;
   readonly frames: { readonly total: number; readonly withResults: number; readonly missing: readonly string[]; readonly width: number | null; readonly height: number | null };
   readonly timeRangeS: readonly [number, number] | null;
+  /** Last frame with film and first frame without, when the film is gone from a frame on; else null. */
+  readonly rupture: RuptureRecord | null;
   readonly drainageFits: readonly DrainageFit[];
   readonly caution: string;
   readonly warnings: readonly string[];
 }
 
 export const SERIES_CAUTION =
-  'Thicknesses and predicted crossing times are estimates from photographs and fitted laws; predictions beyond the last frame are extrapolations. Do not base release or safety decisions on them without qualified metrology.';
+  'Thicknesses and predicted crossing times are estimates from photographs and fitted laws; predictions beyond the last frame are extrapolations, and none is made past a rupture. Do not base release or safety decisions on them without qualified metrology.';
 
 export function seriesSummary(input: SeriesSummaryInput): SeriesSummary {
   const times = input.rows.map((r) => r.timeS);
@@ -47,6 +52,7 @@ export function seriesSummary(input: SeriesSummaryInput): SeriesSummary {
       height: input.size?.height ?? null,
     },
     timeRangeS: times.length > 0 ? [Math.min(...times), Math.max(...times)] : null,
+    rupture: input.rupture,
     drainageFits: [...input.fits],
     caution: SERIES_CAUTION,
     warnings: [...input.warnings],

@@ -87,4 +87,9 @@ export interface FrameRecord {
   readonly source?: FrameSource;
   /** SHA-256 of each data file the run read (stack, materials, calibration, mask, light), by "role path". */
   readonly inputFiles?: Readonly<Record<string, string>>;
+  /**
+   * The frame's film area (`found: false` when the map found no film). Absent in records written
+   * before film areas existed: such a frame counts as film, its area the pixels not excluded.
+   */
+  readonly filmArea?: MapResult['filmArea'];
 }

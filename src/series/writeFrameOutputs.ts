@@ -28,6 +28,7 @@ export function frameRecordOf(frame: FrameJob, result: MapResult, hash: string, 
     darkLimitNm: result.darkLimitNm,
     thinRegions: result.thinRegions,
     warnings: [...result.warnings],
+    ...(result.filmArea ? { filmArea: result.filmArea } : {}),
   };
 }
 

@@ -21,7 +21,7 @@ import { MAP_MAX_PIXELS } from '../../io/limits.js';
 import { calibrateDecoded } from '../../calibrate/calibrate.js';
 import { mapReportInput } from '../../map/mapReportInput.js';
 import { renderMapReport } from '../../report/index.js';
-import type { MapOptions } from '../../map/types.js';
+import type { MapOptions, MapResult } from '../../map/types.js';
 import { loadCalibrationForRun } from '../../calibrate/calibrationFile.js';
 import { mapIndexPage } from '../../map/mapIndexPage.js';
 
@@ -71,7 +71,7 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
   // Check the lights before any photo is read: a bad name is a usage error, not a failed photo.
   lightsFromOptions(opts);
   lineOfLight(opts.light);
-  const { thinBelowNm, maxThicknessNm, region, maskPath, anchors, pixelSizeUm } = filmAreaFromOptions(opts);
+  const { thinBelowNm, maxThicknessNm, region, maskPath, anchors, pixelSizeUm, filmArea, expectNm } = filmAreaFromOptions(opts);
   if ((opts.known ?? []).length > 0 && opts.calibration) {
     throw new UsageError('give either --known (calibrate on the photo) or --calibration (a calibration file), not both');
   }
@@ -97,6 +97,8 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
     maxThicknessNm,
     pixelSizeUm,
     exposureFixed: calibration?.exposureFixed ?? null,
+    filmArea,
+    expectNm,
     ...(opts.threads !== undefined ? { threads: parseThreads(opts.threads) } : {}),
   };
   const known = (opts.known ?? []).map(parseKnown);
@@ -154,7 +156,8 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
       });
       if (opts.report) reports.push({ stem, file: `${stem}.report.html` });
       records.push(record);
-      if (result.thinRegions.length > 0) thin++;
+      // Thin regions lie in the film only; a photo without film has none to report.
+      if (result.thinRegions.length > 0 && result.filmArea?.found !== false) thin++;
       for (const warning of result.warnings) warn(`${photo}: ${warning}`);
       if (!opts.json && !opts.quiet) process.stdout.write(`${summaryLine(photo, result)}\n`);
     } catch (error) {
@@ -176,11 +179,14 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
   return 0;
 }
 
-function summaryLine(photo: string, result: ReturnType<typeof mapDecodedPhoto>): string {
+export function summaryLine(photo: string, result: Pick<MapResult, 'stats' | 'thinRegions' | 'fitted' | 'filmArea'>): string {
+  // The warning itself comes from the mapper; the line only says there is nothing to summarise.
+  if (result.filmArea && !result.filmArea.found) return `${photo}: no film found in this photo (no statistics, no thin regions)`;
   const s = result.stats;
   const f = (v: number | null, d = 1): string => (v === null ? '–' : v.toFixed(d));
   const thin = s.thin_fraction === null ? '' : `, thin ${f(s.thin_fraction * 100)} %`;
-  return `${photo}: median ${f(s.median_nm)} nm (p05 ${f(s.p05_nm)}, p95 ${f(s.p95_nm)}), coverage ${f(s.coverage * 100)} %${thin}, ${result.thinRegions.length} thin region(s), exposure ×${result.fitted.exposure.toFixed(2)}`;
+  const film = result.filmArea && result.filmArea.mode === 'auto' ? `, film ${f(result.filmArea.fraction * 100)} % of the photo` : '';
+  return `${photo}: median ${f(s.median_nm)} nm (p05 ${f(s.p05_nm)}, p95 ${f(s.p95_nm)})${film}, coverage ${f(s.coverage * 100)} %${thin}, ${result.thinRegions.length} thin region(s), exposure ×${result.fitted.exposure.toFixed(2)}`;
 }
 
 function parseThreads(value: string): number {

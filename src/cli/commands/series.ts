@@ -21,7 +21,7 @@ import { checkRegion } from '../../map/filmMask.js';
 import { readMask } from '../../map/mapPhoto.js';
 import { notedInputFiles } from '../../io/inputFiles.js';
 
-interface SeriesCliOptions extends StackCliOptions, FilmAreaCliOptions {
+export interface SeriesCliOptions extends StackCliOptions, FilmAreaCliOptions {
   light: string;
   whiteBalance?: string;
   ignoreCalibrationMismatch?: boolean;
@@ -63,7 +63,7 @@ function progressWriter(quiet: boolean): (p: SeriesProgress) => void {
 }
 
 /** Checks the options and builds the library call (everything but callbacks and the signal). */
-async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions, warn: (m: string) => void): Promise<SeriesOptions> {
+export async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions, warn: (m: string) => void): Promise<SeriesOptions> {
   const fps = positive(opts.fps, '--fps');
   const intervalS = positive(opts.interval, '--interval');
   if (fps !== null && intervalS !== null) throw new UsageError('give --fps or --interval, not both');
@@ -73,7 +73,7 @@ async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions, warn:
   if (fps !== null && !(fps >= 1 / YEAR_S && fps <= 1e6)) throw new UsageError(`--fps must be a number of frames per second from 1/${YEAR_S} (one a year) to 1e6, received ${opts.fps}`);
   // The same film-area options, defaults and limits as `lamella map`.
   const area = filmAreaFromOptions(opts);
-  const { thinBelowNm, maxThicknessNm, region, anchors, pixelSizeUm } = area;
+  const { thinBelowNm, maxThicknessNm, region, anchors, pixelSizeUm, filmArea, expectNm } = area;
   let shard = null;
   if (opts.shard !== undefined) {
     try {
@@ -99,7 +99,7 @@ async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions, warn:
   const config: MapFrameConfig = {
     stackOptions, light: opts.light, whiteBalanceLight, thinBelowNm, maxThicknessNm,
     filmIndexScale: calibration?.filmIndexScale ?? null, exposureFixed: calibration?.exposureFixed ?? null,
-    region, maskPath, anchors, pixelSizeUm,
+    region, maskPath, anchors, pixelSizeUm, filmArea, expectNm,
     ...(opts.allowDamaged ? { allowDamaged: true } : {}),
   };
   return {
@@ -112,6 +112,8 @@ async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions, warn:
       ...(region ? { region } : {}), ...(maskPath ? { mask: maskPath } : {}),
       ...(anchors.length > 0 ? { anchors } : {}), ...(pixelSizeUm !== null ? { pixelSizeUm } : {}),
       ...(opts.allowDamaged ? { allowDamaged: true } : {}),
+      // Part of the settings hash: changing either re-maps the frames.
+      filmArea, ...(expectNm !== null ? { expectNm } : {}),
     },
     calibration: calibration?.raw ?? null,
     // Stack, material, SPD and calibration files read above, and the mask: by content.

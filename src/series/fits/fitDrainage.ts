@@ -5,7 +5,9 @@
  * thickness threshold with a ±1σ-equivalent interval: the 15.87 % and 84.13 % quantiles of the
  * crossing time over parameter sets drawn from N(p̂, covariance) (linearised uncertainty
  * propagation by sampling; JCGM 101:2008, "Propagation of distributions using a Monte Carlo
- * method", §7). Draws that never cross count as +∞.
+ * method", §7). Draws that never cross count as +∞. With the time of a rupture (the first frame
+ * without film), a crossing the fitted curve would make later than that is not predicted: the
+ * film was gone by then (`beyondRupture`, times null).
  */
 import { fitLeastSquares } from '../../fit/fitLeastSquares.js';
 import type { DrainageModel } from './drainageModels.js';
@@ -24,6 +26,11 @@ export interface CrossingPrediction {
   readonly belowAtStart: boolean;
   /** The first frame time at which the measured series is already below the threshold, if any. */
   readonly observedS: number | null;
+  /**
+   * True when the fitted curve would reach the threshold only after the film had ruptured (after
+   * the first frame without film): no crossing is predicted then (timeS, lowS, highS null).
+   */
+  readonly beyondRupture: boolean;
 }
 
 export interface DrainageFit {
@@ -46,6 +53,8 @@ export interface FitDrainageOptions {
   readonly thinBelowNm: number | null;
   readonly samples?: number;
   readonly seed?: number;
+  /** Time (s) of the first frame without film after the rupture; crossings later than it are not predicted. */
+  readonly ruptureS?: number | null;
 }
 
 function quantile(sorted: readonly number[], q: number): number {
@@ -72,6 +81,10 @@ function crossingOf(model: DrainageModel, p: number[], covariance: number[][], t
   const index = hNm.findIndex((h) => h < threshold);
   const lastS = tS[tS.length - 1];
   const belowAtStart = model.model(p)(tS[0]) < threshold;
+  const ruptureS = options.ruptureS ?? null;
+  if (ruptureS !== null && !belowAtStart && timeS !== null && timeS > ruptureS) {
+    return { thresholdNm: threshold, timeS: null, lowS: null, highS: null, extrapolated: false, belowAtStart, observedS: index >= 0 ? tS[index] : null, beyondRupture: true };
+  }
   return {
     thresholdNm: threshold,
     timeS,
@@ -80,6 +93,7 @@ function crossingOf(model: DrainageModel, p: number[], covariance: number[][], t
     extrapolated: !belowAtStart && (timeS === null || timeS > lastS),
     belowAtStart,
     observedS: index >= 0 ? tS[index] : null,
+    beyondRupture: false,
   };
 }
 

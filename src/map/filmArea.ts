@@ -1,0 +1,426 @@
+/**
+ * The film area of a photo, found on the mapper's cell grid (`--film-area auto`).
+ *
+ * Each cell is first classed by its colour under the fitted photo formation:
+ * - film colour: some thickness gives its colour within the noise and model allowance, and it is
+ *   not near-black;
+ * - darkish: too dark to measure, or matched only by the near-black start of the first order
+ *   (black and dark-grey film look like a dark cloth, a chuck or a shadow: colour cannot decide);
+ * - saturated (clipped highlights), unexplained (no thickness gives its colour), excluded.
+ *
+ * Then geometry decides, since a film is a continuous field and its surroundings are not:
+ * 1. Film seeds: components of film-colour cells joined only where a candidate thickness of one
+ *    continues a candidate of the other (|Δ| ≤ the pixel jump), after an opening that removes
+ *    strips a few cells wide (wires, frame edges, tweezers whose grey matches a first-order
+ *    grey); components of at least 0.5 % of the search area (and 1/20 of the largest) are film.
+ *    The opening is undone within a few cells of the seeds where thickness continues.
+ * 2. Darkish components (after an opening that cuts thin dark wires joining a black film to a
+ *    dark background) are placed by what they border: black film meets the film through the
+ *    first-order sequence (thin film, below one order), a background meets frames, holders and
+ *    the photo border. Not touching the photo border: film when at least a quarter of its
+ *    outline is thin film, else dark surroundings. Touching the photo border (or the edge of the
+ *    region/mask): film when at least 60 % of its outline inside the photo is thin film. When the
+ *    film itself runs off the photo too and at least 15 % of the outline is thin film or a
+ *    thin-looking band of film colour (a steep black front whose first-order band was cut as a
+ *    strip looks exactly like a grey wire before a cloth), the evidence cannot decide: undecided
+ *    (the caller warns). Otherwise dark surroundings (a cloth around a film held in view).
+ * 3. Cells enclosed by the film (unexplained colour mixtures on steep rings, small isolated
+ *    matches) belong to it; what is not enclosed is not film (by reason). Clipped cells are glints.
+ */
+import { type Components, dilateSquare, erodeSquare, labelComponents } from './gridMorphology.js';
+import type { FilmAreaExclusions } from './types.js';
+
+export const CellClass = {
+  excluded: 0,
+  filmColour: 1,
+  darkish: 2,
+  saturated: 3,
+  unexplained: 4,
+} as const;
+
+/** Verdict per cell. */
+export const CellVerdict = {
+  excluded: 0,
+  film: 1,
+  notFilmColour: 2,
+  darkSurroundings: 3,
+  glint: 4,
+  isolated: 5,
+  undecided: 6,
+} as const;
+
+export interface FilmAreaInput {
+  readonly gridWidth: number;
+  readonly gridHeight: number;
+  /** CellClass per cell. */
+  readonly cellClass: Uint8Array;
+  /** Candidate positions per cell (table index units), `perCell` slots, best first. */
+  readonly candidatePosition: Float32Array;
+  readonly candidateCount: Uint8Array;
+  readonly perCell: number;
+  /** Largest thickness step between neighbouring cells of one film (table index units). */
+  readonly maxJump: number;
+  /** Cells whose best candidate lies below this position are first-order (thin) film. */
+  readonly thinPosition: number;
+  /** Opening radius in cells for the strips test (wires, edges). */
+  readonly openingRadius: number;
+  /** Chroma of each cell's matched film colour (max − min encoded channel). */
+  readonly cellChroma: Float32Array;
+  /** The user asserts the film's thickness (anchors, --expect): a neutral field alone is film. */
+  readonly filmAsserted: boolean;
+}
+
+export interface FilmAreaCells {
+  /** CellVerdict per cell. */
+  readonly verdict: Uint8Array;
+  readonly found: boolean;
+  /** Cells left undecided (dark, at the photo border, bordered by film and by other things). */
+  readonly undecidedCells: number;
+}
+
+/** Share of the search area (non-excluded cells) a film component must reach. */
+const MIN_FILM_SHARE = 0.005;
+const MIN_FILM_CELLS = 12;
+/** A dark component away from the border is black film when ≥ this share of its outline is thin film. */
+const BLACK_FILM_INSIDE = 0.25;
+/** At the border: film from this share up, surroundings below UNDECIDED_FROM, undecided between. */
+const BLACK_FILM_AT_BORDER = 0.6;
+const UNDECIDED_FROM = 0.15;
+/** A non-film pocket at the photo border, bounded by film, up to this share of the search area is film. */
+const BORDER_POCKET_SHARE = 0.02;
+
+export function findFilmArea(input: FilmAreaInput): FilmAreaCells {
+  const { gridWidth: w, gridHeight: h, cellClass } = input;
+  const cells = w * h;
+  const verdict = new Uint8Array(cells);
+  let searchArea = 0;
+  for (let c = 0; c < cells; c++) if (cellClass[c] !== CellClass.excluded) searchArea++;
+
+  // 1. Film seeds.
+  const colourMask = new Uint8Array(cells);
+  for (let c = 0; c < cells; c++) colourMask[c] = cellClass[c] === CellClass.filmColour ? 1 : 0;
+  const r = input.openingRadius;
+  const opened = r > 0 ? dilateSquare(erodeSquare(colourMask, w, h, r), w, h, r) : colourMask;
+  for (let c = 0; c < cells; c++) opened[c] &= colourMask[c];
+  const continues = (a: number, b: number): boolean => candidatesContinue(input, a, b);
+  const seeds = labelComponents(opened, w, h, 8, continues);
+  let largest = 0;
+  for (let id = 1; id <= seeds.count; id++) largest = Math.max(largest, seeds.sizes[id]);
+  const minSize = Math.max(MIN_FILM_CELLS, MIN_FILM_SHARE * searchArea, largest / 20);
+  const { film, dropped } = keepComponents(seeds, input, minSize);
+  // Undo the opening near the seeds where thickness continues (r + 1 steps of conditional growth),
+  // but not into neutral surroundings.
+  const growable = new Uint8Array(cells);
+  for (let c = 0; c < cells; c++) growable[c] = colourMask[c] && !dropped[c] ? 1 : 0;
+  growWithin(film, growable, w, h, r + 1, continues);
+
+  // 2. Darkish components.
+  const darkMask = new Uint8Array(cells);
+  for (let c = 0; c < cells; c++) darkMask[c] = cellClass[c] === CellClass.darkish ? 1 : 0;
+  const darkOpened = r > 0 ? dilateSquare(erodeSquare(darkMask, w, h, r), w, h, r) : darkMask.slice();
+  for (let c = 0; c < cells; c++) darkOpened[c] &= darkMask[c];
+  const dark = labelComponents(darkOpened, w, h, 4);
+  const darkVerdict = classifyDark(dark, input, film);
+  let undecidedCells = 0;
+  for (let c = 0; c < cells; c++) {
+    const id = dark.labels[c];
+    if (id === 0) continue;
+    verdict[c] = darkVerdict[id];
+    if (darkVerdict[id] === CellVerdict.film) film[c] = 1;
+  }
+  // Dark cells the opening removed (thin dark lines): film where they touch film and no
+  // surroundings, else dark surroundings.
+  settleThinDark(darkMask, darkOpened, verdict, film, w, h);
+
+  // 3. Enclosed cells join the film; the rest is not film, by reason.
+  const enclosed = enclosedByFilm(film, cellClass, verdict, dropped, w, h, searchArea);
+  let found = false;
+  for (let c = 0; c < cells; c++) {
+    const k = cellClass[c];
+    if (k === CellClass.excluded) {
+      verdict[c] = CellVerdict.excluded;
+      continue;
+    }
+    if (film[c] || (enclosed[c] && k !== CellClass.darkish && k !== CellClass.saturated && !dropped[c])) {
+      verdict[c] = CellVerdict.film;
+      found = true;
+      continue;
+    }
+    if (k === CellClass.darkish) {
+      if (verdict[c] === CellVerdict.undecided) undecidedCells++;
+      else verdict[c] = CellVerdict.darkSurroundings;
+    } else if (k === CellClass.saturated) verdict[c] = CellVerdict.glint;
+    else if (k === CellClass.filmColour) verdict[c] = dropped[c] ? CellVerdict.notFilmColour : CellVerdict.isolated;
+    else verdict[c] = CellVerdict.notFilmColour;
+  }
+  return { verdict, found, undecidedCells };
+}
+
+/** Mean chroma below this: a neutral surface (grey, white, silver), whose colour many thicknesses give. */
+const NEUTRAL_CHROMA = 0.05;
+/** Standard deviation of best thickness below this share of an order: a flat surface. */
+const FLAT_SPREAD = 0.08;
+
+/**
+ * Which cells of the seed components are film: those of large enough components, less the
+ * neutral surfaces around the film. Neutral colours (a grey bench, steel tweezers, a white card)
+ * are given by first-order greys and washed-out high orders alike, so a neutral part belongs to
+ * the film only where it continues the coloured film: a neutral part that reaches the photo
+ * border, is flat (its thickness spread below 8 % of an order) and continues the coloured film
+ * along less than half of its outline is surroundings. When no large coloured film exists,
+ * nothing says film (a grey card), unless the user asserted the thickness.
+ */
+function keepComponents(seeds: Components, input: FilmAreaInput, minSize: number): { film: Uint8Array; dropped: Uint8Array } {
+  const { gridWidth: w, gridHeight: h, cellChroma, candidatePosition: p, perCell, maxJump } = input;
+  const cells = w * h;
+  const film = new Uint8Array(cells);
+  const dropped = new Uint8Array(cells);
+  const colouredCells = new Float64Array(seeds.count + 1);
+  for (let c = 0; c < cells; c++) {
+    const id = seeds.labels[c];
+    if (id === 0 || seeds.sizes[id] < minSize) continue;
+    film[c] = 1;
+    if (cellChroma[c] >= NEUTRAL_CHROMA) colouredCells[id]++;
+  }
+  let coloured = false;
+  for (let id = 1; id <= seeds.count; id++) if (colouredCells[id] >= minSize) coloured = true;
+  const bestContinues = (a: number, b: number): boolean => Math.abs(p[a * perCell] - p[b * perCell]) <= maxJump;
+  // Neutral parts of the kept components, joined where their best thicknesses continue.
+  const neutral = new Uint8Array(cells);
+  for (let c = 0; c < cells; c++) neutral[c] = film[c] && cellChroma[c] < NEUTRAL_CHROMA ? 1 : 0;
+  const parts = labelComponents(neutral, w, h, 8, bestContinues);
+  // Each part's outline against coloured film: where the best thicknesses continue, or not.
+  const continuing = new Float64Array(parts.count + 1);
+  const breaking = new Float64Array(parts.count + 1);
+  for (let c = 0; c < cells; c++) {
+    const id = parts.labels[c];
+    if (id === 0) continue;
+    const x = c % w;
+    const y = (c - x) / w;
+    for (let k = 0; k < 4; k++) {
+      const nx = x + (k === 0 ? 1 : k === 1 ? -1 : 0);
+      const ny = y + (k === 2 ? 1 : k === 3 ? -1 : 0);
+      if (nx < 0 || ny < 0 || nx >= w || ny >= h) continue;
+      const j = ny * w + nx;
+      if (!film[j] || neutral[j]) continue;
+      if (bestContinues(c, j)) continuing[id]++;
+      else breaking[id]++;
+    }
+  }
+  // Spread of each part's best thickness and the photo edges it reaches: a surface around the
+  // film is flat in "thickness" and reaches the photo border; a grey band of film has a gradient.
+  const sum = new Float64Array(parts.count + 1);
+  const squares = new Float64Array(parts.count + 1);
+  const edges = new Uint8Array(parts.count + 1);
+  for (let c = 0; c < cells; c++) {
+    const id = parts.labels[c];
+    if (id === 0) continue;
+    const v = p[c * perCell];
+    sum[id] += v;
+    squares[id] += v * v;
+    const x = c % w;
+    const y = (c - x) / w;
+    if (x === 0 || y === 0 || x === w - 1 || y === h - 1) edges[id] = 1;
+  }
+  for (let c = 0; c < cells; c++) {
+    const id = parts.labels[c];
+    if (id === 0) continue;
+    const outline = continuing[id] + breaking[id];
+    const mean = sum[id] / parts.sizes[id];
+    const flat = Math.sqrt(Math.max(0, squares[id] / parts.sizes[id] - mean * mean)) < FLAT_SPREAD * input.thinPosition;
+    const apart = continuing[id] < 0.5 * outline || outline === 0;
+    const surroundings = coloured ? apart && edges[id] === 1 && (flat || parts.sizes[id] >= minSize) : !input.filmAsserted;
+    if (surroundings) {
+      film[c] = 0;
+      dropped[c] = 1;
+    }
+  }
+  return { film, dropped };
+}
+
+/**
+ * Whether the best candidate of cell a continues a candidate of cell b and the best of b one of a.
+ * (Any pair would join everything to a neutral surface, whose colour many orders give.)
+ */
+function candidatesContinue(input: FilmAreaInput, a: number, b: number): boolean {
+  return continuesBest(input, a, b) && continuesBest(input, b, a);
+}
+
+function continuesBest(input: FilmAreaInput, a: number, b: number): boolean {
+  const { candidatePosition: p, candidateCount: n, perCell, maxJump } = input;
+  if (n[a] === 0) return false;
+  const best = p[a * perCell];
+  for (let j = 0; j < n[b]; j++) if (Math.abs(best - p[b * perCell + j]) <= maxJump) return true;
+  return false;
+}
+
+/** Grows `set` into `allowed` cells (8-neighbours) for `steps` steps where `joins` holds. */
+function growWithin(
+  set: Uint8Array,
+  allowed: Uint8Array,
+  w: number,
+  h: number,
+  steps: number,
+  joins: (a: number, b: number) => boolean,
+): void {
+  let frontier: number[] = [];
+  for (let c = 0; c < set.length; c++) if (set[c]) frontier.push(c);
+  for (let s = 0; s < steps && frontier.length > 0; s++) {
+    const next: number[] = [];
+    for (const c of frontier) {
+      const x = c % w;
+      const y = (c - x) / w;
+      for (let dy = -1; dy <= 1; dy++) {
+        const ny = y + dy;
+        if (ny < 0 || ny >= h) continue;
+        for (let dx = -1; dx <= 1; dx++) {
+          const nx = x + dx;
+          if (nx < 0 || nx >= w || (dx === 0 && dy === 0)) continue;
+          const j = ny * w + nx;
+          if (set[j] || !allowed[j] || !joins(c, j)) continue;
+          set[j] = 1;
+          next.push(j);
+        }
+      }
+    }
+    frontier = next;
+  }
+}
+
+/** Verdict per dark component id by what its outline borders. */
+function classifyDark(dark: Components, input: FilmAreaInput, film: Uint8Array): Uint8Array {
+  const { gridWidth: w, gridHeight: h, cellClass, candidatePosition, candidateCount, perCell, thinPosition } = input;
+  const thin = new Float64Array(dark.count + 1);
+  const other = new Float64Array(dark.count + 1);
+  const border = new Uint8Array(dark.count + 1);
+  const band = new Float64Array(dark.count + 1);
+  // Does the film itself run off the photo (or the region)? Only then can black at the border be film.
+  let filmAtBorder = false;
+  for (let c = 0; c < w * h && !filmAtBorder; c++) {
+    if (!film[c]) continue;
+    const x = c % w;
+    const y = (c - x) / w;
+    if (x === 0 || y === 0 || x === w - 1 || y === h - 1) filmAtBorder = true;
+  }
+  const foreign = new Float64Array(dark.count + 1);
+  for (let c = 0; c < w * h; c++) {
+    const id = dark.labels[c];
+    if (id === 0) continue;
+    const x = c % w;
+    const y = (c - x) / w;
+    if (x === 0 || y === 0 || x === w - 1 || y === h - 1) border[id] = 1;
+    for (let k = 0; k < 4; k++) {
+      const nx = x + (k === 0 ? 1 : k === 1 ? -1 : 0);
+      const ny = y + (k === 2 ? 1 : k === 3 ? -1 : 0);
+      if (nx < 0 || ny < 0 || nx >= w || ny >= h) continue;
+      const j = ny * w + nx;
+      if (dark.labels[j] === id) continue;
+      if (cellClass[j] === CellClass.excluded) {
+        border[id] = 1;
+        continue;
+      }
+      // Colour mixtures (steep rings, JPEG) and what no thickness gives say nothing either way.
+      if (cellClass[j] === CellClass.darkish) continue;
+      if (cellClass[j] === CellClass.unexplained) {
+        foreign[id]++;
+        continue;
+      }
+      const thinPositioned = candidateCount[j] > 0 && candidatePosition[j * perCell] < thinPosition;
+      if (film[j] === 1 && thinPositioned) thin[id]++;
+      else {
+        other[id]++;
+        // A first-order band the strips test removed (black | white | colours) looks like a
+        // grey wire: it counts only towards "undecided".
+        if (cellClass[j] === CellClass.filmColour && thinPositioned) band[id]++;
+        else foreign[id]++;
+      }
+    }
+  }
+  const out = new Uint8Array(dark.count + 1);
+  for (let id = 1; id <= dark.count; id++) {
+    const total = thin[id] + other[id];
+    const share = total > 0 ? thin[id] / total : 0;
+    if (!border[id]) out[id] = share >= BLACK_FILM_INSIDE ? CellVerdict.film : CellVerdict.darkSurroundings;
+    else if (share >= BLACK_FILM_AT_BORDER) out[id] = CellVerdict.film;
+    else if (filmAtBorder && (thin[id] + band[id]) >= UNDECIDED_FROM * (thin[id] + band[id] + foreign[id] + other[id] - band[id])) out[id] = CellVerdict.undecided;
+    else out[id] = CellVerdict.darkSurroundings;
+  }
+  return out;
+}
+
+/** Dark cells removed by the opening: film where they touch film and no surroundings. */
+function settleThinDark(darkMask: Uint8Array, darkOpened: Uint8Array, verdict: Uint8Array, film: Uint8Array, w: number, h: number): void {
+  for (let pass = 0; pass < 4; pass++) {
+    let changed = 0;
+    for (let c = 0; c < w * h; c++) {
+      if (!darkMask[c] || darkOpened[c] || verdict[c] !== 0) continue;
+      const x = c % w;
+      const y = (c - x) / w;
+      let touchesFilm = false;
+      let touchesOther = false;
+      for (let dy = -1; dy <= 1; dy++) {
+        const ny = y + dy;
+        if (ny < 0 || ny >= h) continue;
+        for (let dx = -1; dx <= 1; dx++) {
+          const nx = x + dx;
+          if (nx < 0 || nx >= w) continue;
+          const j = ny * w + nx;
+          if (film[j]) touchesFilm = true;
+          else if (verdict[j] === CellVerdict.darkSurroundings || verdict[j] === CellVerdict.undecided) touchesOther = true;
+        }
+      }
+      if (touchesOther) {
+        verdict[c] = CellVerdict.darkSurroundings;
+        changed++;
+      } else if (touchesFilm) {
+        verdict[c] = CellVerdict.film;
+        film[c] = 1;
+        changed++;
+      }
+    }
+    if (changed === 0) break;
+  }
+}
+
+/**
+ * Cells enclosed by the film: components (4-connected) of non-film cells that hold no excluded,
+ * surroundings, undecided or dropped neutral cells, and either do not reach the photo border or
+ * are small pockets there.
+ */
+function enclosedByFilm(film: Uint8Array, cellClass: Uint8Array, verdict: Uint8Array, dropped: Uint8Array, w: number, h: number, searchArea: number): Uint8Array {
+  const cells = w * h;
+  const rest = new Uint8Array(cells);
+  for (let c = 0; c < cells; c++) rest[c] = film[c] ? 0 : 1;
+  const parts = labelComponents(rest, w, h, 4);
+  const open = new Uint8Array(parts.count + 1);
+  const border = new Uint8Array(parts.count + 1);
+  for (let c = 0; c < cells; c++) {
+    const id = parts.labels[c];
+    if (id === 0) continue;
+    const x = c % w;
+    const y = (c - x) / w;
+    if (x === 0 || y === 0 || x === w - 1 || y === h - 1) border[id] = 1;
+    if (
+      cellClass[c] === CellClass.excluded ||
+      dropped[c] ||
+      verdict[c] === CellVerdict.darkSurroundings ||
+      verdict[c] === CellVerdict.undecided
+    ) {
+      open[id] = 1;
+    }
+  }
+  // A pocket at the photo border bounded only by film (a swirl cut by the border, colour
+  // mixtures on a steep ring there) is the film's too when it is small.
+  for (let id = 1; id <= parts.count; id++) if (border[id] && parts.sizes[id] > BORDER_POCKET_SHARE * searchArea) open[id] = 1;
+  const out = new Uint8Array(cells);
+  for (let c = 0; c < cells; c++) {
+    const id = parts.labels[c];
+    if (id !== 0 && !open[id]) out[c] = 1;
+  }
+  return out;
+}
+
+/** Pixel counts by reason, from the pixel statuses' cell verdicts (see mapPixels). */
+export function emptyExclusions(): { -readonly [K in keyof FilmAreaExclusions]: number } {
+  return { outside_region: 0, dark_surroundings: 0, not_film_colour: 0, glint: 0, isolated: 0, undecided: 0 };
+}
