@@ -152,7 +152,7 @@ async function mapFieldScene(dir, scene, extra = {}) {
   const path = join(dir, scene.fileName);
   writeFileSync(path, scene.photo);
   const started = performance.now();
-  const result = await mapPhotoFile(path, mapOptionsFor(scene, extra));
+  const result = await mapPhotoFile(path, mapOptionsFor(scene, { filmArea: 'auto', ...extra }));
   return { result, ms: performance.now() - started };
 }
 

@@ -74,8 +74,8 @@ describe('bad --film-area / --expect: exit 2, one line naming the option', () =>
 });
 
 describe('lamella map: film area in the JSON record', () => {
-  it('default run: settings, film_area, fit_quality and pixel counts agree with each other', async () => {
-    const run = await lamella(['map', 'wedge.png', '--stack', 'soap-film', '--out', 'out-auto', '--json', '--no-report']);
+  it('--film-area auto: settings, film_area, fit_quality and pixel counts agree with each other', async () => {
+    const run = await lamella(['map', 'wedge.png', '--stack', 'soap-film', '--film-area', 'auto', '--out', 'out-auto', '--json', '--no-report']);
     expect(run.status, run.stderr).toBe(0);
     const record = JSON.parse(run.stdout) as Record<string, any>;
     expect(record.settings.film_area).toBe('auto');

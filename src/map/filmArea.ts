@@ -68,6 +68,10 @@ export interface FilmAreaInput {
   readonly cellChroma: Float32Array;
   /** The user asserts the film's thickness (anchors, --expect): a neutral field alone is film. */
   readonly filmAsserted: boolean;
+  /** Brightness (brightest encoded channel) of each cell's mean colour. */
+  readonly cellBrightness: Float32Array;
+  /** Cells holding an `--anchor`: what holds an anchor is film. */
+  readonly anchorCells: readonly number[];
 }
 
 export interface FilmAreaCells {
@@ -121,6 +125,7 @@ export function findFilmArea(input: FilmAreaInput): FilmAreaCells {
   for (let c = 0; c < cells; c++) darkOpened[c] &= darkMask[c];
   const dark = labelComponents(darkOpened, w, h, 4);
   const darkVerdict = classifyDark(dark, input, film);
+  for (const c of input.anchorCells) if (dark.labels[c] > 0) darkVerdict[dark.labels[c]] = CellVerdict.film;
   let undecidedCells = 0;
   for (let c = 0; c < cells; c++) {
     const id = dark.labels[c];
@@ -134,6 +139,7 @@ export function findFilmArea(input: FilmAreaInput): FilmAreaCells {
 
   // 3. Enclosed cells join the film; the rest is not film, by reason.
   const enclosed = enclosedByFilm(film, cellClass, verdict, dropped, w, h, searchArea);
+  for (const c of input.anchorCells) if (cellClass[c] !== CellClass.darkish && cellClass[c] !== CellClass.excluded) film[c] = 1;
   let found = false;
   for (let c = 0; c < cells; c++) {
     const k = cellClass[c];
@@ -158,16 +164,17 @@ export function findFilmArea(input: FilmAreaInput): FilmAreaCells {
 
 /** Mean chroma below this: a neutral surface (grey, white, silver), whose colour many thicknesses give. */
 const NEUTRAL_CHROMA = 0.05;
-/** Standard deviation of best thickness below this share of an order: a flat surface. */
-const FLAT_SPREAD = 0.08;
+/** Standard deviation of the cells' brightness below this (encoded units): a flat surface. */
+const FLAT_BRIGHTNESS = 0.03;
 
 /**
  * Which cells of the seed components are film: those of large enough components, less the
  * neutral surfaces around the film. Neutral colours (a grey bench, steel tweezers, a white card)
  * are given by first-order greys and washed-out high orders alike, so a neutral part belongs to
  * the film only where it continues the coloured film: a neutral part that reaches the photo
- * border, is flat (its thickness spread below 8 % of an order) and continues the coloured film
- * along less than half of its outline is surroundings. When no large coloured film exists,
+ * border, is flat (its brightness varies by less than 0.03 of full scale, where a neutral band
+ * of film runs from grey to white), holds no anchor and continues the coloured film along less
+ * than half of its outline is surroundings. When no large coloured film exists,
  * nothing says film (a grey card), unless the user asserted the thickness.
  */
 function keepComponents(seeds: Components, input: FilmAreaInput, minSize: number): { film: Uint8Array; dropped: Uint8Array } {
@@ -185,10 +192,12 @@ function keepComponents(seeds: Components, input: FilmAreaInput, minSize: number
   let coloured = false;
   for (let id = 1; id <= seeds.count; id++) if (colouredCells[id] >= minSize) coloured = true;
   const bestContinues = (a: number, b: number): boolean => Math.abs(p[a * perCell] - p[b * perCell]) <= maxJump;
-  // Neutral parts of the kept components, joined where their best thicknesses continue.
   const neutral = new Uint8Array(cells);
   for (let c = 0; c < cells; c++) neutral[c] = film[c] && cellChroma[c] < NEUTRAL_CHROMA ? 1 : 0;
-  const parts = labelComponents(neutral, w, h, 8, bestContinues);
+  // Neutral parts of the kept components, joined where their brightness continues (not their
+  // thickness: a grey surface's best thickness jumps between the many orders that give grey).
+  const bright = input.cellBrightness;
+  const parts = labelComponents(neutral, w, h, 8, (a, b) => Math.abs(bright[a] - bright[b]) <= FLAT_BRIGHTNESS / 2);
   // Each part's outline against coloured film: where the best thicknesses continue, or not.
   const continuing = new Float64Array(parts.count + 1);
   const breaking = new Float64Array(parts.count + 1);
@@ -215,21 +224,23 @@ function keepComponents(seeds: Components, input: FilmAreaInput, minSize: number
   for (let c = 0; c < cells; c++) {
     const id = parts.labels[c];
     if (id === 0) continue;
-    const v = p[c * perCell];
+    const v = input.cellBrightness[c];
     sum[id] += v;
     squares[id] += v * v;
     const x = c % w;
     const y = (c - x) / w;
     if (x === 0 || y === 0 || x === w - 1 || y === h - 1) edges[id] = 1;
   }
+  const anchored = new Uint8Array(parts.count + 1);
+  for (const c of input.anchorCells) anchored[parts.labels[c]] = 1;
   for (let c = 0; c < cells; c++) {
     const id = parts.labels[c];
     if (id === 0) continue;
     const outline = continuing[id] + breaking[id];
     const mean = sum[id] / parts.sizes[id];
-    const flat = Math.sqrt(Math.max(0, squares[id] / parts.sizes[id] - mean * mean)) < FLAT_SPREAD * input.thinPosition;
+    const flat = Math.sqrt(Math.max(0, squares[id] / parts.sizes[id] - mean * mean)) < FLAT_BRIGHTNESS;
     const apart = continuing[id] < 0.5 * outline || outline === 0;
-    const surroundings = coloured ? apart && edges[id] === 1 && (flat || parts.sizes[id] >= minSize) : !input.filmAsserted;
+    const surroundings = anchored[id] ? false : coloured ? apart && edges[id] === 1 && flat : !input.filmAsserted;
     if (surroundings) {
       film[c] = 0;
       dropped[c] = 1;

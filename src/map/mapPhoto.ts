@@ -123,7 +123,7 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
     threads: options.threads ?? defaultThreads(),
     chromaWeight: chromaWeightFor(photo.format, photo.chromaSubsampling),
     eightBit: photo.bitDepth === 8,
-    filmArea: options.filmArea ?? 'auto',
+    filmArea: options.filmArea ?? 'whole',
     expectNm: options.expectNm ?? null,
   });
   return {
@@ -229,7 +229,7 @@ async function writeEachOutput(
     if (result.photoRgb) {
       const labels = result.thinLabels ?? findThinRegions(result.thicknessNm, result.status, width, height, options?.thinBelowNm ?? null, null).labels;
       const flagsPath = join(outDir, `${stem}.flags.png`);
-      const flagsPng = renderFlagsPng(result.photoRgb, width, height, labels);
+      const flagsPng = renderFlagsPng(result.photoRgb, width, height, labels, result.status);
       start(flagsPath, async () => atomicWriteFile(flagsPath, await flagsPng));
     }
   }

@@ -64,7 +64,7 @@ export interface MapPixelsInput {
   readonly eightBit?: boolean;
   /** Weight of chroma in colour matching (< 1 for chroma-subsampled JPEGs; see matchSpace.ts). */
   readonly chromaWeight?: number;
-  /** `auto` (default): find the film area (filmArea.ts); `whole`: every `film` pixel is film. */
+  /** `auto`: find the film area (filmArea.ts); `whole` (default): every `film` pixel is film. */
   readonly filmArea?: FilmAreaMode;
   /** Thickness range the film is known to lie in (nm), from `--expect`. */
   readonly expectNm?: readonly [number, number] | null;
@@ -131,8 +131,12 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
     clock = now;
   };
   lap('prepare');
-  const autoArea = input.filmArea !== 'whole';
+  const autoArea = input.filmArea === 'auto';
   const asserted = anchors.length > 0 || (input.expectNm ?? null) !== null;
+  const blockOf = Math.max(1, Math.ceil(Math.sqrt(pixels / MAX_GRID_CELLS)));
+  const anchorCellsOf = anchors
+    .filter((a) => a.x >= 0 && a.y >= 0 && a.x < width && a.y < height)
+    .map((a) => Math.floor(a.y / blockOf) * Math.ceil(width / blockOf) + Math.floor(a.x / blockOf));
   // 1. Photo-formation parameters, from film pixels (colour-balanced samples, see fitSamples.ts).
   let fit: PhotoFormationFit | null = null;
   const fitOnFilm = (start: ExposureParameters | null): ExposureParameters => {
@@ -176,7 +180,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   let cells = matchCells(rgb, status, width, height, block, gridWidth, gridHeight, table, parameters, noiseSigma, periodIndex, space, cube, scratch);
   let area: FilmAreaCells | null = null;
   if (autoArea) {
-    area = filmAreaOf(cells, gridWidth, gridHeight, block, noiseSigma, periodIndex, maxJump, table.rgbLinear, asserted);
+    area = filmAreaOf(cells, gridWidth, gridHeight, block, noiseSigma, periodIndex, maxJump, table.rgbLinear, asserted, anchorCellsOf);
     const excluded = applyFilmArea(area, status, width, height, block, gridWidth, false);
     // What was fitted included pixels that are not film: fit again on the film alone, from there.
     if (!input.exposureFixed && area.found && excluded > 0.01 * pixels) {
@@ -185,7 +189,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
       parameters = fitOnFilm(parameters);
       resetDerivedStatus(status);
       cells = matchCells(rgb, status, width, height, block, gridWidth, gridHeight, table, parameters, noiseSigma, periodIndex, space, createCandidateCube(CUBE_LEVELS, PER_CELL), scratch);
-      area = filmAreaOf(cells, gridWidth, gridHeight, block, noiseSigma, periodIndex, maxJump, table.rgbLinear, asserted);
+      area = filmAreaOf(cells, gridWidth, gridHeight, block, noiseSigma, periodIndex, maxJump, table.rgbLinear, asserted, anchorCellsOf);
     }
     applyFilmArea(area, status, width, height, block, gridWidth, true);
     for (let c = 0; c < gridWidth * gridHeight; c++) {
@@ -647,6 +651,8 @@ interface CellMatches {
   readonly predicted: Float32Array;
   readonly limits: TableLimits;
   readonly cellColour: Float32Array;
+  /** Cell means in encoded RGB (cellColour is in the matching space). */
+  readonly cellColourRgb: Float32Array;
   readonly cellDark: Uint8Array;
   readonly cellState: Uint8Array;
   readonly usable: Uint8Array;
@@ -686,6 +692,7 @@ function matchCells(
   const cellDark = new Uint8Array(gridWidth * gridHeight);
   const cellState = new Uint8Array(gridWidth * gridHeight);
   const usable = averageCells(rgb, status, width, height, block, gridWidth, gridHeight, cellColour, cellDark, cellState);
+  const cellColourRgb = space ? cellColour.slice() : cellColour;
   // Averaging commutes with the (affine) matching space: transform the cell means.
   if (space) toMatchSpace(space, cellColour, cellColour);
   const field = createCandidateField(gridWidth, gridHeight, PER_CELL);
@@ -698,7 +705,7 @@ function matchCells(
       field.cost[c * PER_CELL + k] = scratch.cost[k];
     }
   }
-  return { predictedRgb, predicted, limits, cellColour, cellDark, cellState, usable, field, cube };
+  return { predictedRgb, predicted, limits, cellColour, cellColourRgb, cellDark, cellState, usable, field, cube };
 }
 
 /**
@@ -722,6 +729,7 @@ function filmAreaOf(
   maxJump: number,
   rgbLinear: Float64Array,
   filmAsserted: boolean,
+  anchorCells: readonly number[],
 ): FilmAreaCells {
   const { cellState, field, predictedRgb, limits } = cells;
   const n = gridWidth * gridHeight;
@@ -739,6 +747,8 @@ function filmAreaOf(
     darkishPosition = Math.max(darkishPosition, limits.darkLimitIndex);
   }
   const allowance = explainedCost(noiseSigma, block);
+  const cellBrightness = new Float32Array(n);
+  for (let c = 0; c < n; c++) cellBrightness[c] = brightnessOf(cells.cellColourRgb[c * 3], cells.cellColourRgb[c * 3 + 1], cells.cellColourRgb[c * 3 + 2]);
   const cellChroma = new Float32Array(n);
   for (let c = 0; c < n; c++) {
     if (field.count[c] === 0) continue;
@@ -770,6 +780,8 @@ function filmAreaOf(
     openingRadius: block === 1 ? 3 : 2,
     cellChroma,
     filmAsserted,
+    cellBrightness,
+    anchorCells,
   });
 }
 
@@ -888,7 +900,9 @@ function checkAnchors(anchors: readonly Anchor[], thicknessNm: Float32Array, sta
   for (const anchor of anchors) {
     const i = anchor.y * width + anchor.x;
     const value = thicknessNm[i];
-    if (status[i] === PixelStatus.notFilm || status[i] === PixelStatus.undecided) {
+    if (status[i] === PixelStatus.excluded) {
+      warnings.push(`--anchor ${anchor.x},${anchor.y}=${anchor.thicknessNm} lies outside --region / --mask (or on a transparent pixel): it cannot bind the map`);
+    } else if (status[i] === PixelStatus.notFilm || status[i] === PixelStatus.undecided) {
       warnings.push(`--anchor ${anchor.x},${anchor.y}=${anchor.thicknessNm} lies outside the film area found; check the position, or give --film-area whole`);
     } else if (!(value === value)) {
       warnings.push(`--anchor ${anchor.x},${anchor.y}=${anchor.thicknessNm}: that pixel got no estimate (its colour matches no thickness well); the anchor could not be checked`);
