@@ -323,7 +323,7 @@ describe('CLI: summary line, --film-area and --expect', () => {
   });
 
   it('parses --film-area and --expect, defaults auto and none', () => {
-    expect(filmAreaFromOptions({ maxThickness: '2000' })).toMatchObject({ filmArea: 'whole', expectNm: null });
+    expect(filmAreaFromOptions({ maxThickness: '2000' })).toMatchObject({ filmArea: 'auto', expectNm: null });
     expect(filmAreaFromOptions({ maxThickness: '2000', filmArea: 'whole', expect: '80-140' })).toMatchObject({ filmArea: 'whole', expectNm: [80, 140] });
     expect(parseExpect('92.5 - 110.25', 2000)).toEqual([92.5, 110.25]);
     expect(parseExpect('0-50nm', 2000)).toEqual([0, 50]);

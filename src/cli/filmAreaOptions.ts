@@ -32,7 +32,7 @@ export interface FilmArea {
   readonly maskPath: string | null;
   readonly anchors: Anchor[];
   readonly pixelSizeUm: number | null;
-  /** `auto`: find the film inside region/mask; `whole` (default for now): all of region/mask is film. */
+  /** `auto` (default): find the film inside region/mask; `whole`: all of region/mask is film. */
   readonly filmArea: FilmAreaMode;
   /** `--expect MIN-MAX`: [min, max] nm with 0 ≤ min < max ≤ max thickness, or null. */
   readonly expectNm: [number, number] | null;
@@ -53,15 +53,15 @@ export function addFilmAreaOptions(command: Command, scope: 'photo' | 'frames'):
     .option(
       '--film-area <mode>',
       `which pixels${each} are film: auto = found in the photo (dark surroundings, frames, holders, glints and colours no film gives are left out), ` +
-        'whole = every pixel inside --region/--mask (the whole photo without them); default whole for now (auto still leaves out parts of some photos that are film from edge to edge)',
-      'whole',
+        'whole = every pixel inside --region/--mask (the whole photo without them)',
+      'auto',
     )
     .option('--expect <min-max>', 'thickness range the film is known to lie in, nm (e.g. 80-140): orders and the fit keep to it');
 }
 
 /** `--film-area`: `auto` or `whole`. */
 export function parseFilmAreaMode(text: string | undefined): FilmAreaMode {
-  const mode = (text ?? 'whole').trim();
+  const mode = (text ?? 'auto').trim();
   if (mode === 'auto' || mode === 'whole') return mode;
   throw new UsageError(`--film-area must be auto or whole, received ${JSON.stringify(text)}`);
 }

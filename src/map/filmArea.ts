@@ -22,8 +22,9 @@
  *    region/mask): film when at least 60 % of its outline inside the photo is thin film. When the
  *    film itself runs off the photo too and at least 15 % of the outline is thin film or a
  *    thin-looking band of film colour (a steep black front whose first-order band was cut as a
- *    strip looks exactly like a grey wire before a cloth), the evidence cannot decide: undecided
- *    (the caller warns). Otherwise dark surroundings (a cloth around a film held in view).
+ *    strip looks exactly like a grey wire before a cloth), it is film in a close-up (coloured film
+ *    holds at least half of the photo border), else the evidence cannot decide: undecided (the
+ *    caller warns). Otherwise dark surroundings (a cloth around a film held in view).
  * 3. Cells enclosed by the film (unexplained colour mixtures on steep rings, small isolated
  *    matches) belong to it; what is not enclosed is not film (by reason). Clipped cells are glints.
  */
@@ -90,8 +91,14 @@ const BLACK_FILM_INSIDE = 0.25;
 /** At the border: film from this share up, surroundings below UNDECIDED_FROM, undecided between. */
 const BLACK_FILM_AT_BORDER = 0.6;
 const UNDECIDED_FROM = 0.15;
+/** Cells of colour mixtures looked through when judging what a dark region borders. */
+const MIXTURE_LOOK_THROUGH = 3;
+/** Film holds at least this share of the photo border: a close-up of the film. */
+const CLOSE_UP_BORDER_SHARE = 0.5;
 /** A non-film pocket at the photo border, bounded by film, up to this share of the search area is film. */
 const BORDER_POCKET_SHARE = 0.02;
+/** ... unless more than this share of it is colours no film gives (dense fringes leave film colours among their mixtures). */
+const BORDER_UNEXPLAINED_SHARE = 0.8;
 
 export function findFilmArea(input: FilmAreaInput): FilmAreaCells {
   const { gridWidth: w, gridHeight: h, cellClass } = input;
@@ -138,8 +145,36 @@ export function findFilmArea(input: FilmAreaInput): FilmAreaCells {
   settleThinDark(darkMask, darkOpened, verdict, film, w, h);
 
   // 3. Enclosed cells join the film; the rest is not film, by reason.
-  const enclosed = enclosedByFilm(film, cellClass, verdict, dropped, w, h, searchArea);
+  // Dark surroundings large enough to be a background (a speck of dirt is no evidence).
+  const significantDark = new Uint8Array(cells);
+  for (let c = 0; c < cells; c++) if (dark.labels[c] > 0 && dark.sizes[dark.labels[c]] >= minSize) significantDark[c] = 1;
+  const enclosed = enclosedByFilm(film, cellClass, verdict, dropped, significantDark, w, h, searchArea);
   for (const c of input.anchorCells) if (cellClass[c] !== CellClass.darkish && cellClass[c] !== CellClass.excluded) film[c] = 1;
+  // Undecided dark regions again, now that the film holds its steep fringes at the border too
+  // (a close-up of the film decides them).
+  if (darkVerdict.includes(CellVerdict.undecided)) {
+    const held = film.slice();
+    // Only coloured fringes and their colour mixtures count: a grey wire before a cloth would
+    // otherwise vouch for the cloth.
+    for (let c = 0; c < cells; c++) {
+      const k = cellClass[c];
+      if (enclosed[c] && (k === CellClass.unexplained || (k === CellClass.filmColour && input.cellChroma[c] >= NEUTRAL_CHROMA))) held[c] = 1;
+    }
+    if (isCloseUp(held, cellClass, w, h)) {
+      for (let c = 0; c < cells; c++) {
+        const id = dark.labels[c];
+        if (id !== 0 && darkVerdict[id] === CellVerdict.undecided) {
+          verdict[c] = CellVerdict.film;
+          film[c] = 1;
+        }
+      }
+    } else {
+      // Still undecided: what touches them is not vouched for by the film either (a wire between
+      // the film and a dark region that may be a cloth).
+      for (let c = 0; c < cells; c++) if (verdict[c] === CellVerdict.undecided && significantDark[c]) significantDark[c] = 2;
+      enclosed.set(enclosedByFilm(film, cellClass, verdict, dropped, significantDark, w, h, searchArea));
+    }
+  }
   let found = false;
   for (let c = 0; c < cells; c++) {
     const k = cellClass[c];
@@ -172,9 +207,9 @@ const FLAT_BRIGHTNESS = 0.03;
  * neutral surfaces around the film. Neutral colours (a grey bench, steel tweezers, a white card)
  * are given by first-order greys and washed-out high orders alike, so a neutral part belongs to
  * the film only where it continues the coloured film: a neutral part that reaches the photo
- * border, is flat (its brightness varies by less than 0.03 of full scale, where a neutral band
- * of film runs from grey to white), holds no anchor and continues the coloured film along less
- * than half of its outline is surroundings. When no large coloured film exists,
+ * border, is a large flat surface (its brightness varies by less than 0.03 of full scale, where
+ * a neutral band of film runs from grey to white), holds no anchor and continues the coloured
+ * film along less than half of its outline is surroundings. When no large coloured film exists,
  * nothing says film (a grey card), unless the user asserted the thickness.
  */
 function keepComponents(seeds: Components, input: FilmAreaInput, minSize: number): { film: Uint8Array; dropped: Uint8Array } {
@@ -240,7 +275,8 @@ function keepComponents(seeds: Components, input: FilmAreaInput, minSize: number
     const mean = sum[id] / parts.sizes[id];
     const flat = Math.sqrt(Math.max(0, squares[id] / parts.sizes[id] - mean * mean)) < FLAT_BRIGHTNESS;
     const apart = continuing[id] < 0.5 * outline || outline === 0;
-    const surroundings = anchored[id] ? false : coloured ? apart && edges[id] === 1 && flat : !input.filmAsserted;
+    const surface = flat && parts.sizes[id] >= minSize;
+    const surroundings = anchored[id] ? false : coloured ? apart && edges[id] === 1 && surface : !input.filmAsserted;
     if (surroundings) {
       film[c] = 0;
       dropped[c] = 1;
@@ -305,13 +341,21 @@ function classifyDark(dark: Components, input: FilmAreaInput, film: Uint8Array):
   const other = new Float64Array(dark.count + 1);
   const border = new Uint8Array(dark.count + 1);
   const band = new Float64Array(dark.count + 1);
-  // Does the film itself run off the photo (or the region)? Only then can black at the border be film.
+  // Does the film itself run off the photo (or the region)? Only then can black at the border be
+  // film; and when film holds most of the photo's border besides this dark region, the photo is a
+  // close-up of the film and black at the border beside thin film is black film.
   let filmAtBorder = false;
-  for (let c = 0; c < w * h && !filmAtBorder; c++) {
-    if (!film[c]) continue;
+  let borderCells = 0;
+  let filmBorderCells = 0;
+  for (let c = 0; c < w * h; c++) {
     const x = c % w;
     const y = (c - x) / w;
-    if (x === 0 || y === 0 || x === w - 1 || y === h - 1) filmAtBorder = true;
+    if (!(x === 0 || y === 0 || x === w - 1 || y === h - 1) || cellClass[c] === CellClass.excluded) continue;
+    borderCells++;
+    if (film[c]) {
+      filmAtBorder = true;
+      filmBorderCells++;
+    }
   }
   const foreign = new Float64Array(dark.count + 1);
   for (let c = 0; c < w * h; c++) {
@@ -321,22 +365,36 @@ function classifyDark(dark: Components, input: FilmAreaInput, film: Uint8Array):
     const y = (c - x) / w;
     if (x === 0 || y === 0 || x === w - 1 || y === h - 1) border[id] = 1;
     for (let k = 0; k < 4; k++) {
-      const nx = x + (k === 0 ? 1 : k === 1 ? -1 : 0);
-      const ny = y + (k === 2 ? 1 : k === 3 ? -1 : 0);
+      const dx = k === 0 ? 1 : k === 1 ? -1 : 0;
+      const dy = k === 2 ? 1 : k === 3 ? -1 : 0;
+      let nx = x + dx;
+      let ny = y + dy;
       if (nx < 0 || ny < 0 || nx >= w || ny >= h) continue;
-      const j = ny * w + nx;
+      let j = ny * w + nx;
       if (dark.labels[j] === id) continue;
       if (cellClass[j] === CellClass.excluded) {
         border[id] = 1;
         continue;
       }
-      // Colour mixtures (steep rings, JPEG) and what no thickness gives say nothing either way.
       if (cellClass[j] === CellClass.darkish) continue;
-      if (cellClass[j] === CellClass.unexplained) {
+      // Look through a few cells of colour mixtures (a sharp black front blurred by the lens and
+      // JPEG) to what lies behind them.
+      for (let step = 0; step < MIXTURE_LOOK_THROUGH && cellClass[j] === CellClass.unexplained; step++) {
+        const fx = nx + dx;
+        const fy = ny + dy;
+        if (fx < 0 || fy < 0 || fx >= w || fy >= h) break;
+        nx = fx;
+        ny = fy;
+        j = ny * w + nx;
+      }
+      if (cellClass[j] === CellClass.unexplained || cellClass[j] === CellClass.darkish || cellClass[j] === CellClass.excluded) {
         foreign[id]++;
         continue;
       }
-      const thinPositioned = candidateCount[j] > 0 && candidatePosition[j * perCell] < thinPosition;
+      // First order by any of its candidates: a first-order white is also matched by washed-out
+      // high orders, and may be ranked below them.
+      let thinPositioned = false;
+      for (let q = 0; q < candidateCount[j]; q++) if (candidatePosition[j * perCell + q] < thinPosition) thinPositioned = true;
       if (film[j] === 1 && thinPositioned) thin[id]++;
       else {
         other[id]++;
@@ -353,7 +411,9 @@ function classifyDark(dark: Components, input: FilmAreaInput, film: Uint8Array):
     const share = total > 0 ? thin[id] / total : 0;
     if (!border[id]) out[id] = share >= BLACK_FILM_INSIDE ? CellVerdict.film : CellVerdict.darkSurroundings;
     else if (share >= BLACK_FILM_AT_BORDER) out[id] = CellVerdict.film;
-    else if (filmAtBorder && (thin[id] + band[id]) >= UNDECIDED_FROM * (thin[id] + band[id] + foreign[id] + other[id] - band[id])) out[id] = CellVerdict.undecided;
+    else if (filmAtBorder && (thin[id] + band[id]) >= UNDECIDED_FROM * (thin[id] + band[id] + foreign[id] + other[id] - band[id])) {
+      out[id] = borderCells > 0 && filmBorderCells >= CLOSE_UP_BORDER_SHARE * borderCells ? CellVerdict.film : CellVerdict.undecided;
+    }
     else out[id] = CellVerdict.darkSurroundings;
   }
   return out;
@@ -394,35 +454,57 @@ function settleThinDark(darkMask: Uint8Array, darkOpened: Uint8Array, verdict: U
 }
 
 /**
- * Cells enclosed by the film: components (4-connected) of non-film cells that hold no excluded,
- * surroundings, undecided or dropped neutral cells, and either do not reach the photo border or
- * are small pockets there.
+ * Cells the film holds: components (4-connected) of non-film cells inside the search area that
+ * touch no surroundings (large dark surroundings, dropped neutral surfaces), and at the photo
+ * border are small or hold film colours among their mixtures.
  */
-function enclosedByFilm(film: Uint8Array, cellClass: Uint8Array, verdict: Uint8Array, dropped: Uint8Array, w: number, h: number, searchArea: number): Uint8Array {
+/** Whether film holds at least half of the photo border (of the search area's border cells). */
+function isCloseUp(film: Uint8Array, cellClass: Uint8Array, w: number, h: number): boolean {
+  let borderCells = 0;
+  let filmBorderCells = 0;
+  for (let c = 0; c < w * h; c++) {
+    const x = c % w;
+    const y = (c - x) / w;
+    if (!(x === 0 || y === 0 || x === w - 1 || y === h - 1) || cellClass[c] === CellClass.excluded) continue;
+    borderCells++;
+    if (film[c]) filmBorderCells++;
+  }
+  return borderCells > 0 && filmBorderCells >= CLOSE_UP_BORDER_SHARE * borderCells;
+}
+
+function enclosedByFilm(
+  film: Uint8Array,
+  cellClass: Uint8Array,
+  verdict: Uint8Array,
+  dropped: Uint8Array,
+  /** 1: large dark surroundings; 2: large undecided dark (both count as surroundings here). */
+  significantDark: Uint8Array,
+  w: number,
+  h: number,
+  searchArea: number,
+): Uint8Array {
   const cells = w * h;
   const rest = new Uint8Array(cells);
-  for (let c = 0; c < cells; c++) rest[c] = film[c] ? 0 : 1;
+  for (let c = 0; c < cells; c++) rest[c] = film[c] || cellClass[c] === CellClass.excluded ? 0 : 1;
   const parts = labelComponents(rest, w, h, 4);
   const open = new Uint8Array(parts.count + 1);
   const border = new Uint8Array(parts.count + 1);
+  const unexplained = new Float64Array(parts.count + 1);
   for (let c = 0; c < cells; c++) {
     const id = parts.labels[c];
     if (id === 0) continue;
     const x = c % w;
     const y = (c - x) / w;
     if (x === 0 || y === 0 || x === w - 1 || y === h - 1) border[id] = 1;
-    if (
-      cellClass[c] === CellClass.excluded ||
-      dropped[c] ||
-      verdict[c] === CellVerdict.darkSurroundings ||
-      verdict[c] === CellVerdict.undecided
-    ) {
-      open[id] = 1;
-    }
+    if (cellClass[c] === CellClass.unexplained) unexplained[id]++;
+    if (dropped[c] || (verdict[c] === CellVerdict.darkSurroundings && significantDark[c]) || significantDark[c] === 2) open[id] = 1;
   }
-  // A pocket at the photo border bounded only by film (a swirl cut by the border, colour
-  // mixtures on a steep ring there) is the film's too when it is small.
-  for (let id = 1; id <= parts.count; id++) if (border[id] && parts.sizes[id] > BORDER_POCKET_SHARE * searchArea) open[id] = 1;
+  // What reaches the photo border without touching surroundings is film's when it is small, or
+  // holds film colours among its mixtures (dense fringes cut by the border); a large area almost
+  // wholly of colours no film gives there (a coloured mat, a label) is not.
+  for (let id = 1; id <= parts.count; id++) {
+    if (border[id] && parts.sizes[id] > BORDER_POCKET_SHARE * searchArea && unexplained[id] > BORDER_UNEXPLAINED_SHARE * parts.sizes[id]) open[id] = 1;
+  }
   const out = new Uint8Array(cells);
   for (let c = 0; c < cells; c++) {
     const id = parts.labels[c];

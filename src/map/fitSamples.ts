@@ -10,6 +10,8 @@ import { PixelStatus } from './types.js';
 
 const BINS = 16;
 const OVERSAMPLE = 8;
+/** Largest share of the sample one colour bin may hold. */
+const MAX_BIN_SHARE = 0.15;
 
 /** Up to about `target` film pixels as n × 3 encoded colours; `balanced` false: the plain stride sample. */
 export function sampleFitPixels(rgb: Float32Array, status: Uint8Array, pixels: number, target: number, balanced = true): Float32Array {
@@ -30,18 +32,30 @@ export function sampleFitPixels(rgb: Float32Array, status: Uint8Array, pixels: n
     counts[bin]++;
     n++;
   }
-  const cap = balanced ? waterLevel(counts, Math.min(target, n)) : n;
+  // Each colour bin keeps at most MAX_BIN_SHARE of the candidates (a uniform surface is capped);
+  // the other bins keep theirs in proportion, so rare colour mixtures do not gain weight.
+  const cap = balanced ? Math.max(1, Math.ceil(MAX_BIN_SHARE * n)) : n;
+  let keptTotal = 0;
+  for (let bin = 0; bin < counts.length; bin++) keptTotal += counts[bin] < cap ? counts[bin] : cap;
   const seenInBin = new Uint32Array(counts.length);
-  const out = new Float32Array(n * 3);
+  const every = Math.max(1, keptTotal / Math.max(1, target));
+  const out = new Float32Array(Math.min(n, target + 1) * 3);
   let m = 0;
+  let kept = 0;
   // Within a bin, keep an evenly spread kb of its candidates (kb = min(count, cap)): candidate j
-  // is kept when ⌊(j+1)·kb/count⌋ steps up, so the kept ones stay spread over the photo.
+  // is kept when ⌊(j+1)·kb/count⌋ steps up; of the kept ones, every `every`-th is taken.
   for (let k = 0; k < n; k++) {
     const bin = binOf[k];
     const total = counts[bin];
     const keep = total < cap ? total : cap;
     const j = seenInBin[bin]++;
     if (Math.floor(((j + 1) * keep) / total) === Math.floor((j * keep) / total)) continue;
+    if (Math.floor((kept + 1) / every) === Math.floor(kept / every)) {
+      kept++;
+      continue;
+    }
+    kept++;
+    if (m * 3 >= out.length) break;
     const i = candidates[k];
     out[m * 3] = rgb[i * 3];
     out[m * 3 + 1] = rgb[i * 3 + 1];
@@ -54,23 +68,4 @@ export function sampleFitPixels(rgb: Float32Array, status: Uint8Array, pixels: n
 function quantise(value: number): number {
   const q = Math.floor(value * BINS);
   return q < 0 ? 0 : q >= BINS ? BINS - 1 : q;
-}
-
-/** The largest per-bin cap whose total kept count stays within `target`. */
-function waterLevel(counts: Uint32Array, target: number): number {
-  let low = 1;
-  let high = 1;
-  for (let b = 0; b < counts.length; b++) if (counts[b] > high) high = counts[b];
-  const kept = (cap: number): number => {
-    let total = 0;
-    for (let b = 0; b < counts.length; b++) total += counts[b] < cap ? counts[b] : cap;
-    return total;
-  };
-  if (kept(high) <= target) return high;
-  while (high - low > 1) {
-    const mid = (low + high) >> 1;
-    if (kept(mid) <= target) low = mid;
-    else high = mid;
-  }
-  return Math.max(1, low);
 }

@@ -62,6 +62,8 @@ export interface Components {
   readonly count: number;
   /** Cells per component, indexed by id (index 0 unused). */
   readonly sizes: Int32Array;
+  /** First cell (row-major) of each component, indexed by id (index 0 unused). */
+  readonly first: Int32Array;
 }
 
 /**
@@ -79,10 +81,12 @@ export function labelComponents(
   const labels = new Int32Array(cells);
   const stack = new Int32Array(cells);
   const sizes: number[] = [0];
+  const first: number[] = [0];
   let count = 0;
   for (let seed = 0; seed < cells; seed++) {
     if (!mask[seed] || labels[seed] !== 0) continue;
     const id = ++count;
+    first.push(seed);
     let top = 0;
     stack[top++] = seed;
     labels[seed] = id;
@@ -110,5 +114,5 @@ export function labelComponents(
     }
     sizes.push(size);
   }
-  return { labels, count, sizes: Int32Array.from(sizes) };
+  return { labels, count, sizes: Int32Array.from(sizes), first: Int32Array.from(first) };
 }

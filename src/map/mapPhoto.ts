@@ -123,7 +123,7 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
     threads: options.threads ?? defaultThreads(),
     chromaWeight: chromaWeightFor(photo.format, photo.chromaSubsampling),
     eightBit: photo.bitDepth === 8,
-    filmArea: options.filmArea ?? 'whole',
+    filmArea: options.filmArea ?? 'auto',
     expectNm: options.expectNm ?? null,
   });
   return {

@@ -131,7 +131,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
     clock = now;
   };
   lap('prepare');
-  const autoArea = input.filmArea === 'auto';
+  const autoArea = input.filmArea !== 'whole';
   const asserted = anchors.length > 0 || (input.expectNm ?? null) !== null;
   const blockOf = Math.max(1, Math.ceil(Math.sqrt(pixels / MAX_GRID_CELLS)));
   const anchorCellsOf = anchors

@@ -122,7 +122,7 @@ export interface MapOptions {
    * worker threads); default: the available cores, at most 4. The map is the same whatever the count.
    */
   readonly threads?: number;
-  /** `auto`: find the film area; `whole` (default for now): every pixel in region/mask is film. */
+  /** `auto` (default): find the film area; `whole`: every pixel in region/mask is film. */
   readonly filmArea?: FilmAreaMode;
   /**
    * `--expect MIN-MAX`: the thickness range the film is known to lie in (nm); orders and the fit
