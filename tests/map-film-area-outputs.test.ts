@@ -345,9 +345,9 @@ describe('CLI: summary line, --film-area and --expect', () => {
 
   it('series: --film-area and --expect reach each frame\'s MapOptions and change the settings hash', async () => {
     const base: SeriesCliOptions = { stack: 'soap-film', light: 'D65', workers: '1', chunkFrames: '10', maxThickness: '2000', report: false, out: 'unused' };
-    const auto = await seriesOptionsFrom(['a.png'], { ...base, filmArea: 'auto' }, () => undefined);
-    const whole = await seriesOptionsFrom(['a.png'], base, () => undefined);
-    const expected = await seriesOptionsFrom(['a.png'], { ...base, filmArea: 'auto', expect: '300-600' }, () => undefined);
+    const auto = await seriesOptionsFrom(['a.png'], base, () => undefined);
+    const whole = await seriesOptionsFrom(['a.png'], { ...base, filmArea: 'whole' }, () => undefined);
+    const expected = await seriesOptionsFrom(['a.png'], { ...base, expect: '300-600' }, () => undefined);
     const configOf = (o: typeof auto) => (o.processor as { config: Parameters<typeof mapOptionsFromConfig>[0] }).config;
     expect(mapOptionsFromConfig(configOf(auto))).toMatchObject({ filmArea: 'auto', expectNm: null });
     expect(mapOptionsFromConfig(configOf(whole))).toMatchObject({ filmArea: 'whole' });

@@ -26,7 +26,8 @@
  *    holds at least half of the photo border), else the evidence cannot decide: undecided (the
  *    caller warns). Otherwise dark surroundings (a cloth around a film held in view).
  * 3. Cells enclosed by the film (unexplained colour mixtures on steep rings, small isolated
- *    matches) belong to it; what is not enclosed is not film (by reason). Clipped cells are glints.
+ *    matches) belong to it; what is not enclosed is not film (by reason). Clipped cells and a halo
+ *    around them (four cells plus the glint's radius) are glints.
  */
 import { type Components, dilateSquare, erodeSquare, labelComponents } from './gridMorphology.js';
 import type { FilmAreaExclusions } from './types.js';
@@ -93,6 +94,8 @@ const BLACK_FILM_AT_BORDER = 0.6;
 const UNDECIDED_FROM = 0.15;
 /** Cells of colour mixtures looked through when judging what a dark region borders. */
 const MIXTURE_LOOK_THROUGH = 3;
+/** Cells around clipped highlights (beyond their own radius) counted as their glint. */
+const GLINT_HALO = 4;
 /** Film holds at least this share of the photo border: a close-up of the film. */
 const CLOSE_UP_BORDER_SHARE = 0.5;
 /** A non-film pocket at the photo border, bounded by film, up to this share of the search area is film. */
@@ -119,6 +122,7 @@ export function findFilmArea(input: FilmAreaInput): FilmAreaCells {
   for (let id = 1; id <= seeds.count; id++) largest = Math.max(largest, seeds.sizes[id]);
   const minSize = Math.max(MIN_FILM_CELLS, MIN_FILM_SHARE * searchArea, largest / 20);
   const { film, dropped } = keepComponents(seeds, input, minSize);
+  dropPatchwork(film, dropped, seeds, input);
   // Undo the opening near the seeds where thickness continues (r + 1 steps of conditional growth),
   // but not into neutral surroundings.
   const growable = new Uint8Array(cells);
@@ -175,9 +179,35 @@ export function findFilmArea(input: FilmAreaInput): FilmAreaCells {
       enclosed.set(enclosedByFilm(film, cellClass, verdict, dropped, significantDark, w, h, searchArea));
     }
   }
+  // A glint's halo (light scattered around a clipped highlight) brightens the film beside it:
+  // GLINT_HALO cells around clipped cells are part of the glint.
+  const clipped = new Uint8Array(cells);
+  for (let c = 0; c < cells; c++) clipped[c] = cellClass[c] === CellClass.saturated ? 1 : 0;
+  const glints = labelComponents(clipped, w, h, 8);
+  // Single clipped cells (noise at a bright colour) have no halo to speak of; a glint's halo
+  // reaches GLINT_HALO cells plus its own radius around it.
+  const halo = new Uint8Array(cells);
+  const radii = new Map<number, Uint8Array>();
+  for (let c = 0; c < cells; c++) {
+    if (!clipped[c]) continue;
+    const size = glints.sizes[glints.labels[c]];
+    if (size < 4) continue;
+    const radius = GLINT_HALO + Math.ceil(Math.sqrt(size / Math.PI));
+    let mask = radii.get(radius);
+    if (!mask) radii.set(radius, (mask = new Uint8Array(cells)));
+    mask[c] = 1;
+  }
+  for (const [radius, mask] of radii) {
+    const grown = dilateSquare(mask, w, h, radius);
+    for (let c = 0; c < cells; c++) halo[c] |= grown[c];
+  }
   let found = false;
   for (let c = 0; c < cells; c++) {
     const k = cellClass[c];
+    if (halo[c] && k !== CellClass.excluded) {
+      verdict[c] = CellVerdict.glint;
+      continue;
+    }
     if (k === CellClass.excluded) {
       verdict[c] = CellVerdict.excluded;
       continue;
@@ -195,6 +225,68 @@ export function findFilmArea(input: FilmAreaInput): FilmAreaCells {
     else verdict[c] = CellVerdict.notFilmColour;
   }
   return { verdict, found, undecidedCells };
+}
+
+/** This many flat film components, each apart from the others, make a patchwork (a colour chart). */
+const PATCHWORK_COUNT = 3;
+
+/**
+ * A colour chart or a row of labels: several flat patches, each apart from every other (no
+ * kept film within two cells), whose colours happen to match some thickness. A film is one
+ * continuous field, or patches that touch (a step wafer): PATCHWORK_COUNT or more flat,
+ * separate patches are not film, unless the user asserted the thickness.
+ */
+function dropPatchwork(film: Uint8Array, dropped: Uint8Array, seeds: Components, input: FilmAreaInput): void {
+  if (input.filmAsserted) return;
+  const { gridWidth: w, gridHeight: h, cellBrightness } = input;
+  const cells = w * h;
+  const parts = labelComponents(film, w, h, 8);
+  if (parts.count < PATCHWORK_COUNT) return;
+  const sum = new Float64Array(parts.count + 1);
+  const squares = new Float64Array(parts.count + 1);
+  for (let c = 0; c < cells; c++) {
+    const id = parts.labels[c];
+    if (id === 0) continue;
+    sum[id] += cellBrightness[c];
+    squares[id] += cellBrightness[c] ** 2;
+  }
+  // Apart: no other part within two cells.
+  const apart = new Uint8Array(parts.count + 1).fill(1);
+  for (let c = 0; c < cells; c++) {
+    const id = parts.labels[c];
+    if (id === 0) continue;
+    const x = c % w;
+    const y = (c - x) / w;
+    for (let dy = -2; dy <= 2; dy++) {
+      const ny = y + dy;
+      if (ny < 0 || ny >= h) continue;
+      for (let dx = -2; dx <= 2; dx++) {
+        const nx = x + dx;
+        if (nx < 0 || nx >= w) continue;
+        const other = parts.labels[ny * w + nx];
+        if (other !== 0 && other !== id) apart[id] = 0;
+      }
+    }
+  }
+  const patch = new Uint8Array(parts.count + 1);
+  let patches = 0;
+  for (let id = 1; id <= parts.count; id++) {
+    const n = parts.sizes[id];
+    const mean = sum[id] / n;
+    const flat = Math.sqrt(Math.max(0, squares[id] / n - mean * mean)) < FLAT_BRIGHTNESS;
+    if (flat && apart[id]) {
+      patch[id] = 1;
+      patches++;
+    }
+  }
+  if (patches < PATCHWORK_COUNT) return;
+  for (let c = 0; c < cells; c++) {
+    if (patch[parts.labels[c]]) {
+      film[c] = 0;
+      dropped[c] = 1;
+    }
+  }
+  void seeds;
 }
 
 /** Mean chroma below this: a neutral surface (grey, white, silver), whose colour many thicknesses give. */

@@ -139,14 +139,16 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
     .map((a) => Math.floor(a.y / blockOf) * Math.ceil(width / blockOf) + Math.floor(a.x / blockOf));
   // 1. Photo-formation parameters, from film pixels (colour-balanced samples, see fitSamples.ts).
   let fit: PhotoFormationFit | null = null;
-  const fitOnFilm = (start: ExposureParameters | null): ExposureParameters => {
-    const plain = sampleFitPixels(rgb, status, pixels, FIT_SAMPLES);
+  let fitSampleCount = 0;
+  const fitOnFilm = (start: ExposureParameters | null, balanced: boolean): ExposureParameters => {
+    const plain = sampleFitPixels(rgb, status, pixels, FIT_SAMPLES, balanced);
     // Anchors take part in the fit: their pixels are samples of known thickness.
     const anchored = anchorSamples(rgb, status, width, height, anchors, table, plain.length / 3, distinctColourCount(sampleFitPixels(rgb, status, pixels, FIT_SAMPLES, false)));
     const samplesRgb = anchored ? concatFloat32(plain, anchored.colours) : plain;
     const fixedIndex = anchored ? new Int32Array(samplesRgb.length / 3).fill(-1) : null;
     if (anchored && fixedIndex) fixedIndex.set(anchored.index, plain.length / 3);
     const samples = space ? toMatchSpace(space, samplesRgb, new Float32Array(samplesRgb.length)) : samplesRgb;
+    fitSampleCount = samples.length / 3;
     if (samples.length < 3 * MIN_FIT_SAMPLES) {
       fit = null;
       return { exposure: 1, whiteBalance: [1, 1, 1], flare: [0, 0, 0] };
@@ -165,7 +167,9 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
     });
     return fit.parameters;
   };
-  let parameters: ExposureParameters = input.exposureFixed ?? fitOnFilm(input.fitStart ?? null);
+  // Before the film area is known, a colour-balanced sample keeps a large uniform background
+  // from outvoting the film; once it is known, the film's own pixels are sampled plainly.
+  let parameters: ExposureParameters = input.exposureFixed ?? fitOnFilm(input.fitStart ?? null, autoArea);
 
   lap('fit');
   const periodIndex = input.orderPeriodNm / table.stepNm;
@@ -182,12 +186,15 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   if (autoArea) {
     area = filmAreaOf(cells, gridWidth, gridHeight, block, noiseSigma, periodIndex, maxJump, table.rgbLinear, asserted, anchorCellsOf);
     const excluded = applyFilmArea(area, status, width, height, block, gridWidth, false);
-    // What was fitted included pixels that are not film: fit again on the film alone, from there.
+    // What was fitted included pixels that are not film: fit again on the film alone (a plain
+    // sample) and class the cells again.
     if (!input.exposureFixed && area.found && excluded > 0.01 * pixels) {
-      resetDerivedStatus(status);
+      resetDerivedStatus(status, rgb);
       applyFilmArea(area, status, width, height, block, gridWidth, false);
-      parameters = fitOnFilm(parameters);
-      resetDerivedStatus(status);
+      // From the scan (or the series' start) again: the first fit may sit in a minimum the
+      // background pulled it into.
+      parameters = fitOnFilm(input.fitStart ?? null, false);
+      resetDerivedStatus(status, rgb);
       cells = matchCells(rgb, status, width, height, block, gridWidth, gridHeight, table, parameters, noiseSigma, periodIndex, space, createCandidateCube(CUBE_LEVELS, PER_CELL), scratch);
       area = filmAreaOf(cells, gridWidth, gridHeight, block, noiseSigma, periodIndex, maxJump, table.rgbLinear, asserted, anchorCellsOf);
     }
@@ -204,7 +211,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
     const currentFit = fit as PhotoFormationFit | null;
     if (currentFit === null) {
       warnings.push(
-        `too few usable film pixels to fit exposure, white balance and flare; assumed exposure 1, no flare (give --calibration for real numbers)`,
+        `only ${fitSampleCount} usable film pixels: too few to fit exposure, white balance and flare; assumed exposure 1, no flare (give --calibration for real numbers)`,
       );
     } else {
       const distinct = distinctColourCount(sampleFitPixels(rgb, status, pixels, FIT_SAMPLES, false));
@@ -823,10 +830,12 @@ function applyFilmArea(
 }
 
 /** Undoes what the film area and the dark test wrote (before they are decided again). */
-function resetDerivedStatus(status: Uint8Array): void {
+function resetDerivedStatus(status: Uint8Array, rgb: Float32Array): void {
   for (let i = 0; i < status.length; i++) {
     const s = status[i];
-    if (s === PixelStatus.dark || s === PixelStatus.notFilm || s === PixelStatus.undecided) status[i] = PixelStatus.ok;
+    if (s === PixelStatus.dark || s === PixelStatus.notFilm || s === PixelStatus.undecided) {
+      status[i] = rgb[i * 3] >= SATURATED || rgb[i * 3 + 1] >= SATURATED || rgb[i * 3 + 2] >= SATURATED ? PixelStatus.saturated : PixelStatus.ok;
+    }
   }
 }
 
