@@ -89,6 +89,11 @@ const CUBE_LEVELS = 32;
 const MAX_GRID_CELLS = 300_000;
 const SATURATED = 0.996;
 const MIN_FIT_SAMPLES = 64;
+/**
+ * The photo-formation fit is made again on the film alone when the film area leaves out more than
+ * this share of the photo (a background, a chuck, a bench); below it the first fit stands.
+ */
+const REFIT_EXCLUDED_SHARE = 0.1;
 /** Fewer distinct colours than this: the photo-formation fit is reported as poorly determined. */
 const MIN_DISTINCT_COLOURS = 12;
 /** Pixels sampled (on a regular stride) for the photo-formation fit. */
@@ -188,12 +193,13 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
     const excluded = applyFilmArea(area, status, width, height, block, gridWidth, false);
     // What was fitted included pixels that are not film: fit again on the film alone (a plain
     // sample) and class the cells again.
-    if (!input.exposureFixed && area.found && excluded > 0.01 * pixels) {
+    if (!input.exposureFixed && area.found && excluded > REFIT_EXCLUDED_SHARE * pixels) {
       resetDerivedStatus(status, rgb);
       applyFilmArea(area, status, width, height, block, gridWidth, false);
-      // From the scan (or the series' start) again: the first fit may sit in a minimum the
-      // background pulled it into.
-      parameters = fitOnFilm(input.fitStart ?? null, false);
+      // Without anchors from the scan (or the series' start) again: the first fit may sit in a
+      // minimum the background pulled it into. With anchors from the first fit, whose order the
+      // anchors pinned.
+      parameters = fitOnFilm(anchors.length > 0 ? parameters : input.fitStart ?? null, false);
       resetDerivedStatus(status, rgb);
       cells = matchCells(rgb, status, width, height, block, gridWidth, gridHeight, table, parameters, noiseSigma, periodIndex, space, createCandidateCube(CUBE_LEVELS, PER_CELL), scratch);
       area = filmAreaOf(cells, gridWidth, gridHeight, block, noiseSigma, periodIndex, maxJump, table.rgbLinear, asserted, anchorCellsOf);
