@@ -10,7 +10,7 @@
  */
 import { readFile } from 'node:fs/promises';
 import { describeJsonSyntaxError, noteInputFile, regularFileProblemSync } from '../io/inputFiles.js';
-import { InputError, UsageError } from '../cli/errors.js';
+import { InputError, UsageError } from '../errors.js';
 import type { ExposureParameters } from '../map/types.js';
 
 export const CALIBRATION_VERSION = 1;

@@ -3,7 +3,7 @@
  * median of the encoded values (robust to dust and edge pixels), the standard error of that
  * colour, and the share of clipped pixels. Rectangles must lie inside the photo and be non-empty.
  */
-import { UsageError } from '../cli/errors.js';
+import { UsageError } from '../errors.js';
 
 export interface KnownRegion {
   /** x, y, width, height in pixels. */

@@ -7,7 +7,7 @@
 import { open, rename, unlink } from 'node:fs/promises';
 import { basename, dirname, join } from 'node:path';
 import { randomBytes } from 'node:crypto';
-import { InputError } from '../cli/errors.js';
+import { InputError } from '../errors.js';
 import { registerTempFile, unregisterTempFile } from './tempFiles.js';
 
 /** Plain words for the usual write failures (the temp file's name means nothing to a user). */

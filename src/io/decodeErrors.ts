@@ -2,7 +2,7 @@
  * Maps the image codec's error messages to plain InputError messages that name the file.
  * The codec's wording varies between formats and versions; unknown messages are kept (one line).
  */
-import { InputError } from '../cli/errors.js';
+import { InputError } from '../errors.js';
 
 export function decodeInputError(path: string, error: unknown, maxPixels: number): InputError {
   const detail = (error instanceof Error ? error.message : String(error)).replace(/\s*\n\s*/g, ' ').replace(/Warning treated as error due to failOn setting\s*/gi, '').trim();

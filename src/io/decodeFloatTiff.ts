@@ -5,7 +5,7 @@
  * tiled float TIFFs are handed to the image codec by `decodeFloatTiffAny`/`readFloatTiff`.
  */
 import sharp from 'sharp';
-import { InputError } from '../cli/errors.js';
+import { InputError } from '../errors.js';
 import { readInputFile } from './readInputFile.js';
 import { decodeInputError } from './decodeErrors.js';
 import { MAX_PIXELS } from './limits.js';

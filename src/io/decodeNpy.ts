@@ -3,7 +3,7 @@
  * Supported element types: f4, f8 (either byte order), u1, u2, i4. Fortran-ordered arrays are
  * reordered to C order so callers always index row-major.
  */
-import { InputError } from '../cli/errors.js';
+import { InputError } from '../errors.js';
 import { readInputFile } from './readInputFile.js';
 import { NPY_MAGIC, checkShape, type NpyData } from './npyFormat.js';
 

@@ -8,7 +8,7 @@ import { constants, statSync } from 'node:fs';
 import { notedInputFiles } from './inputFiles.js';
 import { dirname, resolve } from 'node:path';
 import { describeWriteError } from './atomicWriteFile.js';
-import { InputError, UsageError } from '../cli/errors.js';
+import { InputError, UsageError } from '../errors.js';
 
 export interface EnsureOutputDirOptions {
   /** Input files of the run; none of them may be an output. */

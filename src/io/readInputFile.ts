@@ -5,7 +5,7 @@
  */
 import type { Stats } from 'node:fs';
 import { readFile, stat } from 'node:fs/promises';
-import { InputError } from '../cli/errors.js';
+import { InputError } from '../errors.js';
 
 function codeOf(error: unknown): string | undefined {
   return typeof error === 'object' && error !== null && 'code' in error ? String((error as { code: unknown }).code) : undefined;

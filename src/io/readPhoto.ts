@@ -12,7 +12,7 @@
  *   16-bit file is therefore read exactly; any other profile is named in `photo.warnings`.
  */
 import sharp, { type Metadata, type OutputInfo } from 'sharp';
-import { InputError } from '../cli/errors.js';
+import { InputError } from '../errors.js';
 import { MAX_PIXELS } from './limits.js';
 import { parseExifTime } from './exifTime.js';
 import { readInputFile } from './readInputFile.js';

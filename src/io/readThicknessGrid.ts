@@ -7,7 +7,7 @@
  * The format is sniffed from the content, not the suffix. NaN marks pixels without a value.
  */
 import sharp, { type Metadata } from 'sharp';
-import { InputError } from '../cli/errors.js';
+import { InputError } from '../errors.js';
 import { readInputFile } from './readInputFile.js';
 import { decodeNpy } from './decodeNpy.js';
 import { decodeFloatTiffAny, type FloatGrid } from './decodeFloatTiff.js';

@@ -17,7 +17,7 @@
 import { existsSync, fsyncSync, mkdirSync, openSync, closeSync, readFileSync, readdirSync, renameSync, rmSync, writeFileSync } from 'node:fs';
 import { randomBytes } from 'node:crypto';
 import { basename, dirname, join, sep } from 'node:path';
-import { InputError } from '../cli/errors.js';
+import { InputError } from '../errors.js';
 import { registerTempFile, unregisterTempFile } from './tempFiles.js';
 
 export const STAGING_PREFIX = '.lamella-staging-';

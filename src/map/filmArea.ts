@@ -354,9 +354,7 @@ function keepComponents(seeds: Components, input: FilmAreaInput, minSize: number
     const v = input.cellBrightness[c];
     sum[id] += v;
     squares[id] += v * v;
-    const x = c % w;
-    const y = (c - x) / w;
-    if (x === 0 || y === 0 || x === w - 1 || y === h - 1) edges[id] = 1;
+    if (onBorder(c, w, h)) edges[id] = 1;
   }
   const anchored = new Uint8Array(parts.count + 1);
   for (const c of input.anchorCells) anchored[parts.labels[c]] = 1;
@@ -436,19 +434,8 @@ function classifyDark(dark: Components, input: FilmAreaInput, film: Uint8Array):
   // Does the film itself run off the photo (or the region)? Only then can black at the border be
   // film; and when film holds most of the photo's border besides this dark region, the photo is a
   // close-up of the film and black at the border beside thin film is black film.
-  let filmAtBorder = false;
-  let borderCells = 0;
-  let filmBorderCells = 0;
-  for (let c = 0; c < w * h; c++) {
-    const x = c % w;
-    const y = (c - x) / w;
-    if (!(x === 0 || y === 0 || x === w - 1 || y === h - 1) || cellClass[c] === CellClass.excluded) continue;
-    borderCells++;
-    if (film[c]) {
-      filmAtBorder = true;
-      filmBorderCells++;
-    }
-  }
+  const { borderCells, filmBorderCells } = filmOnBorder(film, cellClass, w, h);
+  const filmAtBorder = filmBorderCells > 0;
   const foreign = new Float64Array(dark.count + 1);
   for (let c = 0; c < w * h; c++) {
     const id = dark.labels[c];
@@ -504,7 +491,7 @@ function classifyDark(dark: Components, input: FilmAreaInput, film: Uint8Array):
     if (!border[id]) out[id] = share >= BLACK_FILM_INSIDE ? CellVerdict.film : CellVerdict.darkSurroundings;
     else if (share >= BLACK_FILM_AT_BORDER) out[id] = CellVerdict.film;
     else if (filmAtBorder && (thin[id] + band[id]) >= UNDECIDED_FROM * (thin[id] + band[id] + foreign[id] + other[id] - band[id])) {
-      out[id] = borderCells > 0 && filmBorderCells >= CLOSE_UP_BORDER_SHARE * borderCells ? CellVerdict.film : CellVerdict.undecided;
+      out[id] = closeUp(borderCells, filmBorderCells) ? CellVerdict.film : CellVerdict.undecided;
     }
     else out[id] = CellVerdict.darkSurroundings;
   }
@@ -550,18 +537,33 @@ function settleThinDark(darkMask: Uint8Array, darkOpened: Uint8Array, verdict: U
  * touch no surroundings (large dark surroundings, dropped neutral surfaces), and at the photo
  * border are small or hold film colours among their mixtures.
  */
-/** Whether film holds at least half of the photo border (of the search area's border cells). */
-function isCloseUp(film: Uint8Array, cellClass: Uint8Array, w: number, h: number): boolean {
+/** Border cells of the grid inside the search area, and how many of them are film. */
+function filmOnBorder(film: Uint8Array, cellClass: Uint8Array, w: number, h: number): { borderCells: number; filmBorderCells: number } {
   let borderCells = 0;
   let filmBorderCells = 0;
   for (let c = 0; c < w * h; c++) {
-    const x = c % w;
-    const y = (c - x) / w;
-    if (!(x === 0 || y === 0 || x === w - 1 || y === h - 1) || cellClass[c] === CellClass.excluded) continue;
+    if (!onBorder(c, w, h) || cellClass[c] === CellClass.excluded) continue;
     borderCells++;
     if (film[c]) filmBorderCells++;
   }
+  return { borderCells, filmBorderCells };
+}
+
+/** Whether film holds at least half of the photo border (of the search area's border cells). */
+function isCloseUp(film: Uint8Array, cellClass: Uint8Array, w: number, h: number): boolean {
+  const { borderCells, filmBorderCells } = filmOnBorder(film, cellClass, w, h);
+  return closeUp(borderCells, filmBorderCells);
+}
+
+function closeUp(borderCells: number, filmBorderCells: number): boolean {
   return borderCells > 0 && filmBorderCells >= CLOSE_UP_BORDER_SHARE * borderCells;
+}
+
+/** Whether cell c lies on the grid's outer edge. */
+function onBorder(c: number, w: number, h: number): boolean {
+  const x = c % w;
+  const y = (c - x) / w;
+  return x === 0 || y === 0 || x === w - 1 || y === h - 1;
 }
 
 function enclosedByFilm(
@@ -585,9 +587,7 @@ function enclosedByFilm(
   for (let c = 0; c < cells; c++) {
     const id = parts.labels[c];
     if (id === 0) continue;
-    const x = c % w;
-    const y = (c - x) / w;
-    if (x === 0 || y === 0 || x === w - 1 || y === h - 1) border[id] = 1;
+    if (onBorder(c, w, h)) border[id] = 1;
     if (cellClass[c] === CellClass.unexplained) unexplained[id]++;
     if (dropped[c] || (verdict[c] === CellVerdict.darkSurroundings && significantDark[c]) || significantDark[c] === 2) open[id] = 1;
   }

@@ -10,7 +10,7 @@ import { unlink } from 'node:fs/promises';
 import { basename } from 'node:path';
 import { join } from 'node:path';
 import { resolveLight } from '../colour/index.js';
-import { InputError } from '../cli/errors.js';
+import { InputError } from '../errors.js';
 import { readPhoto } from '../io/readPhoto.js';
 import { MAP_MAX_PIXELS } from '../io/limits.js';
 import { writeNpy } from '../io/encodeNpy.js';

@@ -10,7 +10,7 @@ import { glob } from 'tinyglobby';
 import { compareNatural } from './naturalOrder.js';
 import { isImageFileName } from './imageExtensions.js';
 import type { FrameJob } from './types.js';
-import { InputError } from '../cli/errors.js';
+import { InputError } from '../errors.js';
 
 export interface ExpandedInputs {
   readonly frames: FrameJob[];
