@@ -24,12 +24,18 @@ export function pendingTempFiles(): string[] {
 export function cleanupTempFiles(): number {
   let removed = 0;
   for (const path of inFlight) {
-    try {
-      // A file, or a staging folder of a set being written (./writeOutputSet.ts).
-      rmSync(path, { recursive: true });
-      removed++;
-    } catch {
-      // Already gone (renamed into place or removed): nothing to do.
+    // A file, or a staging folder of a set being written (./writeOutputSet.ts). An image encoder
+    // running on a libuv thread may create a file in the folder while it is being emptied (the
+    // folder's removal then fails with ENOTEMPTY): try again until it is gone.
+    for (let attempt = 0; attempt < 20; attempt++) {
+      try {
+        rmSync(path, { recursive: true, maxRetries: 3, retryDelay: 5 });
+        removed++;
+        break;
+      } catch (error) {
+        // Already gone (renamed into place or removed): nothing to do.
+        if ((error as NodeJS.ErrnoException).code === 'ENOENT') break;
+      }
     }
     inFlight.delete(path);
   }
