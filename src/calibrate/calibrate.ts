@@ -5,7 +5,7 @@
  * the observed and the fitted colour, both taken as sRGB (D65).
  */
 import { basename } from 'node:path';
-import { buildCamera, convertXyzToLab, deltaE2000, decodeSrgb, resolveLight, LINEAR_SRGB_TO_XYZ, SRGB_WHITE_XYZ } from '../colour/index.js';
+import { cameraFromSpec, type CameraSpec, convertXyzToLab, deltaE2000, decodeSrgb, resolveLight, LINEAR_SRGB_TO_XYZ, SRGB_WHITE_XYZ } from '../colour/index.js';
 import { readPhoto } from '../io/readPhoto.js';
 import { MAP_MAX_PIXELS } from '../io/limits.js';
 import type { Stack } from '../optics/types.js';
@@ -19,6 +19,8 @@ export interface CalibrateOptions {
   readonly stackSpec: string;
   readonly light: string;
   readonly whiteBalanceLight?: string | null;
+  /** The camera (../colour/cameraSpec.ts): `srgb` (default), `linear` or a sensitivities CSV. */
+  readonly camera?: CameraSpec | null;
   readonly angleRad: number;
   readonly known: readonly KnownRegion[];
   readonly fit: readonly CalibrationParameter[];
@@ -42,7 +44,7 @@ export function calibrateDecoded(
 ): CalibrationRecord {
   const light = resolveLight(options.light);
   const whiteBalance = options.whiteBalanceLight ? resolveLight(options.whiteBalanceLight) : undefined;
-  const camera = buildCamera({ light, whiteBalance });
+  const camera = cameraFromSpec(options.camera, light, whiteBalance);
   const regions = knownRegionColours(rgb, width, height, options.known);
   const result = fitCalibration({ stack: options.stack, camera, angleRad: options.angleRad, regions, fit: options.fit });
   const known = regions.map((r, k) => ({
@@ -51,7 +53,7 @@ export function calibrateDecoded(
     pixels: r.pixels,
     observed_srgb: r.colour.map(round4),
     fitted_srgb: result.predicted[k].map(round4),
-    residual_delta_e2000: round4(deltaE2000(labOf(r.colour), labOf(result.predicted[k]))),
+    residual_delta_e2000: round4(deltaE2000(labOf(r.colour, camera.encoding), labOf(result.predicted[k], camera.encoding))),
     clipped_fraction: round4(r.clippedFraction),
   }));
   const { parameters } = result;
@@ -74,6 +76,7 @@ export function calibrateDecoded(
       white_balance_light: options.whiteBalanceLight ?? null,
       angle_deg: (options.angleRad * 180) / Math.PI,
       camera: camera.description,
+      camera_mode: options.camera ?? 'srgb',
     },
     fitted_parameters: result.fitted,
     fitted: {
@@ -97,8 +100,9 @@ const MISFIT_DELTA_E = 2;
 
 const WHITE = SRGB_WHITE_XYZ.map((v) => v * 100);
 
-function labOf(encoded: readonly number[]): [number, number, number] {
-  const linear = encoded.map((v) => decodeSrgb(Math.min(1, Math.max(0, v))));
+/** CIELAB of an encoded colour, read as sRGB primaries (a raw camera's channels approximately so). */
+function labOf(encoded: readonly number[], encoding: 'srgb' | 'linear'): [number, number, number] {
+  const linear = encoded.map((v) => (encoding === 'linear' ? Math.min(1, Math.max(0, v)) : decodeSrgb(Math.min(1, Math.max(0, v)))));
   const m = LINEAR_SRGB_TO_XYZ;
   const xyz = [0, 1, 2].map((r) => 100 * (m[r * 3] * linear[0] + m[r * 3 + 1] * linear[1] + m[r * 3 + 2] * linear[2]));
   return convertXyzToLab(xyz, WHITE);

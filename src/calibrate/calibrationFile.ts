@@ -97,7 +97,7 @@ const ANGLE_TOLERANCE_DEG = 0.5;
  */
 export async function loadCalibrationForRun(
   file: string,
-  run: { stack: string; light: string; angleRad: number; ignoreMismatch: boolean; whiteBalanceLight?: string | null },
+  run: { stack: string; light: string; angleRad: number; ignoreMismatch: boolean; whiteBalanceLight?: string | null; camera?: string | null },
 ): Promise<CalibrationForRun> {
   const calibration = await readCalibrationFile(file);
   const { appliesTo } = calibration;
@@ -114,6 +114,13 @@ export async function loadCalibrationForRun(
       const name = (v: unknown): string => (v === null ? 'the light itself' : `'${String(v)}'`);
       throw new UsageError(
         `--calibration ${file} was made with the camera white-balanced for ${name(madeForBalance)}, not ${name(run.whiteBalanceLight)} (give the same --white-balance, or add --ignore-calibration-mismatch to use it anyway)`,
+      );
+    }
+    // Files written before `--camera` existed were all made with the sRGB camera.
+    const madeWithCamera = typeof appliesTo.camera_mode === 'string' ? appliesTo.camera_mode : 'srgb';
+    if (run.camera !== undefined && madeWithCamera !== (run.camera ?? 'srgb')) {
+      throw new UsageError(
+        `--calibration ${file} was made with --camera ${madeWithCamera}, not ${run.camera ?? 'srgb'} (give the same --camera, or add --ignore-calibration-mismatch to use it anyway)`,
       );
     }
     const fittedNames = calibration.raw.fitted_parameters;

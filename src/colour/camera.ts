@@ -39,6 +39,12 @@ export interface CameraOptions {
   /** Integration grid; default 380–780 nm at 1 nm (ignored for a line light). */
   readonly grid?: GridSpec;
   readonly adaptation?: AdaptationMethod;
+  /**
+   * The default sRGB camera, but writing values proportional to light (no transfer function):
+   * scientific cameras and raw converters' linear output with sRGB primaries. Ignored with
+   * `sensitivities` (a raw camera is linear already).
+   */
+  readonly linear?: boolean;
 }
 
 export function buildCamera(options: CameraOptions): Camera {
@@ -71,8 +77,8 @@ export function buildCamera(options: CameraOptions): Camera {
   return {
     wavelengthsNm,
     weights,
-    encoding: 'srgb',
-    description: `sRGB camera under ${light.name} (CIE ${observer} observer), ${wbText}, Bradford adaptation to D65`,
+    encoding: options.linear === true ? 'linear' : 'srgb',
+    description: `${options.linear === true ? 'linear camera with sRGB primaries' : 'sRGB camera'} under ${light.name} (CIE ${observer} observer), ${wbText}, Bradford adaptation to D65`,
   };
 }
 

@@ -15,6 +15,7 @@ export * from './chromaticAdaptation.js';
 export * from './deltaE.js';
 export * from './xyzWeights.js';
 export * from './camera.js';
+export * from './cameraSpec.js';
 export * from './colourTable.js';
 export * from './filmColourTable.js';
 export * from './srgbEncoderTable.js';

@@ -4,7 +4,7 @@
  * camera's weight matrix into linear RGB. Also the thickness of one interference order at
  * mid-visible, λ/(2·n·cos θ_film) at 550 nm, which sets the continuity scale of order resolution.
  */
-import { buildCamera, filmColourTable, resolveLight, type Camera } from '../colour/index.js';
+import { cameraFromSpec, filmColourTable, resolveLight, type Camera, type CameraSpec } from '../colour/index.js';
 import type { Stack } from '../optics/types.js';
 import type { ColourTable } from './colourTable.js';
 
@@ -16,6 +16,8 @@ export interface ColourTableRequest {
   readonly filmIndexScale?: number;
   readonly maxThicknessNm: number;
   readonly stepNm?: number;
+  /** The camera (see ../colour/cameraSpec.ts); default `srgb`. */
+  readonly camera?: CameraSpec | null;
 }
 
 export interface BuiltColourTable {
@@ -31,13 +33,16 @@ export function buildColourTable(request: ColourTableRequest): BuiltColourTable 
   }
   const light = resolveLight(request.light);
   const whiteBalance = request.whiteBalanceLight ? resolveLight(request.whiteBalanceLight) : undefined;
-  const camera = buildCamera({ light, whiteBalance });
+  const camera = cameraFromSpec(request.camera, light, whiteBalance);
   const count = Math.floor(request.maxThicknessNm / stepNm) + 1;
   const thicknessesNm = new Float64Array(count);
   for (let i = 0; i < count; i++) thicknessesNm[i] = i * stepNm;
   const rgbLinear = filmColourTable(request.stack, camera, thicknessesNm, request.angleRad, 'mixed', request.filmIndexScale ?? 1);
   return {
-    table: { startNm: 0, stepNm, count, rgbLinear, encoding: camera.encoding },
+    // Always matched in sRGB-encoded values: a linear photo is encoded before matching
+    // (mapPhoto.ts), so colour distances, noise and distinct-colour counts are in the same
+    // roughly perceptual units for every camera (a linear metric drowns dark colours).
+    table: { startNm: 0, stepNm, count, rgbLinear, encoding: 'srgb' },
     camera,
     orderPeriodNm: orderPeriodNm(request.stack, request.angleRad, request.filmIndexScale ?? 1),
   };

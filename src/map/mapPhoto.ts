@@ -6,6 +6,7 @@
  *   <stem>.thickness.npy (float32 nm, NaN = no estimate), <stem>.thickness.tif (float32),
  *   <stem>.confidence.npy, <stem>.map.png, <stem>.flags.png, <stem>.json, and the report.
  */
+import { encodeSrgb } from '../colour/srgb.js';
 import { unlink } from 'node:fs/promises';
 import { basename } from 'node:path';
 import { join } from 'node:path';
@@ -47,6 +48,7 @@ export function colourTableFor(options: MapOptions): BuiltColourTable {
     options.stack.substrate.name,
     options.light,
     options.whiteBalanceLight ?? null,
+    options.camera ?? 'srgb',
     options.angleRad,
     options.filmIndexScale ?? 1,
     options.maxThicknessNm,
@@ -58,6 +60,7 @@ export function colourTableFor(options: MapOptions): BuiltColourTable {
       angleRad: options.angleRad,
       light: options.light,
       whiteBalanceLight: options.whiteBalanceLight,
+      camera: options.camera,
       filmIndexScale: options.filmIndexScale,
       maxThicknessNm: options.maxThicknessNm,
     });
@@ -105,9 +108,12 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
     );
   }
   const built = colourTableFor(options);
+  // A linear camera's values are sRGB-encoded once here: the table is matched in encoded units
+  // (buildColourTable.ts), and the same monotone encoding on both sides leaves the model exact.
+  const rgb = built.camera.encoding === 'linear' ? encodeLinearPhoto(photo.rgb) : photo.rgb;
   const film = buildFilmMask(photo.width, photo.height, options.region, mask, photo.alpha);
   const result = mapPixels({
-    rgb: photo.rgb,
+    rgb,
     width: photo.width,
     height: photo.height,
     film,
@@ -126,9 +132,16 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
     filmArea: options.filmArea ?? 'auto',
     expectNm: options.expectNm ?? null,
   });
+  const warnings = [...result.warnings];
+  if (built.camera.encoding === 'linear' && photo.bitDepth === 8) {
+    warnings.push(
+      'an 8-bit photo read as linear (--camera): 8 bits proportional to light leave dark colours in a few codes, so thin and dark film is coarse; use the camera\'s 16-bit linear output',
+    );
+  }
   return {
     ...result,
-    photoRgb: photo.rgb,
+    warnings,
+    photoRgb: rgb,
     extra: {
       camera: built.camera.description,
       order_period_nm: built.orderPeriodNm,
@@ -236,4 +249,11 @@ async function writeEachOutput(
   const outcomes = await Promise.allSettled(tasks);
   const failure = outcomes.find((o): o is PromiseRejectedResult => o.status === 'rejected');
   if (failure) throw failure.reason;
+}
+
+/** sRGB-encodes a linear photo's values (a copy in shared memory, for the mapper's threads). */
+function encodeLinearPhoto(linear: Float32Array): Float32Array {
+  const out = new Float32Array(new SharedArrayBuffer(linear.length * 4));
+  for (let i = 0; i < linear.length; i++) out[i] = encodeSrgb(linear[i] < 0 ? 0 : linear[i] > 1 ? 1 : linear[i]);
+  return out;
 }

@@ -105,6 +105,7 @@ export function mapResultJson(
       substrate: options.stack.substrate.name,
       light: options.light,
       white_balance_light: options.whiteBalanceLight ?? null,
+      camera: options.camera ?? 'srgb',
       angle_deg: (options.angleRad * 180) / Math.PI,
       film_index_scale: options.filmIndexScale ?? 1,
       thin_below_nm: options.thinBelowNm,

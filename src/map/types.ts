@@ -94,6 +94,8 @@ export interface MapOptions {
   readonly light: string;
   /** Camera white balance left at another light (spec as for `light`), if any. */
   readonly whiteBalanceLight?: string | null;
+  /** The camera: `srgb` (default), `linear` or a sensitivities CSV path (../colour/cameraSpec.ts). */
+  readonly camera?: string | null;
   readonly filmIndexScale?: number;
   readonly thinBelowNm: number | null;
   /** x, y, width, height in pixels of the upright photo. */

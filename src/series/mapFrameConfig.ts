@@ -10,6 +10,8 @@ export interface MapFrameConfig {
   readonly stackOptions: StackCliOptions;
   readonly light: string;
   readonly whiteBalanceLight: string | null;
+  /** `--camera`: srgb, linear or a sensitivities CSV path (absent = srgb). */
+  readonly camera?: string;
   readonly thinBelowNm: number | null;
   readonly maxThicknessNm: number;
   readonly filmIndexScale: number | null;

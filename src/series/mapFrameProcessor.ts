@@ -19,6 +19,7 @@ export function mapOptionsFromConfig(config: MapFrameConfig): MapOptions {
     angleRad,
     light: config.light,
     whiteBalanceLight: config.whiteBalanceLight,
+    camera: config.camera ?? 'srgb',
     filmIndexScale: config.filmIndexScale ?? undefined,
     thinBelowNm: config.thinBelowNm,
     maxThicknessNm: config.maxThicknessNm,

@@ -3,6 +3,7 @@
  * photo-formation parameters (and on request film index and angle) from rectangles of known
  * thickness, writes them with uncertainties to a file `map` and `series` take with --calibration.
  */
+import { CAMERA_HELP, parseCameraOption } from '../cameraOption.js';
 import type { Command } from 'commander';
 import { atomicWriteFile } from '../../io/atomicWriteFile.js';
 import { calibratePhotoFile } from '../../calibrate/calibrate.js';
@@ -16,6 +17,7 @@ import { addLightOptions, lightsFromOptions } from '../lightOptions.js';
 interface CalibrateCliOptions extends StackCliOptions {
   light: string;
   whiteBalance?: string;
+  camera?: string;
   known?: string[];
   fit: string;
   out: string;
@@ -40,6 +42,7 @@ export function register(program: Command): void {
     .description('fit exposure, flare and white balance (optionally film index and angle) from regions of known thickness; writes a calibration file')
     .argument('<photo>', 'photo of a reference sample (e.g. a step wafer with measured patches)');
   addLightOptions(addStackOptions(command), { required: false })
+    .option('--camera <mode-or-file>', CAMERA_HELP)
     .option('--known <x,y,w,h=nm>', 'a rectangle of known film thickness (repeatable, at least one)', collect)
     .option('--fit <list>', `parameters to fit, from ${CALIBRATION_PARAMETERS.join(',')}`, 'exposure,flare,white-balance')
     .requiredOption('--out <file>', 'calibration file to write (JSON)')
@@ -48,6 +51,7 @@ export function register(program: Command): void {
     .action(async (photo: string, opts: CalibrateCliOptions) => {
       const { stack, angleRad } = stackFromOptions(opts);
       lightsFromOptions(opts);
+      const camera = parseCameraOption(opts.camera);
       const known = (opts.known ?? []).map(parseKnown);
       if (known.length === 0) throw new UsageError('--known is required at least once: X,Y,W,H=NM (a rectangle of known thickness)');
       await checkOutputFile(opts.out, { force: opts.force === true, inputs: [photo], example: 'cal.json' });
@@ -56,6 +60,7 @@ export function register(program: Command): void {
         stackSpec: opts.stack ?? '',
         light: opts.light,
         whiteBalanceLight: opts.whiteBalance ?? null,
+        camera,
         angleRad,
         known: known.map((k) => ({ region: k.region, thicknessNm: k.thicknessNm })),
         fit: parseFitList(opts.fit),

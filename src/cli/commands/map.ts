@@ -3,6 +3,7 @@
  * and its outputs written atomically; a bad photo is reported and the others go on (exit 3 at
  * the end). `--fail-if-thin` turns a thin region into exit status 1.
  */
+import { CAMERA_HELP, parseCameraOption } from '../cameraOption.js';
 import type { Command } from 'commander';
 import { basename, extname, join } from 'node:path';
 import { EXIT_FINDING, EXIT_INPUT, oneLine } from '../errors.js';
@@ -28,6 +29,7 @@ import { mapIndexPage } from '../../map/mapIndexPage.js';
 interface MapCliOptions extends StackCliOptions, FilmAreaCliOptions {
   light: string;
   whiteBalance?: string;
+  camera?: string;
   calibration?: string;
   known?: string[];
   ignoreCalibrationMismatch?: boolean;
@@ -48,6 +50,7 @@ export function register(program: Command): void {
     .description('map film thickness from colour photos; writes .npy/.tif maps, confidence, previews, JSON and an HTML report per photo')
     .argument('<photo...>', 'photos (JPEG, PNG, TIFF; 8 or 16 bit)');
   addFilmAreaOptions(addLightOptions(addStackOptions(command), { required: false }), 'photo')
+    .option('--camera <mode-or-file>', CAMERA_HELP)
     .option('--calibration <file>', 'photo-formation parameters from `lamella calibrate` instead of fitting them')
     .option('--ignore-calibration-mismatch', 'use a calibration made for another stack or light')
     .option('--known <x,y,w,h=nm>', 'calibrate on each photo itself from a rectangle of known thickness (repeatable)', collect)
@@ -71,6 +74,7 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
   // Check the lights before any photo is read: a bad name is a usage error, not a failed photo.
   lightsFromOptions(opts);
   lineOfLight(opts.light);
+  const camera = parseCameraOption(opts.camera);
   const { thinBelowNm, maxThicknessNm, region, maskPath, anchors, pixelSizeUm, filmArea, expectNm } = filmAreaFromOptions(opts);
   if ((opts.known ?? []).length > 0 && opts.calibration) {
     throw new UsageError('give either --known (calibrate on the photo) or --calibration (a calibration file), not both');
@@ -81,6 +85,7 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
         light: opts.light,
         angleRad,
         whiteBalanceLight: opts.whiteBalance ?? null,
+        camera,
         ignoreMismatch: opts.ignoreCalibrationMismatch === true,
       })
     : null;
@@ -89,6 +94,7 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
     angleRad,
     light: opts.light,
     whiteBalanceLight: opts.whiteBalance ?? null,
+    camera,
     filmIndexScale: calibration?.filmIndexScale ?? undefined,
     thinBelowNm,
     region,
@@ -133,6 +139,7 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
           stackSpec: opts.stack ?? '',
           light: opts.light,
           whiteBalanceLight: opts.whiteBalance ?? null,
+          camera,
           angleRad,
           known,
           fit: ['exposure', 'flare', 'white-balance'],

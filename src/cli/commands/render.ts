@@ -4,6 +4,7 @@
  * photo model: exposure, flare, white balance, Gaussian noise. Written atomically; the input is
  * never overwritten.
  */
+import { isCameraFile } from '../../colour/cameraSpec.js';
 import { extname } from 'node:path';
 import type { Command } from 'commander';
 import { Option } from 'commander';
@@ -49,10 +50,10 @@ function parseFlare(text: string): number | [number, number, number] {
 }
 
 async function run(file: string, opts: RenderCliOptions): Promise<void> {
-  assertNoInputOverwritten([file, ...(opts.camera ? [opts.camera] : [])], [opts.out]);
+  assertNoInputOverwritten([file, ...(isCameraFile(opts.camera) ? [opts.camera as string] : [])], [opts.out]);
   const format = imageFormatFromPath(opts.out);
   if (!format) throw new UsageError(`--out must end in .png, .jpg/.jpeg or .tif/.tiff, received ${JSON.stringify(opts.out)} (extension ${JSON.stringify(extname(opts.out))})`);
-  await checkOutputFile(opts.out, { force: opts.force === true, inputs: [file, ...(opts.camera ? [opts.camera] : [])], example: 'photo.jpg' });
+  await checkOutputFile(opts.out, { force: opts.force === true, inputs: [file, ...(isCameraFile(opts.camera) ? [opts.camera as string] : [])], example: 'photo.jpg' });
   const bitDepth = opts.bitDepth ? (Number(opts.bitDepth) as 8 | 16) : format === 'tiff' ? 16 : 8;
   if (format === 'jpeg' && bitDepth === 16) throw new UsageError('--bit-depth 16 needs a .png or .tif output; JPEG is 8-bit');
   const exposure = parseNumberOption(opts.exposure, '--exposure', 'a gain > 0');
@@ -69,7 +70,9 @@ async function run(file: string, opts: RenderCliOptions): Promise<void> {
 
   const { light, whiteBalance: whiteBalanceLight } = lightsFromOptions(opts);
   let camera;
-  if (opts.camera) {
+  if (opts.camera === 'linear') {
+    camera = buildCamera({ light, whiteBalance: whiteBalanceLight, observer: opts.observer, linear: true });
+  } else if (opts.camera && opts.camera !== 'srgb') {
     try {
       camera = buildCamera({ light, whiteBalance: whiteBalanceLight, observer: opts.observer, sensitivities: readCameraSensitivities(opts.camera) });
     } catch (error) {
@@ -103,7 +106,7 @@ export function register(program: Command): void {
   addLightOptions(addStackOptions(command), { required: true })
     .requiredOption('--out <photo>', 'output photo: .png or .jpg (8-bit sRGB), .tif (16-bit); written atomically')
     .option('--force', 'replace an existing --out file')
-    .option('--camera <file>', 'raw camera spectral sensitivities CSV (wavelength_nm,r,g,b); output is then linear, not sRGB')
+    .option('--camera <mode-or-file>', 'srgb (default), linear (sRGB primaries, values proportional to light) or a raw camera\'s spectral sensitivities CSV (wavelength_nm,r,g,b); a linear camera writes 16-bit linear output')
     .addOption(new Option('--observer <year>', 'CIE standard observer of the sRGB camera').choices(['1931', '1964']).default('1931'))
     .addOption(new Option('--polarisation <mode>', 'polarisation of the light').choices(['s', 'p', 'mixed']).default('mixed'))
     .option('--exposure <gain>', 'exposure gain on linear values (1: a perfect white reflector is full scale)', '1')

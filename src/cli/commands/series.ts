@@ -3,6 +3,7 @@
  * resume and shards, then aggregates `series.csv`, `series.json` (drainage fits) and `report.html`.
  * Exit status 3 when any frame failed, 130/143 when interrupted by SIGINT/SIGTERM.
  */
+import { CAMERA_HELP, parseCameraOption } from '../cameraOption.js';
 import { availableParallelism } from 'node:os';
 import { Option, type Command } from 'commander';
 import { resolve } from 'node:path';
@@ -24,6 +25,7 @@ import { notedInputFiles } from '../../io/inputFiles.js';
 export interface SeriesCliOptions extends StackCliOptions, FilmAreaCliOptions {
   light: string;
   whiteBalance?: string;
+  camera?: string;
   ignoreCalibrationMismatch?: boolean;
   fps?: string;
   interval?: string;
@@ -85,9 +87,10 @@ export async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions
   const { angleRad } = stackFromOptions(opts, { onWarning: warn });
   // Lights are checked here, once, not by every frame's worker.
   lightsFromOptions(opts);
+  const camera = parseCameraOption(opts.camera);
   const calibration = opts.calibration === undefined
     ? null
-    : await loadCalibrationForRun(opts.calibration, { stack: opts.stack ?? '', light: opts.light, angleRad, whiteBalanceLight: opts.whiteBalance ?? null, ignoreMismatch: opts.ignoreCalibrationMismatch === true });
+    : await loadCalibrationForRun(opts.calibration, { stack: opts.stack ?? '', light: opts.light, angleRad, whiteBalanceLight: opts.whiteBalance ?? null, camera, ignoreMismatch: opts.ignoreCalibrationMismatch === true });
   const stackOptions: StackCliOptions = { stack: opts.stack, filmIndex: opts.filmIndex, angle: opts.angle, extrapolate: opts.extrapolate };
   const whiteBalanceLight = opts.whiteBalance ?? null;
   const maskPath = area.maskPath ? resolve(area.maskPath) : null;
@@ -97,7 +100,7 @@ export async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions
     if (!info || !info.isFile()) throw new InputError(opts.mask ?? '', '--mask: no such image file');
   }
   const config: MapFrameConfig = {
-    stackOptions, light: opts.light, whiteBalanceLight, thinBelowNm, maxThicknessNm,
+    stackOptions, light: opts.light, whiteBalanceLight, camera, thinBelowNm, maxThicknessNm,
     filmIndexScale: calibration?.filmIndexScale ?? null, exposureFixed: calibration?.exposureFixed ?? null,
     region, maskPath, anchors, pixelSizeUm, filmArea, expectNm,
     ...(opts.allowDamaged ? { allowDamaged: true } : {}),
@@ -109,6 +112,8 @@ export async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions
     aggregateOnly: opts.aggregateOnly === true, previews: opts.previews === true, report: opts.report,
     mapSettings: {
       ...stackOptions, light: opts.light, whiteBalanceLight, thinBelowNm, maxThicknessNm,
+      // Part of the settings hash (a sensitivities CSV also by content, through inputFiles).
+      ...(camera !== 'srgb' ? { camera } : {}),
       ...(region ? { region } : {}), ...(maskPath ? { mask: maskPath } : {}),
       ...(anchors.length > 0 ? { anchors } : {}), ...(pixelSizeUm !== null ? { pixelSizeUm } : {}),
       ...(opts.allowDamaged ? { allowDamaged: true } : {}),
@@ -202,6 +207,7 @@ export function register(program: Command): void {
     .description('thickness maps of a photo series (worker threads, resumable, shardable), drainage fits and a report')
     .argument('<inputs...>', 'photos, folders of photos, or glob patterns; frames are taken in natural order of their names');
   addLightOptions(addStackOptions(command), { required: false })
+    .option('--camera <mode-or-file>', CAMERA_HELP)
     .option('--fps <n>', 'frames per second, for frames without an EXIF capture time')
     .option('--interval <s>', 'seconds between frames, for frames without an EXIF capture time')
     .option('--calibration <file>', 'photo-formation parameters from `lamella calibrate` instead of fitting them on every frame')
