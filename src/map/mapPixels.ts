@@ -16,6 +16,7 @@ import { type CandidateField, createCandidateField } from './candidateField.js';
 import { type ColourTable, predictEncodedTable, thicknessAt } from './colourTable.js';
 import { emptyExclusions } from './filmArea.js';
 import { fitQualityOf, poorFitWarning } from './fitQuality.js';
+import { lightEvennessOf, unevenLightWarning, UNEVEN_LIGHT_RATIO } from './lightEvenness.js';
 import { estimateNoise } from './estimateNoise.js';
 import { distinctColourCount, fitPhotoFormation, type PhotoFormationFit } from './fitPhotoFormation.js';
 import { matchSpace, toMatchSpace } from './matchSpace.js';
@@ -312,6 +313,10 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
     encoded: table.encoding === 'srgb',
   });
   if (fitQuality && fitQuality.verdict === 'poor' && filmArea.found) warnings.push(poorFitWarning(fitQuality));
+  const lightEvenness = filmArea.found
+    ? lightEvennessOf({ rgb, status, thicknessNm, predictedRgb, startNm: table.startNm, stepNm: table.stepNm, width, height, encoded: table.encoding === 'srgb' })
+    : null;
+  if (lightEvenness && lightEvenness.gainMax / lightEvenness.gainMin > UNEVEN_LIGHT_RATIO) warnings.push(unevenLightWarning(lightEvenness));
   if (input.expectNm && filmArea.found && reasons.poorMatch + filmArea.excludedPx.not_film_colour > 0.01 * pixels) {
     warnings.push(
       `${reasons.poorMatch + filmArea.excludedPx.not_film_colour} pixels match no thickness within --expect ${input.expectNm[0]}-${input.expectNm[1]} nm: they get no estimate (not film, or film outside the range; check the range)`,
@@ -343,6 +348,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
     thinLabels,
     filmArea,
     fitQuality,
+    lightEvenness,
   };
 }
 

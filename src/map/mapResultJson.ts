@@ -143,6 +143,9 @@ export function mapResultJson(
     pixel_counts: counts,
     film_area: filmAreaJson(filmArea),
     fit_quality: result.fitQuality ? { ...result.fitQuality } : null,
+    light_evenness: result.lightEvenness
+      ? { relative_gain_min: round(result.lightEvenness.gainMin), relative_gain_max: round(result.lightEvenness.gainMax), pixels_used: result.lightEvenness.pixelsUsed }
+      : null,
     thin_regions: result.thinRegions.map((r) => ({
       id: r.id,
       area_px: r.areaPx,

@@ -184,4 +184,6 @@ export interface MapResult {
   readonly filmArea?: FilmAreaSummary;
   /** How well the model explains the film's colours; null when nothing was measured. */
   readonly fitQuality?: FitQuality | null;
+  /** How evenly the film was lit, relative to the one fitted exposure (./lightEvenness.ts); null when not measured. */
+  readonly lightEvenness?: { readonly gainMin: number; readonly gainMax: number; readonly pixelsUsed: number } | null;
 }

@@ -1,0 +1,143 @@
+/**
+ * How evenly the film was lit, measured after the map: for film pixels with an estimate, the
+ * ratio of the photo's luminance to the model's luminance at the mapped thickness (both in linear
+ * light, Rec. 709 / sRGB luminance weights, IEC 61966-2-1) is the light the photo received there
+ * relative to the fitted exposure. Its logarithm is fitted by least squares with a quadratic in
+ * position (a smooth fall-off across the photo and lens vignetting are both smooth; common
+ * practice), with one pass of outlier trimming, and the surface's range over the film is reported
+ * as relative gains (1 = the median). The mapper fits one exposure for the whole photo, so a wide
+ * range means the model does not explain the photo: pixels in the dim or bright parts can be
+ * read at a wrong thickness. It is a check, not a correction; a pixel pulled to a wrong thickness
+ * partly hides its own shortfall, so the range found is a lower bound of the real one.
+ */
+import { choleskySolve } from '../fit/normalEquations.js';
+import { decodeSrgb } from '../colour/srgb.js';
+import { PixelStatus } from './types.js';
+
+export interface LightEvenness {
+  /** Lowest and highest relative gain of the fitted surface over the film (median 1). */
+  readonly gainMin: number;
+  readonly gainMax: number;
+  readonly pixelsUsed: number;
+}
+
+export interface LightEvennessInput {
+  readonly rgb: Float32Array;
+  readonly status: Uint8Array;
+  readonly thicknessNm: Float32Array;
+  readonly predictedRgb: Float32Array;
+  readonly startNm: number;
+  readonly stepNm: number;
+  readonly width: number;
+  readonly height: number;
+  readonly encoded: boolean;
+}
+
+/** Above this max/min gain ratio over the film, the map warns (a judgement: 15 % shifts orders' colours visibly). */
+export const UNEVEN_LIGHT_RATIO = 1.15;
+const MAX_SAMPLES = 40_000;
+const MIN_SAMPLES = 200;
+/** Model luminance below which the ratio is too noisy to use (dark film, black film). */
+const MIN_MODEL_LUMINANCE = 0.04;
+const TERMS = 6;
+
+function luminance(r: number, g: number, b: number, encoded: boolean): number {
+  const lin = (v: number): number => (encoded ? decodeSrgb(v < 0 ? 0 : v > 1 ? 1 : v) : v);
+  return 0.2126 * lin(r) + 0.7152 * lin(g) + 0.0722 * lin(b);
+}
+
+function basis(u: number, v: number, out: Float64Array): void {
+  out[0] = 1;
+  out[1] = u;
+  out[2] = v;
+  out[3] = u * u;
+  out[4] = u * v;
+  out[5] = v * v;
+}
+
+export function lightEvennessOf(input: LightEvennessInput): LightEvenness | null {
+  const { rgb, status, thicknessNm, predictedRgb, startNm, stepNm, width, height } = input;
+  let ok = 0;
+  for (let i = 0; i < status.length; i++) if (status[i] === PixelStatus.ok) ok++;
+  if (ok < MIN_SAMPLES) return null;
+  const stride = Math.max(1, Math.floor(ok / MAX_SAMPLES));
+  const us = new Float64Array(Math.ceil(ok / stride));
+  const vs = new Float64Array(us.length);
+  const logs = new Float64Array(us.length);
+  const count = predictedRgb.length / 3;
+  const half = Math.max(width, height) / 2;
+  let seen = 0;
+  let n = 0;
+  for (let i = 0; i < status.length; i++) {
+    if (status[i] !== PixelStatus.ok || seen++ % stride !== 0) continue;
+    const r = rgb[i * 3];
+    const g = rgb[i * 3 + 1];
+    const b = rgb[i * 3 + 2];
+    if (r > 0.97 || g > 0.97 || b > 0.97) continue;
+    const t = Math.min(count - 1.000001, Math.max(0, (thicknessNm[i] - startNm) / stepNm));
+    const k = Math.floor(t);
+    const f = t - k;
+    const p = (c: number): number => predictedRgb[k * 3 + c] + f * (predictedRgb[k * 3 + 3 + c] - predictedRgb[k * 3 + c]);
+    const model = luminance(p(0), p(1), p(2), input.encoded);
+    const photo = luminance(r, g, b, input.encoded);
+    if (model < MIN_MODEL_LUMINANCE || photo <= 0) continue;
+    const x = i % width;
+    const y = (i - x) / width;
+    us[n] = (x + 0.5 - width / 2) / half;
+    vs[n] = (y + 0.5 - height / 2) / half;
+    logs[n] = Math.log(photo / model);
+    n++;
+  }
+  if (n < MIN_SAMPLES) return null;
+  const keep = new Uint8Array(n).fill(1);
+  const coefficients = new Float64Array(TERMS);
+  const row = new Float64Array(TERMS);
+  for (let pass = 0; pass < 2; pass++) {
+    const a = new Float64Array(TERMS * TERMS);
+    const rhs = new Float64Array(TERMS);
+    for (let s = 0; s < n; s++) {
+      if (!keep[s]) continue;
+      basis(us[s], vs[s], row);
+      for (let p = 0; p < TERMS; p++) {
+        rhs[p] += row[p] * logs[s];
+        for (let q = 0; q < TERMS; q++) a[p * TERMS + q] += row[p] * row[q];
+      }
+    }
+    // A faint ridge keeps the system solvable when the film covers a thin strip only.
+    for (let p = 1; p < TERMS; p++) a[p * TERMS + p] += 1e-6 * (a[0] + 1);
+    if (!choleskySolve(a, rhs, TERMS, coefficients)) return null;
+    if (pass === 1) break;
+    // Trim pixels far from the surface (wrong orders, mixtures), by 3 scaled MADs (common practice).
+    const residuals = new Float64Array(n);
+    for (let s = 0; s < n; s++) {
+      basis(us[s], vs[s], row);
+      let fit = 0;
+      for (let p = 0; p < TERMS; p++) fit += coefficients[p] * row[p];
+      residuals[s] = Math.abs(logs[s] - fit);
+    }
+    const sorted = Float64Array.from(residuals).sort();
+    const limit = 3 * 1.4826 * sorted[Math.floor(n / 2)] + 1e-3;
+    for (let s = 0; s < n; s++) keep[s] = residuals[s] <= limit ? 1 : 0;
+  }
+  const surface = new Float64Array(n);
+  let used = 0;
+  for (let s = 0; s < n; s++) {
+    basis(us[s], vs[s], row);
+    let fit = 0;
+    for (let p = 0; p < TERMS; p++) fit += coefficients[p] * row[p];
+    surface[s] = fit;
+    used += keep[s];
+  }
+  const sorted = Float64Array.from(surface).sort();
+  const median = sorted[Math.floor(n / 2)];
+  // The 1st and 99th percentiles over the film: the surface's extremes at a few stray pixels
+  // far out in a corner would overstate the range.
+  const low = sorted[Math.floor(0.01 * (n - 1))];
+  const high = sorted[Math.ceil(0.99 * (n - 1))];
+  return { gainMin: Math.exp(low - median), gainMax: Math.exp(high - median), pixelsUsed: used };
+}
+
+export function unevenLightWarning(evenness: LightEvenness): string {
+  const pct = (v: number): string => `${Math.round(Math.abs(v - 1) * 100)} %`;
+  return `the light on the film is uneven: the photo is up to ${pct(evenness.gainMin)} darker and ${pct(evenness.gainMax)} brighter than the fitted exposure in places (a lamp's fall-off or lens vignetting?). One exposure is fitted for the whole photo, so thicknesses in the dim and bright parts can be wrong: light the film evenly, or map parts separately with --region`;
+}
