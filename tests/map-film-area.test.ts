@@ -38,6 +38,13 @@ function failedTargets(scene: Scene, result: Awaited<ReturnType<typeof mapAuto>>
     .map((row: { target: string; value: string }) => `${row.target}: ${row.value}`);
 }
 
+/** Evenly lit scenes must not look uneven: the light-evenness check within ±2 % (issue 14's flatness target). */
+function expectEvenLight(result: Awaited<ReturnType<typeof mapAuto>>): void {
+  expect(result.lightEvenness?.gainMin).toBeGreaterThanOrEqual(0.98);
+  expect(result.lightEvenness?.gainMax).toBeLessThanOrEqual(1.02);
+  expect(result.warnings.join(' ')).not.toMatch(/light on the film is uneven/);
+}
+
 describe('film area auto on field scenes (invented; issue 13 targets)', () => {
   it('a draining soap film in its wire frame before a dark cloth: cloth and wire are not film, the black film at the top wire is', async () => {
     const scene = await scenes.soapFilmInFrame();
@@ -46,6 +53,7 @@ describe('film area auto on field scenes (invented; issue 13 targets)', () => {
     expect(result.filmArea?.found).toBe(true);
     expect(result.filmArea?.excludedPx.dark_surroundings).toBeGreaterThan(0.3 * scene.width * scene.height);
     expect(result.warnings.join(' ')).not.toMatch(/could be black film/);
+    expectEvenLight(result);
     // The same photo with film-area whole measures the cloth: the case the film area is for.
     const whole = await mapAuto(scene, { filmArea: 'whole' });
     let clothMeasured = 0;
@@ -69,6 +77,7 @@ describe('film area auto on field scenes (invented; issue 13 targets)', () => {
     const scene = await scenes.waferOnDarkChuck();
     const result = await mapAuto(scene);
     expect(failedTargets(scene, result)).toEqual([]);
+    expectEvenLight(result);
   }, 60_000);
 
   it('a uniform coating: --expect and an anchor bind the order (median error ≤ 5 nm, anchor within 5 nm)', async () => {
