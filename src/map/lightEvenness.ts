@@ -19,6 +19,20 @@ export interface LightEvenness {
   readonly gainMin: number;
   readonly gainMax: number;
   readonly pixelsUsed: number;
+  /**
+   * The fitted surface: log(relative gain) = Σ c_k·b_k(u, v) − c_median with the basis
+   * 1, u, v, u², uv, v² of u = (x + ½ − width/2)/s, v = (y + ½ − height/2)/s, s = max(width, height)/2
+   * (pixel centres; the constant term already holds the median's offset).
+   */
+  readonly logGainCoefficients: readonly number[];
+}
+
+/** Relative gain of a fitted surface at pixel (x, y) of a width × height photo. */
+export function relativeGainAt(coefficients: readonly number[], width: number, height: number, x: number, y: number): number {
+  const half = Math.max(width, height) / 2;
+  const u = (x + 0.5 - width / 2) / half;
+  const v = (y + 0.5 - height / 2) / half;
+  return Math.exp(coefficients[0] + coefficients[1] * u + coefficients[2] * v + coefficients[3] * u * u + coefficients[4] * u * v + coefficients[5] * v * v);
 }
 
 export interface LightEvennessInput {
@@ -134,7 +148,9 @@ export function lightEvennessOf(input: LightEvennessInput): LightEvenness | null
   // far out in a corner would overstate the range.
   const low = sorted[Math.floor(0.01 * (n - 1))];
   const high = sorted[Math.ceil(0.99 * (n - 1))];
-  return { gainMin: Math.exp(low - median), gainMax: Math.exp(high - median), pixelsUsed: used };
+  const logGainCoefficients = Array.from(coefficients);
+  logGainCoefficients[0] -= median;
+  return { gainMin: Math.exp(low - median), gainMax: Math.exp(high - median), pixelsUsed: used, logGainCoefficients };
 }
 
 export function unevenLightWarning(evenness: LightEvenness): string {

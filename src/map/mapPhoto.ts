@@ -6,6 +6,7 @@
  *   <stem>.thickness.npy (float32 nm, NaN = no estimate), <stem>.thickness.tif (float32),
  *   <stem>.confidence.npy, <stem>.map.png, <stem>.flags.png, <stem>.json, and the report.
  */
+import { type ExposureField, mapWithLightField } from './lightField.js';
 import { encodeSrgb } from '../colour/srgb.js';
 import { unlink } from 'node:fs/promises';
 import { basename } from 'node:path';
@@ -36,6 +37,8 @@ export type MappedPhoto = MapResult & {
   /** The decoded photo's encoded RGB (for the flags image and the report). */
   readonly photoRgb?: Float32Array;
   readonly extra?: Record<string, unknown>;
+  /** The exposure field fitted for uneven light (./lightField.ts), null when one exposure was used. */
+  readonly exposureField?: ExposureField | null;
 };
 
 const tableCache = new Map<string, BuiltColourTable>();
@@ -112,8 +115,8 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
   // (buildColourTable.ts), and the same monotone encoding on both sides leaves the model exact.
   const rgb = built.camera.encoding === 'linear' ? encodeLinearPhoto(photo.rgb) : photo.rgb;
   const film = buildFilmMask(photo.width, photo.height, options.region, mask, photo.alpha);
-  const result = mapPixels({
-    rgb,
+  const mapWith = (pixels: Float32Array) => mapPixels({
+    rgb: pixels,
     width: photo.width,
     height: photo.height,
     film,
@@ -132,6 +135,8 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
     filmArea: options.filmArea ?? 'auto',
     expectNm: options.expectNm ?? null,
   });
+  // Uneven light: the exposure is fitted as a smooth field by alternation (./lightField.ts).
+  const { result, field } = mapWithLightField(rgb, photo.width, photo.height, mapWith, options.lightField ?? 'auto');
   const warnings = [...result.warnings];
   if (built.camera.encoding === 'linear' && photo.bitDepth === 8) {
     warnings.push(
@@ -141,6 +146,7 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
   return {
     ...result,
     warnings,
+    exposureField: field,
     photoRgb: rgb,
     extra: {
       camera: built.camera.description,

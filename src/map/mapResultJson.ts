@@ -4,6 +4,7 @@
  * model fits, and warnings. Field names are snake_case with units in the name; null means "not
  * available".
  */
+import type { ExposureField } from './lightField.js';
 import { basename } from 'node:path';
 import { type FilmAreaSummary, type MapOptions, type MapResult, PixelStatus } from './types.js';
 
@@ -82,7 +83,7 @@ export function filmAreaJson(area: FilmAreaSummary): Record<string, unknown> {
 export const MAP_RECORD_VERSION = 1;
 
 export function mapResultJson(
-  result: MapResult & { readonly extra?: Record<string, unknown> },
+  result: MapResult & { readonly extra?: Record<string, unknown>; readonly exposureField?: ExposureField | null },
   options: MapOptions,
   photoPath: string,
 ): Record<string, unknown> {
@@ -143,6 +144,17 @@ export function mapResultJson(
     pixel_counts: counts,
     film_area: filmAreaJson(filmArea),
     fit_quality: result.fitQuality ? { ...result.fitQuality } : null,
+    // The exposure fitted as a smooth field for uneven light (./lightField.ts), null when one exposure was used.
+    exposure_field: result.exposureField
+      ? {
+          model: 'log relative gain = quadratic in u, v (pixel centre minus photo centre, over half the longer side)',
+          log_gain_coefficients: result.exposureField.logGainCoefficients.map((c) => Math.round(c * 1e6) / 1e6),
+          terms: ['1', 'u', 'v', 'u²', 'uv', 'v²'],
+          relative_gain_min: round(result.exposureField.gainMin),
+          relative_gain_max: round(result.exposureField.gainMax),
+          rounds: result.exposureField.rounds,
+        }
+      : null,
     light_evenness: result.lightEvenness
       ? { relative_gain_min: round(result.lightEvenness.gainMin), relative_gain_max: round(result.lightEvenness.gainMax), pixels_used: result.lightEvenness.pixelsUsed }
       : null,

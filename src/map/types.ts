@@ -126,6 +126,8 @@ export interface MapOptions {
   readonly threads?: number;
   /** `auto` (default): find the film area; `whole`: every pixel in region/mask is film. */
   readonly filmArea?: FilmAreaMode;
+  /** `auto` (default): fit the exposure as a smooth field when the light is uneven (./lightField.ts); `off`: one exposure. */
+  readonly lightField?: 'auto' | 'off';
   /**
    * `--expect MIN-MAX`: the thickness range the film is known to lie in (nm); orders and the fit
    * are restricted to it; pixels that fit only outside it are reported, not forced.
@@ -185,5 +187,5 @@ export interface MapResult {
   /** How well the model explains the film's colours; null when nothing was measured. */
   readonly fitQuality?: FitQuality | null;
   /** How evenly the film was lit, relative to the one fitted exposure (./lightEvenness.ts); null when not measured. */
-  readonly lightEvenness?: { readonly gainMin: number; readonly gainMax: number; readonly pixelsUsed: number } | null;
+  readonly lightEvenness?: { readonly gainMin: number; readonly gainMax: number; readonly pixelsUsed: number; readonly logGainCoefficients: readonly number[] } | null;
 }

@@ -1,0 +1,101 @@
+/**
+ * The exposure as a smooth field over the photo, fitted by alternation (block coordinate
+ * descent): map with one exposure; measure the light each part of the film received relative to
+ * it (./lightEvenness.ts: log gain as a quadratic in position, fitted to the photo's luminance over
+ * the model's at the mapped thickness); divide that gain out of the photo in linear light
+ * (flare, added after the exposure, is left as it is); map again, refitting exposure, white
+ * balance and flare on the evened photo; repeat while the remaining unevenness is above
+ * `SETTLED_RATIO`. The fields of the rounds multiply (their log coefficients add). A quadratic
+ * surface has six numbers: enough for a fall-off across the photo and lens vignetting (both
+ * smooth and slow), too few to follow the film's own colours, so it cannot invent structure.
+ * Evenly lit photos are left alone: the field is fitted only when the first map's unevenness
+ * exceeds `START_RATIO`, and kept only when it leaves the photo more even than it found it.
+ */
+import { decodeSrgb, encodeSrgb } from '../colour/srgb.js';
+import { relativeGainAt } from './lightEvenness.js';
+import type { MapResult } from './types.js';
+
+export type LightFieldMode = 'auto' | 'off';
+
+export interface ExposureField {
+  /** log(relative gain) coefficients on the basis of ./lightEvenness.ts (1, u, v, u², uv, v²). */
+  readonly logGainCoefficients: readonly number[];
+  /** Lowest and highest relative gain over the photo's film (median 1). */
+  readonly gainMin: number;
+  readonly gainMax: number;
+  readonly rounds: number;
+}
+
+/** Max/min gain of the first map above which a field is fitted (a judgement: 4 %). */
+export const START_RATIO = 1.04;
+/** Remaining max/min gain at which the alternation stops. */
+export const SETTLED_RATIO = 1.02;
+const MAX_ROUNDS = 3;
+
+function ratioOf(result: MapResult): number {
+  const e = result.lightEvenness;
+  return e ? e.gainMax / e.gainMin : 1;
+}
+
+/** The photo with the field's gain divided out in linear light (a copy in shared memory). */
+export function evenOutLight(rgb: Float32Array, width: number, height: number, logGainCoefficients: readonly number[], flare: readonly number[]): Float32Array {
+  const out = new Float32Array(new SharedArrayBuffer(rgb.length * 4));
+  for (let y = 0; y < height; y++) {
+    for (let x = 0; x < width; x++) {
+      const inverse = 1 / relativeGainAt(logGainCoefficients, width, height, x, y);
+      const i = (y * width + x) * 3;
+      for (let c = 0; c < 3; c++) {
+        const linear = decodeSrgb(rgb[i + c]);
+        const evened = (linear - flare[c]) * inverse + flare[c];
+        out[i + c] = encodeSrgb(evened < 0 ? 0 : evened > 1 ? 1 : evened);
+      }
+    }
+  }
+  return out;
+}
+
+export function mapWithLightField<R extends MapResult>(
+  rgb: Float32Array,
+  width: number,
+  height: number,
+  mapWith: (pixels: Float32Array) => R,
+  mode: LightFieldMode,
+): { result: R; field: ExposureField | null } {
+  const first = mapWith(rgb);
+  if (mode === 'off' || !first.lightEvenness || ratioOf(first) <= START_RATIO) return { result: first, field: null };
+  let best = first;
+  let bestCoefficients: number[] | null = null;
+  const total = [0, 0, 0, 0, 0, 0];
+  let current = first;
+  let rounds = 0;
+  while (rounds < MAX_ROUNDS && current.lightEvenness && ratioOf(current) > SETTLED_RATIO) {
+    const step = current.lightEvenness.logGainCoefficients;
+    for (let k = 0; k < total.length; k++) total[k] += step[k];
+    current = mapWith(evenOutLight(rgb, width, height, total, current.fitted.flare));
+    rounds++;
+    if (ratioOf(current) < ratioOf(best)) {
+      best = current;
+      bestCoefficients = [...total];
+    }
+  }
+  if (!bestCoefficients) return { result: first, field: null };
+  // The field's range over the film (the pixels the final map measured).
+  let gainMin = Infinity;
+  let gainMax = -Infinity;
+  const gains: number[] = [];
+  const stride = Math.max(1, Math.floor((width * height) / 20_000));
+  for (let i = 0; i < width * height; i += stride) {
+    if (!Number.isFinite(best.thicknessNm[i])) continue;
+    gains.push(relativeGainAt(bestCoefficients, width, height, i % width, Math.floor(i / width)));
+  }
+  gains.sort((a, b) => a - b);
+  const median = gains.length > 0 ? gains[Math.floor(gains.length / 2)] : 1;
+  if (gains.length > 0) {
+    gainMin = gains[Math.floor(0.01 * (gains.length - 1))] / median;
+    gainMax = gains[Math.ceil(0.99 * (gains.length - 1))] / median;
+  } else {
+    gainMin = gainMax = 1;
+  }
+  bestCoefficients[0] -= Math.log(median);
+  return { result: best, field: { logGainCoefficients: bestCoefficients, gainMin, gainMax, rounds } };
+}
