@@ -54,7 +54,7 @@ function text(name: string, content: string): string {
 describe('calibration record shape (as documented in calibrationFile.ts)', () => {
   it('has the documented fields with numbers of the right kind', () => {
     expect(record.lamella_calibration).toBe(CALIBRATION_VERSION);
-    expect(record.applies_to).toEqual({ stack: 'oxide-on-silicon', light: 'F2', white_balance_light: null, angle_deg: 0, camera: expect.any(String) });
+    expect(record.applies_to).toEqual({ stack: 'oxide-on-silicon', light: 'F2', white_balance_light: null, angle_deg: 0, camera: expect.any(String), camera_mode: 'srgb' });
     const fitted = record.fitted as Record<string, unknown>;
     expect(Object.keys(fitted).sort()).toEqual(['angleDeg', 'exposure', 'filmIndexScale', 'flare', 'whiteBalance']);
     expect(fitted.whiteBalance).toHaveLength(3);

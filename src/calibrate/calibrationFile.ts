@@ -2,10 +2,11 @@
  * The calibration file written by `lamella calibrate` and read by `map` and `series`
  * (`--calibration CAL.json`). Shape (JSON object):
  *   lamella_calibration: 1
- *   applies_to: { stack, light, white_balance_light, angle_deg, camera }
+ *   applies_to: { stack, light, white_balance_light, angle_deg, camera, camera_mode }  (camera_mode:
+ *     the --camera value, srgb | linear | a sensitivities CSV path; absent in older files = srgb)
  *   fitted: { exposure, whiteBalance: [r,g,b], flare: [r,g,b], filmIndexScale, angleDeg }
  *   filmIndexScale (top level, same value), uncertainty, known_regions, photo, photo_size_px, warnings
- * A calibration made for another stack, light, angle or camera white balance is refused unless
+ * A calibration made for another stack, light, angle, camera white balance or camera is refused unless
  * the user overrides.
  */
 import { readFile } from 'node:fs/promises';
