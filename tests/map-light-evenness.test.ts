@@ -73,6 +73,7 @@ describe('light evenness and the exposure field (JSON light_evenness, exposure_f
     const r = lamella('map', 'uneven.tif', '--stack', 'soap-film', '--light', 'D65', '--camera', 'linear', '--film-area', 'whole', '--out', 'u', '--no-report');
     expect(r.status, r.stderr).toBe(0);
     expect(r.stderr).not.toContain('the light on the film is uneven');
+    expect(r.stdout).toMatch(/over uneven light \(fitted field 0\.\d\d–1\.\d\d\)/);
     const record = JSON.parse(readFileSync(join(dir, 'u', 'uneven.json'), 'utf8'));
     const field = record.exposure_field;
     expect(field.terms).toEqual(['1', 'u', 'v', 'u²', 'uv', 'v²']);

@@ -3,6 +3,7 @@
  * and its outputs written atomically; a bad photo is reported and the others go on (exit 3 at
  * the end). `--fail-if-thin` turns a thin region into exit status 1.
  */
+import type { ExposureField } from '../../map/lightField.js';
 import { CAMERA_HELP, parseCameraOption } from '../cameraOption.js';
 import type { Command } from 'commander';
 import { basename, extname, join } from 'node:path';
@@ -186,14 +187,17 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
   return 0;
 }
 
-export function summaryLine(photo: string, result: Pick<MapResult, 'stats' | 'thinRegions' | 'fitted' | 'filmArea'>): string {
+export function summaryLine(photo: string, result: Pick<MapResult, 'stats' | 'thinRegions' | 'fitted' | 'filmArea'> & { readonly exposureField?: ExposureField | null }): string {
   // The warning itself comes from the mapper; the line only says there is nothing to summarise.
   if (result.filmArea && !result.filmArea.found) return `${photo}: no film found in this photo (no statistics, no thin regions)`;
   const s = result.stats;
   const f = (v: number | null, d = 1): string => (v === null ? '–' : v.toFixed(d));
   const thin = s.thin_fraction === null ? '' : `, thin ${f(s.thin_fraction * 100)} %`;
+  const field = result.exposureField
+    ? ` over uneven light (fitted field ${result.exposureField.gainMin.toFixed(2)}–${result.exposureField.gainMax.toFixed(2)})`
+    : '';
   const film = result.filmArea && result.filmArea.mode === 'auto' ? `, film ${f(result.filmArea.fraction * 100)} % of the photo` : '';
-  return `${photo}: median ${f(s.median_nm)} nm (p05 ${f(s.p05_nm)}, p95 ${f(s.p95_nm)})${film}, coverage ${f(s.coverage * 100)} %${thin}, ${result.thinRegions.length} thin region(s), exposure ×${result.fitted.exposure.toFixed(2)}`;
+  return `${photo}: median ${f(s.median_nm)} nm (p05 ${f(s.p05_nm)}, p95 ${f(s.p95_nm)})${film}, coverage ${f(s.coverage * 100)} %${thin}, ${result.thinRegions.length} thin region(s), exposure ×${result.fitted.exposure.toFixed(2)}${field}`;
 }
 
 function parseThreads(value: string): number {
