@@ -18,7 +18,8 @@ const MAX_SAMPLES = 20_000;
 export const FIT_QUALITY_GOOD = { median: 2, p95: 6, unmatched: 0.05 } as const;
 export const FIT_QUALITY_POOR = { median: 4, p95: 12, unmatched: 0.2 } as const;
 
-export interface FitQualityInput {
+/** A finished map beside its photo and its model: what checks of the model against the photo read. */
+export interface PhotoAndModel {
   /** Encoded photo colours (sRGB), n × 3. */
   readonly rgb: Float32Array;
   readonly status: Uint8Array;
@@ -27,16 +28,30 @@ export interface FitQualityInput {
   readonly predictedRgb: Float32Array;
   readonly startNm: number;
   readonly stepNm: number;
-  /** Film pixels (the film area). */
-  readonly filmAreaPx: number;
-  /** Film pixels without an estimate because their colour matches no thickness. */
-  readonly unmatchedPx: number;
   /** Whether the photo's values are sRGB-encoded (else linear). */
   readonly encoded: boolean;
 }
 
+/** The model's encoded colour at a mapped thickness (linear between table entries), into `out`. */
+export function modelColourAt(input: PhotoAndModel, thicknessNm: number, out: Float64Array): Float64Array {
+  const { predictedRgb } = input;
+  const count = predictedRgb.length / 3;
+  const t = Math.min(count - 1.000001, Math.max(0, (thicknessNm - input.startNm) / input.stepNm));
+  const k = Math.floor(t);
+  const f = t - k;
+  for (let c = 0; c < 3; c++) out[c] = predictedRgb[k * 3 + c] + f * (predictedRgb[k * 3 + 3 + c] - predictedRgb[k * 3 + c]);
+  return out;
+}
+
+export interface FitQualityInput extends PhotoAndModel {
+  /** Film pixels (the film area). */
+  readonly filmAreaPx: number;
+  /** Film pixels without an estimate because their colour matches no thickness. */
+  readonly unmatchedPx: number;
+}
+
 export function fitQualityOf(input: FitQualityInput): FitQuality | null {
-  const { rgb, status, thicknessNm, predictedRgb, startNm, stepNm } = input;
+  const { rgb, status, thicknessNm } = input;
   if (input.filmAreaPx === 0) return null;
   let ok = 0;
   for (let i = 0; i < status.length; i++) if (status[i] === PixelStatus.ok) ok++;
@@ -44,7 +59,6 @@ export function fitQualityOf(input: FitQualityInput): FitQuality | null {
   if (ok === 0) return { median_delta_e2000: null, p95_delta_e2000: null, unmatched_fraction: unmatched, verdict: unmatched > FIT_QUALITY_POOR.unmatched ? 'poor' : 'fair' };
   const stride = Math.max(1, Math.floor(ok / MAX_SAMPLES));
   const values = new Float64Array(Math.ceil(ok / stride));
-  const count = predictedRgb.length / 3;
   const photoLab = new Float64Array(3);
   const modelLab = new Float64Array(3);
   const model = new Float64Array(3);
@@ -53,10 +67,7 @@ export function fitQualityOf(input: FitQualityInput): FitQuality | null {
   for (let i = 0; i < status.length; i++) {
     if (status[i] !== PixelStatus.ok) continue;
     if (seen++ % stride !== 0) continue;
-    const t = Math.min(count - 1.000001, Math.max(0, (thicknessNm[i] - startNm) / stepNm));
-    const k = Math.floor(t);
-    const f = t - k;
-    for (let c = 0; c < 3; c++) model[c] = predictedRgb[k * 3 + c] + f * (predictedRgb[k * 3 + 3 + c] - predictedRgb[k * 3 + c]);
+    modelColourAt(input, thicknessNm[i], model);
     encodedToLab(rgb[i * 3], rgb[i * 3 + 1], rgb[i * 3 + 2], input.encoded, photoLab);
     encodedToLab(model[0], model[1], model[2], input.encoded, modelLab);
     values[n++] = deltaE2000(modelLab, photoLab);

@@ -13,6 +13,7 @@
 import { choleskySolve } from '../fit/normalEquations.js';
 import { decodeSrgb } from '../colour/srgb.js';
 import { PixelStatus } from './types.js';
+import { modelColourAt, type PhotoAndModel } from './fitQuality.js';
 
 export interface LightEvenness {
   /** Lowest and highest relative gain of the fitted surface over the film (median 1). */
@@ -35,16 +36,9 @@ export function relativeGainAt(coefficients: readonly number[], width: number, h
   return Math.exp(coefficients[0] + coefficients[1] * u + coefficients[2] * v + coefficients[3] * u * u + coefficients[4] * u * v + coefficients[5] * v * v);
 }
 
-export interface LightEvennessInput {
-  readonly rgb: Float32Array;
-  readonly status: Uint8Array;
-  readonly thicknessNm: Float32Array;
-  readonly predictedRgb: Float32Array;
-  readonly startNm: number;
-  readonly stepNm: number;
+export interface LightEvennessInput extends PhotoAndModel {
   readonly width: number;
   readonly height: number;
-  readonly encoded: boolean;
 }
 
 /** Above this max/min gain ratio over the film, the map warns (a judgement: 15 % shifts orders' colours visibly). */
@@ -55,9 +49,12 @@ const MIN_SAMPLES = 200;
 const MIN_MODEL_LUMINANCE = 0.04;
 const TERMS = 6;
 
+function linearOf(value: number, encoded: boolean): number {
+  return encoded ? decodeSrgb(value < 0 ? 0 : value > 1 ? 1 : value) : value;
+}
+
 function luminance(r: number, g: number, b: number, encoded: boolean): number {
-  const lin = (v: number): number => (encoded ? decodeSrgb(v < 0 ? 0 : v > 1 ? 1 : v) : v);
-  return 0.2126 * lin(r) + 0.7152 * lin(g) + 0.0722 * lin(b);
+  return 0.2126 * linearOf(r, encoded) + 0.7152 * linearOf(g, encoded) + 0.0722 * linearOf(b, encoded);
 }
 
 function basis(u: number, v: number, out: Float64Array): void {
@@ -70,7 +67,7 @@ function basis(u: number, v: number, out: Float64Array): void {
 }
 
 export function lightEvennessOf(input: LightEvennessInput): LightEvenness | null {
-  const { rgb, status, thicknessNm, predictedRgb, startNm, stepNm, width, height } = input;
+  const { rgb, status, thicknessNm, width, height } = input;
   let ok = 0;
   for (let i = 0; i < status.length; i++) if (status[i] === PixelStatus.ok) ok++;
   if (ok < MIN_SAMPLES) return null;
@@ -78,7 +75,7 @@ export function lightEvennessOf(input: LightEvennessInput): LightEvenness | null
   const us = new Float64Array(Math.ceil(ok / stride));
   const vs = new Float64Array(us.length);
   const logs = new Float64Array(us.length);
-  const count = predictedRgb.length / 3;
+  const model = new Float64Array(3);
   const half = Math.max(width, height) / 2;
   let seen = 0;
   let n = 0;
@@ -88,18 +85,15 @@ export function lightEvennessOf(input: LightEvennessInput): LightEvenness | null
     const g = rgb[i * 3 + 1];
     const b = rgb[i * 3 + 2];
     if (r > 0.97 || g > 0.97 || b > 0.97) continue;
-    const t = Math.min(count - 1.000001, Math.max(0, (thicknessNm[i] - startNm) / stepNm));
-    const k = Math.floor(t);
-    const f = t - k;
-    const p = (c: number): number => predictedRgb[k * 3 + c] + f * (predictedRgb[k * 3 + 3 + c] - predictedRgb[k * 3 + c]);
-    const model = luminance(p(0), p(1), p(2), input.encoded);
-    const photo = luminance(r, g, b, input.encoded);
-    if (model < MIN_MODEL_LUMINANCE || photo <= 0) continue;
+    modelColourAt(input, thicknessNm[i], model);
+    const modelY = luminance(model[0], model[1], model[2], input.encoded);
+    const photoY = luminance(r, g, b, input.encoded);
+    if (modelY < MIN_MODEL_LUMINANCE || photoY <= 0) continue;
     const x = i % width;
     const y = (i - x) / width;
     us[n] = (x + 0.5 - width / 2) / half;
     vs[n] = (y + 0.5 - height / 2) / half;
-    logs[n] = Math.log(photo / model);
+    logs[n] = Math.log(photoY / modelY);
     n++;
   }
   if (n < MIN_SAMPLES) return null;

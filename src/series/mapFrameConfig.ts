@@ -3,7 +3,7 @@
  * worker threads load it from. A stack holds functions and cannot cross a thread boundary, so
  * each worker rebuilds it from the same CLI stack options.
  */
-import type { StackCliOptions } from '../cli/stackOptions.js';
+import type { StackCliOptions } from '../optics/stackSettings.js';
 import type { ExposureParameters, FilmAreaMode } from '../map/types.js';
 
 export interface MapFrameConfig {

@@ -3,7 +3,7 @@
  * per worker thread to the series' settings. Workers load this module by URL
  * (`MAP_FRAME_PROCESSOR_URL` in ./mapFrameConfig.ts) and call `createFrameProcessor(config)`.
  */
-import { stackFromOptions } from '../cli/stackOptions.js';
+import { stackFromOptions } from '../optics/stackSettings.js';
 import { mapPhotoFile, writeMapOutputs, type MappedPhoto } from '../map/mapPhoto.js';
 import { mapReportInput } from '../map/mapReportInput.js';
 import type { MapOptions } from '../map/types.js';
