@@ -4,7 +4,7 @@
  * each worker rebuilds it from the same CLI stack options.
  */
 import type { StackCliOptions } from '../optics/stackSettings.js';
-import type { ExposureParameters, FilmAreaMode } from '../map/types.js';
+import type { ExposureParameters, FilmAreaMode, FixedExposureField } from '../map/types.js';
 
 export interface MapFrameConfig {
   readonly stackOptions: StackCliOptions;
@@ -16,6 +16,10 @@ export interface MapFrameConfig {
   readonly maxThicknessNm: number;
   readonly filmIndexScale: number | null;
   readonly exposureFixed: ExposureParameters | null;
+  /** The calibration's light field (MapOptions.exposureFieldFixed), if any. */
+  readonly exposureFieldFixed?: FixedExposureField | null;
+  /** `--light-field` (MapOptions.lightField; absent = auto). */
+  readonly lightField?: 'auto' | 'off';
   /** Film area, as for `lamella map`: a rectangle x, y, w, h or a mask image path (optional). */
   readonly region?: readonly [number, number, number, number] | null;
   readonly maskPath?: string | null;

@@ -24,6 +24,8 @@ export function mapOptionsFromConfig(config: MapFrameConfig): MapOptions {
     thinBelowNm: config.thinBelowNm,
     maxThicknessNm: config.maxThicknessNm,
     exposureFixed: config.exposureFixed,
+    exposureFieldFixed: config.exposureFieldFixed ?? null,
+    lightField: config.lightField ?? 'auto',
     region: config.region ?? null,
     maskPath: config.maskPath ?? null,
     anchors: config.anchors ?? [],
@@ -38,7 +40,8 @@ export function mapOptionsFromConfig(config: MapFrameConfig): MapOptions {
 export async function createFrameProcessor(config: MapFrameConfig): Promise<FrameProcessor> {
   const base = mapOptionsFromConfig(config);
   return {
-    map: (framePath, prior, previousFit) => mapPhotoFile(framePath, { ...base, prior, fitStart: previousFit ?? null }, { allowDamaged: config.allowDamaged === true }),
+    map: (framePath, prior, previousFit, previousField) =>
+      mapPhotoFile(framePath, { ...base, prior, fitStart: previousFit ?? null, fieldStart: previousField ?? null }, { allowDamaged: config.allowDamaged === true }),
     writePreviews: (result, framePath, dir, stem) =>
       writeMapOutputs(result, framePath, dir, stem, { images: true, json: false, npy: false, tiff: false }, base),
     mapReportInput: (result, framePath) => mapReportInput(result as MappedPhoto, base, framePath),

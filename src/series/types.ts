@@ -26,11 +26,11 @@ export interface FrameSource {
 
 /**
  * Maps one frame; bound once to the map settings, called with the previous frame's map as order
- * prior and its fitted photo formation as the start of this frame's fit (both null for the first
- * frame of a chunk).
+ * prior, its fitted photo formation and its light field (log-gain coefficients) as the start of
+ * this frame's fit (all null for the first frame of a chunk).
  */
 export interface FrameProcessor {
-  map(framePath: string, prior: Float32Array | null, previousFit?: MapResult['fitted'] | null): Promise<MapResult>;
+  map(framePath: string, prior: Float32Array | null, previousFit?: MapResult['fitted'] | null, previousField?: readonly number[] | null): Promise<MapResult>;
   /** Optional preview writer (`--previews`): writes images for `stem` into `dir`. */
   writePreviews?(result: MapResult, framePath: string, dir: string, stem: string): Promise<unknown>;
   /** Optional: the single-map report view of a frame (used for the series report's last frame). */
@@ -92,4 +92,8 @@ export interface FrameRecord {
    * before film areas existed: such a frame counts as film, its area the pixels not excluded.
    */
   readonly filmArea?: MapResult['filmArea'];
+  /** The light field the frame was mapped with (exact coefficients; absent or null = one exposure). */
+  readonly exposureField?: MapResult['exposureField'];
+  /** How evenly the frame's film was lit after the map (src/map/lightEvenness.ts). */
+  readonly lightEvenness?: MapResult['lightEvenness'];
 }

@@ -29,6 +29,8 @@ export function frameRecordOf(frame: FrameJob, result: MapResult, hash: string, 
     thinRegions: result.thinRegions,
     warnings: [...result.warnings],
     ...(result.filmArea ? { filmArea: result.filmArea } : {}),
+    exposureField: result.exposureField ?? null,
+    lightEvenness: result.lightEvenness ?? null,
   };
 }
 

@@ -4,6 +4,7 @@
  * Exit status 3 when any frame failed, 130/143 when interrupted by SIGINT/SIGTERM.
  */
 import { CAMERA_HELP, parseCameraOption } from '../cameraOption.js';
+import { LIGHT_FIELD_HELP, parseLightFieldOption } from '../lightFieldOption.js';
 import { availableParallelism } from 'node:os';
 import { Option, type Command } from 'commander';
 import { resolve } from 'node:path';
@@ -27,6 +28,7 @@ export interface SeriesCliOptions extends StackCliOptions, FilmAreaCliOptions {
   whiteBalance?: string;
   camera?: string;
   ignoreCalibrationMismatch?: boolean;
+  lightField?: string;
   fps?: string;
   interval?: string;
   calibration?: string;
@@ -88,6 +90,7 @@ export async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions
   // Lights are checked here, once, not by every frame's worker.
   lightsFromOptions(opts);
   const camera = parseCameraOption(opts.camera);
+  const lightField = parseLightFieldOption(opts.lightField);
   const calibration = opts.calibration === undefined
     ? null
     : await loadCalibrationForRun(opts.calibration, { stack: opts.stack ?? '', light: opts.light, angleRad, whiteBalanceLight: opts.whiteBalance ?? null, camera, ignoreMismatch: opts.ignoreCalibrationMismatch === true });
@@ -102,6 +105,10 @@ export async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions
   const config: MapFrameConfig = {
     stackOptions, light: opts.light, whiteBalanceLight, camera, thinBelowNm, maxThicknessNm,
     filmIndexScale: calibration?.filmIndexScale ?? null, exposureFixed: calibration?.exposureFixed ?? null,
+    exposureFieldFixed: calibration?.exposureField
+      ? { ...calibration.exposureField, file: opts.calibration!, ignoreSizeMismatch: opts.ignoreCalibrationMismatch === true }
+      : null,
+    lightField,
     region, maskPath, anchors, pixelSizeUm, filmArea, expectNm,
     ...(opts.allowDamaged ? { allowDamaged: true } : {}),
   };
@@ -119,6 +126,7 @@ export async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions
       ...(opts.allowDamaged ? { allowDamaged: true } : {}),
       // Part of the settings hash: changing either re-maps the frames.
       filmArea, ...(expectNm !== null ? { expectNm } : {}),
+      ...(lightField !== 'auto' ? { lightField } : {}),
     },
     calibration: calibration?.raw ?? null,
     // Stack, material, SPD and calibration files read above, and the mask: by content.
@@ -138,6 +146,12 @@ export async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions
         if (!(a.x >= 0 && a.x < width && a.y >= 0 && a.y < height)) throw new UsageError(`--anchor ${a.x},${a.y} lies outside the ${frames}`);
       }
       if (maskPath) await readMask(maskPath, width, height);
+      const field = config.exposureFieldFixed;
+      if (field && !field.ignoreSizeMismatch && (field.widthPx !== width || field.heightPx !== height)) {
+        throw new UsageError(
+          `--calibration ${field.file}: its light field was fitted on a ${field.widthPx}×${field.heightPx} photo, the frames are ${width}×${height} (calibrate on a frame of this size, or add --ignore-calibration-mismatch to stretch it over the frames)`,
+        );
+      }
     },
   };
 }
@@ -211,6 +225,7 @@ export function register(program: Command): void {
     .option('--fps <n>', 'frames per second, for frames without an EXIF capture time')
     .option('--interval <s>', 'seconds between frames, for frames without an EXIF capture time')
     .option('--calibration <file>', 'photo-formation parameters from `lamella calibrate` instead of fitting them on every frame')
+    .option('--light-field <mode>', LIGHT_FIELD_HELP, 'auto')
     .option('--ignore-calibration-mismatch', 'use a calibration made for another stack or light');
   addFilmAreaOptions(command, 'frames')
     .option('--workers <n>', 'worker threads', String(availableParallelism()))
