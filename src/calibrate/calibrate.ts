@@ -130,11 +130,11 @@ function calibrationFieldJson(field: CalibrationField | null, note: string, widt
     }
   }
   return {
-    model: 'log relative gain = quadratic in u, v (pixel centre minus photo centre, over half the longer side); gain 1 at the centre',
+    model: 'log relative gain = quadratic in u, v plus a radial r⁴ term (u, v: pixel centre minus photo centre, over half the longer side); gain 1 at the centre',
     log_gain_coefficients: field.logGainCoefficients,
     standard_errors: field.standardErrors.map(round4),
     terms: [...EXPOSURE_FIELD_TERMS],
-    fitted_terms: field.terms === 5 ? 'quadratic' : 'plane',
+    fitted_terms: field.tier,
     photo_size_px: [width, height],
     relative_gain_min: round4(gainMin),
     relative_gain_max: round4(gainMax),

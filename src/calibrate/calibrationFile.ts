@@ -6,7 +6,7 @@
  *     the --camera value, srgb | linear | a sensitivities CSV path; absent in older files = srgb)
  *   fitted: { exposure, whiteBalance: [r,g,b], flare: [r,g,b], filmIndexScale, angleDeg }
  *   filmIndexScale (top level, same value), uncertainty, known_regions, photo, photo_size_px, warnings
- *   exposure_field: { log_gain_coefficients: [6 numbers] | null, photo_size_px: [w, h], … }  (the light
+ *   exposure_field: { log_gain_coefficients: [7 numbers] | null, photo_size_px: [w, h], … }  (the light
  *     field fitted on the known regions, see ./fitCalibration.ts; absent in older files = none)
  * A calibration made for another stack, light, angle, camera white balance or camera is refused unless
  * the user overrides.
@@ -15,6 +15,7 @@ import { readFile } from 'node:fs/promises';
 import { describeJsonSyntaxError, noteInputFile, regularFileProblemSync } from '../io/inputFiles.js';
 import { InputError, UsageError } from '../errors.js';
 import type { ExposureParameters } from '../map/types.js';
+import { EXPOSURE_FIELD_TERMS } from '../map/mapResultJson.js';
 
 export const CALIBRATION_VERSION = 1;
 
@@ -100,7 +101,9 @@ function fieldOf(file: string, value: unknown): CalibrationForRun['exposureField
   const field = value as Record<string, unknown>;
   if (field.log_gain_coefficients === null || field.log_gain_coefficients === undefined) return null;
   const c = field.log_gain_coefficients;
-  if (!Array.isArray(c) || c.length !== 6) throw new InputError(file, `exposure_field.log_gain_coefficients must be an array of 6 finite numbers, received ${show(c)}`);
+  if (!Array.isArray(c) || c.length !== EXPOSURE_FIELD_TERMS.length) {
+    throw new InputError(file, `exposure_field.log_gain_coefficients must be an array of ${EXPOSURE_FIELD_TERMS.length} finite numbers (${EXPOSURE_FIELD_TERMS.join(', ')}), received ${show(c)}`);
+  }
   const coefficients = c.map((v, k) => finite(file, `exposure_field.log_gain_coefficients[${k}]`, v));
   const size = field.photo_size_px;
   if (!Array.isArray(size) || size.length !== 2 || !size.every((v) => Number.isInteger(v) && (v as number) > 0)) {

@@ -14,8 +14,9 @@
  * size is given and the known regions are spread over the photo, the exposure becomes a field,
  * exposure·exp(Σ c_k·b_k(u, v)) at each region's centre, on the basis of
  * ../map/lightEvenness.ts without its constant (the exposure is the gain at the photo's centre):
- * the quadratic (u, v, u², uv, v²) with 8 or more regions spread over at least half the photo's
- * width and height, else the plane (u, v) with 4 or more. A field whose coefficients the regions
+ * with the regions spread over at least half the photo's width and height, the quadratic with the
+ * radial r⁴ term of vignetting (u, v, u², uv, v², r⁴) from 12 regions, the quadratic from 8, else
+ * the plane (u, v) from 4. A field whose coefficients the regions
  * cannot pin down (standard uncertainty above `FIELD_SE_MAX`) falls back to the plane, then to one
  * exposure. Each region's colour is its median, so the field is taken at its centre.
  */
@@ -42,12 +43,12 @@ export interface CalibrationFitInput {
 
 /** A light field fitted on the known regions (coefficients on the basis of ../map/lightEvenness.ts). */
 export interface CalibrationField {
-  /** log relative gain coefficients (1, u, v, u², uv, v²); the constant is 0 (gain 1 at the centre). */
+  /** log relative gain coefficients (1, u, v, u², uv, v², r⁴); the constant is 0 (gain 1 at the centre). */
   readonly logGainCoefficients: number[];
   /** Standard uncertainties of the coefficients (0 for the terms not fitted). */
   readonly standardErrors: number[];
-  /** Terms fitted besides the constant: 2 (a plane) or 5 (a quadratic). */
-  readonly terms: 2 | 5;
+  /** Which terms were fitted besides the constant (see TIER_TERMS). */
+  readonly tier: FieldTier;
 }
 
 export interface CalibrationFitResult {
@@ -68,11 +69,15 @@ export const FIELD_SE_MAX = 0.03;
 /** Regions needed for a plane and a quadratic field, and their spread (share of width and height). */
 const FIELD_PLANE_REGIONS = 4;
 const FIELD_QUADRATIC_REGIONS = 8;
+const FIELD_RADIAL_REGIONS = 12;
 const FIELD_SPREAD = 0.5;
 
 /** Slots of the full parameter vector. */
-const SLOTS = ['exposure', 'wbR', 'wbB', 'flareR', 'flareG', 'flareB', 'indexScale', 'angleDeg', 'field u', 'field v', 'field u²', 'field uv', 'field v²'] as const;
-const FIELD_SLOTS = [8, 9, 10, 11, 12];
+const SLOTS = ['exposure', 'wbR', 'wbB', 'flareR', 'flareG', 'flareB', 'indexScale', 'angleDeg', 'field u', 'field v', 'field u²', 'field uv', 'field v²', 'field r⁴'] as const;
+const FIELD_SLOTS = [8, 9, 10, 11, 12, 13];
+/** Field terms of each tier: a plane (u, v), a quadratic, a quadratic with the radial r⁴ of vignetting. */
+const TIER_TERMS = { plane: 2, quadratic: 5, radial: 6 } as const;
+type FieldTier = keyof typeof TIER_TERMS;
 /** Slots each --fit name stands for. */
 const PARAMETER_SLOTS: Record<CalibrationParameter, readonly number[]> = { exposure: [0], 'white-balance': [1, 2], flare: [3, 4, 5], index: [6], angle: [7] };
 
@@ -110,7 +115,7 @@ export function fitCalibration(input: CalibrationFitInput): CalibrationFitResult
       warnings.push(`known region ${r.region.join(',')}=${r.thicknessNm} nm has ${(100 * r.clippedFraction).toFixed(1)} % clipped (saturated or black) pixels: its colour is not reliable`);
     }
   }
-  const full = [1, 1, 1, 0, 0, 0, 1, (input.angleRad * 180) / Math.PI, 0, 0, 0, 0, 0];
+  const full = [1, 1, 1, 0, 0, 0, 1, (input.angleRad * 180) / Math.PI, 0, 0, 0, 0, 0, 0];
   // Start the exposure from the brightest region's ratio of observed to modelled luminance.
   const base = regionColoursLinear(stack, camera, regions, 1, full[7]);
   let ratio = 0;
@@ -124,9 +129,9 @@ export function fitCalibration(input: CalibrationFitInput): CalibrationFitResult
   });
   // Only when the exposure is fitted: otherwise it is held at 1, as the warning above says.
   if (active.includes(0) && weight > 0 && ratio > 0) full[0] = ratio / weight;
-  const lowerFull = [full[0] * 0.02, 0.25, 0.25, -0.05, -0.05, -0.05, 0.8, 0, -2, -2, -2, -2, -2];
-  const upperFull = [full[0] * 50, 4, 4, 0.5, 0.5, 0.5, 1.25, 80, 2, 2, 2, 2, 2];
-  const scaleFull = [full[0], 1, 1, 0.05, 0.05, 0.05, 0.05, 10, 0.1, 0.1, 0.1, 0.1, 0.1];
+  const lowerFull = [full[0] * 0.02, 0.25, 0.25, -0.05, -0.05, -0.05, 0.8, 0, -2, -2, -2, -2, -2, -2];
+  const upperFull = [full[0] * 50, 4, 4, 0.5, 0.5, 0.5, 1.25, 80, 2, 2, 2, 2, 2, 2];
+  const scaleFull = [full[0], 1, 1, 0.05, 0.05, 0.05, 0.05, 10, 0.1, 0.1, 0.1, 0.1, 0.1, 0.1];
   const y = new Float64Array(observations);
   const weights = new Float64Array(observations);
   regions.forEach((r, k) => {
@@ -138,7 +143,7 @@ export function fitCalibration(input: CalibrationFitInput): CalibrationFitResult
     }
   });
   const x = Float64Array.from({ length: observations }, (_, i) => i);
-  // Basis of the field at each region's centre (u, v, u², uv, v²).
+  // Basis of the field at each region's centre (u, v, u², uv, v², r⁴).
   const fieldBasis = input.photoSize ? regionFieldBasis(regions, input.photoSize.width, input.photoSize.height) : null;
   let linearKey = '';
   let linear = base;
@@ -152,7 +157,7 @@ export function fitCalibration(input: CalibrationFitInput): CalibrationFitResult
     const out = new Float64Array(observations);
     for (let k = 0; k < regions.length; k++) {
       let logGain = 0;
-      if (fieldBasis) for (let j = 0; j < 5; j++) logGain += v[8 + j] * fieldBasis[k * 5 + j];
+      if (fieldBasis) for (let j = 0; j < 6; j++) logGain += v[8 + j] * fieldBasis[k * 6 + j];
       const gain = Math.exp(logGain);
       for (let c = 0; c < 3; c++) {
         const value = Math.min(1, Math.max(0, gain * balanced[k * 3 + c] + v[3 + c]));
@@ -205,8 +210,8 @@ export function fitCalibration(input: CalibrationFitInput): CalibrationFitResult
   let fieldNote = fieldChoice.note;
   let solved = solve(active);
   let field: CalibrationField | null = null;
-  for (const terms of fieldChoice.tiers) {
-    const fieldSlots = FIELD_SLOTS.slice(0, terms === 2 ? 2 : 5);
+  for (const tier of fieldChoice.tiers) {
+    const fieldSlots = FIELD_SLOTS.slice(0, TIER_TERMS[tier]);
     const withField = solve([...active, ...fieldSlots]);
     const worst = Math.max(...fieldSlots.map((slot) => withField.se[slot]));
     if (worst <= FIELD_SE_MAX) {
@@ -214,12 +219,12 @@ export function fitCalibration(input: CalibrationFitInput): CalibrationFitResult
       field = {
         logGainCoefficients: [0, ...FIELD_SLOTS.map((slot) => withField.v[slot])],
         standardErrors: [0, ...FIELD_SLOTS.map((slot) => (fieldSlots.includes(slot) ? withField.se[slot] : 0))],
-        terms,
+        tier,
       };
       fieldNote = `fitted on ${regions.length} known regions`;
       break;
     }
-    fieldNote = `the known regions cannot pin down a ${terms === 5 ? 'quadratic' : 'plane'} field (uncertainty ${Number.isFinite(worst) ? worst.toPrecision(2) : 'undefined'} above ${FIELD_SE_MAX}); one exposure used`;
+    fieldNote = `the known regions cannot pin down a ${tier} field (uncertainty ${Number.isFinite(worst) ? worst.toPrecision(2) : 'undefined'} above ${FIELD_SE_MAX}); one exposure used`;
   }
   const v = solved.v;
   warnings.push(...solved.warnings);
@@ -258,7 +263,7 @@ function chooseFieldTerms(
   fieldBasis: Float64Array | null,
   active: readonly number[],
   observations: number,
-): { tiers: Array<2 | 5>; note: string } {
+): { tiers: FieldTier[]; note: string } {
   if (input.lightField === 'off') return { tiers: [], note: 'not fitted (light field off)' };
   if (!fieldBasis || !input.photoSize) return { tiers: [], note: 'not fitted (photo size unknown)' };
   if (!active.includes(0)) return { tiers: [], note: 'not fitted (the exposure is not fitted)' };
@@ -271,21 +276,22 @@ function chooseFieldTerms(
   if (spreadX < FIELD_SPREAD || spreadY < FIELD_SPREAD) {
     return { tiers: [], note: `not fitted: the known regions span ${spread} (a field needs ${FIELD_SPREAD * 100} % of each); one exposure used` };
   }
-  const tiers: Array<2 | 5> = [];
-  if (regions.length >= FIELD_QUADRATIC_REGIONS && active.length + 5 < observations) tiers.push(5);
-  if (regions.length >= FIELD_PLANE_REGIONS && active.length + 2 < observations) tiers.push(2);
+  const tiers: FieldTier[] = [];
+  if (regions.length >= FIELD_RADIAL_REGIONS && active.length + 6 < observations) tiers.push('radial');
+  if (regions.length >= FIELD_QUADRATIC_REGIONS && active.length + 5 < observations) tiers.push('quadratic');
+  if (regions.length >= FIELD_PLANE_REGIONS && active.length + 2 < observations) tiers.push('plane');
   if (tiers.length === 0) return { tiers, note: `not fitted: ${regions.length} known regions (a field needs ${FIELD_PLANE_REGIONS} or more spread over the photo); one exposure used` };
   return { tiers, note: '' };
 }
 
-/** u, v, u², uv, v² of each region's centre (coordinates of ../map/lightEvenness.ts `relativeGainAt`). */
+/** u, v, u², uv, v², r⁴ of each region's centre (coordinates of ../map/lightEvenness.ts `relativeGainAt`). */
 function regionFieldBasis(regions: readonly KnownRegionColour[], width: number, height: number): Float64Array {
-  const out = new Float64Array(regions.length * 5);
+  const out = new Float64Array(regions.length * 6);
   const half = Math.max(width, height) / 2;
   regions.forEach((r, k) => {
     const u = (r.region[0] + r.region[2] / 2 - width / 2) / half;
     const v = (r.region[1] + r.region[3] / 2 - height / 2) / half;
-    out.set([u, v, u * u, u * v, v * v], k * 5);
+    out.set([u, v, u * u, u * v, v * v, (u * u + v * v) ** 2], k * 6);
   });
   return out;
 }

@@ -6,7 +6,7 @@
  * (flare, added after the exposure, is left as it is); map again, refitting exposure, white
  * balance and flare on the evened photo; repeat while the remaining unevenness is above
  * `SETTLED_RATIO`. The fields of the rounds multiply (their log coefficients add). A quadratic
- * surface has six numbers: enough for a fall-off across the photo and lens vignetting (both
+ * surface with a radial r⁴ term (./lightEvenness.ts) has seven numbers: enough for a fall-off across the photo and lens vignetting (both
  * smooth and slow), too few to follow the film's own colours, so it cannot invent structure.
  * Evenly lit photos are left alone: the field is fitted only when the first map's unevenness
  * exceeds `START_RATIO`, and kept only when it leaves the photo more even than it found it.
@@ -80,7 +80,7 @@ export function mapWithLightField<R extends MapResult>(
   let best = first;
   // A start field is kept unless a round leaves the photo more even (it came from the previous frame).
   let bestCoefficients: number[] | null = startCoefficients ? [...startCoefficients] : null;
-  const total = startCoefficients ? [...startCoefficients] : [0, 0, 0, 0, 0, 0];
+  const total = startCoefficients ? [...startCoefficients] : [0, 0, 0, 0, 0, 0, 0];
   let current = first;
   let rounds = 0;
   while (rounds < MAX_ROUNDS && current.lightEvenness && ratioOf(current) > SETTLED_RATIO) {

@@ -168,7 +168,7 @@ export function mapResultJson(
 export function exposureFieldJson(field: ExposureField | null): Record<string, unknown> | null {
   if (!field) return null;
   return {
-    model: 'log relative gain = quadratic in u, v (pixel centre minus photo centre, over half the longer side)',
+    model: 'log relative gain = quadratic in u, v plus a radial r⁴ term (u, v: pixel centre minus photo centre, over half the longer side)',
     log_gain_coefficients: field.logGainCoefficients.map((c) => Math.round(c * 1e6) / 1e6),
     terms: [...EXPOSURE_FIELD_TERMS],
     relative_gain_min: round(field.gainMin),
@@ -179,7 +179,7 @@ export function exposureFieldJson(field: ExposureField | null): Record<string, u
 }
 
 /** Names of the light field's basis terms, in the order of its coefficients. */
-export const EXPOSURE_FIELD_TERMS = ['1', 'u', 'v', 'u²', 'uv', 'v²'] as const;
+export const EXPOSURE_FIELD_TERMS = ['1', 'u', 'v', 'u²', 'uv', 'v²', 'r⁴'] as const;
 
 function round(value: number): number {
   return Math.round(value * 100) / 100;

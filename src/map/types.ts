@@ -147,7 +147,7 @@ export interface MapOptions {
 
 /**
  * The exposure as a smooth field over the photo (./lightField.ts): relative gain
- * exp(Σ c_k·b_k(u, v)) on the basis 1, u, v, u², uv, v² of ./lightEvenness.ts (`relativeGainAt`).
+ * exp(Σ c_k·b_k(u, v)) on the basis 1, u, v, u², uv, v², r⁴ of ./lightEvenness.ts (`relativeGainAt`).
  */
 export interface ExposureField {
   readonly logGainCoefficients: readonly number[];
