@@ -61,6 +61,23 @@ export interface MapReportInput {
   filmArea?: ReportFilmArea | null;
   /** Optional: how well the model explains the film's colours (the JSON `fit_quality`). */
   fitQuality?: ReportFitQuality | null;
+  /** Optional: the light field and the light's evenness (the JSON `exposure_field`, `light_evenness`). */
+  light?: ReportLight | null;
+}
+
+/** The light on the film: the exposure field sampled on a coarse grid over the photo, and the evenness left. */
+export interface ReportLight {
+  field: {
+    gridWidth: number;
+    gridHeight: number;
+    /** Row-major relative gain at the centre of each grid cell (median over the film = 1). */
+    relativeGain: number[];
+    gainMin: number;
+    gainMax: number;
+    rounds: number;
+    source: 'photo' | 'calibration';
+  } | null;
+  evenness: { gainMin: number; gainMax: number } | null;
 }
 
 /** The film area of a map, as in the JSON `film_area` block (`FilmAreaSummary` of src/map/types.ts). */
