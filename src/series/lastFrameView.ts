@@ -9,6 +9,7 @@ import { decodeNpy } from '../io/decodeNpy.js';
 import type { MapReportInput } from '../report/types.js';
 import { frameNpyPath, readFrameRecord } from './frameFiles.js';
 import type { FrameJob, FrameProcessor, ProcessorSource } from './types.js';
+import { frameReader } from './frameReader.js';
 
 async function processorOf(source: ProcessorSource | FrameProcessor): Promise<FrameProcessor> {
   if (typeof (source as ProcessorSource).moduleUrl !== 'string') return source as FrameProcessor;
@@ -32,6 +33,15 @@ export async function lastFrameView(
     const npy = decodeNpy(await readFile(frameNpyPath(outDir, priorFrame.stem)), priorFrame.stem);
     if (npy.data instanceof Float32Array) prior = npy.data;
   }
-  const result = await processor.map(frame.path, prior);
+  let result;
+  if (frame.container) {
+    if (!processor.mapPhoto) return null;
+    const reader = frameReader([frame]);
+    try {
+      result = await processor.mapPhoto(await reader.photoOf(frame), frame.name, prior);
+    } finally {
+      await reader.close();
+    }
+  } else result = await processor.map(frame.path, prior);
   return processor.mapReportInput(result, frame.path);
 }

@@ -4,7 +4,8 @@
  * (`MAP_FRAME_PROCESSOR_URL` in ./mapFrameConfig.ts) and call `createFrameProcessor(config)`.
  */
 import { stackFromOptions } from '../optics/stackSettings.js';
-import { mapPhotoFile, writeMapOutputs, type MappedPhoto } from '../map/mapPhoto.js';
+import { mapDecodedPhoto, mapPhotoFile, readMask, writeMapOutputs, type MappedPhoto } from '../map/mapPhoto.js';
+import { InputError } from '../errors.js';
 import { mapReportInput } from '../map/mapReportInput.js';
 import type { MapOptions } from '../map/types.js';
 import type { MapFrameConfig } from './mapFrameConfig.js';
@@ -39,7 +40,18 @@ export function mapOptionsFromConfig(config: MapFrameConfig): MapOptions {
 
 export async function createFrameProcessor(config: MapFrameConfig): Promise<FrameProcessor> {
   const base = mapOptionsFromConfig(config);
+  let mask: { width: number; height: number; pixels: Promise<Uint8Array> } | null = null;
+  const maskFor = (width: number, height: number): Promise<Uint8Array> | null => {
+    if (!base.maskPath) return null;
+    if (!mask || mask.width !== width || mask.height !== height) mask = { width, height, pixels: readMask(base.maskPath, width, height) };
+    return mask.pixels;
+  };
   return {
+    mapPhoto: async (photo, name, prior, previousFit, previousField) => {
+      if (prior && prior.length !== photo.width * photo.height) throw new InputError(name, `frame is ${photo.width}×${photo.height}, a different size from the previous frame`);
+      const pixels = maskFor(photo.width, photo.height);
+      return mapDecodedPhoto(photo, { ...base, prior, fitStart: previousFit ?? null, fieldStart: previousField ?? null }, pixels ? await pixels : null, name);
+    },
     map: (framePath, prior, previousFit, previousField) =>
       mapPhotoFile(framePath, { ...base, prior, fitStart: previousFit ?? null, fieldStart: previousField ?? null }, { allowDamaged: config.allowDamaged === true }),
     writePreviews: (result, framePath, dir, stem) =>

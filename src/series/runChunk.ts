@@ -12,6 +12,7 @@ import { frameNpyPath, isFrameDone, readFrameRecord } from './frameFiles.js';
 import { frameRecordOf, writeFrameOutputs } from './writeFrameOutputs.js';
 import { frameSettingsHash } from './frameSource.js';
 import type { FrameEvent, FrameJob, FrameProcessor } from './types.js';
+import { frameReader } from './frameReader.js';
 import type { MapResult } from '../map/types.js';
 
 export interface ChunkContext {
@@ -50,6 +51,36 @@ function messageOf(error: unknown): string {
 export async function runChunk(chunk: readonly FrameJob[], processor: FrameProcessor, context: ChunkContext): Promise<void> {
   const { outDir, settingsHash, previews, expectedSize, onFrame } = context;
   const writePreviews = previews && processor.writePreviews ? processor.writePreviews.bind(processor) : null;
+  // Frames of a video or stack are decoded here, in order (one decoder run for a video's chunk).
+  const reader = frameReader(chunk);
+  try {
+    await runFramesOfChunk(chunk, processor, context, writePreviews, reader);
+  } finally {
+    await reader.close();
+  }
+}
+
+async function mapContainerFrame(
+  processor: FrameProcessor,
+  reader: ReturnType<typeof frameReader>,
+  frame: FrameJob,
+  prior: Float32Array | null,
+  fit: MapResult['fitted'] | null,
+  field: readonly number[] | null,
+): Promise<MapResult> {
+  if (!processor.mapPhoto) throw new Error('this frame processor cannot map frames of a video or stack');
+  const photo = await reader.photoOf(frame);
+  return processor.mapPhoto(photo, frame.name, prior, fit, field);
+}
+
+async function runFramesOfChunk(
+  chunk: readonly FrameJob[],
+  processor: FrameProcessor,
+  context: ChunkContext,
+  writePreviews: FrameProcessor['writePreviews'] | null,
+  reader: ReturnType<typeof frameReader>,
+): Promise<void> {
+  const { outDir, settingsHash, previews, expectedSize, onFrame } = context;
   let previous: {
     frame: FrameJob;
     map: Float32Array | null;
@@ -79,7 +110,11 @@ export async function runChunk(chunk: readonly FrameJob[], processor: FrameProce
         previousField = previous.stored ? carriedField(record?.exposureField) : previous.field;
       }
       const priorFrame = prior === null ? null : previous!.frame.name;
-      const result = await processor.map(frame.path, prior, prior === null ? null : previousFit, prior === null ? null : previousField);
+      const fit = prior === null ? null : previousFit;
+      const field = prior === null ? null : previousField;
+      const result: MapResult = frame.container
+        ? await mapContainerFrame(processor, reader, frame, prior, fit, field)
+        : await processor.map(frame.path, prior, fit, field);
       if (expectedSize && (result.width !== expectedSize.width || result.height !== expectedSize.height)) {
         throw new RangeError(`size ${result.width}x${result.height} differs from the series' ${expectedSize.width}x${expectedSize.height}; skipped`);
       }

@@ -4,6 +4,7 @@
  */
 import type { MapResult } from '../map/types.js';
 import type { MapReportInput } from '../report/types.js';
+import type { Photo } from '../io/photo.js';
 
 /** One input frame after expansion and timing. `index` is its place in the whole, ordered input list. */
 export interface FrameJob {
@@ -15,6 +16,11 @@ export interface FrameJob {
   readonly stem: string;
   /** The frame file's fingerprint when known (./frameSource.ts): a changed photo is mapped again. */
   readonly source?: FrameSource;
+  /**
+   * A frame inside a video file or a multi-page image stack (`path` is that file): its kind and
+   * its index in the file, from 0 (./containerFrames.ts). Absent for a frame that is a file.
+   */
+  readonly container?: { readonly kind: 'video' | 'stack'; readonly index: number };
 }
 
 /** Size, modification time and SHA-256 of a frame's file. */
@@ -31,6 +37,11 @@ export interface FrameSource {
  */
 export interface FrameProcessor {
   map(framePath: string, prior: Float32Array | null, previousFit?: MapResult['fitted'] | null, previousField?: readonly number[] | null): Promise<MapResult>;
+  /**
+   * Maps a frame already decoded (a video's or a stack's frame, ./frameReader.ts); `name` names
+   * it in messages. Needed for series from video files and stacks.
+   */
+  mapPhoto?(photo: Photo, name: string, prior: Float32Array | null, previousFit?: MapResult['fitted'] | null, previousField?: readonly number[] | null): Promise<MapResult>;
   /** Optional preview writer (`--previews`): writes images for `stem` into `dir`. */
   writePreviews?(result: MapResult, framePath: string, dir: string, stem: string): Promise<unknown>;
   /** Optional: the single-map report view of a frame (used for the series report's last frame). */

@@ -31,6 +31,9 @@ export interface SeriesCliOptions extends StackCliOptions, FilmAreaCliOptions {
   lightField?: string;
   fps?: string;
   interval?: string;
+  start?: string;
+  end?: string;
+  every?: string;
   calibration?: string;
   workers: string;
   shard?: string;
@@ -75,6 +78,12 @@ export async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions
   // million frames a second.
   if (intervalS !== null && intervalS > YEAR_S) throw new UsageError(`--interval must be a number of seconds > 0 and at most ${YEAR_S} (a year), received ${opts.interval}`);
   if (fps !== null && !(fps >= 1 / YEAR_S && fps <= 1e6)) throw new UsageError(`--fps must be a number of frames per second from 1/${YEAR_S} (one a year) to 1e6, received ${opts.fps}`);
+  const startS = opts.start === undefined ? null : parseNumberOption(opts.start, '--start', 'a time in seconds >= 0');
+  const endS = opts.end === undefined ? null : parseNumberOption(opts.end, '--end', 'a time in seconds >= 0');
+  if (startS !== null && startS < 0) throw new UsageError(`--start must be a time in seconds >= 0, received ${opts.start}`);
+  if (endS !== null && endS < 0) throw new UsageError(`--end must be a time in seconds >= 0, received ${opts.end}`);
+  if (startS !== null && endS !== null && startS > endS) throw new UsageError(`--start ${opts.start} is after --end ${opts.end}`);
+  const every = positive(opts.every, '--every', true);
   // The same film-area options, defaults and limits as `lamella map`.
   const area = filmAreaFromOptions(opts);
   const { thinBelowNm, maxThicknessNm, region, anchors, pixelSizeUm, filmArea, expectNm } = area;
@@ -114,6 +123,7 @@ export async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions
   };
   return {
     inputs, outDir: opts.out, fps, intervalS, thinBelowNm, shard,
+    ...(startS !== null || endS !== null || every !== null ? { select: { startS, endS, every } } : {}),
     chunkFrames: positive(opts.chunkFrames, '--chunk-frames', true)!,
     workers: positive(opts.workers, '--workers', true)!,
     aggregateOnly: opts.aggregateOnly === true, previews: opts.previews === true, report: opts.report,
@@ -219,11 +229,14 @@ export function register(program: Command): void {
   const command = program
     .command('series')
     .description('thickness maps of a photo series (worker threads, resumable, shardable), drainage fits and a report')
-    .argument('<inputs...>', 'photos, folders of photos, or glob patterns; frames are taken in natural order of their names');
+    .argument('<inputs...>', 'photos, folders of photos, or glob patterns (frames in natural order of their names); or one video file (MP4, MOV, AVI, MKV, … read with FFmpeg) or one multi-page TIFF stack');
   addLightOptions(addStackOptions(command), { required: false })
     .option('--camera <mode-or-file>', CAMERA_HELP)
-    .option('--fps <n>', 'frames per second, for frames without an EXIF capture time')
-    .option('--interval <s>', 'seconds between frames, for frames without an EXIF capture time')
+    .option('--fps <n>', "frames per second, for frames without an EXIF capture time; for a video, overrides its own timestamps (e.g. a high-speed recording played back slower)")
+    .option('--interval <s>', 'seconds between frames, for frames without an EXIF capture time (or instead of a video\'s timestamps)')
+    .option('--start <s>', 'take frames from this time on (seconds from the first frame)')
+    .option('--end <s>', 'take frames up to this time (seconds from the first frame)')
+    .option('--every <n>', 'take every n-th of the frames in --start..--end (the first one first)')
     .option('--calibration <file>', 'photo-formation parameters from `lamella calibrate` instead of fitting them on every frame')
     .option('--light-field <mode>', LIGHT_FIELD_HELP, 'auto')
     .option('--ignore-calibration-mismatch', 'use a calibration made for another stack or light');
