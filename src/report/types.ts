@@ -159,4 +159,13 @@ export interface SeriesReportInput {
   rupture?: SeriesRupture | null;
   /** The full map view for the last (or a chosen) frame. */
   lastMap?: MapReportInput;
+  /** Optional: what the frames observed and the reliable predictions (`series.json` `observations`); they lead the page. */
+  observations?: ReportSeriesObservations | null;
+}
+
+/** As `series.json` `observations` (src/series/observations.ts). */
+export interface ReportSeriesObservations {
+  first_thin: { frame: string; time_s: number } | null;
+  recent_thinning: { rate_nm_per_s: number; standard_error_nm_per_s: number | null; frames: number; from_s: number; to_s: number } | null;
+  predictions: ReadonlyArray<{ quantity: 'mean' | 'min'; threshold_nm: number; time_s: number | null; range_s: readonly [number, number] | null; extrapolated: boolean; reason: string | null }>;
 }
