@@ -276,7 +276,7 @@ function lightFieldStartOf(options: MapOptions, width: number, height: number): 
 }
 
 /** sRGB-encodes a linear photo's values (a copy in shared memory, for the mapper's threads). */
-function encodeLinearPhoto(linear: Float32Array): Float32Array {
+export function encodeLinearPhoto(linear: Float32Array): Float32Array {
   const out = new Float32Array(new SharedArrayBuffer(linear.length * 4));
   for (let i = 0; i < linear.length; i++) out[i] = encodeSrgb(linear[i] < 0 ? 0 : linear[i] > 1 ? 1 : linear[i]);
   return out;

@@ -4,7 +4,8 @@
  * (`MAP_FRAME_PROCESSOR_URL` in ./mapFrameConfig.ts) and call `createFrameProcessor(config)`.
  */
 import { stackFromOptions } from '../optics/stackSettings.js';
-import { mapDecodedPhoto, mapPhotoFile, readMask, writeMapOutputs, type MappedPhoto } from '../map/mapPhoto.js';
+import { encodeLinearPhoto, mapDecodedPhoto, mapPhotoFile, readMask, writeMapOutputs, type MappedPhoto } from '../map/mapPhoto.js';
+import { thicknessHistogram } from '../map/statistics.js';
 import { InputError } from '../errors.js';
 import { mapReportInput } from '../map/mapReportInput.js';
 import type { MapOptions } from '../map/types.js';
@@ -57,5 +58,28 @@ export async function createFrameProcessor(config: MapFrameConfig): Promise<Fram
     writePreviews: (result, framePath, dir, stem) =>
       writeMapOutputs(result, framePath, dir, stem, { images: true, json: false, npy: false, tiff: false }, base),
     mapReportInput: (result, framePath) => mapReportInput(result as MappedPhoto, base, framePath),
+    storedReportInput: (stored, photo, framePath) => {
+      const { record } = stored;
+      const result: MappedPhoto = {
+        width: record.width,
+        height: record.height,
+        thicknessNm: stored.thicknessNm,
+        confidence: stored.confidence,
+        status: stored.status,
+        fitted: record.fitted,
+        stats: record.stats,
+        histogram: thicknessHistogram(stored.thicknessNm, stored.status, record.stats.min_nm, record.stats.max_nm),
+        thinRegions: record.thinRegions,
+        darkLimitNm: record.darkLimitNm,
+        warnings: record.warnings,
+        ...(record.filmArea ? { filmArea: record.filmArea } : {}),
+        fitQuality: record.fitQuality ?? null,
+        lightEvenness: record.lightEvenness ?? null,
+        exposureField: record.exposureField ?? null,
+        // The photo as the mapper saw it: a linear camera's values sRGB-encoded (mapPhoto.ts).
+        photoRgb: base.camera && base.camera !== 'srgb' ? encodeLinearPhoto(photo.rgb) : photo.rgb,
+      };
+      return mapReportInput(result, { ...base, prior: null }, framePath);
+    },
   };
 }

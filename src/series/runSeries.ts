@@ -36,7 +36,7 @@ export const DEFAULT_CHUNK_FRAMES = 10;
 /** The aggregate outputs in OUT, replaced as one set. */
 export const AGGREGATE_OUTPUTS = ['series.csv', 'series.json', 'report.html'] as const;
 /** Per-frame outputs in OUT/frames (./frameFiles.ts). */
-const FRAME_SUFFIXES = ['.json', '.thickness.npy', '.status.npy', '.map.png', '.flags.png'];
+const FRAME_SUFFIXES = ['.json', '.thickness.npy', '.status.npy', '.confidence.npy', '.map.png', '.flags.png'];
 
 export interface SeriesOptions {
   readonly inputs: readonly string[];

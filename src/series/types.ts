@@ -46,6 +46,8 @@ export interface FrameProcessor {
   writePreviews?(result: MapResult, framePath: string, dir: string, stem: string): Promise<unknown>;
   /** Optional: the single-map report view of a frame (used for the series report's last frame). */
   mapReportInput?(result: MapResult, framePath: string): Promise<MapReportInput>;
+  /** Optional: the report view of a frame's stored result and its decoded photo (no second mapping). */
+  storedReportInput?(stored: StoredFrame, photo: Photo, framePath: string): Promise<MapReportInput>;
 }
 
 /**
@@ -107,4 +109,14 @@ export interface FrameRecord {
   readonly exposureField?: MapResult['exposureField'];
   /** How evenly the frame's film was lit after the map (src/map/lightEvenness.ts). */
   readonly lightEvenness?: MapResult['lightEvenness'];
+  /** How well the model explains the frame's colours (absent in older records). */
+  readonly fitQuality?: MapResult['fitQuality'];
+}
+
+/** A frame's stored result as read back from `frames/` (for the report's map view). */
+export interface StoredFrame {
+  readonly record: FrameRecord;
+  readonly thicknessNm: Float32Array;
+  readonly status: Uint8Array;
+  readonly confidence: Float32Array;
 }

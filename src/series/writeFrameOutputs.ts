@@ -31,6 +31,7 @@ export function frameRecordOf(frame: FrameJob, result: MapResult, hash: string, 
     ...(result.filmArea ? { filmArea: result.filmArea } : {}),
     exposureField: result.exposureField ?? null,
     lightEvenness: result.lightEvenness ?? null,
+    fitQuality: result.fitQuality ?? null,
   };
 }
 
@@ -48,6 +49,7 @@ export async function writeFrameOutputs(
   try {
     await writeFile(join(staging, `${frame.stem}.thickness.npy`), encodeNpy(result.thicknessNm, [result.height, result.width]));
     await writeFile(join(staging, `${frame.stem}.status.npy`), encodeNpy(result.status, [result.height, result.width]));
+    await writeFile(join(staging, `${frame.stem}.confidence.npy`), encodeNpy(result.confidence, [result.height, result.width]));
     if (previews) await previews(result, frame.path, staging, frame.stem);
     const recordName = `${frame.stem}.json`;
     await writeFile(join(staging, recordName), `${JSON.stringify(record, null, 2)}\n`);
