@@ -178,6 +178,8 @@ export interface OutputSelection {
   readonly json: boolean;
   readonly npy: boolean;
   readonly tiff: boolean;
+  /** The map picture's colour range [min, max] nm (a series' common range); default the map's own. */
+  readonly rangeNm?: readonly [number, number] | null;
 }
 
 /**
@@ -239,7 +241,7 @@ async function writeEachOutput(
     start(jsonPath, () => atomicWriteFile(jsonPath, Buffer.from(`${JSON.stringify(json, null, 2)}\n`, 'utf8')));
   }
   if (what.images) {
-    const range = scaleRangeOf(result);
+    const range = what.rangeNm ? { minNm: what.rangeNm[0], maxNm: what.rangeNm[1] } : scaleRangeOf(result);
     const mapPath = join(outDir, `${stem}.map.png`);
     const mapPng = renderMapPng(result, range, options?.pixelSizeUm ?? null, `${basename(photoPath)} — thickness`);
     start(mapPath, async () => atomicWriteFile(mapPath, await mapPng));

@@ -12,7 +12,7 @@ import { frameNpyPath, readFrameRecord } from './frameFiles.js';
 import type { FrameJob, FrameProcessor, ProcessorSource, StoredFrame } from './types.js';
 import { frameReader } from './frameReader.js';
 
-async function processorOf(source: ProcessorSource | FrameProcessor): Promise<FrameProcessor> {
+export async function processorOf(source: ProcessorSource | FrameProcessor): Promise<FrameProcessor> {
   if (typeof (source as ProcessorSource).moduleUrl !== 'string') return source as FrameProcessor;
   const { moduleUrl, config } = source as ProcessorSource;
   const mod = (await import(moduleUrl)) as { createFrameProcessor: (config: unknown) => Promise<FrameProcessor> };
@@ -28,7 +28,7 @@ async function readArray(path: string): Promise<Float32Array | Uint8Array | null
   }
 }
 
-async function storedFrame(outDir: string, frame: FrameJob): Promise<StoredFrame | null> {
+export async function storedFrame(outDir: string, frame: FrameJob): Promise<StoredFrame | null> {
   const record = await readFrameRecord(outDir, frame.stem);
   if (!record) return null;
   const [thicknessNm, status, confidence] = await Promise.all(

@@ -18,6 +18,8 @@ export interface MapFrameConfig {
   readonly exposureFixed: ExposureParameters | null;
   /** The calibration's light field (MapOptions.exposureFieldFixed), if any. */
   readonly exposureFieldFixed?: FixedExposureField | null;
+  /** `--range`: the colour range of the frame previews [min, max] nm (absent: each frame's own, redrawn in the series' range at aggregation). */
+  readonly rangeNm?: readonly [number, number] | null;
   /** `--light-field` (MapOptions.lightField; absent = auto). */
   readonly lightField?: 'auto' | 'off';
   /** Film area, as for `lamella map`: a rectangle x, y, w, h or a mask image path (optional). */

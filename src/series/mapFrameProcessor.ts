@@ -10,7 +10,8 @@ import { InputError } from '../errors.js';
 import { mapReportInput } from '../map/mapReportInput.js';
 import type { MapOptions } from '../map/types.js';
 import type { MapFrameConfig } from './mapFrameConfig.js';
-import type { FrameProcessor } from './types.js';
+import type { FrameProcessor, StoredFrame } from './types.js';
+import { scaleRangeOf } from '../map/mapImages.js';
 
 export function mapOptionsFromConfig(config: MapFrameConfig): MapOptions {
   // The film index scale goes to the mapper only (it scales the film index when building its
@@ -39,6 +40,28 @@ export function mapOptionsFromConfig(config: MapFrameConfig): MapOptions {
   };
 }
 
+/** A frame's stored result as a map result (for its report view and its preview). */
+function storedResult(stored: StoredFrame): MappedPhoto {
+  const { record } = stored;
+  return {
+    width: record.width,
+    height: record.height,
+    thicknessNm: stored.thicknessNm,
+    confidence: stored.confidence,
+    status: stored.status,
+    fitted: record.fitted,
+    stats: record.stats,
+    histogram: thicknessHistogram(stored.thicknessNm, stored.status, record.stats.min_nm, record.stats.max_nm),
+    thinRegions: record.thinRegions,
+    darkLimitNm: record.darkLimitNm,
+    warnings: record.warnings,
+    ...(record.filmArea ? { filmArea: record.filmArea } : {}),
+    fitQuality: record.fitQuality ?? null,
+    lightEvenness: record.lightEvenness ?? null,
+    exposureField: record.exposureField ?? null,
+  };
+}
+
 export async function createFrameProcessor(config: MapFrameConfig): Promise<FrameProcessor> {
   const base = mapOptionsFromConfig(config);
   let mask: { width: number; height: number; pixels: Promise<Uint8Array> } | null = null;
@@ -55,31 +78,20 @@ export async function createFrameProcessor(config: MapFrameConfig): Promise<Fram
     },
     map: (framePath, prior, previousFit, previousField) =>
       mapPhotoFile(framePath, { ...base, prior, fitStart: previousFit ?? null, fieldStart: previousField ?? null }, { allowDamaged: config.allowDamaged === true }),
-    writePreviews: (result, framePath, dir, stem) =>
-      writeMapOutputs(result, framePath, dir, stem, { images: true, json: false, npy: false, tiff: false }, base),
+    writePreviews: async (result, framePath, dir, stem) => {
+      const range = config.rangeNm ?? null;
+      await writeMapOutputs(result, framePath, dir, stem, { images: true, json: false, npy: false, tiff: false, rangeNm: range }, base);
+      const used = range ?? [scaleRangeOf(result).minNm, scaleRangeOf(result).maxNm];
+      return { rangeNm: [used[0], used[1]] as [number, number] };
+    },
     mapReportInput: (result, framePath) => mapReportInput(result as MappedPhoto, base, framePath),
     storedReportInput: (stored, photo, framePath) => {
-      const { record } = stored;
-      const result: MappedPhoto = {
-        width: record.width,
-        height: record.height,
-        thicknessNm: stored.thicknessNm,
-        confidence: stored.confidence,
-        status: stored.status,
-        fitted: record.fitted,
-        stats: record.stats,
-        histogram: thicknessHistogram(stored.thicknessNm, stored.status, record.stats.min_nm, record.stats.max_nm),
-        thinRegions: record.thinRegions,
-        darkLimitNm: record.darkLimitNm,
-        warnings: record.warnings,
-        ...(record.filmArea ? { filmArea: record.filmArea } : {}),
-        fitQuality: record.fitQuality ?? null,
-        lightEvenness: record.lightEvenness ?? null,
-        exposureField: record.exposureField ?? null,
-        // The photo as the mapper saw it: a linear camera's values sRGB-encoded (mapPhoto.ts).
-        photoRgb: base.camera && base.camera !== 'srgb' ? encodeLinearPhoto(photo.rgb) : photo.rgb,
-      };
-      return mapReportInput(result, { ...base, prior: null }, framePath);
+      // The photo as the mapper saw it: a linear camera's values sRGB-encoded (mapPhoto.ts).
+      const photoRgb = base.camera && base.camera !== 'srgb' ? encodeLinearPhoto(photo.rgb) : photo.rgb;
+      return mapReportInput({ ...storedResult(stored), photoRgb }, { ...base, prior: null }, framePath);
+    },
+    renderStoredPreview: async (stored, framePath, dir, stem, rangeNm) => {
+      await writeMapOutputs(storedResult(stored), framePath, dir, stem, { images: true, json: false, npy: false, tiff: false, rangeNm }, base);
     },
   };
 }

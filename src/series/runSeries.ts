@@ -27,7 +27,8 @@ import { fitSeriesDrainage } from './fits/fitSeriesDrainage.js';
 import { findRupture, rowHasFilm } from './rupture.js';
 import { renderSeriesReport } from '../report/renderSeriesReport.js';
 import { seriesReportInput } from './seriesReportInput.js';
-import { lastFrameView } from './lastFrameView.js';
+import { lastFrameView, processorOf } from './lastFrameView.js';
+import { redrawPreviews, seriesRangeOf } from './seriesPreviews.js';
 import type { MapReportInput } from '../report/types.js';
 import { seriesSummary, type SeriesSummary } from './seriesSummary.js';
 import type { FrameEvent, FrameJob, FrameProcessor, ProcessorSource, SeriesProgress } from './types.js';
@@ -43,6 +44,8 @@ export interface SeriesOptions {
   readonly outDir: string;
   readonly fps?: number | null;
   readonly intervalS?: number | null;
+  /** `--range`: the previews' colour range [min, max] nm; default the series' own (./seriesPreviews.ts). */
+  readonly rangeNm?: readonly [number, number] | null;
   /** Frames to take: times from `startS` to `endS` (seconds, inclusive), then every `every`-th of them. */
   readonly select?: { readonly startS?: number | null; readonly endS?: number | null; readonly every?: number | null } | null;
   readonly thinBelowNm: number | null;
@@ -204,13 +207,25 @@ export async function runSeries(options: SeriesOptions): Promise<SeriesResult> {
   if (aborted()) return interrupted;
   const collected = await collectSeriesRows(outDir, frames, timed.map((t) => t.timeS), hash);
   if (collected.stale.length > 0) warnings.push(`${collected.stale.length} frame(s) have results from other settings or another photo file (e.g. ${collected.stale[0]}); they are left out until mapped again`);
+  // Previews in one colour range for the whole series (given, or the series' own).
+  let previewRangeNm: readonly [number, number] | null = null;
+  if (options.previews && collected.rows.length > 0) {
+    const current = frames.filter((f) => collected.rows.some((r) => r.frame === f.name));
+    const records = (await Promise.all(current.map((f) => readFrameRecord(outDir, f.stem)))).filter((r): r is NonNullable<typeof r> => r !== null);
+    previewRangeNm = options.rangeNm ?? seriesRangeOf(records);
+    if (previewRangeNm) await redrawPreviews(outDir, current, previewRangeNm, await processorOf(options.processor), aborted);
+    if (aborted()) return interrupted;
+  }
   // Rupture and fits from the aggregated rows only, so shards + aggregation give a single run's record.
   const film = findRupture(collected.rows);
   warnings.push(...film.warnings);
   const drainage = fitSeriesDrainage(collected.rows, options.thinBelowNm, film);
   warnings.push(...drainage.warnings);
   const summary = seriesSummary({
-    settings: { ...options.mapSettings, thinBelowNm: options.thinBelowNm, chunkFrames: chunkSize, timeSource: timing.source, settingsHash: hash },
+    settings: {
+      ...options.mapSettings, thinBelowNm: options.thinBelowNm, chunkFrames: chunkSize, timeSource: timing.source, settingsHash: hash,
+      ...(previewRangeNm ? { previewRangeNm: [...previewRangeNm], previewRangeSource: options.rangeNm ? '--range' : 'the series (lowest 5th to highest 95th percentile)' } : {}),
+    },
     calibration: options.calibration ?? null,
     frames: frames.length,
     rows: collected.rows,

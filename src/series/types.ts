@@ -42,8 +42,10 @@ export interface FrameProcessor {
    * it in messages. Needed for series from video files and stacks.
    */
   mapPhoto?(photo: Photo, name: string, prior: Float32Array | null, previousFit?: MapResult['fitted'] | null, previousField?: readonly number[] | null): Promise<MapResult>;
-  /** Optional preview writer (`--previews`): writes images for `stem` into `dir`. */
-  writePreviews?(result: MapResult, framePath: string, dir: string, stem: string): Promise<unknown>;
+  /** Optional preview writer (`--previews`): writes images for `stem` into `dir`; may say the colour range it used. */
+  writePreviews?(result: MapResult, framePath: string, dir: string, stem: string): Promise<{ rangeNm?: [number, number] } | void | unknown>;
+  /** Optional: (re)draws a stored frame's map preview in the series' common colour range. */
+  renderStoredPreview?(stored: StoredFrame, framePath: string, dir: string, stem: string, rangeNm: readonly [number, number]): Promise<void>;
   /** Optional: the single-map report view of a frame (used for the series report's last frame). */
   mapReportInput?(result: MapResult, framePath: string): Promise<MapReportInput>;
   /** Optional: the report view of a frame's stored result and its decoded photo (no second mapping). */
@@ -111,6 +113,8 @@ export interface FrameRecord {
   readonly lightEvenness?: MapResult['lightEvenness'];
   /** How well the model explains the frame's colours (absent in older records). */
   readonly fitQuality?: MapResult['fitQuality'];
+  /** The colour range [min, max] nm its map preview was drawn in (with --previews). */
+  readonly previewRangeNm?: readonly [number, number];
 }
 
 /** A frame's stored result as read back from `frames/` (for the report's map view). */

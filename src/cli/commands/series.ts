@@ -10,7 +10,7 @@ import { Option, type Command } from 'commander';
 import { resolve } from 'node:path';
 import { InputError, UsageError, EXIT_INPUT } from '../errors.js';
 import { addStackOptions, parseNumberOption, stackFromOptions, type StackCliOptions } from '../stackOptions.js';
-import { addFilmAreaOptions, filmAreaFromOptions, type FilmAreaCliOptions } from '../filmAreaOptions.js';
+import { addFilmAreaOptions, filmAreaFromOptions, parseExpect, type FilmAreaCliOptions } from '../filmAreaOptions.js';
 import { parseShard } from '../../series/parseShard.js';
 import { runSeries, DEFAULT_CHUNK_FRAMES, type SeriesOptions } from '../../series/runSeries.js';
 import { loadCalibrationForRun } from '../../calibrate/calibrationFile.js';
@@ -34,6 +34,7 @@ export interface SeriesCliOptions extends StackCliOptions, FilmAreaCliOptions {
   start?: string;
   end?: string;
   every?: string;
+  range?: string;
   calibration?: string;
   workers: string;
   shard?: string;
@@ -84,6 +85,7 @@ export async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions
   if (endS !== null && endS < 0) throw new UsageError(`--end must be a time in seconds >= 0, received ${opts.end}`);
   if (startS !== null && endS !== null && startS > endS) throw new UsageError(`--start ${opts.start} is after --end ${opts.end}`);
   const every = positive(opts.every, '--every', true);
+  const rangeNm = opts.range === undefined ? null : parseExpect(opts.range, Number.MAX_VALUE, '--range');
   // The same film-area options, defaults and limits as `lamella map`.
   const area = filmAreaFromOptions(opts);
   const { thinBelowNm, maxThicknessNm, region, anchors, pixelSizeUm, filmArea, expectNm } = area;
@@ -114,6 +116,7 @@ export async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions
   const config: MapFrameConfig = {
     stackOptions, light: opts.light, whiteBalanceLight, camera, thinBelowNm, maxThicknessNm,
     filmIndexScale: calibration?.filmIndexScale ?? null, exposureFixed: calibration?.exposureFixed ?? null,
+    ...(rangeNm !== null ? { rangeNm } : {}),
     exposureFieldFixed: calibration?.exposureField
       ? { ...calibration.exposureField, file: opts.calibration!, ignoreSizeMismatch: opts.ignoreCalibrationMismatch === true }
       : null,
@@ -124,6 +127,7 @@ export async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions
   return {
     inputs, outDir: opts.out, fps, intervalS, thinBelowNm, shard,
     ...(startS !== null || endS !== null || every !== null ? { select: { startS, endS, every } } : {}),
+    ...(rangeNm !== null ? { rangeNm } : {}),
     chunkFrames: positive(opts.chunkFrames, '--chunk-frames', true)!,
     workers: positive(opts.workers, '--workers', true)!,
     aggregateOnly: opts.aggregateOnly === true, previews: opts.previews === true, report: opts.report,
@@ -245,7 +249,8 @@ export function register(program: Command): void {
     .option('--shard <K/N>', 'map only the K-th of N contiguous parts of the series (1-based), then aggregate what OUT holds')
     .option('--chunk-frames <n>', 'frames per chunk: each chunk starts without a prior map; keep equal across shards', String(DEFAULT_CHUNK_FRAMES))
     .option('--aggregate-only', 'map nothing; aggregate the per-frame results already in OUT (after shard runs)')
-    .option('--previews', 'also write <frame>.map.png and <frame>.flags.png per frame')
+    .option('--previews', 'also write <frame>.map.png and <frame>.flags.png per frame (all maps in one colour range: the series\' own, or --range)')
+    .option('--range <min-max>', 'colour range of the previews and the report\'s frame slider, nm (e.g. 0-1200); default the series\' own (lowest 5th to highest 95th percentile)')
     .option('--allow-damaged', 'map frames the decoder reports as damaged as far as they decode (a warning; the rest has no estimate)')
     .option('--quiet', 'no progress display, warnings or summary (failed frames are still reported)')
     .addOption(new Option('--no-report', 'do not write report.html'))
