@@ -166,6 +166,12 @@ export async function runSeries(options: SeriesOptions): Promise<SeriesResult> {
   // What a run killed outright left of the aggregate outputs: finish or drop it.
   recoverStagedSets(outDir);
   const chunks = chunkFrames(frames, chunkSize);
+  if (options.shard && options.shard.count > chunks.length && !options.aggregateOnly) {
+    // More shards than chunks would leave some shards with nothing to map: say so in every shard.
+    throw new UsageError(
+      `--shard ${options.shard.index}/${options.shard.count}: the series has only ${chunks.length} chunk(s) of up to ${chunkSize} frames; use at most ${chunks.length} shards, or a smaller --chunk-frames (the same in every shard)`,
+    );
+  }
   const mine = options.shard ? shardChunks(chunks, options.shard) : chunks;
   const toVisit = options.aggregateOnly ? [] : mine;
   await removePartialFrames(outDir, new Set(toVisit.flat().map((f) => f.stem)));
@@ -187,7 +193,6 @@ export async function runSeries(options: SeriesOptions): Promise<SeriesResult> {
     }
   }
   options.onPlan?.({ frames: frames.length, toVisit: visitCount, chunks: toVisit.length, workers, stored, remap: { count: reasons.length, why: describeRemapReasons(reasons) } });
-  if (options.shard && mine.length === 0) warnings.push(`shard ${options.shard.index}/${options.shard.count} has no frames (${chunks.length} chunk(s) of ${chunkSize} frames)`);
   const run = toVisit.length === 0 ? { events: [], interrupted: false } : await runFrames({
     chunks: toVisit,
     outDir,
@@ -206,6 +211,11 @@ export async function runSeries(options: SeriesOptions): Promise<SeriesResult> {
   const interrupted: SeriesResult = { interrupted: true, summary: null, failures, warnings, events: run.events, outputs: [] };
   if (aborted()) return interrupted;
   const collected = await collectSeriesRows(outDir, frames, timed.map((t) => t.timeS), hash);
+  if (options.aggregateOnly && collected.missing.length > 0) {
+    // After shard runs: frames without a current result (failed, or their shard did not finish) make the aggregate incomplete.
+    const names = collected.missing.length <= 10 ? collected.missing.join(', ') : `${collected.missing.slice(0, 10).join(', ')} and ${collected.missing.length - 10} more`;
+    failures.push(`${collected.missing.length} of ${frames.length} frame(s) have no current result: ${names}; rerun the shards that map them (the same command with their --shard), or this command without --aggregate-only to map them here`);
+  }
   if (collected.stale.length > 0) warnings.push(`${collected.stale.length} frame(s) have results from other settings or another photo file (e.g. ${collected.stale[0]}); they are left out until mapped again`);
   // Previews in one colour range for the whole series (given, or the series' own).
   let previewRangeNm: readonly [number, number] | null = null;

@@ -38,6 +38,7 @@ export interface SeriesCliOptions extends StackCliOptions, FilmAreaCliOptions {
   calibration?: string;
   workers: string;
   shard?: string;
+  shardCount?: string;
   chunkFrames: string;
   aggregateOnly?: boolean;
   previews?: boolean;
@@ -90,7 +91,10 @@ export async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions
   const area = filmAreaFromOptions(opts);
   const { thinBelowNm, maxThicknessNm, region, anchors, pixelSizeUm, filmArea, expectNm } = area;
   let shard = null;
-  if (opts.shard !== undefined) {
+  if (opts.shardCount !== undefined && opts.shard !== 'auto') throw new UsageError('--shard-count goes with --shard auto (a Kubernetes indexed Job)');
+  if (opts.shard === 'auto') {
+    shard = shardFromEnvironment(process.env, opts.shardCount === undefined ? null : positive(opts.shardCount, '--shard-count', true));
+  } else if (opts.shard !== undefined) {
     try {
       shard = parseShard(opts.shard);
     } catch (error) {
@@ -170,6 +174,36 @@ export async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions
   };
 }
 
+/**
+ * `--shard auto`: this task's shard from the scheduler's environment. Slurm job arrays number
+ * tasks SLURM_ARRAY_TASK_MIN, MIN + STEP, … (SLURM_ARRAY_TASK_COUNT of them); a Kubernetes indexed
+ * Job numbers pods from 0 (JOB_COMPLETION_INDEX) and the count comes from --shard-count.
+ */
+export function shardFromEnvironment(env: NodeJS.ProcessEnv, shardCount: number | null): { index: number; count: number } {
+  const whole = (name: string): number | null => {
+    const v = env[name];
+    return v !== undefined && /^\d+$/.test(v.trim()) ? Number(v) : null;
+  };
+  const id = whole('SLURM_ARRAY_TASK_ID');
+  const count = whole('SLURM_ARRAY_TASK_COUNT');
+  if (id !== null && count !== null && count >= 1) {
+    const min = whole('SLURM_ARRAY_TASK_MIN') ?? 1;
+    const step = whole('SLURM_ARRAY_TASK_STEP') ?? 1;
+    const index = (id - min) / Math.max(step, 1) + 1;
+    if (!Number.isInteger(index) || index < 1 || index > count) {
+      throw new UsageError(`--shard auto: SLURM_ARRAY_TASK_ID ${id} does not fit the array (min ${min}, step ${step}, ${count} tasks)`);
+    }
+    return { index, count };
+  }
+  const k8s = whole('JOB_COMPLETION_INDEX');
+  if (k8s !== null) {
+    if (shardCount === null) throw new UsageError('--shard auto in a Kubernetes indexed Job needs --shard-count N (the Job\'s completions)');
+    if (k8s >= shardCount) throw new UsageError(`--shard auto: JOB_COMPLETION_INDEX ${k8s} is not below --shard-count ${shardCount}`);
+    return { index: k8s + 1, count: shardCount };
+  }
+  throw new UsageError('--shard auto needs a scheduler\'s task number: SLURM_ARRAY_TASK_ID and SLURM_ARRAY_TASK_COUNT (a Slurm job array) or JOB_COMPLETION_INDEX with --shard-count (a Kubernetes indexed Job); otherwise give --shard K/N');
+}
+
 /** The library's parameter names in a message as the options a user types. */
 function optionNames(message: string): string {
   return message.replace(/\bfps or intervalS\b/g, '--fps or --interval').replace(/\bintervalS\b/g, '--interval');
@@ -246,7 +280,8 @@ export function register(program: Command): void {
     .option('--ignore-calibration-mismatch', 'use a calibration made for another stack or light');
   addFilmAreaOptions(command, 'frames')
     .option('--workers <n>', 'worker threads', String(availableParallelism()))
-    .option('--shard <K/N>', 'map only the K-th of N contiguous parts of the series (1-based), then aggregate what OUT holds')
+    .option('--shard <K/N|auto>', 'map only the K-th of N contiguous parts of the series (1-based), then aggregate what OUT holds; auto = from the scheduler: a Slurm job array (SLURM_ARRAY_TASK_ID, _COUNT) or a Kubernetes indexed Job (JOB_COMPLETION_INDEX with --shard-count)')
+    .option('--shard-count <n>', 'with --shard auto in a Kubernetes indexed Job: the number of shards (the Job\'s completions)')
     .option('--chunk-frames <n>', 'frames per chunk: each chunk starts without a prior map; keep equal across shards', String(DEFAULT_CHUNK_FRAMES))
     .option('--aggregate-only', 'map nothing; aggregate the per-frame results already in OUT (after shard runs)')
     .option('--previews', 'also write <frame>.map.png and <frame>.flags.png per frame (all maps in one colour range: the series\' own, or --range)')
