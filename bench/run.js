@@ -49,6 +49,7 @@ if (existsSync(here('./series.js'))) {
     return [
       `  ${r.frames} frames of ${r.width}×${r.height}; single in-process map ${r.singleMapMs.toFixed(0)} ms`,
       ...r.results.map((x) => `  ${x.workers} worker(s): ${x.framesPerSecond.toFixed(2)} frames/s (${x.seconds.toFixed(1)} s)`),
+      ...r.video.map((x) => `  as an H.264 video, ${x.workers} worker(s): ${x.framesPerSecond.toFixed(2)} frames/s (${x.seconds.toFixed(1)} s)`),
       `  series overhead per frame over a single map (1 worker): ${r.overheadMsPerFrame.toFixed(0)} ms`,
     ].join('\n');
   });

@@ -1,7 +1,7 @@
 // Speed of `lamella series`: frames per second for 2-MP frames (1632×1224) with 1 and 2 worker
 // threads, and the series overhead per frame over mapping the same frames in-process with the
 // same priors (worker start-up and its colour table, per-frame records and maps on disk, resume
-// checks, aggregation, drainage fits).
+// checks, aggregation, drainage fits); and the same frames read from an H.264 video through FFmpeg.
 // Frames: the demo's invented drainage model (scripts/make-demo.js). Run after building:
 // `node bench/series.js [frames]` (or through bench/run.js, which calls benchSeries()).
 import { mkdir, mkdtemp, rm } from 'node:fs/promises';
@@ -13,6 +13,8 @@ import { runSeries } from '../dist/series/runSeries.js';
 import { MAP_FRAME_PROCESSOR_URL } from '../dist/series/mapFrameConfig.js';
 import { createFrameProcessor } from '../dist/series/mapFrameProcessor.js';
 import { DEMO, renderDemoFrame } from '../scripts/make-demo.js';
+import { findFfmpeg } from '../dist/io/ffmpegBinary.js';
+import { spawnSync } from 'node:child_process';
 
 export async function benchSeries({ frames = 6, width = 1632, height = 1224 } = {}) {
   const dir = await mkdtemp(join(tmpdir(), 'lamella-bench-series-'));
@@ -47,7 +49,26 @@ export async function benchSeries({ frames = 6, width = 1632, height = 1224 } = 
       results.push({ workers, seconds, framesPerSecond: frames / seconds });
     }
     const overheadMsPerFrame = (results[0].seconds * 1000) / frames - singleMapMs;
-    return { frames, width, height, singleMapMs, results, overheadMsPerFrame, loadAverage: loadavg()[0] };
+    // The same frames as one H.264 video (high quality, 4:2:0), read through FFmpeg, when available.
+    const video = [];
+    const ffmpeg = findFfmpeg();
+    if (ffmpeg) {
+      const encoded = spawnSync(ffmpeg, ['-hide_banner', '-loglevel', 'error', '-y', '-framerate', String(DEMO.fps), '-pattern_type', 'glob', '-i', join(dir, 'in', 'f*.jpg'),
+        '-c:v', 'libx264', '-crf', '12', '-pix_fmt', 'yuv420p', join(dir, 'run.mp4')]);
+      if (encoded.status === 0) {
+        for (const workers of [1, 2]) {
+          const started = performance.now();
+          await runSeries({
+            inputs: [join(dir, 'run.mp4')], outDir: join(dir, `video${workers}`), thinBelowNm: DEMO.THIN_BELOW_NM,
+            workers, chunkFrames: workers === 1 ? frames : Math.ceil(frames / 2), mapSettings: { ...DEMO.stackOptions, light: 'D65' },
+            processor: { moduleUrl: MAP_FRAME_PROCESSOR_URL, config }, report: false,
+          });
+          const seconds = (performance.now() - started) / 1000;
+          video.push({ workers, seconds, framesPerSecond: frames / seconds });
+        }
+      }
+    }
+    return { frames, width, height, singleMapMs, results, video, overheadMsPerFrame, loadAverage: loadavg()[0] };
   } finally {
     await rm(dir, { recursive: true, force: true });
   }
@@ -57,6 +78,7 @@ if (process.argv[1] === fileURLToPath(import.meta.url)) {
   const r = await benchSeries({ frames: Number(process.argv[2] ?? 6) });
   console.log(`series ${r.frames} frames of ${r.width}×${r.height}: ${r.singleMapMs.toFixed(0)} ms per frame mapped in-process (warm)`);
   for (const x of r.results) console.log(`  ${x.workers} worker(s): ${x.framesPerSecond.toFixed(2)} frames/s (${x.seconds.toFixed(1)} s)`);
+  for (const x of r.video) console.log(`  the same frames as an H.264 video, ${x.workers} worker(s): ${x.framesPerSecond.toFixed(2)} frames/s (${x.seconds.toFixed(1)} s)`);
   console.log(`  overhead per frame over in-process mapping (1 worker, incl. worker start and its colour table): ${r.overheadMsPerFrame.toFixed(0)} ms`);
   console.log(`  (1-min load average at the end: ${r.loadAverage.toFixed(1)}; numbers on a busy machine are not comparable)`);
 }
