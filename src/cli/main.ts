@@ -6,6 +6,7 @@ import { Command, CommanderError } from 'commander';
 import { commandModules } from './commands/index.js';
 import { EXIT_OK, EXIT_USAGE, exitCodeFor, oneLine } from './errors.js';
 import { removeTempFilesOnSignals } from '../io/tempFiles.js';
+import { LAMELLA_VERSION } from '../version.js';
 
 export async function buildProgram(): Promise<Command> {
   const program = new Command();
@@ -14,6 +15,7 @@ export async function buildProgram(): Promise<Command> {
     .description(
       'Thickness maps of thin transparent films (soap films, oxide and nitride layers, coatings) from colour photographs of their interference colours.',
     )
+    .version(LAMELLA_VERSION, '-V, --version', 'print the Lamella version')
     .option('--debug', 'show stack traces on errors')
     .exitOverride()
     // Parse errors (unknown option, missing argument, bad choice) as one line like every other error.

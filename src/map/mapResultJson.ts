@@ -5,6 +5,7 @@
  * available".
  */
 import { basename } from 'node:path';
+import { LAMELLA_VERSION } from '../version.js';
 import { type ExposureField, type FilmAreaSummary, type MapOptions, type MapResult, PixelStatus } from './types.js';
 
 /** Pixels by status (JSON `pixel_counts`); `unknown` only when some code is none of PixelStatus. */
@@ -95,6 +96,7 @@ export function mapResultJson(
   }));
   return {
     lamella_map_record: MAP_RECORD_VERSION,
+    lamella_version: LAMELLA_VERSION,
     photo: basename(photoPath),
     width_px: result.width,
     height_px: result.height,

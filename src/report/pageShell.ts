@@ -7,6 +7,7 @@ import { renderCautions } from './cautions.js';
 import { pageScript } from './clientScript.js';
 import { escapeHtml, jsonForScript } from './escapeHtml.js';
 import { pageStyle } from './pageStyle.js';
+import { LAMELLA_VERSION } from '../version.js';
 
 export interface PageParts {
   kind: string;
@@ -49,7 +50,7 @@ export function renderPage(parts: PageParts): string {
 <header class="top">
 <p class="kind">Lamella · ${escapeHtml(parts.kind)}</p>
 <h1>${escapeHtml(parts.title)}</h1>
-<p class="meta">Generated ${escapeHtml(parts.generatedAt)} · thickness values are estimates, see <a href="#cautions">cautions</a></p>
+<p class="meta">Generated ${escapeHtml(parts.generatedAt)} by Lamella ${escapeHtml(LAMELLA_VERSION)} · thickness values are estimates, see <a href="#cautions">cautions</a></p>
 </header>
 <nav class="sections" aria-label="Sections">${nav.map(([id, label]) => `<a href="#${escapeHtml(id)}">${escapeHtml(label)}</a>`).join('')}</nav>
 <main>

@@ -8,17 +8,11 @@
  * bytes; whether it changed is decided by size and hash (a copy or `touch` with the same bytes
  * is the same photo). Data files by their SHA-256.
  */
-import { createHash } from 'node:crypto';
-import { createReadStream } from 'node:fs';
+import { sha256OfFile } from '../io/provenance.js';
 import { stat } from 'node:fs/promises';
 import { settingsHash } from './settingsHash.js';
 import type { FrameJob, FrameRecord, FrameSource } from './types.js';
 
-async function sha256OfFile(path: string): Promise<string> {
-  const hash = createHash('sha256');
-  for await (const chunk of createReadStream(path)) hash.update(chunk as Buffer);
-  return hash.digest('hex');
-}
 
 /** Size, modification time and SHA-256 of a frame's file, or null when it cannot be read. */
 export async function fingerprintFrame(path: string): Promise<FrameSource | null> {
