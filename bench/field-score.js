@@ -243,7 +243,7 @@ export function fieldFlatRow(/** @type {ScoredScene} */ scene, /** @type {Scored
   const f = exposureFieldScore(scene, result);
   return {
     target: 'fitted field flat within ±2 %',
-    value: f.fitted ? `max |gain − 1| ${(100 * f.flatDeviation).toFixed(2)} % over the film` : 'no field fitted (flat)',
+    value: f.fitted ? `max |gain − 1| ${(100 * f.flatDeviation).toFixed(2)} % over the film` : 'n/a (no field fitted)',
     pass: f.flatPass,
   };
 }
