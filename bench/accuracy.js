@@ -8,8 +8,14 @@
 // Field scenes (issue 13; bench/field-scenes.js, also invented): the film in its surroundings as
 // photos are taken — a frame before a dark cloth, a wafer on a chuck or a bench with tweezers, a
 // glint, photos of no film, a series whose film bursts, a uniform coating — mapped with default
-// options and scored by bench/field-score.js. `--clean` runs only the clean scenes, `--field` only
-// the field scenes.
+// options and scored by bench/field-score.js.
+// Light scenes (issue 14; bench/light-scenes.js, also invented): uneven light (35 % fall-off × 25 %
+// vignetting), a camera picture style (contrast S-curve, saturation ×1.25), and both with a dark
+// background, a frame or holder and a glint, for a soap film (D65) and an oxide wafer (F11),
+// mapped with default options: in-film gross ≤ 1 %, p95 ≤ 15 nm, coverage ≥ 95 %, no false thin
+// region, outside the film ≤ 1 % with a thickness; the fitted exposure field against the true
+// light. Clean and field scenes also report whether the fitted field stays flat within ±2 %.
+// `--clean`, `--field`, `--light` run only that group (they combine); no flag runs all three.
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -20,7 +26,8 @@ import { PixelStatus } from '../dist/map/types.js';
 import { resolveStack } from '../dist/optics/index.js';
 import { renderPhoto } from '../dist/render/index.js';
 import { FIELD_SCENES, burstingSeries, mapOptionsFor } from './field-scenes.js';
-import { TARGETS, anchorScore, filmSceneTargets, insideFilmScore, notAFilmScore, ruptureFrame } from './field-score.js';
+import { TARGETS, anchorScore, exposureFieldScore, fieldFlatRow, filmSceneTargets, insideFilmScore, lightSceneTargets, notAFilmScore, ruptureFrame } from './field-score.js';
+import { LIGHT_SCENES } from './light-scenes.js';
 
 const W = 480;
 const H = 360;
@@ -94,7 +101,8 @@ export async function benchAccuracy() {
         stack, angleRad, light: scene.light, thinBelowNm: scene.thinBelowNm, maxThicknessNm: 2000,
       });
       const ms = performance.now() - started;
-      rows.push({ scene: scene.name, ms, ...score(truth, result, scene.thinBelowNm) });
+      const fieldScore = exposureFieldScore({ film: new Uint8Array(W * H).fill(1), edge: new Uint8Array(W * H), truthNm: truth, thinBelowNm: scene.thinBelowNm, width: W, height: H }, result);
+      rows.push({ scene: scene.name, ms, ...score(truth, result, scene.thinBelowNm), field: fieldScore });
     }
   } finally {
     rmSync(dir, { recursive: true, force: true });
@@ -142,7 +150,7 @@ function score(truth, result, thinBelowNm) {
 }
 
 function pass(row) {
-  return row.medianNm <= 3 && row.p95Nm <= 15 && row.gross <= 0.01 && row.coverage >= 0.97;
+  return row.medianNm <= 3 && row.p95Nm <= 15 && row.gross <= 0.01 && row.coverage >= 0.97 && row.field.flatPass;
 }
 
 const NOT_A_FILM = new Set(['greyCard', 'colourTarget', 'noise']);
@@ -202,7 +210,7 @@ export async function benchFieldScenes({ ceiling = true } = {}) {
         continue;
       }
       const { result, ms } = await mapFieldScene(dir, scene);
-      const record = { scene: `${name}: ${scene.description}`, ms, rows: filmSceneTargets(scene, result) };
+      const record = { scene: `${name}: ${scene.description}`, ms, rows: [...filmSceneTargets(scene, result), fieldFlatRow(scene, result)] };
       if (ceiling) {
         const c = insideFilmScore(scene, await mapWithTrueMask(dir, scene));
         record.ceiling = `with the true film as --mask: median ${c.medianNm.toFixed(2)} nm · p95 ${c.p95Nm.toFixed(2)} nm · gross ${(100 * c.gross).toFixed(2)} % · coverage ${(100 * c.coverage).toFixed(2)} %`;
@@ -231,25 +239,62 @@ export async function benchFieldScenes({ ceiling = true } = {}) {
   return out;
 }
 
+/**
+ * Light scenes of issue 14, each mapped with default options (film area auto). Returns one record
+ * per scene: { scene, ms, rows: [{ target, value, pass }] } (pass null: reported, not a target).
+ */
+export async function benchLightScenes() {
+  const dir = mkdtempSync(join(tmpdir(), 'lamella-light-'));
+  const out = [];
+  try {
+    for (const [name, make] of Object.entries(LIGHT_SCENES)) {
+      const scene = await make();
+      const { result, ms } = await mapFieldScene(dir, scene);
+      const rows = lightSceneTargets(scene, result);
+      const e = result.exposureField;
+      rows.push({
+        target: 'fitted exposure field',
+        value: e ? `gain ${e.gainMin.toFixed(3)}–${e.gainMax.toFixed(3)} over the film, ${e.rounds} round(s)` : 'none (one exposure)',
+        pass: null,
+      });
+      out.push({ scene: `${name}: ${scene.description}`, ms, rows });
+    }
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+  return out;
+}
+
+/** Prints records of benchFieldScenes() / benchLightScenes(): PASS when every target row passes. */
+function printRecords(records) {
+  for (const record of records) {
+    const targets = record.rows.filter((r) => r.pass !== null);
+    console.log(`${targets.every((r) => r.pass) ? 'PASS' : 'MISS'}  ${record.scene} · ${record.ms.toFixed(0)} ms`);
+    for (const r of record.rows) console.log(`      ${r.pass === null ? 'info' : r.pass ? 'PASS' : 'MISS'}  ${r.target}: ${r.value}`);
+    if (record.ceiling) console.log(`      (${record.ceiling})`);
+  }
+}
+
 if (import.meta.url === `file://${process.argv[1]}`) {
-  const onlyField = process.argv.includes('--field');
-  const onlyClean = process.argv.includes('--clean');
-  if (!onlyField) {
+  const groups = ['--clean', '--field', '--light'].filter((g) => process.argv.includes(g));
+  const run = (/** @type {string} */ group) => groups.length === 0 || groups.includes(group);
+  if (run('--clean')) {
     const rows = await benchAccuracy();
     console.log('Accuracy of lamella map on invented scenes (targets: median ≤ 3 nm, p95 ≤ 15 nm, gross ≤ 1 %, coverage ≥ 97 %)');
     for (const r of rows) {
       console.log(
         `${pass(r) ? 'PASS' : 'MISS'}  ${r.scene}\n      median ${r.medianNm.toFixed(2)} nm · p95 ${r.p95Nm.toFixed(2)} nm · gross ${(100 * r.gross).toFixed(2)} % · coverage ${(100 * r.coverage).toFixed(2)} %` +
-          `${r.thinOverlap === null ? '' : ` · thin-region overlap (IoU) ${(100 * r.thinOverlap).toFixed(1)} %`} · fitted exposure ×${r.exposure.toFixed(2)} · ${r.ms.toFixed(0)} ms`,
+          `${r.thinOverlap === null ? '' : ` · thin-region overlap (IoU) ${(100 * r.thinOverlap).toFixed(1)} %`} · fitted exposure ×${r.exposure.toFixed(2)} · ${r.ms.toFixed(0)} ms` +
+          `\n      field flat within ±2 %: ${r.field.fitted ? `max |gain − 1| ${(100 * r.field.flatDeviation).toFixed(2)} %` : 'n/a (no field fitted)'} (${r.field.flatPass ? 'PASS' : 'MISS'})`,
       );
     }
   }
-  if (!onlyClean) {
+  if (run('--field')) {
     console.log('\nField scenes (issue 13; invented, default options; pixels on blended film edges left out of both sides)');
-    for (const record of await benchFieldScenes()) {
-      console.log(`${record.rows.every((r) => r.pass) ? 'PASS' : 'MISS'}  ${record.scene} · ${record.ms.toFixed(0)} ms`);
-      for (const r of record.rows) console.log(`      ${r.pass ? 'PASS' : 'MISS'}  ${r.target}: ${r.value}`);
-      if (record.ceiling) console.log(`      (${record.ceiling})`);
-    }
+    printRecords(await benchFieldScenes());
+  }
+  if (run('--light')) {
+    console.log('\nLight scenes (issue 14; invented, default options): uneven light, a camera picture style, both in a field scene');
+    printRecords(await benchLightScenes());
   }
 }

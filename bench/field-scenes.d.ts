@@ -74,3 +74,64 @@ export declare function truthFractions(scene: Pick<FieldScene, 'film' | 'truthNm
   filmFraction: number;
   thinFraction: number | null;
 };
+
+// Building blocks, exported for bench/light-scenes.js (the same invented scenes under camera effects).
+import type { PictureStyle, UnevenLight } from './camera-effects.js';
+
+export interface SceneEffects {
+  unevenLight?: UnevenLight | null;
+  pictureStyle?: PictureStyle | null;
+}
+export interface FieldScene {
+  /** Truth of the uneven light applied (bench/camera-effects.js), null when evenly lit. */
+  unevenLight?: UnevenLight | null;
+  /** Truth of the picture style applied, null when none. */
+  pictureStyle?: PictureStyle | null;
+}
+export interface Canvas {
+  exposure: number;
+  linear: Float32Array;
+  filmWeight: Float32Array;
+  glint: Float32Array;
+  labels: Uint8Array;
+  mixed: Uint8Array;
+  surfaces: Surface[];
+}
+export interface SurfaceTexture {
+  readonly mean: readonly [number, number, number];
+  at(x: number, y: number, rho: Float64Array): void;
+}
+export declare const FRAME: { cx: number; hw: number; hh: number; cornerPx: number; wirePx: number; tiltRad: number };
+export declare const WAFER: { cx: number; cy: number; radiusPx: number; flatFromCentrePx: number };
+type StackSettings = { stack: string; light: string; angleDeg: number; thinBelowNm: number | null; flare: readonly [number, number, number]; noiseSigma: number };
+export declare const SOAP: StackSettings;
+export declare const OXIDE: StackSettings;
+export declare function coverage(sdPx: number): number;
+export declare function rotate(x: number, y: number, cx: number, cy: number, angleRad: number, out: Float64Array): void;
+export declare function createCanvas(exposure: number): Canvas;
+export declare function paintSurface(
+  canvas: Canvas,
+  name: string,
+  meanReflectanceRgb: readonly [number, number, number],
+  alphaAt: (x: number, y: number) => number,
+  reflectanceAt: (x: number, y: number, rho: Float64Array) => void,
+): number;
+export declare function paintFilm(canvas: Canvas, alphaAt: (x: number, y: number) => number, filmLinear: Float32Array): void;
+export declare function addGlint(canvas: Canvas, cx: number, cy: number, radiusPx: number, haloPx: number, haloPeak: number): void;
+export declare function renderFilmLinear(fieldNm: Float32Array, stackName: string, lightName: string, angleDeg: number, exposure: number): Float32Array;
+export declare function finishScene(
+  canvas: Canvas,
+  fieldNm: Float32Array | null,
+  spec: Omit<FieldScene, 'truthNm' | 'film' | 'edge' | 'labels' | 'mixed' | 'surfaces' | 'rgb' | 'photo' | 'width' | 'height' | 'format' | 'fileName' | 'unevenLight' | 'pictureStyle'> & {
+    format?: 'jpeg' | 'png';
+    fileName?: string;
+    seed: number;
+    effects?: SceneEffects;
+  },
+): Promise<FieldScene>;
+export declare function darkCloth(seed: number): SurfaceTexture;
+export declare function greyBench(seed: number, base: number): SurfaceTexture;
+export declare function darkChuck(seed: number, cx: number, cy: number): SurfaceTexture;
+export declare function soapFrameCanvas(o: { shiftY: number; stage: number; withFilm: boolean; seed: number; droplets?: boolean }): { canvas: Canvas; fieldNm: Float32Array | null };
+export declare function paintWafer(canvas: Canvas, thicknessAt: (x: number, y: number) => number): Float32Array;
+export declare function paintTweezers(canvas: Canvas, bench: SurfaceTexture, seed: number): () => void;

@@ -22,14 +22,22 @@
 // an albedo of 0.01–0.03 times 7, which would show it mid-grey. Wafer scenes (exposure ≈ 1.3) use
 // the surfaces' reflectances as they are.
 //
+// Camera effects (issue 14; bench/camera-effects.js has the formulas): a scene may add uneven
+// light (a smooth gain multiplying `exposure · reflectance_c`, glints included, before flare and
+// noise) and a picture style (tone curve and saturation on the encoded values before the 8-bit
+// rounding); the record keeps their truth (`unevenLight`, `pictureStyle`; null when none). The
+// scenes with effects are in bench/light-scenes.js, which builds on the canvas, surfaces and
+// scene parts exported here; the scenes of this file use no effect.
+//
 // Truth per scene: `film` (1 = film) where the film covers at least half the pixel and no glint
 // lies on it; `truthNm` the film's thickness there (NaN elsewhere); `edge` (1 = the truth is shared)
 // on pixels the composition blends (film and surface both present) and on a glint's faint rim
 // (added light 0.005–0.05), which scores leave out on both sides.
 import sharp from 'sharp';
-import { buildCamera, createNormal, createUniform, decodeSrgb, encodedCodeTable, resolveLight } from '../dist/colour/index.js';
+import { buildCamera, createNormal, createUniform, decodeSrgb, encodeSrgb, encodedCodeTable, resolveLight } from '../dist/colour/index.js';
 import { resolveStack } from '../dist/optics/index.js';
 import { renderPhoto } from '../dist/render/index.js';
+import { applyPictureStyle, toneCurve } from './camera-effects.js';
 
 export const FIELD_WIDTH = 480;
 export const FIELD_HEIGHT = 360;
@@ -47,8 +55,11 @@ export const GLINT_EDGE = 0.005;
  *   thinBelowNm: number | null, exposure: number, flare: readonly [number, number, number], noiseSigma: number,
  *   truthNm: Float32Array, film: Uint8Array, edge: Uint8Array, labels: Uint8Array, mixed: Uint8Array,
  *   surfaces: Surface[], rgb: Uint8Array, photo: Buffer, mapOptions: Record<string, unknown>,
- *   variants?: { name: string, mapOptions: Record<string, unknown> }[]
+ *   variants?: { name: string, mapOptions: Record<string, unknown> }[],
+ *   unevenLight?: import('./camera-effects.js').UnevenLight | null, pictureStyle?: import('./camera-effects.js').PictureStyle | null
  * }} FieldScene
+ *   `unevenLight` and `pictureStyle`: the truth of the camera effects applied (bench/camera-effects.js), null when none
+ * @typedef {{ unevenLight?: import('./camera-effects.js').UnevenLight | null, pictureStyle?: import('./camera-effects.js').PictureStyle | null }} SceneEffects
  */
 
 // ---------------------------------------------------------------------------------------------
@@ -89,6 +100,7 @@ export function valueNoise(seed, cellX, cellY) {
  * @param {number} seed @param {number} cellX @param {number} cellY @param {number} octaves
  */
 export function fractalNoise(seed, cellX, cellY, octaves) {
+  /** @type {((x: number, y: number) => number)[]} */
   const layers = [];
   for (let o = 0; o < octaves; o++) layers.push(valueNoise(seed * 31 + o * 7919, Math.max(1, cellX / 2 ** o), Math.max(1, cellY / 2 ** o)));
   const norm = 1 / (2 - 2 ** (1 - octaves));
@@ -104,7 +116,7 @@ export function fractalNoise(seed, cellX, cellY, octaves) {
 }
 
 /** Coverage of a pixel by a shape from its signed distance (px, negative inside): a one-pixel ramp. */
-function coverage(/** @type {number} */ sdPx) {
+export function coverage(/** @type {number} */ sdPx) {
   const a = 0.5 - sdPx;
   return a <= 0 ? 0 : a >= 1 ? 1 : a;
 }
@@ -136,7 +148,7 @@ function sdTaperedBar(/** @type {number} */ x, /** @type {number} */ y, /** @typ
 }
 
 /** Rotates (x, y) about (cx, cy) by angleRad into `out` (the frame's own coordinates). */
-function rotate(/** @type {number} */ x, /** @type {number} */ y, /** @type {number} */ cx, /** @type {number} */ cy, /** @type {number} */ angleRad, /** @type {Float64Array} */ out) {
+export function rotate(/** @type {number} */ x, /** @type {number} */ y, /** @type {number} */ cx, /** @type {number} */ cy, /** @type {number} */ angleRad, /** @type {Float64Array} */ out) {
   const c = Math.cos(angleRad);
   const s = Math.sin(angleRad);
   out[0] = cx + c * (x - cx) + s * (y - cy);
@@ -146,7 +158,7 @@ function rotate(/** @type {number} */ x, /** @type {number} */ y, /** @type {num
 // ---------------------------------------------------------------------------------------------
 // The canvas: layers painted back to front in linear light
 
-function createCanvas(/** @type {number} */ exposure) {
+export function createCanvas(/** @type {number} */ exposure) {
   const n = FIELD_WIDTH * FIELD_HEIGHT;
   return {
     exposure,
@@ -174,7 +186,7 @@ function createCanvas(/** @type {number} */ exposure) {
  * @param {(x: number, y: number) => number} alphaAt
  * @param {(x: number, y: number, rho: Float64Array) => void} reflectanceAt
  */
-function paintSurface(canvas, name, meanReflectanceRgb, alphaAt, reflectanceAt) {
+export function paintSurface(canvas, name, meanReflectanceRgb, alphaAt, reflectanceAt) {
   const id = canvas.surfaces.length + 1;
   canvas.surfaces.push({ id, name, reflectanceRgb: meanReflectanceRgb });
   const rho = new Float64Array(3);
@@ -204,7 +216,7 @@ function paintSurface(canvas, name, meanReflectanceRgb, alphaAt, reflectanceAt) 
  * @param {(x: number, y: number) => number} alphaAt
  * @param {Float32Array} filmLinear 3 per pixel (already times the exposure)
  */
-function paintFilm(canvas, alphaAt, filmLinear) {
+export function paintFilm(canvas, alphaAt, filmLinear) {
   for (let y = 0, p = 0; y < FIELD_HEIGHT; y++) {
     for (let x = 0; x < FIELD_WIDTH; x++, p++) {
       const a = alphaAt(x + 0.5, y + 0.5);
@@ -225,7 +237,7 @@ function paintFilm(canvas, alphaAt, filmLinear) {
  * Adds a lamp glint: a clipped core of radiusPx (anti-aliased) and a soft halo falling off with
  * a Gaussian of haloPx beyond it (peak `haloPeak`, linear), white light added on top of everything.
  */
-function addGlint(/** @type {ReturnType<typeof createCanvas>} */ canvas, /** @type {number} */ cx, /** @type {number} */ cy, /** @type {number} */ radiusPx, /** @type {number} */ haloPx, /** @type {number} */ haloPeak) {
+export function addGlint(/** @type {ReturnType<typeof createCanvas>} */ canvas, /** @type {number} */ cx, /** @type {number} */ cy, /** @type {number} */ radiusPx, /** @type {number} */ haloPx, /** @type {number} */ haloPeak) {
   const reach = radiusPx + 5 * haloPx + 2;
   for (let y = Math.max(0, Math.floor(cy - reach)); y < Math.min(FIELD_HEIGHT, Math.ceil(cy + reach)); y++) {
     for (let x = Math.max(0, Math.floor(cx - reach)); x < Math.min(FIELD_WIDTH, Math.ceil(cx + reach)); x++) {
@@ -244,17 +256,42 @@ function addGlint(/** @type {ReturnType<typeof createCanvas>} */ canvas, /** @ty
 }
 
 /**
- * The camera: flare, seeded sensor noise, clamp, sRGB, 8-bit (the project's code table).
+ * The camera: optional uneven light (the gain multiplies the linear light of everything, before
+ * flare), flare, seeded sensor noise, clamp, sRGB, optional picture style on the encoded values,
+ * 8-bit (bench/camera-effects.js describes the effects). Without effects: the project's code table.
+ * @param {ReturnType<typeof createCanvas>} canvas
+ * @param {readonly [number, number, number]} flare
+ * @param {number} noiseSigma
+ * @param {number} seed
+ * @param {SceneEffects} [effects]
  * @returns {Uint8Array} interleaved RGB
  */
-function exposeCanvas(/** @type {ReturnType<typeof createCanvas>} */ canvas, /** @type {readonly [number, number, number]} */ flare, /** @type {number} */ noiseSigma, /** @type {number} */ seed) {
-  const { codes, maxIndex } = encodedCodeTable('srgb', 8);
+function exposeCanvas(canvas, flare, noiseSigma, seed, effects = {}) {
   const normal = createNormal(seed);
   const rgb = new Uint8Array(canvas.linear.length);
-  for (let i = 0; i < rgb.length; i++) {
-    let v = canvas.linear[i] + flare[i % 3] + noiseSigma * normal();
-    v = v < 0 ? 0 : v > 1 ? 1 : v;
-    rgb[i] = codes[(v * maxIndex + 0.5) | 0];
+  const gain = effects.unevenLight ? effects.unevenLight.gain : null;
+  const style = effects.pictureStyle ?? null;
+  if (!style) {
+    const { codes, maxIndex } = encodedCodeTable('srgb', 8);
+    for (let i = 0; i < rgb.length; i++) {
+      let v = (gain ? gain[(i / 3) | 0] * canvas.linear[i] : canvas.linear[i]) + flare[i % 3] + noiseSigma * normal();
+      v = v < 0 ? 0 : v > 1 ? 1 : v;
+      rgb[i] = codes[(v * maxIndex + 0.5) | 0];
+    }
+    return rgb;
+  }
+  const curve = toneCurve(style);
+  const triple = new Float64Array(3);
+  for (let p = 0, i = 0; i < rgb.length; p++, i += 3) {
+    const g = gain ? gain[p] : 1;
+    for (let c = 0; c < 3; c++) {
+      const v = g * canvas.linear[i + c] + flare[c] + noiseSigma * normal();
+      triple[c] = encodeSrgb(v < 0 ? 0 : v > 1 ? 1 : v);
+    }
+    applyPictureStyle(curve, style.saturation, triple);
+    rgb[i] = Math.round(255 * triple[0]);
+    rgb[i + 1] = Math.round(255 * triple[1]);
+    rgb[i + 2] = Math.round(255 * triple[2]);
   }
   return rgb;
 }
@@ -270,7 +307,7 @@ const LINEAR_OFFSET = 0.2;
  * clipped at either end of the render is refused.
  * @returns {Float32Array} 3 per pixel
  */
-function renderFilmLinear(/** @type {Float32Array} */ fieldNm, /** @type {string} */ stackName, /** @type {string} */ lightName, /** @type {number} */ angleDeg, /** @type {number} */ exposure) {
+export function renderFilmLinear(/** @type {Float32Array} */ fieldNm, /** @type {string} */ stackName, /** @type {string} */ lightName, /** @type {number} */ angleDeg, /** @type {number} */ exposure) {
   const light = resolveLight(lightName);
   const camera = { ...buildCamera({ light }), encoding: /** @type {const} */ ('linear') };
   const rendered = renderPhoto(fieldNm, FIELD_WIDTH, FIELD_HEIGHT, {
@@ -297,10 +334,10 @@ async function encodePhoto(/** @type {Uint8Array} */ rgb, /** @type {'jpeg' | 'p
  * Truth and photo of a finished canvas.
  * @param {ReturnType<typeof createCanvas>} canvas
  * @param {Float32Array | null} fieldNm
- * @param {Omit<FieldScene, 'truthNm' | 'film' | 'edge' | 'labels' | 'mixed' | 'surfaces' | 'rgb' | 'photo' | 'width' | 'height' | 'format' | 'fileName'> & { format?: 'jpeg' | 'png', fileName?: string, seed: number }} spec
+ * @param {Omit<FieldScene, 'truthNm' | 'film' | 'edge' | 'labels' | 'mixed' | 'surfaces' | 'rgb' | 'photo' | 'width' | 'height' | 'format' | 'fileName' | 'unevenLight' | 'pictureStyle'> & { format?: 'jpeg' | 'png', fileName?: string, seed: number, effects?: SceneEffects }} spec
  * @returns {Promise<FieldScene>}
  */
-async function finishScene(canvas, fieldNm, spec) {
+export async function finishScene(canvas, fieldNm, spec) {
   const n = FIELD_WIDTH * FIELD_HEIGHT;
   const truthNm = new Float32Array(n).fill(Number.NaN);
   const film = new Uint8Array(n);
@@ -316,10 +353,13 @@ async function finishScene(canvas, fieldNm, spec) {
     }
   }
   const format = spec.format ?? 'jpeg';
-  const rgb = exposeCanvas(canvas, spec.flare, spec.noiseSigma, spec.seed);
-  const { seed, ...rest } = spec;
+  const effects = spec.effects ?? {};
+  const rgb = exposeCanvas(canvas, spec.flare, spec.noiseSigma, spec.seed, effects);
+  const { seed, effects: _effects, ...rest } = spec;
   return {
     ...rest,
+    unevenLight: effects.unevenLight ?? null,
+    pictureStyle: effects.pictureStyle ?? null,
     format,
     fileName: spec.fileName ?? `${spec.name}.${format === 'jpeg' ? 'jpg' : 'png'}`,
     width: FIELD_WIDTH,
@@ -339,7 +379,7 @@ async function finishScene(canvas, fieldNm, spec) {
 // Surfaces (all invented)
 
 /** Dark cloth behind a soap-film frame: weave, soft vertical folds, mottling. Linear level ≈ exposure·0.0022 ≈ 0.015. */
-function darkCloth(/** @type {number} */ seed) {
+export function darkCloth(/** @type {number} */ seed) {
   const folds = valueNoise(seed, 140, 400);
   const mottle = fractalNoise(seed + 1, 60, 60, 3);
   const fibre = valueNoise(seed + 2, 1.3, 1.3);
@@ -387,7 +427,7 @@ function brushedMetal(/** @type {number} */ seed, /** @type {number} */ base, /*
 }
 
 /** A mid-grey lab bench with grain running along x, lit a little more from the left. */
-function greyBench(/** @type {number} */ seed, /** @type {number} */ base) {
+export function greyBench(/** @type {number} */ seed, /** @type {number} */ base) {
   const grain = fractalNoise(seed, 90, 5, 3);
   const mottle = fractalNoise(seed + 1, 80, 80, 2);
   const speck = valueNoise(seed + 2, 1.1, 1.1);
@@ -407,7 +447,7 @@ function greyBench(/** @type {number} */ seed, /** @type {number} */ base) {
 }
 
 /** A near-black anodised vacuum chuck with concentric grooves around (cx, cy). */
-function darkChuck(/** @type {number} */ seed, /** @type {number} */ cx, /** @type {number} */ cy) {
+export function darkChuck(/** @type {number} */ seed, /** @type {number} */ cx, /** @type {number} */ cy) {
   const mottle = fractalNoise(seed, 70, 70, 3);
   const tooling = valueNoise(seed + 1, 1.2, 1.2);
   /** @type {readonly [number, number, number]} */
@@ -431,7 +471,7 @@ function darkChuck(/** @type {number} */ seed, /** @type {number} */ cx, /** @ty
 // Soap film in a wire frame
 
 /** The frame of the soap-film scenes: centre line of a slightly tilted rounded rectangle of wire. */
-const FRAME = { cx: 240, hw: 162, hh: 145, cornerPx: 8, wirePx: 5, tiltRad: (-1.2 * Math.PI) / 180 };
+export const FRAME = { cx: 240, hw: 162, hh: 145, cornerPx: 8, wirePx: 5, tiltRad: (-1.2 * Math.PI) / 180 };
 
 /**
  * Thickness of the invented draining soap film (nm) at frame coordinates u (0 left … 1 right),
@@ -467,7 +507,7 @@ const SWIRLS = [
  * Paints the frame scene: cloth, film, wire, handle. `shiftY` moves the frame up (negative) or
  * down; `stage` is the drainage stage; `withFilm` false leaves the frame empty (a burst film).
  */
-function soapFrameCanvas(/** @type {{ shiftY: number, stage: number, withFilm: boolean, seed: number, droplets?: boolean }} */ o) {
+export function soapFrameCanvas(/** @type {{ shiftY: number, stage: number, withFilm: boolean, seed: number, droplets?: boolean }} */ o) {
   const exposure = 7;
   const canvas = createCanvas(exposure);
   const cy = 181 + o.shiftY;
@@ -541,7 +581,7 @@ function soapFrameCanvas(/** @type {{ shiftY: number, stage: number, withFilm: b
   return { canvas, fieldNm };
 }
 
-const SOAP = { stack: 'soap-film', light: 'D65', angleDeg: 0, thinBelowNm: 50, flare: /** @type {const} */ ([0.008, 0.008, 0.009]), noiseSigma: 0.003 };
+export const SOAP = { stack: 'soap-film', light: 'D65', angleDeg: 0, thinBelowNm: 50, flare: /** @type {const} */ ([0.008, 0.008, 0.009]), noiseSigma: 0.003 };
 
 /**
  * (a) A vertical draining soap film in a rectangular wire frame (wire 5 px, brushed metal with a
@@ -621,7 +661,7 @@ export async function burstingSeries(frames = 12, burstAt = 7, seed = 1400) {
 // ---------------------------------------------------------------------------------------------
 // Wafers
 
-const WAFER = { cx: 240, cy: 178, radiusPx: 150, flatFromCentrePx: 138 };
+export const WAFER = { cx: 240, cy: 178, radiusPx: 150, flatFromCentrePx: 138 };
 
 function sdWafer(/** @type {number} */ x, /** @type {number} */ y) {
   const round = Math.hypot(x - WAFER.cx, y - WAFER.cy) - WAFER.radiusPx;
@@ -643,10 +683,10 @@ export function uniformOxideNm(/** @type {number} */ x, /** @type {number} */ y)
   return 100 + (4 * ((x - WAFER.cx) ** 2 + (y - WAFER.cy) ** 2)) / WAFER.radiusPx ** 2;
 }
 
-const OXIDE = { stack: 'oxide-on-silicon', light: 'F11', angleDeg: 0, thinBelowNm: null, flare: /** @type {const} */ ([0.01, 0.01, 0.011]), noiseSigma: 0.003 };
+export const OXIDE = { stack: 'oxide-on-silicon', light: 'F11', angleDeg: 0, thinBelowNm: null, flare: /** @type {const} */ ([0.01, 0.01, 0.011]), noiseSigma: 0.003 };
 
 /** Paints a wafer with thickness `thicknessAt` onto the canvas. */
-function paintWafer(/** @type {ReturnType<typeof createCanvas>} */ canvas, /** @type {(x: number, y: number) => number} */ thicknessAt) {
+export function paintWafer(/** @type {ReturnType<typeof createCanvas>} */ canvas, /** @type {(x: number, y: number) => number} */ thicknessAt) {
   const fieldNm = new Float32Array(FIELD_WIDTH * FIELD_HEIGHT).fill(Number.NaN);
   for (let y = 0, p = 0; y < FIELD_HEIGHT; y++) {
     for (let x = 0; x < FIELD_WIDTH; x++, p++) if (sdWafer(x + 0.5, y + 0.5) <= 1) fieldNm[p] = thicknessAt(x + 0.5, y + 0.5);
@@ -666,7 +706,7 @@ function paintWafer(/** @type {ReturnType<typeof createCanvas>} */ canvas, /** @
 }
 
 /** A bench with tweezers reaching from the right border onto the wafer's rim, and their shadow. */
-function paintTweezers(/** @type {ReturnType<typeof createCanvas>} */ canvas, /** @type {ReturnType<typeof greyBench>} */ bench, /** @type {number} */ seed) {
+export function paintTweezers(/** @type {ReturnType<typeof createCanvas>} */ canvas, /** @type {ReturnType<typeof greyBench>} */ bench, /** @type {number} */ seed) {
   const angle = (-50 * Math.PI) / 180;
   const rimX = WAFER.cx + WAFER.radiusPx * Math.cos(angle);
   const rimY = WAFER.cy + WAFER.radiusPx * Math.sin(angle);

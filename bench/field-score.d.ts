@@ -6,6 +6,7 @@ export interface ScoredScene {
   thinBelowNm: number | null;
   width: number;
   height: number;
+  unevenLight?: { gain: Float32Array } | null;
 }
 export interface ScoredMap {
   status: Uint8Array;
@@ -14,6 +15,7 @@ export interface ScoredMap {
   thinLabels?: Int32Array;
   stats: { thin_fraction: number | null; film_area_px?: number };
   filmArea?: { found: boolean; areaPx: number };
+  exposureField?: { logGainCoefficients: readonly number[] } | null;
 }
 export declare const TARGETS: {
   outsideMeasuredMax: number;
@@ -24,6 +26,8 @@ export declare const TARGETS: {
   notFilmAreaMax: number;
   coatingMedianMaxNm: number;
   anchorErrorMaxNm: number;
+  fieldFlatMax: number;
+  thinToleranceNm: number;
 };
 export declare function outsideFilmScore(scene: ScoredScene, result: ScoredMap): { outsidePx: number; measuredPx: number; fraction: number; pass: boolean };
 export declare function thinRegionsOutsideFilm(scene: ScoredScene, result: ScoredMap): { regions: number | null; outside: number | null; pass: boolean; note: string };
@@ -42,3 +46,16 @@ export declare function anchorScore(
   anchor: { x: number; y: number; thicknessNm: number },
 ): { givenNm: number; mappedNm: number; error: number; pass: boolean };
 export declare function filmSceneTargets(scene: ScoredScene, result: ScoredMap): { target: string; value: string; pass: boolean }[];
+export interface TargetRow {
+  target: string;
+  value: string;
+  /** null: reported, not a target. */
+  pass: boolean | null;
+}
+export declare function exposureFieldScore(
+  scene: ScoredScene,
+  result: ScoredMap,
+): { fitted: boolean; pixels: number; flatDeviation: number; flatPass: boolean; truthError: number | null; flatTruthError: number };
+export declare function fieldFlatRow(scene: ScoredScene, result: ScoredMap): { target: string; value: string; pass: boolean };
+export declare function falseThinRegions(scene: ScoredScene, result: ScoredMap): { regions: number | null; falseRegions: number | null; pass: boolean; note: string };
+export declare function lightSceneTargets(scene: ScoredScene, result: ScoredMap): TargetRow[];

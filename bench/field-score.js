@@ -6,6 +6,12 @@
 // error ≤ 5 nm with an expected range and with an anchor, the anchor pixel within 5 nm.
 // Pixels whose truth is shared (`scene.edge`: blended film edges, a glint's faint rim) are left
 // out on both sides. Pure functions of (scene, result): the tests can reuse them.
+// Issue 14 (uneven light, picture styles; bench/light-scenes.js): the same in-film targets, no
+// false thin region (a thin region where the truth is not thin), and the fitted exposure field
+// (`result.exposureField`, null when none was fitted = flat) against the true gain of the scene
+// (`scene.unevenLight.gain`, null = evenly lit): both normalised to their median over the film.
+// On evenly lit scenes the fitted field must stay flat within ±2 %.
+import { relativeGainAt } from '../dist/map/lightEvenness.js';
 import { PixelStatus } from '../dist/map/types.js';
 
 export const TARGETS = {
@@ -17,12 +23,17 @@ export const TARGETS = {
   notFilmAreaMax: 0.01,
   coatingMedianMaxNm: 5,
   anchorErrorMaxNm: 5,
+  fieldFlatMax: 0.02,
+  /** A thin region's pixel counts as truly thin up to this much above the threshold (the p95 target). */
+  thinToleranceNm: 15,
 };
 
 /**
- * @typedef {{ film: Uint8Array, edge: Uint8Array, truthNm: Float32Array, thinBelowNm: number | null, width: number, height: number }} ScoredScene
+ * @typedef {{ film: Uint8Array, edge: Uint8Array, truthNm: Float32Array, thinBelowNm: number | null, width: number, height: number,
+ *   unevenLight?: { gain: Float32Array } | null }} ScoredScene
  * @typedef {{ status: Uint8Array, thicknessNm: Float32Array, darkLimitNm: number, thinLabels?: Int32Array,
- *   stats: { thin_fraction: number | null, film_area_px?: number }, filmArea?: { found: boolean, areaPx: number } }} ScoredMap
+ *   stats: { thin_fraction: number | null, film_area_px?: number }, filmArea?: { found: boolean, areaPx: number },
+ *   exposureField?: { logGainCoefficients: readonly number[] } | null }} ScoredMap
  */
 
 /** Non-film pixels (edge band left out) and how many of them got a thickness (status ok). */
@@ -83,6 +94,7 @@ export function thinFractionScore(/** @type {ScoredScene} */ scene, /** @type {S
  * truth is at most the dark limit + 10 nm) / film pixels thinner than 1,500 nm.
  */
 export function insideFilmScore(/** @type {ScoredScene} */ scene, /** @type {ScoredMap} */ result) {
+  /** @type {number[]} */
   const errors = [];
   let eligible = 0;
   let covered = 0;
@@ -130,7 +142,7 @@ export function notAFilmScore(/** @type {ScoredMap} */ result) {
 
 /** First frame whose map found no film (`filmArea.found === false`), or null. */
 export function ruptureFrame(/** @type {Pick<ScoredMap, 'filmArea'>[]} */ results) {
-  for (let i = 0; i < results.length; i++) if (results[i].filmArea && results[i].filmArea.found === false) return i;
+  for (let i = 0; i < results.length; i++) if (results[i].filmArea?.found === false) return i;
   return null;
 }
 
@@ -172,5 +184,127 @@ export function filmSceneTargets(scene, result) {
   rows.push({ target: 'in film gross ≤ 1 %', value: `${(100 * inside.gross).toFixed(2)} %`, pass: inside.gross <= TARGETS.grossMax });
   rows.push({ target: 'in film p95 ≤ 15 nm', value: `${inside.p95Nm.toFixed(2)} nm (median ${inside.medianNm.toFixed(2)} nm)`, pass: inside.p95Nm <= TARGETS.p95MaxNm });
   rows.push({ target: 'in film coverage ≥ 95 %', value: `${(100 * inside.coverage).toFixed(2)} %`, pass: inside.coverage >= TARGETS.coverageMin });
+  return rows;
+}
+
+/** Median of the values of `values` (copied and sorted). */
+function medianOf(/** @type {Float64Array} */ values) {
+  if (values.length === 0) return Number.NaN;
+  const sorted = Float64Array.from(values).sort();
+  return sorted[Math.floor(sorted.length / 2)];
+}
+
+/**
+ * The fitted exposure field against flat and against the scene's true gain, over the film (edge
+ * band left out), each normalised to its median there:
+ *   flatDeviation = max |g_fit − 1| (0 when no field was fitted);
+ *   truthError    = max |g_fit / g_true − 1| (null when no field was fitted);
+ *   flatTruthError = max |1 / g_true − 1|, what a flat field (one exposure) is off by;
+ * g_true = 1 everywhere when the scene is evenly lit (`unevenLight` null or absent).
+ * @param {ScoredScene} scene @param {ScoredMap} result
+ */
+export function exposureFieldScore(scene, result) {
+  const field = result.exposureField ?? null;
+  const truthGain = scene.unevenLight ? scene.unevenLight.gain : null;
+  let n = 0;
+  for (let p = 0; p < scene.film.length; p++) if (scene.film[p] && !scene.edge[p]) n++;
+  const fitted = new Float64Array(n);
+  const truth = new Float64Array(n);
+  for (let p = 0, k = 0; p < scene.film.length; p++) {
+    if (!scene.film[p] || scene.edge[p]) continue;
+    fitted[k] = field ? relativeGainAt(field.logGainCoefficients, scene.width, scene.height, p % scene.width, Math.floor(p / scene.width)) : 1;
+    truth[k] = truthGain ? truthGain[p] : 1;
+    k++;
+  }
+  const fittedMedian = medianOf(fitted);
+  const truthMedian = medianOf(truth);
+  let flatDeviation = 0;
+  let truthError = 0;
+  let flatTruthError = 0;
+  for (let k = 0; k < n; k++) {
+    const f = fitted[k] / fittedMedian;
+    const t = truth[k] / truthMedian;
+    flatDeviation = Math.max(flatDeviation, Math.abs(f - 1));
+    truthError = Math.max(truthError, Math.abs(f / t - 1));
+    flatTruthError = Math.max(flatTruthError, Math.abs(1 / t - 1));
+  }
+  return {
+    fitted: field !== null,
+    pixels: n,
+    flatDeviation: field ? flatDeviation : 0,
+    flatPass: !field || flatDeviation <= TARGETS.fieldFlatMax,
+    truthError: field ? truthError : null,
+    flatTruthError,
+  };
+}
+
+/** The row "fitted field flat within ±2 %" for an evenly lit scene. */
+export function fieldFlatRow(/** @type {ScoredScene} */ scene, /** @type {ScoredMap} */ result) {
+  const f = exposureFieldScore(scene, result);
+  return {
+    target: 'fitted field flat within ±2 %',
+    value: f.fitted ? `max |gain − 1| ${(100 * f.flatDeviation).toFixed(2)} % over the film` : 'n/a (no field fitted)',
+    pass: f.flatPass,
+  };
+}
+
+/**
+ * Thin regions of the map that are false: fewer than half of their pixels (edge band left out)
+ * are film whose truth is thin (below the threshold plus `TARGETS.thinToleranceNm`). Without a
+ * threshold every thin region is false. Needs the map's per-pixel region labels.
+ */
+export function falseThinRegions(/** @type {ScoredScene} */ scene, /** @type {ScoredMap} */ result) {
+  const labels = result.thinLabels;
+  if (!labels) return { regions: null, falseRegions: null, pass: false, note: 'the map carries no thin-region labels' };
+  const limit = scene.thinBelowNm === null ? -Infinity : scene.thinBelowNm + TARGETS.thinToleranceNm;
+  /** @type {Map<number, { thin: number, notThin: number }>} */
+  const counts = new Map();
+  for (let p = 0; p < labels.length; p++) {
+    const id = labels[p];
+    if (id === 0) continue;
+    let c = counts.get(id);
+    if (!c) counts.set(id, (c = { thin: 0, notThin: 0 }));
+    if (scene.edge[p]) continue;
+    if (scene.film[p] && scene.truthNm[p] < limit) c.thin++;
+    else c.notThin++;
+  }
+  let falseRegions = 0;
+  for (const c of counts.values()) if (c.thin < c.notThin || c.thin === 0) falseRegions++;
+  return { regions: counts.size, falseRegions, pass: falseRegions === 0, note: '' };
+}
+
+/**
+ * The targets of issue 14 on a light scene, as rows { target, value, pass } (pass null: reported,
+ * not a target): in-film gross ≤ 1 %, p95 ≤ 15 nm, coverage ≥ 95 %; no false thin region; outside
+ * the film at most 1 % of pixels with a thickness; the fitted field against the true light.
+ * @param {ScoredScene} scene @param {ScoredMap} result
+ */
+export function lightSceneTargets(scene, result) {
+  /** @type {{ target: string, value: string, pass: boolean | null }[]} */
+  const rows = [];
+  const inside = insideFilmScore(scene, result);
+  const none = inside.estimates === 0 ? `no estimate in the film${result.filmArea && !result.filmArea.found ? ' (the map found no film)' : ''}` : null;
+  rows.push({ target: 'in film gross ≤ 1 %', value: none ?? `${(100 * inside.gross).toFixed(2)} %`, pass: inside.gross <= TARGETS.grossMax });
+  rows.push({ target: 'in film p95 ≤ 15 nm', value: none ?? `${inside.p95Nm.toFixed(2)} nm (median ${inside.medianNm.toFixed(2)} nm)`, pass: inside.p95Nm <= TARGETS.p95MaxNm });
+  rows.push({ target: 'in film coverage ≥ 95 %', value: `${(100 * inside.coverage).toFixed(2)} %`, pass: inside.coverage >= TARGETS.coverageMin });
+  const thin = falseThinRegions(scene, result);
+  rows.push({
+    target: 'no false thin region',
+    value: thin.regions === null ? thin.note : `${thin.falseRegions} false of ${thin.regions} thin regions`,
+    pass: thin.pass,
+  });
+  const outside = outsideFilmScore(scene, result);
+  rows.push({
+    target: 'outside film with a thickness ≤ 1 %',
+    value: outside.outsidePx === 0 ? 'n/a (film edge to edge)' : `${(100 * outside.fraction).toFixed(2)} % of ${outside.outsidePx} px`,
+    pass: outside.pass,
+  });
+  const f = exposureFieldScore(scene, result);
+  const flatOff = `a flat field is off by ${(100 * f.flatTruthError).toFixed(1)} %`;
+  rows.push({
+    target: 'fitted field vs the true light (max relative error over the film)',
+    value: f.fitted ? `${(100 * /** @type {number} */ (f.truthError)).toFixed(1)} % (${flatOff})` : `n/a (no field fitted; ${flatOff})`,
+    pass: null,
+  });
   return rows;
 }

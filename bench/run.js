@@ -1,7 +1,8 @@
 // `npm run bench`: every speed benchmark in turn, then one readable summary.
 //   optics  — filmSpectra() on 401 wavelengths × 8,000 thicknesses per preset (bench/optics.js)
 //   colour  — chart table and a 12-MP render against sharp's JPEG encode (bench/colour.js)
-//   map     — `lamella map` end to end against sharp's decode, peak memory, 1–12 MP scaling (bench/map.js)
+//   map     — `lamella map` end to end against sharp's decode, peak memory, 1–12 MP scaling, and the
+//             12 MP photo under uneven light against it evenly lit (bench/map.js)
 //   series  — `lamella series` frames per second with 1 and 2 workers (bench/series.js, if present)
 // Times are wall clock on this machine in this run; ratios against the codec are measured in the
 // same run so that they travel better between machines than the times do.

@@ -3,6 +3,8 @@
  * frame, wafers, bench, cloth and targets), so these tests check the generator against its own
  * stated design and against the geometry and the photo model it claims to follow — not the film
  * detection (the mapper's tests do that with these scenes). Needs the build (`dist/`).
+ * The last block checks the camera effects of the light scenes (bench/camera-effects.js) the same
+ * way: against the formulas the generator states, not the mapper.
  */
 import sharp from 'sharp';
 import { beforeAll, describe, expect, it } from 'vitest';
@@ -25,6 +27,8 @@ import {
   type FieldScene,
   type FieldSeries,
 } from '../bench/field-scenes.js';
+import { PICTURE_STYLE, UNEVEN_LIGHT, applyPictureStyle, falloffAt, toneCurve, unevenLight, vignetting } from '../bench/camera-effects.js';
+import { soapFilmStyledUnevenInFrame, soapFilmUnevenLight } from '../bench/light-scenes.js';
 
 const scenes: Record<string, FieldScene> = {};
 let series: FieldSeries;
@@ -286,4 +290,135 @@ describe('field scenes: surroundings pass through the same camera as the film', 
     expect(sd).toBeGreaterThan(2);
     expect(sd).toBeLessThan(15);
   });
+});
+
+// ---------------------------------------------------------------------------------------------
+// Camera effects of the light scenes (bench/camera-effects.js, bench/light-scenes.js; issue 14).
+// Checks of our own invented scenes: the generator's effects are what its header says they are.
+
+describe('light scenes: the camera effects are what the generator claims', () => {
+  const light = unevenLight(480, 360, UNEVEN_LIGHT);
+  const at = (x: number, y: number) => light.gain[y * 480 + x];
+
+  it('uneven light: largest gain 1; 35 % fall-off between the corners along the light; cos⁴ vignetting 25 % at the corners', () => {
+    let max = 0;
+    let min = Infinity;
+    for (const g of light.gain) ((max = Math.max(max, g)), (min = Math.min(min, g)));
+    expect(max).toBe(1);
+    // the direction (32° below +x) runs from the top-left corner to the bottom-right one; both
+    // corners are equally far from the centre, so their vignetting cancels in the ratio
+    expect(at(479, 359) / at(0, 0)).toBeCloseTo(1 - 0.35, 2);
+    expect(falloffAt(0, 0.35, UNEVEN_LIGHT.steepness)).toBe(1);
+    expect(falloffAt(1, 0.35, UNEVEN_LIGHT.steepness)).toBeCloseTo(0.65, 12);
+    // cos⁴ law of natural vignetting (common practice): cos⁴(atan(r/f)), 0.75 at half the diagonal
+    const rCorner = Math.hypot(240, 180);
+    expect(Math.cos(Math.atan(rCorner / light.focalPx)) ** 4).toBeCloseTo(0.75, 12);
+    expect(vignetting(rCorner, light.focalPx)).toBeCloseTo(0.75, 12);
+    expect(vignetting(0.4 * rCorner, light.focalPx)).toBeCloseTo(Math.cos(Math.atan((0.4 * rCorner) / light.focalPx)) ** 4, 12);
+    // darkest pixel: the far corner, both effects together, relative to the brightest
+    expect(min).toBe(at(479, 359));
+    expect(min).toBeGreaterThan(0.65 * 0.75 * 0.99);
+    expect(min).toBeLessThan(0.65);
+  });
+
+  it('uneven light: not along an axis (falls along x and along y), smooth (neighbours within 0.5 %)', () => {
+    expect(at(60, 180)).toBeGreaterThan(at(420, 180));
+    expect(at(240, 30)).toBeGreaterThan(at(240, 330));
+    let step = 0;
+    for (let y = 0; y < 360; y++) for (let x = 1; x < 480; x++) step = Math.max(step, Math.abs(at(x, y) - at(x - 1, y)));
+    expect(step).toBeLessThan(0.005);
+  });
+
+  it('tone curve: through 0 and 1, strictly increasing, an S (darker shadows, brighter highlights), not a cubic', () => {
+    const curve = toneCurve(PICTURE_STYLE);
+    expect(curve(0)).toBeCloseTo(0, 12);
+    expect(curve(1)).toBeCloseTo(1, 12);
+    let previous = -1;
+    for (let i = 0; i <= 1000; i++) {
+      const v = curve(i / 1000);
+      expect(v).toBeGreaterThan(previous);
+      previous = v;
+    }
+    expect(curve(0.2)).toBeLessThan(0.2 - 0.03);
+    expect(curve(0.8)).toBeGreaterThan(0.8 + 0.03);
+    // least-squares cubic through 101 points leaves a visible residual: the family is not a low-order polynomial
+    const xs = Array.from({ length: 101 }, (_, i) => i / 100);
+    const A = xs.map((x) => [1, x, x * x, x * x * x]);
+    const b = xs.map((x) => curve(x));
+    const ata = [0, 1, 2, 3].map((i) => [0, 1, 2, 3].map((j) => A.reduce((s, row) => s + row[i] * row[j], 0)));
+    const atb = [0, 1, 2, 3].map((i) => A.reduce((s, row, k) => s + row[i] * b[k], 0));
+    // Gaussian elimination on the 4 × 4 normal equations
+    for (let i = 0; i < 4; i++) {
+      for (let k = i + 1; k < 4; k++) {
+        const f = ata[k][i] / ata[i][i];
+        for (let j = i; j < 4; j++) ata[k][j] -= f * ata[i][j];
+        atb[k] -= f * atb[i];
+      }
+    }
+    const c = [0, 0, 0, 0];
+    for (let i = 3; i >= 0; i--) c[i] = (atb[i] - [0, 1, 2, 3].slice(i + 1).reduce((s, j) => s + ata[i][j] * c[j], 0)) / ata[i][i];
+    const residual = Math.max(...xs.map((x, k) => Math.abs(c[0] + c[1] * x + c[2] * x * x + c[3] * x ** 3 - b[k])));
+    expect(residual).toBeGreaterThan(0.003);
+  });
+
+  it('saturation: greys unchanged; BT.601 luma kept and Cb, Cr scaled by 1.25 (ITU-R BT.601 YCbCr, common practice)', () => {
+    const identity = (e: number) => e;
+    const curve = toneCurve(PICTURE_STYLE);
+    for (const v of [0, 0.18, 0.5, 0.93, 1]) {
+      const grey = Float64Array.of(v, v, v);
+      applyPictureStyle(identity, 1.25, grey);
+      expect([...grey]).toEqual([v, v, v]);
+      const styled = Float64Array.of(v, v, v);
+      applyPictureStyle(curve, 1.25, styled);
+      expect(styled[0]).toBe(styled[1]);
+      expect(styled[1]).toBe(styled[2]);
+      expect(styled[0]).toBeCloseTo(curve(v), 12);
+    }
+    const ycbcr = (r: number, g: number, b: number) => {
+      const y = 0.299 * r + 0.587 * g + 0.114 * b;
+      return [y, (b - y) / 1.772, (r - y) / 1.402];
+    };
+    const rgb = Float64Array.of(0.62, 0.45, 0.38);
+    const before = ycbcr(rgb[0], rgb[1], rgb[2]);
+    applyPictureStyle(identity, 1.25, rgb);
+    const after = ycbcr(rgb[0], rgb[1], rgb[2]);
+    expect(after[0]).toBeCloseTo(before[0], 12);
+    expect(after[1]).toBeCloseTo(1.25 * before[1], 12);
+    expect(after[2]).toBeCloseTo(1.25 * before[2], 12);
+  });
+
+  it('the light scenes carry the truth of their effects, and the cloth behind the film went through both', async () => {
+    const a = await soapFilmUnevenLight();
+    expect(a.pictureStyle).toBeNull();
+    expect(a.unevenLight!.falloff).toBe(0.35);
+    expect(a.unevenLight!.vignettingLoss).toBe(0.25);
+    expect(a.unevenLight!.directionDeg % 90).not.toBe(0);
+    expect(a.unevenLight!.gain).toEqual(unevenLight(480, 360, { ...UNEVEN_LIGHT, directionDeg: a.unevenLight!.directionDeg }).gain);
+    expect(truthFractions(a).filmFraction).toBe(1);
+    const c = await soapFilmStyledUnevenInFrame();
+    expect(c.pictureStyle).toEqual(PICTURE_STYLE);
+    expect(c.unevenLight!.gain.length).toBe(480 * 360);
+    // the composition rule with both effects: code = 255·style(sRGB(gain·exposure·ρ + flare)), per
+    // pixel of pure cloth with the cloth's mean reflectance (the weave averages out)
+    const select = pureSurface(c, 'cloth', 3);
+    const { data } = await sharp(c.photo).raw().toBuffer({ resolveWithObject: true });
+    const curve = toneCurve(c.pictureStyle!);
+    const rho = c.surfaces.find((x) => x.name === 'cloth')!.reflectanceRgb;
+    const expected = [0, 0, 0];
+    const got = [0, 0, 0];
+    let n = 0;
+    const triple = new Float64Array(3);
+    for (let p = 0; p < 480 * 360; p++) {
+      if (!select(p)) continue;
+      n++;
+      for (let k = 0; k < 3; k++) triple[k] = encodeSrgb(c.unevenLight!.gain[p] * c.exposure * rho[k] + c.flare[k]);
+      applyPictureStyle(curve, c.pictureStyle!.saturation, triple);
+      for (let k = 0; k < 3; k++) ((expected[k] += 255 * triple[k]), (got[k] += data[p * 3 + k]));
+    }
+    expect(n).toBeGreaterThan(50_000);
+    for (let k = 0; k < 3; k++) expect(Math.abs(got[k] / n - expected[k] / n)).toBeLessThan(2);
+    // and the styled, dimmed cloth is darker than the plain cloth of soapFilmInFrame
+    const plain = await meanCodes(scenes.soapFilmInFrame, pureSurface(scenes.soapFilmInFrame, 'cloth', 3));
+    expect(got[1] / n).toBeLessThan(plain.mean[1] - 3);
+  }, 30_000);
 });
