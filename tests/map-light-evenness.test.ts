@@ -14,6 +14,7 @@ import { encodeNpy } from '../src/io/encodeNpy.js';
 import { encodeTiff } from '../src/io/encodeImage.js';
 import { readPhoto } from '../src/io/readPhoto.js';
 import { mapDecodedPhoto } from '../src/map/mapPhoto.js';
+import { relativeGainAt } from '../src/map/lightEvenness.js';
 import { resolveStack } from '../src/optics/index.js';
 
 function decodeNpyFloat(buf: Buffer): Float32Array {
@@ -101,6 +102,48 @@ describe('light evenness and the exposure field (JSON light_evenness, exposure_f
     }
     expect(worst).toBeLessThanOrEqual(0.06);
   }, 60_000);
+
+  it('a photo over 1 MP gets its field from a subsampled preview and is mapped once: the same targets, the field within 6 % of the true light', async () => {
+    const BW = 1200;
+    const BH = 900;
+    const big = new Float32Array(BW * BH);
+    for (let y = 0; y < BH; y++) for (let x = 0; x < BW; x++) big[y * BW + x] = 60 + 1000 * Math.pow(y / (BH - 1), 1.2) + 30 * Math.sin(x / 95 + y / 205);
+    writeFileSync(join(dir, 'big.npy'), encodeNpy(big, [BH, BW]));
+    const render = lamella('render', 'big.npy', '--stack', 'soap-film', '--light', 'D65', '--camera', 'linear', '--exposure', '0.9', '--flare', '0.003', '--noise', '0.002', '--out', 'big-even.tif');
+    expect(render.status, render.stderr).toBe(0);
+    const even = await readPhoto(join(dir, 'big-even.tif'));
+    const gainBig = (x: number, y: number): number => {
+      const u = x / (BW - 1);
+      const v = y / (BH - 1);
+      const along = 0.8 * u + 0.6 * v - 0.1 * Math.min(u, v);
+      const falloff = 1 - 0.35 * Math.min(1, Math.max(0, along / 1.3));
+      const rNorm = Math.hypot(x - BW / 2, y - BH / 2) / Math.hypot(BW / 2, BH / 2);
+      const theta = Math.atan(rNorm * Math.tan(Math.acos(Math.pow(0.75, 0.25))));
+      return falloff * Math.pow(Math.cos(theta), 4);
+    };
+    const lit = new Uint16Array(BW * BH * 3);
+    for (let i = 0; i < BW * BH; i++) {
+      const g = gainBig(i % BW, Math.floor(i / BW));
+      for (let c = 0; c < 3; c++) lit[i * 3 + c] = Math.round(even.rgb[i * 3 + c] * 65535 * g);
+    }
+    const photo = await readPhoto(join(dir, 'big-even.tif'));
+    photo.rgb.set(Float32Array.from(lit, (v) => v / 65535));
+    const result = mapDecodedPhoto(photo, { stack: resolveStack('soap-film'), angleRad: 0, light: 'D65', camera: 'linear', thinBelowNm: null, maxThicknessNm: 2000, filmArea: 'whole' }, null, 'big.tif');
+    const field = result.exposureField!;
+    expect(field.source).toBe('photo');
+    const diffs: number[] = [];
+    for (let i = 0; i < big.length; i++) if (Number.isFinite(result.thicknessNm[i])) diffs.push(Math.abs(result.thicknessNm[i] - big[i]));
+    diffs.sort((a, b) => a - b);
+    expect(diffs.length / big.length).toBeGreaterThanOrEqual(0.95);
+    expect(diffs.filter((d) => d > 50).length / big.length).toBeLessThanOrEqual(0.01);
+    expect(diffs[Math.floor(0.95 * (diffs.length - 1))]).toBeLessThanOrEqual(15);
+    let worst = 0;
+    const at = (x: number, y: number): number => relativeGainAt(field.logGainCoefficients, BW, BH, x, y);
+    for (let y = 0; y < BH; y += 50) for (let x = 0; x < BW; x += 50) {
+      worst = Math.max(worst, Math.abs((at(x, y) / at(BW / 2, BH / 2)) / (gainBig(x, y) / gainBig(BW / 2, BH / 2)) - 1));
+    }
+    expect(worst).toBeLessThanOrEqual(0.06);
+  }, 180_000);
 
   it('with one exposure (lightField off, library option) the same photo is said to be unevenly lit', async () => {
     const photo = await readPhoto(join(dir, 'uneven.tif'));

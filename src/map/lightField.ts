@@ -15,9 +15,9 @@
  * lamp and lens rarely change between frames) and refines it the same way; a calibration's field
  * (a fixed inspection station, fitted on known regions spread over its photo) is applied as it is.
  */
-import { decodeSrgb, encodeSrgb } from '../colour/srgb.js';
+import { createSrgbDecoder, createSrgbEncoder } from '../colour/srgbEncoderTable.js';
 import { relativeGainAt } from './lightEvenness.js';
-import type { ExposureField, MapResult } from './types.js';
+import type { ExposureField, ExposureParameters, MapResult } from './types.js';
 
 export type { ExposureField } from './types.js';
 
@@ -37,19 +37,40 @@ function ratioOf(result: MapResult): number {
 /** The photo with the field's gain divided out in linear light (a copy in shared memory). */
 export function evenOutLight(rgb: Float32Array, width: number, height: number, logGainCoefficients: readonly number[], flare: readonly number[]): Float32Array {
   const out = new Float32Array(new SharedArrayBuffer(rgb.length * 4));
+  const c = logGainCoefficients;
+  const half = Math.max(width, height) / 2;
+  // log gain = a(u) + b(v) + c4·u·v + c6·(u² + v²)²: the u and v parts once per column and row.
+  const us = new Float64Array(width);
+  const colTerm = new Float64Array(width);
+  for (let x = 0; x < width; x++) {
+    const u = (x + 0.5 - width / 2) / half;
+    us[x] = u;
+    colTerm[x] = c[1] * u + c[3] * u * u;
+  }
+  const r4 = c[6] ?? 0;
+  const f0 = flare[0];
+  const f1 = flare[1];
+  const f2 = flare[2];
   for (let y = 0; y < height; y++) {
+    const v = (y + 0.5 - height / 2) / half;
+    const rowTerm = c[0] + c[2] * v + c[5] * v * v;
+    const uvTerm = c[4] * v;
     for (let x = 0; x < width; x++) {
-      const inverse = 1 / relativeGainAt(logGainCoefficients, width, height, x, y);
+      const u = us[x];
+      const r2 = u * u + v * v;
+      const inverse = Math.exp(-(rowTerm + colTerm[x] + uvTerm * u + r4 * r2 * r2));
       const i = (y * width + x) * 3;
-      for (let c = 0; c < 3; c++) {
-        const linear = decodeSrgb(rgb[i + c]);
-        const evened = (linear - flare[c]) * inverse + flare[c];
-        out[i + c] = encodeSrgb(evened < 0 ? 0 : evened > 1 ? 1 : evened);
-      }
+      out[i] = encodeFast((decodeFast(rgb[i]) - f0) * inverse + f0);
+      out[i + 1] = encodeFast((decodeFast(rgb[i + 1]) - f1) * inverse + f1);
+      out[i + 2] = encodeFast((decodeFast(rgb[i + 2]) - f2) * inverse + f2);
     }
   }
   return out;
 }
+
+/** Tabulated sRGB transfer functions (../colour/srgbEncoderTable.ts; they clamp to 0..1). */
+const encodeFast = createSrgbEncoder();
+const decodeFast = createSrgbDecoder();
 
 export interface LightFieldStart {
   /** Log-gain coefficients to start from (a series' previous frame) or to apply as they are (a calibration). */
@@ -60,13 +81,61 @@ export interface LightFieldStart {
   readonly use: 'fixed' | 'start';
 }
 
-export function mapWithLightField<R extends MapResult>(
+/** A subsampled copy of the photo to fit the field on (large photos), with its own mapper. */
+export interface LightFieldPreview<P extends MapResult> {
+  readonly rgb: Float32Array;
+  readonly width: number;
+  readonly height: number;
+  readonly mapWith: (pixels: Float32Array) => P;
+}
+
+interface Alternation<R extends MapResult> {
+  readonly first: R;
+  readonly best: R;
+  readonly coefficients: number[] | null;
+  readonly rounds: number;
+}
+
+/** The alternation on one photo (full size, or a preview): first map, then rounds while uneven. */
+function alternate<R extends MapResult>(rgb: Float32Array, width: number, height: number, mapWith: (pixels: Float32Array) => R, start: readonly number[] | null, startFlare: readonly number[]): Alternation<R> {
+  const first = mapWith(start ? evenOutLight(rgb, width, height, start, startFlare) : rgb);
+  if (!first.lightEvenness || first.filmArea?.found === false) return { first, best: first, coefficients: start ? [...start] : null, rounds: 0 };
+  if (!start && ratioOf(first) <= START_RATIO) return { first, best: first, coefficients: null, rounds: 0 };
+  let best = first;
+  // A start field is kept unless a round leaves the photo more even (it came from the previous frame).
+  let coefficients: number[] | null = start ? [...start] : null;
+  const total = start ? [...start] : [0, 0, 0, 0, 0, 0, 0];
+  let current = first;
+  let rounds = 0;
+  while (rounds < MAX_ROUNDS && current.lightEvenness && ratioOf(current) > SETTLED_RATIO) {
+    const step = current.lightEvenness.logGainCoefficients;
+    for (let k = 0; k < total.length; k++) total[k] += step[k] ?? 0;
+    current = mapWith(evenOutLight(rgb, width, height, total, current.fitted.flare));
+    rounds++;
+    if (ratioOf(current) < ratioOf(best)) {
+      best = current;
+      coefficients = [...total];
+    }
+  }
+  return { first, best, coefficients, rounds };
+}
+
+/**
+ * Maps the photo with the exposure as a smooth field when the light is uneven. With a `preview`
+ * (a large photo subsampled to a few hundred thousand pixels), the field is found by the
+ * alternation on the preview and the full photo is mapped once, evened by it: an uneven 12-MP
+ * photo then costs one full map plus a few small ones instead of 2–4 full maps. The field's
+ * coordinates are fractions of the photo (./lightEvenness.ts), the same on both.
+ */
+export function mapWithLightField<R extends MapResult, P extends MapResult = R>(
   rgb: Float32Array,
   width: number,
   height: number,
-  mapWith: (pixels: Float32Array) => R,
+  /** Maps the (evened) pixels; `fitStart` starts the photo-formation fit (the preview's fit). */
+  mapWith: (pixels: Float32Array, fitStart?: ExposureParameters | null) => R,
   mode: LightFieldMode,
   start: LightFieldStart | null = null,
+  preview: LightFieldPreview<P> | null = null,
 ): { result: R; field: ExposureField | null } {
   if (start && start.use === 'fixed') {
     const coefficients = [...start.logGainCoefficients];
@@ -74,27 +143,18 @@ export function mapWithLightField<R extends MapResult>(
     return { result, field: fieldOver(result, coefficients, width, height, 0, 'calibration', false) };
   }
   const startCoefficients = mode === 'auto' && start ? [...start.logGainCoefficients] : null;
-  const first = mapWith(startCoefficients ? evenOutLight(rgb, width, height, startCoefficients, start!.flare) : rgb);
-  if (mode === 'off' || !first.lightEvenness) return { result: first, field: startCoefficients ? fieldOver(first, startCoefficients, width, height, 0, 'photo', true) : null };
-  if (!startCoefficients && ratioOf(first) <= START_RATIO) return { result: first, field: null };
-  let best = first;
-  // A start field is kept unless a round leaves the photo more even (it came from the previous frame).
-  let bestCoefficients: number[] | null = startCoefficients ? [...startCoefficients] : null;
-  const total = startCoefficients ? [...startCoefficients] : [0, 0, 0, 0, 0, 0, 0];
-  let current = first;
-  let rounds = 0;
-  while (rounds < MAX_ROUNDS && current.lightEvenness && ratioOf(current) > SETTLED_RATIO) {
-    const step = current.lightEvenness.logGainCoefficients;
-    for (let k = 0; k < total.length; k++) total[k] += step[k];
-    current = mapWith(evenOutLight(rgb, width, height, total, current.fitted.flare));
-    rounds++;
-    if (ratioOf(current) < ratioOf(best)) {
-      best = current;
-      bestCoefficients = [...total];
-    }
+  const startFlare = start?.flare ?? [0, 0, 0];
+  if (mode === 'off') return { result: mapWith(rgb), field: null };
+  if (preview) {
+    const small = alternate(preview.rgb, preview.width, preview.height, preview.mapWith, startCoefficients, startFlare);
+    if (!small.coefficients) return { result: mapWith(rgb), field: null };
+    // The preview's fit starts the full map's (the same light, once evened).
+    const result = mapWith(evenOutLight(rgb, width, height, small.coefficients, small.best.fitted.flare), small.best.fitted);
+    return { result, field: fieldOver(result, small.coefficients, width, height, small.rounds, 'photo', true) };
   }
-  if (!bestCoefficients) return { result: first, field: null };
-  return { result: best, field: fieldOver(best, bestCoefficients, width, height, rounds, 'photo', true) };
+  const run = alternate(rgb, width, height, mapWith, startCoefficients, startFlare);
+  if (!run.coefficients) return { result: run.first, field: null };
+  return { result: run.best, field: fieldOver(run.best, run.coefficients, width, height, run.rounds, 'photo', true) };
 }
 
 /**
@@ -102,13 +162,15 @@ export function mapWithLightField<R extends MapResult>(
  * over them when `normalise` (a fitted field: the exposure absorbs the median); a calibration's
  * field is reported as stored (its exposure was fitted with it).
  */
-function fieldOver(result: MapResult, coefficients: number[], width: number, height: number, rounds: number, source: ExposureField['source'], normalise: boolean): ExposureField {
+function fieldOver(result: MapResult, coefficients: number[], width: number, height: number, rounds: number, source: ExposureField['source'], normalise: boolean): ExposureField | null {
   const gains: number[] = [];
   const stride = Math.max(1, Math.floor((width * height) / 20_000));
   for (let i = 0; i < width * height; i += stride) {
     if (!Number.isFinite(result.thicknessNm[i])) continue;
     gains.push(relativeGainAt(coefficients, width, height, i % width, Math.floor(i / width)));
   }
+  // A fitted field over no film at all means nothing (a calibration's is reported as applied).
+  if (gains.length === 0 && source === 'photo') return null;
   gains.sort((a, b) => a - b);
   const median = gains.length > 0 && normalise ? gains[Math.floor(gains.length / 2)] : 1;
   const gainMin = gains.length > 0 ? gains[Math.floor(0.01 * (gains.length - 1))] / median : 1;

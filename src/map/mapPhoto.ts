@@ -27,7 +27,7 @@ import { defaultThreads } from './pixelThreads.js';
 import { chromaWeightFor } from './matchSpace.js';
 import { renderFlagsPng, renderMapPng, scaleRangeOf } from './mapImages.js';
 import { findThinRegions } from './thinRegions.js';
-import type { MapOptions, MapResult } from './types.js';
+import type { Anchor, ExposureParameters, MapOptions, MapResult } from './types.js';
 import { mapResultJson } from './mapResultJson.js';
 
 export { mapResultJson } from './mapResultJson.js';
@@ -113,19 +113,19 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
   // (buildColourTable.ts), and the same monotone encoding on both sides leaves the model exact.
   const rgb = built.camera.encoding === 'linear' ? encodeLinearPhoto(photo.rgb) : photo.rgb;
   const film = buildFilmMask(photo.width, photo.height, options.region, mask, photo.alpha);
-  const mapWith = (pixels: Float32Array) => mapPixels({
+  const mapAt = (pixels: Float32Array, at: FrameGeometry, fitStart: ExposureParameters | null = null) => mapPixels({
     rgb: pixels,
-    width: photo.width,
-    height: photo.height,
-    film,
+    width: at.width,
+    height: at.height,
+    film: at.film,
     table: built.table,
     orderPeriodNm: built.orderPeriodNm,
     thinBelowNm: options.thinBelowNm,
-    pixelSizeUm: options.pixelSizeUm ?? null,
-    anchors: options.anchors,
-    prior: options.prior ?? null,
+    pixelSizeUm: at.pixelSizeUm,
+    anchors: at.anchors,
+    prior: at.prior,
     exposureFixed: options.exposureFixed ?? null,
-    fitStart: options.fitStart ?? null,
+    fitStart: fitStart ?? options.fitStart ?? null,
     keepConsistent: options.keepConsistent ?? true,
     threads: options.threads ?? defaultThreads(),
     chromaWeight: chromaWeightFor(photo.format, photo.chromaSubsampling),
@@ -133,8 +133,26 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
     filmArea: options.filmArea ?? 'auto',
     expectNm: options.expectNm ?? null,
   });
-  // Uneven light: the exposure is fitted as a smooth field by alternation (./lightField.ts).
-  const { result, field } = mapWithLightField(rgb, photo.width, photo.height, mapWith, options.lightField ?? 'auto', lightFieldStartOf(options, photo.width, photo.height));
+  const full: FrameGeometry = {
+    width: photo.width,
+    height: photo.height,
+    film,
+    prior: options.prior ?? null,
+    anchors: options.anchors ?? [],
+    pixelSizeUm: options.pixelSizeUm ?? null,
+  };
+  // Uneven light: the exposure is fitted as a smooth field by alternation (./lightField.ts), on a
+  // subsampled preview when the photo is large.
+  const preview = previewOf(rgb, full);
+  const { result, field } = mapWithLightField(
+    rgb,
+    photo.width,
+    photo.height,
+    (pixels, fitStart) => mapAt(pixels, full, fitStart ?? null),
+    options.lightField ?? 'auto',
+    lightFieldStartOf(options, photo.width, photo.height),
+    preview ? { rgb: preview.rgb, width: preview.at.width, height: preview.at.height, mapWith: (pixels) => mapAt(pixels, preview.at) } : null,
+  );
   const warnings = [...result.warnings];
   if (built.camera.encoding === 'linear' && photo.bitDepth === 8) {
     warnings.push(
@@ -255,6 +273,52 @@ async function writeEachOutput(
   const outcomes = await Promise.allSettled(tasks);
   const failure = outcomes.find((o): o is PromiseRejectedResult => o.status === 'rejected');
   if (failure) throw failure.reason;
+}
+
+/** What a map needs to know about the frame besides its pixels (full size, or a subsampled preview). */
+interface FrameGeometry {
+  readonly width: number;
+  readonly height: number;
+  readonly film: Uint8Array;
+  readonly prior: Float32Array | null;
+  readonly anchors: readonly Anchor[];
+  readonly pixelSizeUm: number | null;
+}
+
+/** Photos above this many pixels get their light field fitted on a subsampled preview. */
+export const LIGHT_FIELD_PREVIEW_ABOVE_PX = 1_000_000;
+/** About this many pixels in the preview. */
+const PREVIEW_PX = 120_000;
+
+/**
+ * A point-sampled copy (every k-th pixel of every k-th row, no averaging: averaging would mix the
+ * colours of neighbouring thicknesses) of a large photo, its film mask, prior and anchors.
+ */
+function previewOf(rgb: Float32Array, at: FrameGeometry): { rgb: Float32Array; at: FrameGeometry } | null {
+  const { width, height } = at;
+  if (width * height <= LIGHT_FIELD_PREVIEW_ABOVE_PX) return null;
+  const k = Math.max(2, Math.round(Math.sqrt((width * height) / PREVIEW_PX)));
+  const offset = Math.floor(k / 2);
+  const w = Math.floor((width - offset - 1) / k) + 1;
+  const h = Math.floor((height - offset - 1) / k) + 1;
+  const small = new Float32Array(new SharedArrayBuffer(w * h * 3 * 4));
+  const film = new Uint8Array(w * h);
+  const prior = at.prior ? new Float32Array(w * h) : null;
+  for (let y = 0; y < h; y++) {
+    for (let x = 0; x < w; x++) {
+      const src = (y * k + offset) * width + (x * k + offset);
+      const dst = y * w + x;
+      small[dst * 3] = rgb[src * 3];
+      small[dst * 3 + 1] = rgb[src * 3 + 1];
+      small[dst * 3 + 2] = rgb[src * 3 + 2];
+      film[dst] = at.film[src];
+      if (prior && at.prior) prior[dst] = at.prior[src];
+    }
+  }
+  const anchors = at.anchors
+    .map((a) => ({ ...a, x: Math.min(w - 1, Math.round((a.x - offset) / k)), y: Math.min(h - 1, Math.round((a.y - offset) / k)) }))
+    .filter((a) => a.x >= 0 && a.y >= 0);
+  return { rgb: small, at: { width: w, height: h, film, prior, anchors, pixelSizeUm: at.pixelSizeUm === null ? null : at.pixelSizeUm * k } };
 }
 
 /**
