@@ -7,6 +7,9 @@
 import { basename } from 'node:path';
 import { cameraFromSpec, type CameraSpec, convertXyzToLab, deltaE2000, decodeSrgb, resolveLight, LINEAR_SRGB_TO_XYZ, SRGB_WHITE_XYZ } from '../colour/index.js';
 import { readPhoto } from '../io/readPhoto.js';
+import { notedInputFiles } from '../io/inputFiles.js';
+import { provenanceOf } from '../io/provenance.js';
+import { LAMELLA_VERSION } from '../version.js';
 import { MAP_MAX_PIXELS } from '../io/limits.js';
 import type { Stack } from '../optics/types.js';
 import { CALIBRATION_VERSION } from './calibrationFile.js';
@@ -36,7 +39,9 @@ export interface CalibrationRecord extends Record<string, unknown> {
 
 export async function calibratePhotoFile(path: string, options: CalibrateOptions): Promise<CalibrationRecord> {
   const photo = await readPhoto(path, { maxPixels: MAP_MAX_PIXELS });
-  return calibrateDecoded(photo.rgb, photo.width, photo.height, basename(path), options);
+  const record = calibrateDecoded(photo.rgb, photo.width, photo.height, basename(path), options);
+  // Which Lamella made it, from which files (the photo and every data file the run read).
+  return { ...record, provenance: await provenanceOf([{ path, role: 'photo' }, ...notedInputFiles()]) };
 }
 
 export function calibrateDecoded(
@@ -79,6 +84,7 @@ export function calibrateDecoded(
     );
   return {
     lamella_calibration: CALIBRATION_VERSION,
+    lamella_version: LAMELLA_VERSION,
     created: new Date().toISOString(),
     photo: photoName,
     photo_size_px: [width, height],

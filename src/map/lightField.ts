@@ -29,13 +29,44 @@ export const START_RATIO = 1.04;
 export const SETTLED_RATIO = 1.02;
 const MAX_ROUNDS = 3;
 
+/** Max/min gain left over the film; a map that found no film, or could not tell, is never "more even". */
 function ratioOf(result: MapResult): number {
   const e = result.lightEvenness;
+  if (result.filmArea?.found === false) return Infinity;
   return e ? e.gainMax / e.gainMin : 1;
 }
 
+/**
+ * The range of a field's log gain over the pixels a map measured, a little wider: the field is
+ * held within it elsewhere, so a surface fitted over a film in the middle does not extrapolate
+ * to wild gains over the background in the corners (which could turn a dark chuck into "film").
+ */
+function logGainRangeOver(result: MapResult, coefficients: readonly number[], width: number, height: number): [number, number] | null {
+  let lo = Infinity;
+  let hi = -Infinity;
+  const stride = Math.max(1, Math.floor((width * height) / 20_000));
+  for (let i = 0; i < width * height; i += stride) {
+    if (!Number.isFinite(result.thicknessNm[i])) continue;
+    const g = Math.log(relativeGainAt(coefficients, width, height, i % width, Math.floor(i / width)));
+    if (g < lo) lo = g;
+    if (g > hi) hi = g;
+  }
+  return Number.isFinite(lo) ? [lo - CLAMP_MARGIN, hi + CLAMP_MARGIN] : null;
+}
+
+/** Log-gain margin beyond the range seen over the film (2 %). */
+const CLAMP_MARGIN = 0.02;
+
 /** The photo with the field's gain divided out in linear light (a copy in shared memory). */
-export function evenOutLight(rgb: Float32Array, width: number, height: number, logGainCoefficients: readonly number[], flare: readonly number[]): Float32Array {
+export function evenOutLight(
+  rgb: Float32Array,
+  width: number,
+  height: number,
+  logGainCoefficients: readonly number[],
+  flare: readonly number[],
+  /** Hold the log gain within [lo, hi] (see `logGainRangeOver`); null = as the surface gives it. */
+  clamp: readonly [number, number] | null = null,
+): Float32Array {
   const out = new Float32Array(new SharedArrayBuffer(rgb.length * 4));
   const c = logGainCoefficients;
   const half = Math.max(width, height) / 2;
@@ -58,7 +89,9 @@ export function evenOutLight(rgb: Float32Array, width: number, height: number, l
     for (let x = 0; x < width; x++) {
       const u = us[x];
       const r2 = u * u + v * v;
-      const inverse = Math.exp(-(rowTerm + colTerm[x] + uvTerm * u + r4 * r2 * r2));
+      let logGain = rowTerm + colTerm[x] + uvTerm * u + r4 * r2 * r2;
+      if (clamp) logGain = logGain < clamp[0] ? clamp[0] : logGain > clamp[1] ? clamp[1] : logGain;
+      const inverse = Math.exp(-logGain);
       const i = (y * width + x) * 3;
       out[i] = encodeFast((decodeFast(rgb[i]) - f0) * inverse + f0);
       out[i + 1] = encodeFast((decodeFast(rgb[i + 1]) - f1) * inverse + f1);
@@ -87,37 +120,76 @@ export interface LightFieldPreview<P extends MapResult> {
   readonly width: number;
   readonly height: number;
   readonly mapWith: (pixels: Float32Array) => P;
+  /** The same, measuring only the middle of the photo (see `mapWithLightField`). */
+  readonly mapCentreWith?: (pixels: Float32Array) => P;
 }
 
 interface Alternation<R extends MapResult> {
   readonly first: R;
   readonly best: R;
   readonly coefficients: number[] | null;
+  /** The log-gain range the best map was evened with (null: not clamped). */
+  readonly clamp: [number, number] | null;
   readonly rounds: number;
 }
 
 /** The alternation on one photo (full size, or a preview): first map, then rounds while uneven. */
-function alternate<R extends MapResult>(rgb: Float32Array, width: number, height: number, mapWith: (pixels: Float32Array) => R, start: readonly number[] | null, startFlare: readonly number[]): Alternation<R> {
-  const first = mapWith(start ? evenOutLight(rgb, width, height, start, startFlare) : rgb);
-  if (!first.lightEvenness || first.filmArea?.found === false) return { first, best: first, coefficients: start ? [...start] : null, rounds: 0 };
-  if (!start && ratioOf(first) <= START_RATIO) return { first, best: first, coefficients: null, rounds: 0 };
+function alternate<R extends MapResult>(
+  rgb: Float32Array,
+  width: number,
+  height: number,
+  mapWith: (pixels: Float32Array, fitStart?: ExposureParameters | null) => R,
+  start: readonly number[] | null,
+  startFlare: readonly number[],
+  fitStart: ExposureParameters | null = null,
+): Alternation<R> {
+  const first = mapWith(start ? evenOutLight(rgb, width, height, start, startFlare) : rgb, fitStart);
+  if (!first.lightEvenness || first.filmArea?.found === false) return { first, best: first, coefficients: start ? [...start] : null, clamp: null, rounds: 0 };
+  if (!start && ratioOf(first) <= START_RATIO) return { first, best: first, coefficients: null, clamp: null, rounds: 0 };
   let best = first;
   // A start field is kept unless a round leaves the photo more even (it came from the previous frame).
   let coefficients: number[] | null = start ? [...start] : null;
   const total = start ? [...start] : [0, 0, 0, 0, 0, 0, 0];
   let current = first;
   let rounds = 0;
+  let clamp: [number, number] | null = null;
   while (rounds < MAX_ROUNDS && current.lightEvenness && ratioOf(current) > SETTLED_RATIO) {
     const step = current.lightEvenness.logGainCoefficients;
     for (let k = 0; k < total.length; k++) total[k] += step[k] ?? 0;
-    current = mapWith(evenOutLight(rgb, width, height, total, current.fitted.flare));
+    const range = logGainRangeOver(current, total, width, height);
+    // Each round starts its photo-formation fit from the last (the photo changed only by the field).
+    current = mapWith(evenOutLight(rgb, width, height, total, current.fitted.flare, range), current.fitted);
     rounds++;
     if (ratioOf(current) < ratioOf(best)) {
       best = current;
       coefficients = [...total];
+      clamp = range;
     }
   }
-  return { first, best, coefficients, rounds };
+  return { first, best, coefficients, clamp, rounds };
+}
+
+/**
+ * The retry from the middle of the photo: map the middle alone (the light varies least there),
+ * then the whole photo with the photo-formation fit started from the middle's and, when the
+ * middle was uneven too, the plane part of its field (a quadratic fitted over the middle would
+ * extrapolate wildly to the corners); the alternation then refines the field over the film.
+ * Null when the middle shows no film either, or the whole photo still shows none.
+ */
+function fromCentre<R extends MapResult>(
+  rgb: Float32Array,
+  width: number,
+  height: number,
+  mapWith: (pixels: Float32Array, fitStart?: ExposureParameters | null) => R,
+  mapCentreWith: (pixels: Float32Array) => R,
+  startFlare: readonly number[],
+): Alternation<R> | null {
+  const centre = mapCentreWith(rgb);
+  if (centre.filmArea?.found === false) return null;
+  const e = centre.lightEvenness;
+  const plane = e && e.gainMax / e.gainMin > START_RATIO ? [e.logGainCoefficients[0], e.logGainCoefficients[1], e.logGainCoefficients[2], 0, 0, 0, 0] : null;
+  const run = alternate(rgb, width, height, mapWith, plane, plane ? centre.fitted.flare : startFlare, centre.fitted);
+  return run.best.filmArea?.found === false ? null : run;
 }
 
 /**
@@ -136,6 +208,13 @@ export function mapWithLightField<R extends MapResult, P extends MapResult = R>(
   mode: LightFieldMode,
   start: LightFieldStart | null = null,
   preview: LightFieldPreview<P> | null = null,
+  /**
+   * Maps the pixels measuring only the middle of the photo. When one exposure explains no part of
+   * the photo (strong fall-off across a film on a dark background can make the one-exposure fit
+   * fail everywhere), the field is first found where the light varies least — the middle — then
+   * refined over the whole photo; a photo that is not a film finds no film there either.
+   */
+  mapCentreWith: ((pixels: Float32Array) => R) | null = null,
 ): { result: R; field: ExposureField | null } {
   if (start && start.use === 'fixed') {
     const coefficients = [...start.logGainCoefficients];
@@ -146,13 +225,19 @@ export function mapWithLightField<R extends MapResult, P extends MapResult = R>(
   const startFlare = start?.flare ?? [0, 0, 0];
   if (mode === 'off') return { result: mapWith(rgb), field: null };
   if (preview) {
-    const small = alternate(preview.rgb, preview.width, preview.height, preview.mapWith, startCoefficients, startFlare);
+    let small = alternate(preview.rgb, preview.width, preview.height, preview.mapWith, startCoefficients, startFlare);
+    if (!small.coefficients && small.first.filmArea?.found === false && preview.mapCentreWith) {
+      small = fromCentre(preview.rgb, preview.width, preview.height, preview.mapWith, preview.mapCentreWith, startFlare) ?? small;
+    }
     if (!small.coefficients) return { result: mapWith(rgb), field: null };
     // The preview's fit starts the full map's (the same light, once evened).
-    const result = mapWith(evenOutLight(rgb, width, height, small.coefficients, small.best.fitted.flare), small.best.fitted);
+    const result = mapWith(evenOutLight(rgb, width, height, small.coefficients, small.best.fitted.flare, small.clamp), small.best.fitted);
     return { result, field: fieldOver(result, small.coefficients, width, height, small.rounds, 'photo', true) };
   }
-  const run = alternate(rgb, width, height, mapWith, startCoefficients, startFlare);
+  let run = alternate(rgb, width, height, mapWith, startCoefficients, startFlare);
+  if (!run.coefficients && run.first.filmArea?.found === false && mapCentreWith) {
+    run = fromCentre(rgb, width, height, mapWith, mapCentreWith, startFlare) ?? run;
+  }
   if (!run.coefficients) return { result: run.first, field: null };
   return { result: run.best, field: fieldOver(run.best, run.coefficients, width, height, run.rounds, 'photo', true) };
 }

@@ -151,7 +151,10 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
     (pixels, fitStart) => mapAt(pixels, full, fitStart ?? null),
     options.lightField ?? 'auto',
     lightFieldStartOf(options, photo.width, photo.height),
-    preview ? { rgb: preview.rgb, width: preview.at.width, height: preview.at.height, mapWith: (pixels) => mapAt(pixels, preview.at) } : null,
+    preview
+      ? { rgb: preview.rgb, width: preview.at.width, height: preview.at.height, mapWith: (pixels) => mapAt(pixels, preview.at), mapCentreWith: (pixels) => mapAt(pixels, centreOf(preview.at)) }
+      : null,
+    (pixels) => mapAt(pixels, centreOf(full)),
   );
   const warnings = [...result.warnings];
   if (built.camera.encoding === 'linear' && photo.bitDepth === 8) {
@@ -275,6 +278,9 @@ async function writeEachOutput(
   if (failure) throw failure.reason;
 }
 
+/** A calibration's light field made for another photo size: a usage error for the whole run. */
+export class FieldSizeMismatchError extends UsageError {}
+
 /** What a map needs to know about the frame besides its pixels (full size, or a subsampled preview). */
 interface FrameGeometry {
   readonly width: number;
@@ -283,6 +289,20 @@ interface FrameGeometry {
   readonly prior: Float32Array | null;
   readonly anchors: readonly Anchor[];
   readonly pixelSizeUm: number | null;
+}
+
+/** Share of the photo's width and height measured first when one exposure explains no film (./lightField.ts). */
+const CENTRE_SHARE = 0.5;
+
+/** The geometry with its film mask cut to the middle CENTRE_SHARE of the photo. */
+function centreOf(at: FrameGeometry): FrameGeometry {
+  const film = new Uint8Array(at.film.length);
+  const x0 = Math.floor((at.width * (1 - CENTRE_SHARE)) / 2);
+  const y0 = Math.floor((at.height * (1 - CENTRE_SHARE)) / 2);
+  const x1 = at.width - x0;
+  const y1 = at.height - y0;
+  for (let y = y0; y < y1; y++) for (let x = x0; x < x1; x++) film[y * at.width + x] = at.film[y * at.width + x];
+  return { ...at, film, anchors: at.anchors.filter((a) => a.x >= x0 && a.x < x1 && a.y >= y0 && a.y < y1) };
 }
 
 /** Photos above this many pixels get their light field fitted on a subsampled preview. */
@@ -329,7 +349,7 @@ function lightFieldStartOf(options: MapOptions, width: number, height: number): 
   const fixed = options.exposureFieldFixed ?? null;
   if (fixed) {
     if ((fixed.widthPx !== width || fixed.heightPx !== height) && !fixed.ignoreSizeMismatch) {
-      throw new UsageError(
+      throw new FieldSizeMismatchError(
         `--calibration ${fixed.file}: its light field was fitted on a ${fixed.widthPx}×${fixed.heightPx} photo, this photo is ${width}×${height}; a field belongs to one camera position and framing (calibrate on a photo of this size, or add --ignore-calibration-mismatch to stretch it over this photo)`,
       );
     }

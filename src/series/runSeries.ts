@@ -244,6 +244,7 @@ export async function runSeries(options: SeriesOptions): Promise<SeriesResult> {
     rupture: film.rupture,
     size: probed.size,
     warnings: [...warnings, ...failures],
+    inputFiles,
   });
   const [csvPath, jsonPath, reportPath] = AGGREGATE_OUTPUTS.map((name) => join(outDir, name));
   const outputs = [csvPath, jsonPath];

@@ -5,6 +5,7 @@
  * inputs give identical files.
  */
 import type { DrainageFit } from './fits/fitDrainage.js';
+import { LAMELLA_VERSION } from '../version.js';
 import type { SeriesRow } from './seriesRows.js';
 import type { RuptureRecord } from './rupture.js';
 import { observeSeries, type SeriesObservations } from './observations.js';
@@ -19,11 +20,16 @@ export interface SeriesSummaryInput {
   readonly rupture: RuptureRecord | null;
   readonly size: { readonly width: number; readonly height: number } | null;
   readonly warnings: readonly string[];
+  readonly inputFiles?: Readonly<Record<string, string>>;
 }
 
 export interface SeriesSummary {
   readonly format: 'lamella-series';
   readonly version: 1;
+  /** Which Lamella made it (`--version`). */
+  readonly lamella_version: string;
+  /** SHA-256 of the data files the frames depend on, by "role path" (each frame's own file is in its record). */
+  readonly input_files: Readonly<Record<string, string>>;
   readonly settings: Record<string, unknown>;
   readonly calibration: Record<string, unknown> | null;
   readonly frames: { readonly total: number; readonly withResults: number; readonly missing: readonly string[]; readonly width: number | null; readonly height: number | null };
@@ -45,6 +51,8 @@ export function seriesSummary(input: SeriesSummaryInput): SeriesSummary {
   return {
     format: 'lamella-series',
     version: 1,
+    lamella_version: LAMELLA_VERSION,
+    input_files: { ...(input.inputFiles ?? {}) },
     settings: input.settings,
     calibration: input.calibration,
     frames: {

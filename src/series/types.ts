@@ -84,6 +84,8 @@ export interface SeriesProgress {
 export interface FrameRecord {
   readonly format: 'lamella-series-frame';
   readonly version: 1;
+  /** Which Lamella mapped it (absent in older records). */
+  readonly lamella_version?: string;
   readonly frame: string;
   readonly stem: string;
   readonly settingsHash: string;

@@ -8,6 +8,7 @@ import { mkdir, readdir, rename, rm, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import { threadId } from 'node:worker_threads';
 import type { MapResult } from '../map/types.js';
+import { LAMELLA_VERSION } from '../version.js';
 import { encodeNpy } from '../io/encodeNpy.js';
 import { describeWriteError } from '../io/atomicWriteFile.js';
 import { framesDir, partialDirName } from './frameFiles.js';
@@ -17,6 +18,7 @@ export function frameRecordOf(frame: FrameJob, result: MapResult, hash: string, 
   return {
     format: 'lamella-series-frame',
     version: 1,
+    lamella_version: LAMELLA_VERSION,
     frame: frame.name,
     stem: frame.stem,
     settingsHash: hash,

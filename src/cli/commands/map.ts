@@ -12,6 +12,9 @@ import { addStackOptions, stackFromOptions, type StackCliOptions } from '../stac
 import { addFilmAreaOptions, filmAreaFromOptions, type FilmAreaCliOptions } from '../filmAreaOptions.js';
 import { collect, parseKnown } from '../parseGeometry.js';
 import { UsageError } from '../errors.js';
+import { FieldSizeMismatchError } from '../../map/mapPhoto.js';
+import { notedInputFiles } from '../../io/inputFiles.js';
+import { provenanceOf } from '../../io/provenance.js';
 import { parseDecimal } from '../parseDecimal.js';
 import { ensureOutputDir, assertNoInputOverwritten } from '../../io/ensureOutputDir.js';
 import { atomicWriteFile } from '../../io/atomicWriteFile.js';
@@ -163,7 +166,11 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
         for (const warning of onPhoto.warnings) warn(`${photo}: calibration: ${warning}`);
       }
       const result = mapDecodedPhoto(decoded, photoOptions, mask, photo);
-      const record = mapResultJson(result, photoOptions, photo);
+      // Which Lamella made it, from which files (SHA-256 of the photo, mask and data files read).
+      const record = {
+        ...mapResultJson(result, photoOptions, photo),
+        provenance: await provenanceOf([{ path: photo, role: 'photo' }, ...(opts.mask ? [{ path: opts.mask, role: '--mask' }] : []), ...notedInputFiles()]),
+      };
       // The photo's new outputs replace its old ones all together or not at all, even when
       // interrupted or the disk fills up (with one photo, report.html belongs to the set).
       const setNames = OUTPUT_SUFFIXES.map((suffix) => stem + suffix).concat(photos.length === 1 ? ['report.html'] : []);
@@ -182,8 +189,8 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
       for (const warning of result.warnings) warn(`${photo}: ${warning}`);
       if (!opts.json && !opts.quiet) process.stdout.write(`${summaryLine(photo, result)}\n`);
     } catch (error) {
-      // A usage error (a calibration's light field made for another photo size) holds for the run.
-      if (error instanceof UsageError) throw error;
+      // A calibration's light field made for another photo size holds for the whole run (exit 2).
+      if (error instanceof FieldSizeMismatchError) throw error;
       failed.push(photo);
       process.stderr.write(`lamella: ${oneLine(error).startsWith(photo) ? '' : `${photo}: `}${oneLine(error)}\n`);
     }
