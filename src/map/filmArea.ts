@@ -242,13 +242,21 @@ function dropPatchwork(film: Uint8Array, dropped: Uint8Array, seeds: Components,
   const cells = w * h;
   const parts = labelComponents(film, w, h, 8);
   if (parts.count < PATCHWORK_COUNT) return;
+  // Flatness is judged on each part's interior: its outer cells (the opening radius) mix the
+  // patch with what surrounds it, and a blurred edge towards a dark surround reads as a
+  // first-order film thinning to black. Parts too small to have an interior are judged whole.
+  const interior = erodeSquare(film, w, h, Math.max(1, input.openingRadius));
+  const inner = new Float64Array(parts.count + 1);
+  for (let c = 0; c < cells; c++) if (interior[c]) inner[parts.labels[c]]++;
   const sum = new Float64Array(parts.count + 1);
   const squares = new Float64Array(parts.count + 1);
+  const counted = new Float64Array(parts.count + 1);
   for (let c = 0; c < cells; c++) {
     const id = parts.labels[c];
-    if (id === 0) continue;
+    if (id === 0 || (inner[id] >= MIN_FILM_CELLS && !interior[c])) continue;
     sum[id] += cellBrightness[c];
     squares[id] += cellBrightness[c] ** 2;
+    counted[id]++;
   }
   // Apart: no other part within two cells.
   const apart = new Uint8Array(parts.count + 1).fill(1);
@@ -271,7 +279,7 @@ function dropPatchwork(film: Uint8Array, dropped: Uint8Array, seeds: Components,
   const patch = new Uint8Array(parts.count + 1);
   let patches = 0;
   for (let id = 1; id <= parts.count; id++) {
-    const n = parts.sizes[id];
+    const n = counted[id];
     const mean = sum[id] / n;
     const flat = Math.sqrt(Math.max(0, squares[id] / n - mean * mean)) < FLAT_BRIGHTNESS;
     if (flat && apart[id]) {
