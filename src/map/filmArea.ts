@@ -74,6 +74,8 @@ export interface FilmAreaInput {
   readonly cellBrightness: Float32Array;
   /** Cells holding an `--anchor`: what holds an anchor is film. */
   readonly anchorCells: readonly number[];
+  /** 1 where a neutral grey surface gives the cell's colour within the noise allowance (neutralGrey.ts). */
+  readonly greyExplained: Uint8Array;
 }
 
 export interface FilmAreaCells {
@@ -122,6 +124,7 @@ export function findFilmArea(input: FilmAreaInput): FilmAreaCells {
   for (let id = 1; id <= seeds.count; id++) largest = Math.max(largest, seeds.sizes[id]);
   const minSize = Math.max(MIN_FILM_CELLS, MIN_FILM_SHARE * searchArea, largest / 20);
   const { film, dropped } = keepComponents(seeds, input, minSize);
+  dropNeutralAttachments(film, dropped, input);
   dropPatchwork(film, dropped, seeds, input);
   // Undo the opening near the seeds where thickness continues (r + 1 steps of conditional growth),
   // but not into neutral surroundings.
@@ -225,6 +228,78 @@ export function findFilmArea(input: FilmAreaInput): FilmAreaCells {
     else verdict[c] = CellVerdict.notFilmColour;
   }
   return { verdict, found, undecidedCells };
+}
+
+/** A neutral part whose outline lies near coloured film for less than this share is attached, not film. */
+const ATTACHED_CONTACT_SHARE = 0.25;
+
+/**
+ * Tweezers, clamps and holders: neutral things that reach into the photo from outside and touch
+ * the film only where they hold it. Their colour is explained by a neutral grey (steel, a shadow
+ * on a grey bench) at least as well as by film, yet a first-order grey or a washed-out high order
+ * may match it and its thickness may even continue the film's at the contact, so it joins the
+ * film's seed. A part of the film whose cells a neutral grey explains within the noise (after an
+ * opening that leaves out strips, e.g. a grey rim), that reaches the photo border (or the edge of
+ * the region/mask), holds no anchor, and whose outline lies within a few cells of coloured film
+ * (the rest of the film) for less than a quarter of its length is not film: a grey band of a real
+ * film lies between its coloured bands, along them. The strips next to it that the opening left
+ * out go with it (grown within the neutral cells by the opening radius plus one).
+ */
+function dropNeutralAttachments(film: Uint8Array, dropped: Uint8Array, input: FilmAreaInput): void {
+  const { gridWidth: w, gridHeight: h, greyExplained, cellClass } = input;
+  const cells = w * h;
+  const r = Math.max(1, input.openingRadius);
+  const grey = new Uint8Array(cells);
+  const coloured = new Uint8Array(cells);
+  for (let c = 0; c < cells; c++) {
+    grey[c] = film[c] && greyExplained[c] ? 1 : 0;
+    coloured[c] = film[c] && !greyExplained[c] ? 1 : 0;
+  }
+  const opened = dilateSquare(erodeSquare(grey, w, h, r), w, h, r);
+  for (let c = 0; c < cells; c++) opened[c] &= grey[c];
+  const parts = labelComponents(opened, w, h, 8);
+  if (parts.count === 0) return;
+  const nearColoured = dilateSquare(coloured, w, h, r + 1);
+  const outline = new Float64Array(parts.count + 1);
+  const contact = new Float64Array(parts.count + 1);
+  const reachesEdge = new Uint8Array(parts.count + 1);
+  for (let c = 0; c < cells; c++) {
+    const id = parts.labels[c];
+    if (id === 0) continue;
+    const x = c % w;
+    const y = (c - x) / w;
+    if (x === 0 || y === 0 || x === w - 1 || y === h - 1) reachesEdge[id] = 1;
+    let isOutline = false;
+    for (let k = 0; k < 4; k++) {
+      const nx = x + (k === 0 ? 1 : k === 1 ? -1 : 0);
+      const ny = y + (k === 2 ? 1 : k === 3 ? -1 : 0);
+      if (nx < 0 || ny < 0 || nx >= w || ny >= h) continue;
+      const j = ny * w + nx;
+      if (cellClass[j] === CellClass.excluded) reachesEdge[id] = 1;
+      else if (parts.labels[j] !== id) isOutline = true;
+    }
+    if (!isOutline) continue;
+    outline[id]++;
+    if (nearColoured[c]) contact[id]++;
+  }
+  for (const c of input.anchorCells) reachesEdge[parts.labels[c]] = 0;
+  const attached = new Uint8Array(cells);
+  let any = false;
+  for (let c = 0; c < cells; c++) {
+    const id = parts.labels[c];
+    if (id !== 0 && reachesEdge[id] && contact[id] < ATTACHED_CONTACT_SHARE * outline[id]) {
+      attached[c] = 1;
+      any = true;
+    }
+  }
+  if (!any) return;
+  growWithin(attached, grey, w, h, r + 1, () => true);
+  for (let c = 0; c < cells; c++) {
+    if (attached[c]) {
+      film[c] = 0;
+      dropped[c] = 1;
+    }
+  }
 }
 
 /** This many flat film components, each apart from the others, make a patchwork (a colour chart). */

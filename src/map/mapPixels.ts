@@ -15,6 +15,7 @@ import { createCandidateCube } from './candidateCube.js';
 import { type CandidateField, createCandidateField } from './candidateField.js';
 import { type ColourTable, predictEncodedTable, thicknessAt } from './colourTable.js';
 import { emptyExclusions } from './filmArea.js';
+import { markGreyExplained, predictGreyCurve } from './neutralGrey.js';
 import { fitQualityOf, poorFitWarning } from './fitQuality.js';
 import { lightEvennessOf, unevenLightWarning, UNEVEN_LIGHT_RATIO } from './lightEvenness.js';
 import { estimateNoise } from './estimateNoise.js';
@@ -190,7 +191,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   let cells = matchCells(rgb, status, width, height, block, gridWidth, gridHeight, table, parameters, noiseSigma, periodIndex, space, cube, scratch);
   let area: FilmAreaCells | null = null;
   if (autoArea) {
-    area = filmAreaOf(cells, gridWidth, gridHeight, block, noiseSigma, periodIndex, maxJump, table.rgbLinear, asserted, anchorCellsOf);
+    area = filmAreaOf(cells, gridWidth, gridHeight, block, noiseSigma, periodIndex, maxJump, table.rgbLinear, asserted, anchorCellsOf, predictGreyCurve(table, parameters, space));
     const excluded = applyFilmArea(area, status, width, height, block, gridWidth, false);
     // What was fitted included pixels that are not film: fit again on the film alone (a plain
     // sample) and class the cells again.
@@ -203,7 +204,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
       parameters = fitOnFilm(anchors.length > 0 ? parameters : input.fitStart ?? null, false);
       resetDerivedStatus(status, rgb);
       cells = matchCells(rgb, status, width, height, block, gridWidth, gridHeight, table, parameters, noiseSigma, periodIndex, space, createCandidateCube(CUBE_LEVELS, PER_CELL), scratch);
-      area = filmAreaOf(cells, gridWidth, gridHeight, block, noiseSigma, periodIndex, maxJump, table.rgbLinear, asserted, anchorCellsOf);
+      area = filmAreaOf(cells, gridWidth, gridHeight, block, noiseSigma, periodIndex, maxJump, table.rgbLinear, asserted, anchorCellsOf, predictGreyCurve(table, parameters, space));
     }
     applyFilmArea(area, status, width, height, block, gridWidth, true);
     for (let c = 0; c < gridWidth * gridHeight; c++) {
@@ -749,6 +750,8 @@ function filmAreaOf(
   rgbLinear: Float64Array,
   filmAsserted: boolean,
   anchorCells: readonly number[],
+  /** Predicted neutral greys in the matching space (neutralGrey.ts). */
+  greyCurve: Float32Array,
 ): FilmAreaCells {
   const { cellState, field, predictedRgb, limits } = cells;
   const n = gridWidth * gridHeight;
@@ -801,6 +804,7 @@ function filmAreaOf(
     filmAsserted,
     cellBrightness,
     anchorCells,
+    greyExplained: markGreyExplained(cells.cellColour, cells.usable, greyCurve, allowance, new Uint8Array(n)),
   });
 }
 
