@@ -76,6 +76,8 @@ export interface FilmAreaInput {
   readonly anchorCells: readonly number[];
   /** 1 where a neutral grey surface gives the cell's colour within the noise allowance (neutralGrey.ts). */
   readonly greyExplained: Uint8Array;
+  /** The previous frame's film area (a series; priorFilmArea.ts), or null. */
+  readonly priorFilm?: Uint8Array | null;
 }
 
 export interface FilmAreaCells {
@@ -139,6 +141,7 @@ export function findFilmArea(input: FilmAreaInput): FilmAreaCells {
   for (let c = 0; c < cells; c++) darkOpened[c] &= darkMask[c];
   const dark = labelComponents(darkOpened, w, h, 4);
   const darkVerdict = classifyDark(dark, input, film);
+  if (input.priorFilm) followPriorFilm(dark, darkVerdict, input, film);
   for (const c of input.anchorCells) if (dark.labels[c] > 0) darkVerdict[dark.labels[c]] = CellVerdict.film;
   let undecidedCells = 0;
   for (let c = 0; c < cells; c++) {
@@ -579,6 +582,38 @@ function classifyDark(dark: Components, input: FilmAreaInput, film: Uint8Array):
     else out[id] = CellVerdict.darkSurroundings;
   }
   return out;
+}
+
+/** A dark region is black film when at least this share of it lay in the previous frame's film. */
+const PRIOR_INSIDE_SHARE = 0.9;
+
+/**
+ * A series: black film that stays inside the previous frame's film stays film. A dark region
+ * whose cells lay (at least 90 %) in the previous frame's film area, widened by the opening radius
+ * plus one cell (a film slides a little between frames), and that meets this frame's film (within
+ * the few cells of colour mixtures a sharp black front leaves) is black film, whatever share of
+ * its outline is thin film: a black film that grew over most of the frame meets its first-order
+ * band along a short front only, and one cut by the photo border is no longer undecided. A
+ * background newly uncovered by a shrinking or sliding film reaches beyond the previous film (it
+ * joins the surroundings), and a frame whose film burst has no film to meet: neither is followed.
+ */
+function followPriorFilm(dark: Components, darkVerdict: Uint8Array, input: FilmAreaInput, film: Uint8Array): void {
+  const { gridWidth: w, gridHeight: h, priorFilm } = input;
+  if (!priorFilm) return;
+  const cells = w * h;
+  const prior = dilateSquare(priorFilm, w, h, input.openingRadius + 1);
+  const nearFilm = dilateSquare(film, w, h, MIXTURE_LOOK_THROUGH + 1);
+  const inside = new Float64Array(dark.count + 1);
+  const meets = new Uint8Array(dark.count + 1);
+  for (let c = 0; c < cells; c++) {
+    const id = dark.labels[c];
+    if (id === 0) continue;
+    if (prior[c]) inside[id]++;
+    if (nearFilm[c]) meets[id] = 1;
+  }
+  for (let id = 1; id <= dark.count; id++) {
+    if (darkVerdict[id] !== CellVerdict.film && meets[id] && inside[id] >= PRIOR_INSIDE_SHARE * dark.sizes[id]) darkVerdict[id] = CellVerdict.film;
+  }
 }
 
 /** Dark cells removed by the opening: film where they touch film and no surroundings. */

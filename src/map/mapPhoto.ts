@@ -126,6 +126,7 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
     pixelSizeUm: options.pixelSizeUm ?? null,
     anchors: options.anchors,
     prior: options.prior ?? null,
+    priorStatus: options.priorStatus ?? null,
     exposureFixed: options.exposureFixed ?? null,
     fitStart: options.fitStart ?? null,
     keepConsistent: options.keepConsistent ?? true,
@@ -167,7 +168,7 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
 export async function mapPhotoFile(path: string, options: MapOptions, read: { allowDamaged?: boolean } = {}): Promise<MappedPhoto> {
   const photo = await readPhoto(path, { maxPixels: MAP_MAX_PIXELS, allowDamaged: read.allowDamaged === true });
   const mask = options.maskPath ? await readMask(options.maskPath, photo.width, photo.height) : null;
-  if (options.prior && options.prior.length !== photo.width * photo.height) {
+  if ((options.prior && options.prior.length !== photo.width * photo.height) || (options.priorStatus && options.priorStatus.length !== photo.width * photo.height)) {
     throw new InputError(path, `frame is ${photo.width}×${photo.height}, a different size from the previous frame`);
   }
   const result = mapDecodedPhoto(photo, options, mask, path);

@@ -16,6 +16,7 @@ import { type CandidateField, createCandidateField } from './candidateField.js';
 import { type ColourTable, predictEncodedTable, thicknessAt } from './colourTable.js';
 import { emptyExclusions } from './filmArea.js';
 import { markGreyExplained, predictGreyCurve } from './neutralGrey.js';
+import { priorFilmCells } from './priorFilmArea.js';
 import { fitQualityOf, poorFitWarning } from './fitQuality.js';
 import { lightEvennessOf, unevenLightWarning, UNEVEN_LIGHT_RATIO } from './lightEvenness.js';
 import { estimateNoise } from './estimateNoise.js';
@@ -50,6 +51,8 @@ export interface MapPixelsInput {
   readonly pixelSizeUm?: number | null;
   readonly anchors?: readonly Anchor[];
   readonly prior?: Float32Array | null;
+  /** Previous frame's pixel statuses (a series): its film area is a prior of this frame's. */
+  readonly priorStatus?: Uint8Array | null;
   readonly exposureFixed?: ExposureParameters | null;
   readonly fitWhiteBalance?: boolean;
   readonly initialWhiteBalance?: readonly [number, number, number];
@@ -190,8 +193,9 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   // 2–3. Predicted colours, limits, and every cell's candidates (again after a refit).
   let cells = matchCells(rgb, status, width, height, block, gridWidth, gridHeight, table, parameters, noiseSigma, periodIndex, space, cube, scratch);
   let area: FilmAreaCells | null = null;
+  const priorFilm = autoArea && input.priorStatus ? priorFilmCells(input.priorStatus, width, height, block, gridWidth, gridHeight) : null;
   if (autoArea) {
-    area = filmAreaOf(cells, gridWidth, gridHeight, block, noiseSigma, periodIndex, maxJump, table.rgbLinear, asserted, anchorCellsOf, predictGreyCurve(table, parameters, space));
+    area = filmAreaOf(cells, gridWidth, gridHeight, block, noiseSigma, periodIndex, maxJump, table.rgbLinear, asserted, anchorCellsOf, predictGreyCurve(table, parameters, space), priorFilm);
     const excluded = applyFilmArea(area, status, width, height, block, gridWidth, false);
     // What was fitted included pixels that are not film: fit again on the film alone (a plain
     // sample) and class the cells again.
@@ -204,7 +208,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
       parameters = fitOnFilm(anchors.length > 0 ? parameters : input.fitStart ?? null, false);
       resetDerivedStatus(status, rgb);
       cells = matchCells(rgb, status, width, height, block, gridWidth, gridHeight, table, parameters, noiseSigma, periodIndex, space, createCandidateCube(CUBE_LEVELS, PER_CELL), scratch);
-      area = filmAreaOf(cells, gridWidth, gridHeight, block, noiseSigma, periodIndex, maxJump, table.rgbLinear, asserted, anchorCellsOf, predictGreyCurve(table, parameters, space));
+      area = filmAreaOf(cells, gridWidth, gridHeight, block, noiseSigma, periodIndex, maxJump, table.rgbLinear, asserted, anchorCellsOf, predictGreyCurve(table, parameters, space), priorFilm);
     }
     applyFilmArea(area, status, width, height, block, gridWidth, true);
     for (let c = 0; c < gridWidth * gridHeight; c++) {
@@ -752,6 +756,8 @@ function filmAreaOf(
   anchorCells: readonly number[],
   /** Predicted neutral greys in the matching space (neutralGrey.ts). */
   greyCurve: Float32Array,
+  /** The previous frame's film area on the grid (a series), or null. */
+  priorFilm: Uint8Array | null,
 ): FilmAreaCells {
   const { cellState, field, predictedRgb, limits } = cells;
   const n = gridWidth * gridHeight;
@@ -805,6 +811,7 @@ function filmAreaOf(
     cellBrightness,
     anchorCells,
     greyExplained: markGreyExplained(cells.cellColour, cells.usable, greyCurve, allowance, new Uint8Array(n)),
+    priorFilm,
   });
 }
 

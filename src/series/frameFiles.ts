@@ -24,6 +24,10 @@ export function frameNpyPath(outDir: string, stem: string): string {
   return join(framesDir(outDir), `${stem}.thickness.npy`);
 }
 
+export function frameStatusPath(outDir: string, stem: string): string {
+  return join(framesDir(outDir), `${stem}.status.npy`);
+}
+
 async function exists(path: string): Promise<boolean> {
   try {
     await access(path);
@@ -54,6 +58,8 @@ export async function isFrameDone(outDir: string, stem: string, hash: string, pr
   const record = await readFrameRecord(outDir, stem);
   if (record === null || record.settingsHash !== hash) return false;
   if (!(await exists(frameNpyPath(outDir, stem)))) return false;
+  // The statuses carry the frame's film area, the next frame's prior (runChunk.ts).
+  if (!(await exists(frameStatusPath(outDir, stem)))) return false;
   if (previews) {
     for (const suffix of PREVIEW_SUFFIXES) if (!(await exists(join(framesDir(outDir), `${stem}${suffix}`)))) return false;
   }

@@ -38,7 +38,8 @@ export function mapOptionsFromConfig(config: MapFrameConfig): MapOptions {
 export async function createFrameProcessor(config: MapFrameConfig): Promise<FrameProcessor> {
   const base = mapOptionsFromConfig(config);
   return {
-    map: (framePath, prior, previousFit) => mapPhotoFile(framePath, { ...base, prior, fitStart: previousFit ?? null }, { allowDamaged: config.allowDamaged === true }),
+    map: (framePath, prior, previousFit, priorStatus) =>
+      mapPhotoFile(framePath, { ...base, prior, fitStart: previousFit ?? null, priorStatus: priorStatus ?? null }, { allowDamaged: config.allowDamaged === true }),
     writePreviews: (result, framePath, dir, stem) =>
       writeMapOutputs(result, framePath, dir, stem, { images: true, json: false, npy: false, tiff: false }, base),
     mapReportInput: (result, framePath) => mapReportInput(result as MappedPhoto, base, framePath),

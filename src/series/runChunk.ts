@@ -1,14 +1,15 @@
 /**
  * Maps one chunk of consecutive frames in order, each with the previous frame's map as its order
- * prior and the previous frame's fitted photo formation as the start of its fit (the chunk's
- * first frame without either). Frames already done with the same settings are skipped and their
+ * prior, the previous frame's fitted photo formation as the start of its fit and the previous
+ * frame's pixel statuses, whose film area is the prior of this frame's (the chunk's first frame
+ * without any of them). Frames already done with the same settings are skipped and their
  * stored map and fit (exact: JSON keeps every double) are read back for the next frame, so a
  * resumed run maps every frame exactly as an uninterrupted one. A failing frame is reported and
  * the next frame starts afresh.
  */
 import { readFile } from 'node:fs/promises';
 import { decodeNpy } from '../io/decodeNpy.js';
-import { frameNpyPath, isFrameDone, readFrameRecord } from './frameFiles.js';
+import { frameNpyPath, frameStatusPath, isFrameDone, readFrameRecord } from './frameFiles.js';
 import { frameRecordOf, writeFrameOutputs } from './writeFrameOutputs.js';
 import { frameSettingsHash } from './frameSource.js';
 import type { FrameEvent, FrameJob, FrameProcessor } from './types.js';
@@ -38,6 +39,19 @@ async function storedMap(outDir: string, frame: FrameJob, size: ChunkContext['ex
   }
 }
 
+/** The stored statuses of a done frame (the previous frame's film area), or null. */
+async function storedStatus(outDir: string, frame: FrameJob, size: ChunkContext['expectedSize']): Promise<Uint8Array | null> {
+  try {
+    const npy = decodeNpy(await readFile(frameStatusPath(outDir, frame.stem)), frame.stem);
+    const [height, width] = npy.shape;
+    if (!(npy.data instanceof Uint8Array) || npy.shape.length !== 2) return null;
+    if (size && (width !== size.width || height !== size.height)) return null;
+    return npy.data;
+  } catch {
+    return null;
+  }
+}
+
 function messageOf(error: unknown): string {
   return (error instanceof Error ? error.message : String(error)).replace(/\s*\n\s*/g, ' ');
 }
@@ -45,26 +59,28 @@ function messageOf(error: unknown): string {
 export async function runChunk(chunk: readonly FrameJob[], processor: FrameProcessor, context: ChunkContext): Promise<void> {
   const { outDir, settingsHash, previews, expectedSize, onFrame } = context;
   const writePreviews = previews && processor.writePreviews ? processor.writePreviews.bind(processor) : null;
-  let previous: { frame: FrameJob; map: Float32Array | null; fitted: MapResult['fitted'] | null; stored: boolean; hash: string } | null = null;
+  let previous: { frame: FrameJob; map: Float32Array | null; fitted: MapResult['fitted'] | null; status: Uint8Array | null; stored: boolean; hash: string } | null = null;
   for (const frame of chunk) {
     if (context.isAborted?.()) return;
     // The series' settings and data files combined with the frame's own file.
     // (and the frame before it in the chunk, whose map is the prior).
     const frameHash = frameSettingsHash(settingsHash, frame, previous?.hash ?? null);
     if (await isFrameDone(outDir, frame.stem, frameHash, previews)) {
-      previous = { frame, map: null, fitted: null, stored: true, hash: frameHash };
+      previous = { frame, map: null, fitted: null, status: null, stored: true, hash: frameHash };
       onFrame({ index: frame.index, name: frame.name, outcome: 'skipped' });
       continue;
     }
     try {
       let prior: Float32Array | null = null;
       let previousFit: MapResult['fitted'] | null = null;
+      let priorStatus: Uint8Array | null = null;
       if (previous !== null) {
         prior = previous.stored ? await storedMap(outDir, previous.frame, expectedSize) : previous.map;
         previousFit = previous.stored ? ((await readFrameRecord(outDir, previous.frame.stem))?.fitted ?? null) : previous.fitted;
+        priorStatus = previous.stored ? await storedStatus(outDir, previous.frame, expectedSize) : previous.status;
       }
       const priorFrame = prior === null ? null : previous!.frame.name;
-      const result = await processor.map(frame.path, prior, prior === null ? null : previousFit);
+      const result = await processor.map(frame.path, prior, prior === null ? null : previousFit, prior === null ? null : priorStatus);
       if (expectedSize && (result.width !== expectedSize.width || result.height !== expectedSize.height)) {
         throw new RangeError(`size ${result.width}x${result.height} differs from the series' ${expectedSize.width}x${expectedSize.height}; skipped`);
       }
@@ -76,7 +92,7 @@ export async function runChunk(chunk: readonly FrameJob[], processor: FrameProce
         ...(context.inputFiles ? { inputFiles: context.inputFiles } : {}),
       };
       await writeFrameOutputs(outDir, frame, result, record, writePreviews);
-      previous = { frame, map: result.thicknessNm, fitted: result.fitted, stored: false, hash: mappedHash };
+      previous = { frame, map: result.thicknessNm, fitted: result.fitted, status: result.status, stored: false, hash: mappedHash };
       onFrame({ index: frame.index, name: frame.name, outcome: 'mapped' });
     } catch (error) {
       previous = null;

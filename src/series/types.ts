@@ -26,11 +26,11 @@ export interface FrameSource {
 
 /**
  * Maps one frame; bound once to the map settings, called with the previous frame's map as order
- * prior and its fitted photo formation as the start of this frame's fit (both null for the first
- * frame of a chunk).
+ * prior, its fitted photo formation as the start of this frame's fit and its pixel statuses,
+ * whose film area is the prior of this frame's (all null for the first frame of a chunk).
  */
 export interface FrameProcessor {
-  map(framePath: string, prior: Float32Array | null, previousFit?: MapResult['fitted'] | null): Promise<MapResult>;
+  map(framePath: string, prior: Float32Array | null, previousFit?: MapResult['fitted'] | null, priorStatus?: Uint8Array | null): Promise<MapResult>;
   /** Optional preview writer (`--previews`): writes images for `stem` into `dir`. */
   writePreviews?(result: MapResult, framePath: string, dir: string, stem: string): Promise<unknown>;
   /** Optional: the single-map report view of a frame (used for the series report's last frame). */
