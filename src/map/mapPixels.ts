@@ -810,9 +810,16 @@ function filmAreaOf(
     filmAsserted,
     cellBrightness,
     anchorCells,
-    greyExplained: markGreyExplained(cells.cellColour, cells.usable, greyCurve, allowance, new Uint8Array(n)),
+    // Only film-colour cells can join the film's seeds, so only they are compared with the greys.
+    greyExplained: markGreyExplained(cells.cellColour, filmColourCells(cellClass), greyCurve, allowance, new Uint8Array(n)),
     priorFilm,
   });
+}
+
+function filmColourCells(cellClass: Uint8Array): Uint8Array {
+  const out = new Uint8Array(cellClass.length);
+  for (let c = 0; c < cellClass.length; c++) out[c] = cellClass[c] === CellClass.filmColour ? 1 : 0;
+  return out;
 }
 
 const VERDICT_STATUS: Record<number, number> = {

@@ -25,25 +25,40 @@ export function predictGreyCurve(table: ColourTable, parameters: ExposureParamet
 
 /**
  * Marks the cells (out: 1) whose colour (cellColour, matching space, 3 per cell) lies within
- * `allowance` (squared distance) of the grey curve. Cells with `usable[c] === 0` stay 0.
+ * `allowance` (squared distance) of the grey curve. Cells with `selected[c] === 0` stay 0.
  */
-export function markGreyExplained(cellColour: Float32Array, usable: Uint8Array, greyCurve: Float32Array, allowance: number, out: Uint8Array): Uint8Array {
+export function markGreyExplained(cellColour: Float32Array, selected: Uint8Array, greyCurve: Float32Array, allowance: number, out: Uint8Array): Uint8Array {
   const levels = greyCurve.length / 3;
-  for (let c = 0; c < usable.length; c++) {
+  for (let c = 0; c < selected.length; c++) {
     out[c] = 0;
-    if (!usable[c]) continue;
+    if (!selected[c]) continue;
     const r = cellColour[c * 3];
     const g = cellColour[c * 3 + 1];
     const b = cellColour[c * 3 + 2];
+    // The curve is smooth and each channel rises with the reflectance: search every COARSE-th
+    // level, then every level within COARSE of the nearest.
+    let bestLevel = 0;
     let best = Infinity;
-    for (let i = 0; i < levels; i++) {
-      const dr = r - greyCurve[i * 3];
-      const dg = g - greyCurve[i * 3 + 1];
-      const db = b - greyCurve[i * 3 + 2];
-      const d = dr * dr + dg * dg + db * db;
-      if (d < best) best = d;
+    for (let i = 0; i < levels; i += COARSE) {
+      const d = squaredDistance(greyCurve, i, r, g, b);
+      if (d < best) {
+        best = d;
+        bestLevel = i;
+      }
     }
+    const last = Math.min(levels - 1, bestLevel + COARSE);
+    for (let i = Math.max(0, bestLevel - COARSE); i <= last; i++) best = Math.min(best, squaredDistance(greyCurve, i, r, g, b));
     out[c] = best <= allowance ? 1 : 0;
   }
   return out;
+}
+
+/** Step of the coarse search along the grey curve. */
+const COARSE = 8;
+
+function squaredDistance(curve: Float32Array, i: number, r: number, g: number, b: number): number {
+  const dr = r - curve[i * 3];
+  const dg = g - curve[i * 3 + 1];
+  const db = b - curve[i * 3 + 2];
+  return dr * dr + dg * dg + db * db;
 }
