@@ -269,9 +269,9 @@ function dropNeutralAttachments(film: Uint8Array, dropped: Uint8Array, input: Fi
   for (let c = 0; c < cells; c++) {
     const id = parts.labels[c];
     if (id === 0) continue;
+    if (onBorder(c, w, h)) reachesEdge[id] = 1;
     const x = c % w;
     const y = (c - x) / w;
-    if (x === 0 || y === 0 || x === w - 1 || y === h - 1) reachesEdge[id] = 1;
     let isOutline = false;
     for (let k = 0; k < 4; k++) {
       const nx = x + (k === 0 ? 1 : k === 1 ? -1 : 0);

@@ -27,11 +27,12 @@ export interface ChunkContext {
   readonly onFrame: (event: FrameEvent) => void;
 }
 
-async function storedMap(outDir: string, frame: FrameJob, size: ChunkContext['expectedSize']): Promise<Float32Array | null> {
+/** A done frame's stored 2-D array (its map or its statuses) of the series' size, or null. */
+async function storedArray<T extends Float32Array | Uint8Array>(path: string, stem: string, size: ChunkContext['expectedSize'], kind: new (n: number) => T): Promise<T | null> {
   try {
-    const npy = decodeNpy(await readFile(frameNpyPath(outDir, frame.stem)), frame.stem);
+    const npy = decodeNpy(await readFile(path), stem);
     const [height, width] = npy.shape;
-    if (!(npy.data instanceof Float32Array) || npy.shape.length !== 2) return null;
+    if (!(npy.data instanceof kind) || npy.shape.length !== 2) return null;
     if (size && (width !== size.width || height !== size.height)) return null;
     return npy.data;
   } catch {
@@ -39,18 +40,9 @@ async function storedMap(outDir: string, frame: FrameJob, size: ChunkContext['ex
   }
 }
 
-/** The stored statuses of a done frame (the previous frame's film area), or null. */
-async function storedStatus(outDir: string, frame: FrameJob, size: ChunkContext['expectedSize']): Promise<Uint8Array | null> {
-  try {
-    const npy = decodeNpy(await readFile(frameStatusPath(outDir, frame.stem)), frame.stem);
-    const [height, width] = npy.shape;
-    if (!(npy.data instanceof Uint8Array) || npy.shape.length !== 2) return null;
-    if (size && (width !== size.width || height !== size.height)) return null;
-    return npy.data;
-  } catch {
-    return null;
-  }
-}
+const storedMap = (outDir: string, frame: FrameJob, size: ChunkContext['expectedSize']) => storedArray(frameNpyPath(outDir, frame.stem), frame.stem, size, Float32Array);
+/** The stored statuses of a done frame (its film area, the next frame's prior), or null. */
+const storedStatus = (outDir: string, frame: FrameJob, size: ChunkContext['expectedSize']) => storedArray(frameStatusPath(outDir, frame.stem), frame.stem, size, Uint8Array);
 
 function messageOf(error: unknown): string {
   return (error instanceof Error ? error.message : String(error)).replace(/\s*\n\s*/g, ' ');
