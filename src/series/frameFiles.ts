@@ -1,7 +1,8 @@
 /**
  * Where a series keeps its per-frame results inside OUT, and when a frame counts as done.
  * Layout: `OUT/frames/<stem>.json` (FrameRecord, written last), `<stem>.thickness.npy` (float32 nm,
- * NaN = no estimate), `<stem>.status.npy` (uint8 PixelStatus codes, src/map/types.ts), and with
+ * NaN = no estimate), `<stem>.status.npy` (uint8 PixelStatus codes, src/map/types.ts),
+ * `<stem>.confidence.npy` (float32 0..1), and with
  * previews the images the processor writes (`<stem>.map.png`, `<stem>.flags.png`). Work in
  * progress lives in `OUT/frames/.partial-<pid>-<thread>-<stem>/` until it is moved into place.
  */
@@ -20,12 +21,8 @@ export function frameJsonPath(outDir: string, stem: string): string {
   return join(framesDir(outDir), `${stem}.json`);
 }
 
-export function frameNpyPath(outDir: string, stem: string): string {
-  return join(framesDir(outDir), `${stem}.thickness.npy`);
-}
-
-export function frameStatusPath(outDir: string, stem: string): string {
-  return join(framesDir(outDir), `${stem}.status.npy`);
+export function frameNpyPath(outDir: string, stem: string, what: 'thickness' | 'status' | 'confidence' = 'thickness'): string {
+  return join(framesDir(outDir), `${stem}.${what}.npy`);
 }
 
 async function exists(path: string): Promise<boolean> {
@@ -59,7 +56,7 @@ export async function isFrameDone(outDir: string, stem: string, hash: string, pr
   if (record === null || record.settingsHash !== hash) return false;
   if (!(await exists(frameNpyPath(outDir, stem)))) return false;
   // The statuses carry the frame's film area, the next frame's prior (runChunk.ts).
-  if (!(await exists(frameStatusPath(outDir, stem)))) return false;
+  if (!(await exists(frameNpyPath(outDir, stem, 'status')))) return false;
   if (previews) {
     for (const suffix of PREVIEW_SUFFIXES) if (!(await exists(join(framesDir(outDir), `${stem}${suffix}`)))) return false;
   }
