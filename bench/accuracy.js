@@ -7,8 +7,9 @@
 // coverage ≥ 97 % of the pixels thinner than 1,500 nm.
 // Field scenes (issue 13; bench/field-scenes.js, also invented): the film in its surroundings as
 // photos are taken — a frame before a dark cloth, a wafer on a chuck or a bench with tweezers, a
-// glint, photos of no film, a series whose film bursts, a uniform coating — mapped with default
-// options and scored by bench/field-score.js.
+// glint, photos of no film, a series whose film bursts, one whose black film grows, a uniform
+// coating — mapped with default options (series frames chained as `lamella series` chains them)
+// and scored by bench/field-score.js.
 // Light scenes (issue 14; bench/light-scenes.js, also invented): uneven light (35 % fall-off × 25 %
 // vignetting), a camera picture style (contrast S-curve, saturation ×1.25), and both with a dark
 // background, a frame or holder and a glint, for a soap film (D65) and an oxide wafer (F11),
@@ -25,7 +26,8 @@ import { mapPhotoFile } from '../dist/map/mapPhoto.js';
 import { PixelStatus } from '../dist/map/types.js';
 import { resolveStack } from '../dist/optics/index.js';
 import { renderPhoto } from '../dist/render/index.js';
-import { FIELD_SCENES, burstingSeries, mapOptionsFor } from './field-scenes.js';
+import { FIELD_SCENES, blackFilmGrowingSeries, burstingSeries, mapOptionsFor, truthFractions } from './field-scenes.js';
+import { DEFAULT_CHUNK_FRAMES } from '../dist/series/runSeries.js';
 import { TARGETS, anchorScore, exposureFieldScore, fieldFlatRow, filmSceneTargets, insideFilmScore, lightSceneTargets, notAFilmScore, ruptureFrame } from './field-score.js';
 import { LIGHT_SCENES } from './light-scenes.js';
 
@@ -164,6 +166,27 @@ async function mapFieldScene(dir, scene, extra = {}) {
   return { result, ms: performance.now() - started };
 }
 
+/**
+ * Maps a field series as `lamella series` does: each frame with the previous frame's map, fitted
+ * photo formation and pixel statuses (its film area) as priors, restarting at chunk boundaries.
+ * Returns what the scores read and the film found per frame ('F' / '-').
+ */
+async function mapFieldSeries(dir, series) {
+  const results = [];
+  let found = '';
+  let ms = 0;
+  let previous = null;
+  for (const [i, frame] of series.frames.entries()) {
+    const chained = previous && i % DEFAULT_CHUNK_FRAMES !== 0 ? { prior: previous.thicknessNm, fitStart: previous.fitted, priorStatus: previous.status } : {};
+    const mapped = await mapFieldScene(dir, frame, chained);
+    ms += mapped.ms;
+    found += mapped.result.filmArea ? (mapped.result.filmArea.found ? 'F' : '-') : '?';
+    results.push({ filmArea: mapped.result.filmArea, status: mapped.result.status, stats: mapped.result.stats });
+    previous = mapped.result;
+  }
+  return { results, found, ms };
+}
+
 /** The engine's ceiling on a film scene: the true film given as --mask, film area 'whole'. */
 async function mapWithTrueMask(dir, scene) {
   const maskPath = join(dir, `${scene.name}.mask.png`);
@@ -218,20 +241,26 @@ export async function benchFieldScenes({ ceiling = true } = {}) {
       out.push(record);
     }
     const series = await burstingSeries();
-    const results = [];
-    const found = [];
-    let ms = 0;
-    for (const frame of series.frames) {
-      const mapped = await mapFieldScene(dir, frame);
-      ms += mapped.ms;
-      found.push(mapped.result.filmArea ? (mapped.result.filmArea.found ? 'F' : '-') : '?');
-      // keep only what the rupture score reads
-      results.push({ filmArea: mapped.result.filmArea, status: mapped.result.status });
-    }
-    const rupture = ruptureFrame(results);
+    const burst = await mapFieldSeries(dir, series);
+    const rupture = ruptureFrame(burst.results);
     out.push({
-      scene: `burstingSeries: ${series.frames.length} frames of the draining frame, film gone from frame ${series.ruptureIndex} (invented)`, ms,
-      rows: [{ target: 'rupture frame exact', value: `first frame without film ${rupture ?? 'none'}, truth ${series.ruptureIndex}; film found per frame ${found.join('')}`, pass: rupture === series.ruptureIndex }],
+      scene: `burstingSeries: ${series.frames.length} frames of the draining frame, film gone from frame ${series.ruptureIndex}, mapped as a series (invented)`, ms: burst.ms,
+      rows: [{ target: 'rupture frame exact', value: `first frame without film ${rupture ?? 'none'}, truth ${series.ruptureIndex}; film found per frame ${burst.found}`, pass: rupture === series.ruptureIndex }],
+    });
+    const growing = await blackFilmGrowingSeries(5, 14);
+    const grown = await mapFieldSeries(dir, growing);
+    let worstThin = 0;
+    grown.results.forEach((r, i) => {
+      const truth = truthFractions(growing.frames[i]).thinFraction;
+      const got = r.stats.thin_fraction;
+      worstThin = Math.max(worstThin, got === null || got === undefined ? Infinity : Math.abs(got - truth));
+    });
+    out.push({
+      scene: `blackFilmGrowingSeries: ${growing.frames.length} frames, black film growing from 5 % to 77 % of the frame's height, mapped as a series (invented)`, ms: grown.ms,
+      rows: [
+        { target: 'film found in every frame', value: `film found per frame ${grown.found}`, pass: !grown.found.includes('-') },
+        { target: 'thin fraction within 0.02 in every frame', value: `worst ${worstThin.toFixed(3)}`, pass: worstThin <= TARGETS.thinFractionErrorMax },
+      ],
     });
   } finally {
     rmSync(dir, { recursive: true, force: true });

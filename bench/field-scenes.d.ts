@@ -61,6 +61,7 @@ export declare function greyCard(seed?: number): Promise<FieldScene>;
 export declare function colourTarget(seed?: number): Promise<FieldScene>;
 export declare function noise(seed?: number): Promise<FieldScene>;
 export declare function burstingSeries(frames?: number, burstAt?: number, seed?: number): Promise<FieldSeries>;
+export declare function blackFilmGrowingSeries(frames?: number, stageMax?: number, seed?: number, shiftY?: number): Promise<FieldSeries>;
 export declare const FIELD_SCENES: Record<
   'soapFilmInFrame' | 'soapFilmOffBorder' | 'waferOnDarkChuck' | 'waferOnGreyBench' | 'soapFilmWithGlint' | 'greyCard' | 'colourTarget' | 'noise' | 'uniformCoating',
   (seed?: number) => Promise<FieldScene>

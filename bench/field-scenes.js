@@ -658,6 +658,30 @@ export async function burstingSeries(frames = 12, burstAt = 7, seed = 1400) {
   return { name: 'burstingSeries', frames: out, ruptureIndex: burstAt < frames ? burstAt : null, lastFilmIndex: burstAt - 1 };
 }
 
+/**
+ * (i) A series of `frames` photos of the frame scene whose common black film grows down from the
+ * top wire (drainage stage 0 … `stageMax`; the black front at v = 0.054 + 0.06·stage of the frame's
+ * height, so stage 6 blackens the top 41 %) while the coloured wedge below it thins; no burst.
+ * Truth per frame as in (a). For the series film-area prior: the black film stays film.
+ * @returns {Promise<{ name: string, frames: FieldScene[], ruptureIndex: null, lastFilmIndex: number }>}
+ */
+export async function blackFilmGrowingSeries(frames = 6, stageMax = 6, seed = 1450, shiftY = 0) {
+  if (!Number.isInteger(frames) || frames < 2) throw new RangeError(`blackFilmGrowingSeries: frames must be an integer ≥ 2, received ${frames}`);
+  const out = [];
+  for (let i = 0; i < frames; i++) {
+    const stage = (stageMax * i) / (frames - 1);
+    const { canvas, fieldNm } = soapFrameCanvas({ shiftY, stage, withFilm: true, seed: seed + 1 });
+    out.push(
+      await finishScene(canvas, fieldNm, {
+        ...SOAP, name: `blackFilmGrowingSeries frame ${i}`, fileName: `grow-${String(i).padStart(3, '0')}.jpg`, seed: seed + 100 + i,
+        exposure: canvas.exposure, mapOptions: {},
+        description: `draining soap film, black film growing from the top wire, frame ${i} (drainage stage ${stage.toFixed(2)}) (invented)`,
+      }),
+    );
+  }
+  return { name: 'blackFilmGrowingSeries', frames: out, ruptureIndex: null, lastFilmIndex: frames - 1 };
+}
+
 // ---------------------------------------------------------------------------------------------
 // Wafers
 

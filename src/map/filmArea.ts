@@ -74,6 +74,10 @@ export interface FilmAreaInput {
   readonly cellBrightness: Float32Array;
   /** Cells holding an `--anchor`: what holds an anchor is film. */
   readonly anchorCells: readonly number[];
+  /** 1 where a neutral grey surface gives the cell's colour within the noise allowance (neutralGrey.ts). */
+  readonly greyExplained: Uint8Array;
+  /** The previous frame's film area (a series; priorFilmArea.ts), or null. */
+  readonly priorFilm?: Uint8Array | null;
 }
 
 export interface FilmAreaCells {
@@ -122,6 +126,7 @@ export function findFilmArea(input: FilmAreaInput): FilmAreaCells {
   for (let id = 1; id <= seeds.count; id++) largest = Math.max(largest, seeds.sizes[id]);
   const minSize = Math.max(MIN_FILM_CELLS, MIN_FILM_SHARE * searchArea, largest / 20);
   const { film, dropped } = keepComponents(seeds, input, minSize);
+  dropNeutralAttachments(film, dropped, input);
   dropPatchwork(film, dropped, seeds, input);
   // Undo the opening near the seeds where thickness continues (r + 1 steps of conditional growth),
   // but not into neutral surroundings.
@@ -136,6 +141,7 @@ export function findFilmArea(input: FilmAreaInput): FilmAreaCells {
   for (let c = 0; c < cells; c++) darkOpened[c] &= darkMask[c];
   const dark = labelComponents(darkOpened, w, h, 4);
   const darkVerdict = classifyDark(dark, input, film);
+  if (input.priorFilm) followPriorFilm(dark, darkVerdict, input, film);
   for (const c of input.anchorCells) if (dark.labels[c] > 0) darkVerdict[dark.labels[c]] = CellVerdict.film;
   let undecidedCells = 0;
   for (let c = 0; c < cells; c++) {
@@ -227,6 +233,78 @@ export function findFilmArea(input: FilmAreaInput): FilmAreaCells {
   return { verdict, found, undecidedCells };
 }
 
+/** A neutral part whose outline lies near coloured film for less than this share is attached, not film. */
+const ATTACHED_CONTACT_SHARE = 0.25;
+
+/**
+ * Tweezers, clamps and holders: neutral things that reach into the photo from outside and touch
+ * the film only where they hold it. Their colour is explained by a neutral grey (steel, a shadow
+ * on a grey bench) at least as well as by film, yet a first-order grey or a washed-out high order
+ * may match it and its thickness may even continue the film's at the contact, so it joins the
+ * film's seed. A part of the film whose cells a neutral grey explains within the noise (after an
+ * opening that leaves out strips, e.g. a grey rim), that reaches the photo border (or the edge of
+ * the region/mask), holds no anchor, and whose outline lies within a few cells of coloured film
+ * (the rest of the film) for less than a quarter of its length is not film: a grey band of a real
+ * film lies between its coloured bands, along them. The strips next to it that the opening left
+ * out go with it (grown within the neutral cells by the opening radius plus one).
+ */
+function dropNeutralAttachments(film: Uint8Array, dropped: Uint8Array, input: FilmAreaInput): void {
+  const { gridWidth: w, gridHeight: h, greyExplained, cellClass } = input;
+  const cells = w * h;
+  const r = Math.max(1, input.openingRadius);
+  const grey = new Uint8Array(cells);
+  const coloured = new Uint8Array(cells);
+  for (let c = 0; c < cells; c++) {
+    grey[c] = film[c] && greyExplained[c] ? 1 : 0;
+    coloured[c] = film[c] && !greyExplained[c] ? 1 : 0;
+  }
+  const opened = dilateSquare(erodeSquare(grey, w, h, r), w, h, r);
+  for (let c = 0; c < cells; c++) opened[c] &= grey[c];
+  const parts = labelComponents(opened, w, h, 8);
+  if (parts.count === 0) return;
+  const nearColoured = dilateSquare(coloured, w, h, r + 1);
+  const outline = new Float64Array(parts.count + 1);
+  const contact = new Float64Array(parts.count + 1);
+  const reachesEdge = new Uint8Array(parts.count + 1);
+  for (let c = 0; c < cells; c++) {
+    const id = parts.labels[c];
+    if (id === 0) continue;
+    if (onBorder(c, w, h)) reachesEdge[id] = 1;
+    const x = c % w;
+    const y = (c - x) / w;
+    let isOutline = false;
+    for (let k = 0; k < 4; k++) {
+      const nx = x + (k === 0 ? 1 : k === 1 ? -1 : 0);
+      const ny = y + (k === 2 ? 1 : k === 3 ? -1 : 0);
+      if (nx < 0 || ny < 0 || nx >= w || ny >= h) continue;
+      const j = ny * w + nx;
+      if (cellClass[j] === CellClass.excluded) reachesEdge[id] = 1;
+      else if (parts.labels[j] !== id) isOutline = true;
+    }
+    if (!isOutline) continue;
+    outline[id]++;
+    if (nearColoured[c]) contact[id]++;
+  }
+  for (const c of input.anchorCells) reachesEdge[parts.labels[c]] = 0;
+  const attached = new Uint8Array(cells);
+  let any = false;
+  for (let c = 0; c < cells; c++) {
+    const id = parts.labels[c];
+    if (id !== 0 && reachesEdge[id] && contact[id] < ATTACHED_CONTACT_SHARE * outline[id]) {
+      attached[c] = 1;
+      any = true;
+    }
+  }
+  if (!any) return;
+  growWithin(attached, grey, w, h, r + 1, () => true);
+  for (let c = 0; c < cells; c++) {
+    if (attached[c]) {
+      film[c] = 0;
+      dropped[c] = 1;
+    }
+  }
+}
+
 /** This many flat film components, each apart from the others, make a patchwork (a colour chart). */
 const PATCHWORK_COUNT = 3;
 
@@ -242,13 +320,21 @@ function dropPatchwork(film: Uint8Array, dropped: Uint8Array, seeds: Components,
   const cells = w * h;
   const parts = labelComponents(film, w, h, 8);
   if (parts.count < PATCHWORK_COUNT) return;
+  // Flatness is judged on each part's interior: its outer cells (the opening radius) mix the
+  // patch with what surrounds it, and a blurred edge towards a dark surround reads as a
+  // first-order film thinning to black. Parts too small to have an interior are judged whole.
+  const interior = erodeSquare(film, w, h, Math.max(1, input.openingRadius));
+  const inner = new Float64Array(parts.count + 1);
+  for (let c = 0; c < cells; c++) if (interior[c]) inner[parts.labels[c]]++;
   const sum = new Float64Array(parts.count + 1);
   const squares = new Float64Array(parts.count + 1);
+  const counted = new Float64Array(parts.count + 1);
   for (let c = 0; c < cells; c++) {
     const id = parts.labels[c];
-    if (id === 0) continue;
+    if (id === 0 || (inner[id] >= MIN_FILM_CELLS && !interior[c])) continue;
     sum[id] += cellBrightness[c];
     squares[id] += cellBrightness[c] ** 2;
+    counted[id]++;
   }
   // Apart: no other part within two cells.
   const apart = new Uint8Array(parts.count + 1).fill(1);
@@ -271,7 +357,7 @@ function dropPatchwork(film: Uint8Array, dropped: Uint8Array, seeds: Components,
   const patch = new Uint8Array(parts.count + 1);
   let patches = 0;
   for (let id = 1; id <= parts.count; id++) {
-    const n = parts.sizes[id];
+    const n = counted[id];
     const mean = sum[id] / n;
     const flat = Math.sqrt(Math.max(0, squares[id] / n - mean * mean)) < FLAT_BRIGHTNESS;
     if (flat && apart[id]) {
@@ -496,6 +582,38 @@ function classifyDark(dark: Components, input: FilmAreaInput, film: Uint8Array):
     else out[id] = CellVerdict.darkSurroundings;
   }
   return out;
+}
+
+/** A dark region is black film when at least this share of it lay in the previous frame's film. */
+const PRIOR_INSIDE_SHARE = 0.9;
+
+/**
+ * A series: black film that stays inside the previous frame's film stays film. A dark region
+ * whose cells lay (at least 90 %) in the previous frame's film area, widened by the opening radius
+ * plus one cell (a film slides a little between frames), and that meets this frame's film (within
+ * the few cells of colour mixtures a sharp black front leaves) is black film, whatever share of
+ * its outline is thin film: a black film that grew over most of the frame meets its first-order
+ * band along a short front only, and one cut by the photo border is no longer undecided. A
+ * background newly uncovered by a shrinking or sliding film reaches beyond the previous film (it
+ * joins the surroundings), and a frame whose film burst has no film to meet: neither is followed.
+ */
+function followPriorFilm(dark: Components, darkVerdict: Uint8Array, input: FilmAreaInput, film: Uint8Array): void {
+  const { gridWidth: w, gridHeight: h, priorFilm } = input;
+  if (!priorFilm) return;
+  const cells = w * h;
+  const prior = dilateSquare(priorFilm, w, h, input.openingRadius + 1);
+  const nearFilm = dilateSquare(film, w, h, MIXTURE_LOOK_THROUGH + 1);
+  const inside = new Float64Array(dark.count + 1);
+  const meets = new Uint8Array(dark.count + 1);
+  for (let c = 0; c < cells; c++) {
+    const id = dark.labels[c];
+    if (id === 0) continue;
+    if (prior[c]) inside[id]++;
+    if (nearFilm[c]) meets[id] = 1;
+  }
+  for (let id = 1; id <= dark.count; id++) {
+    if (darkVerdict[id] !== CellVerdict.film && meets[id] && inside[id] >= PRIOR_INSIDE_SHARE * dark.sizes[id]) darkVerdict[id] = CellVerdict.film;
+  }
 }
 
 /** Dark cells removed by the opening: film where they touch film and no surroundings. */

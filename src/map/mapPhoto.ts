@@ -124,6 +124,7 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
     pixelSizeUm: at.pixelSizeUm,
     anchors: at.anchors,
     prior: at.prior,
+    priorStatus: at.priorStatus,
     exposureFixed: options.exposureFixed ?? null,
     fitStart: fitStart ?? options.fitStart ?? null,
     keepConsistent: options.keepConsistent ?? true,
@@ -138,6 +139,7 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
     height: photo.height,
     film,
     prior: options.prior ?? null,
+    priorStatus: options.priorStatus ?? null,
     anchors: options.anchors ?? [],
     pixelSizeUm: options.pixelSizeUm ?? null,
   };
@@ -186,7 +188,7 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
 export async function mapPhotoFile(path: string, options: MapOptions, read: { allowDamaged?: boolean } = {}): Promise<MappedPhoto> {
   const photo = await readPhoto(path, { maxPixels: MAP_MAX_PIXELS, allowDamaged: read.allowDamaged === true });
   const mask = options.maskPath ? await readMask(options.maskPath, photo.width, photo.height) : null;
-  if (options.prior && options.prior.length !== photo.width * photo.height) {
+  if ((options.prior && options.prior.length !== photo.width * photo.height) || (options.priorStatus && options.priorStatus.length !== photo.width * photo.height)) {
     throw new InputError(path, `frame is ${photo.width}×${photo.height}, a different size from the previous frame`);
   }
   const result = mapDecodedPhoto(photo, options, mask, path);
@@ -287,6 +289,8 @@ interface FrameGeometry {
   readonly height: number;
   readonly film: Uint8Array;
   readonly prior: Float32Array | null;
+  /** The previous frame's pixel statuses (a series' film-area prior), or null. */
+  readonly priorStatus: Uint8Array | null;
   readonly anchors: readonly Anchor[];
   readonly pixelSizeUm: number | null;
 }
@@ -324,6 +328,7 @@ function previewOf(rgb: Float32Array, at: FrameGeometry): { rgb: Float32Array; a
   const small = new Float32Array(new SharedArrayBuffer(w * h * 3 * 4));
   const film = new Uint8Array(w * h);
   const prior = at.prior ? new Float32Array(w * h) : null;
+  const priorStatus = at.priorStatus ? new Uint8Array(w * h) : null;
   for (let y = 0; y < h; y++) {
     for (let x = 0; x < w; x++) {
       const src = (y * k + offset) * width + (x * k + offset);
@@ -333,12 +338,13 @@ function previewOf(rgb: Float32Array, at: FrameGeometry): { rgb: Float32Array; a
       small[dst * 3 + 2] = rgb[src * 3 + 2];
       film[dst] = at.film[src];
       if (prior && at.prior) prior[dst] = at.prior[src];
+      if (priorStatus && at.priorStatus) priorStatus[dst] = at.priorStatus[src];
     }
   }
   const anchors = at.anchors
     .map((a) => ({ ...a, x: Math.min(w - 1, Math.round((a.x - offset) / k)), y: Math.min(h - 1, Math.round((a.y - offset) / k)) }))
     .filter((a) => a.x >= 0 && a.y >= 0);
-  return { rgb: small, at: { width: w, height: h, film, prior, anchors, pixelSizeUm: at.pixelSizeUm === null ? null : at.pixelSizeUm * k } };
+  return { rgb: small, at: { width: w, height: h, film, prior, priorStatus, anchors, pixelSizeUm: at.pixelSizeUm === null ? null : at.pixelSizeUm * k } };
 }
 
 /**

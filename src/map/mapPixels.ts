@@ -15,6 +15,8 @@ import { createCandidateCube } from './candidateCube.js';
 import { type CandidateField, createCandidateField } from './candidateField.js';
 import { type ColourTable, predictEncodedTable, thicknessAt } from './colourTable.js';
 import { emptyExclusions } from './filmArea.js';
+import { markGreyExplained, predictGreyCurve } from './neutralGrey.js';
+import { priorFilmCells } from './priorFilmArea.js';
 import { fitQualityOf, poorFitWarning } from './fitQuality.js';
 import { lightEvennessOf, unevenLightWarning, UNEVEN_LIGHT_RATIO } from './lightEvenness.js';
 import { estimateNoise } from './estimateNoise.js';
@@ -49,6 +51,8 @@ export interface MapPixelsInput {
   readonly pixelSizeUm?: number | null;
   readonly anchors?: readonly Anchor[];
   readonly prior?: Float32Array | null;
+  /** Previous frame's pixel statuses (a series): its film area is a prior of this frame's. */
+  readonly priorStatus?: Uint8Array | null;
   readonly exposureFixed?: ExposureParameters | null;
   readonly fitWhiteBalance?: boolean;
   readonly initialWhiteBalance?: readonly [number, number, number];
@@ -189,8 +193,9 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   // 2–3. Predicted colours, limits, and every cell's candidates (again after a refit).
   let cells = matchCells(rgb, status, width, height, block, gridWidth, gridHeight, table, parameters, noiseSigma, periodIndex, space, cube, scratch);
   let area: FilmAreaCells | null = null;
+  const priorFilm = autoArea && input.priorStatus ? priorFilmCells(input.priorStatus, width, height, block, gridWidth, gridHeight) : null;
   if (autoArea) {
-    area = filmAreaOf(cells, gridWidth, gridHeight, block, noiseSigma, periodIndex, maxJump, table.rgbLinear, asserted, anchorCellsOf);
+    area = filmAreaOf(cells, gridWidth, gridHeight, block, noiseSigma, periodIndex, maxJump, table.rgbLinear, asserted, anchorCellsOf, predictGreyCurve(table, parameters, space), priorFilm);
     const excluded = applyFilmArea(area, status, width, height, block, gridWidth, false);
     // What was fitted included pixels that are not film: fit again on the film alone (a plain
     // sample) and class the cells again.
@@ -203,7 +208,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
       parameters = fitOnFilm(anchors.length > 0 ? parameters : input.fitStart ?? null, false);
       resetDerivedStatus(status, rgb);
       cells = matchCells(rgb, status, width, height, block, gridWidth, gridHeight, table, parameters, noiseSigma, periodIndex, space, createCandidateCube(CUBE_LEVELS, PER_CELL), scratch);
-      area = filmAreaOf(cells, gridWidth, gridHeight, block, noiseSigma, periodIndex, maxJump, table.rgbLinear, asserted, anchorCellsOf);
+      area = filmAreaOf(cells, gridWidth, gridHeight, block, noiseSigma, periodIndex, maxJump, table.rgbLinear, asserted, anchorCellsOf, predictGreyCurve(table, parameters, space), priorFilm);
     }
     applyFilmArea(area, status, width, height, block, gridWidth, true);
     for (let c = 0; c < gridWidth * gridHeight; c++) {
@@ -749,6 +754,10 @@ function filmAreaOf(
   rgbLinear: Float64Array,
   filmAsserted: boolean,
   anchorCells: readonly number[],
+  /** Predicted neutral greys in the matching space (neutralGrey.ts). */
+  greyCurve: Float32Array,
+  /** The previous frame's film area on the grid (a series), or null. */
+  priorFilm: Uint8Array | null,
 ): FilmAreaCells {
   const { cellState, field, predictedRgb, limits } = cells;
   const n = gridWidth * gridHeight;
@@ -801,7 +810,16 @@ function filmAreaOf(
     filmAsserted,
     cellBrightness,
     anchorCells,
+    // Only film-colour cells can join the film's seeds, so only they are compared with the greys.
+    greyExplained: markGreyExplained(cells.cellColour, filmColourCells(cellClass), greyCurve, allowance, new Uint8Array(n)),
+    priorFilm,
   });
+}
+
+function filmColourCells(cellClass: Uint8Array): Uint8Array {
+  const out = new Uint8Array(cellClass.length);
+  for (let c = 0; c < cellClass.length; c++) out[c] = cellClass[c] === CellClass.filmColour ? 1 : 0;
+  return out;
 }
 
 const VERDICT_STATUS: Record<number, number> = {

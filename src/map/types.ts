@@ -110,6 +110,11 @@ export interface MapOptions {
   /** Previous frame's thickness map (same size) used as an order prior in a series. */
   readonly prior?: Float32Array | null;
   /**
+   * Previous frame's pixel statuses (PixelStatus, same size) in a series: with `--film-area auto`
+   * its film area is this frame's prior (src/map/priorFilmArea.ts, filmArea.ts).
+   */
+  readonly priorStatus?: Uint8Array | null;
+  /**
    * Previous frame's fitted photo formation, where a series starts this frame's fit (instead of
    * the exposure scan); ignored with `exposureFixed`.
    */

@@ -55,6 +55,8 @@ export async function isFrameDone(outDir: string, stem: string, hash: string, pr
   const record = await readFrameRecord(outDir, stem);
   if (record === null || record.settingsHash !== hash) return false;
   if (!(await exists(frameNpyPath(outDir, stem)))) return false;
+  // The statuses carry the frame's film area, the next frame's prior (runChunk.ts).
+  if (!(await exists(frameNpyPath(outDir, stem, 'status')))) return false;
   if (previews) {
     for (const suffix of PREVIEW_SUFFIXES) if (!(await exists(join(framesDir(outDir), `${stem}${suffix}`)))) return false;
   }

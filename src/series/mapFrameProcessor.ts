@@ -71,13 +71,21 @@ export async function createFrameProcessor(config: MapFrameConfig): Promise<Fram
     return mask.pixels;
   };
   return {
-    mapPhoto: async (photo, name, prior, previousFit, previousField) => {
-      if (prior && prior.length !== photo.width * photo.height) throw new InputError(name, `frame is ${photo.width}×${photo.height}, a different size from the previous frame`);
+    mapPhoto: async (photo, name, prior, previousFit, previousField, priorStatus) => {
+      const size = photo.width * photo.height;
+      if ((prior && prior.length !== size) || (priorStatus && priorStatus.length !== size)) {
+        throw new InputError(name, `frame is ${photo.width}×${photo.height}, a different size from the previous frame`);
+      }
       const pixels = maskFor(photo.width, photo.height);
-      return mapDecodedPhoto(photo, { ...base, prior, fitStart: previousFit ?? null, fieldStart: previousField ?? null }, pixels ? await pixels : null, name);
+      const options = { ...base, prior, fitStart: previousFit ?? null, fieldStart: previousField ?? null, priorStatus: priorStatus ?? null };
+      return mapDecodedPhoto(photo, options, pixels ? await pixels : null, name);
     },
-    map: (framePath, prior, previousFit, previousField) =>
-      mapPhotoFile(framePath, { ...base, prior, fitStart: previousFit ?? null, fieldStart: previousField ?? null }, { allowDamaged: config.allowDamaged === true }),
+    map: (framePath, prior, previousFit, previousField, priorStatus) =>
+      mapPhotoFile(
+        framePath,
+        { ...base, prior, fitStart: previousFit ?? null, fieldStart: previousField ?? null, priorStatus: priorStatus ?? null },
+        { allowDamaged: config.allowDamaged === true },
+      ),
     writePreviews: async (result, framePath, dir, stem) => {
       const range = config.rangeNm ?? null;
       await writeMapOutputs(result, framePath, dir, stem, { images: true, json: false, npy: false, tiff: false, rangeNm: range }, base);

@@ -1,7 +1,8 @@
 /**
  * Maps one chunk of consecutive frames in order, each with the previous frame's map as its order
- * prior and the previous frame's fitted photo formation and light field as the start of its fit
- * (the chunk's first frame without them). Frames already done with the same settings are skipped and their
+ * prior, the previous frame's fitted photo formation and light field as the start of its fit and
+ * the previous frame's pixel statuses, whose film area is the prior of this frame's (the chunk's
+ * first frame without them). Frames already done with the same settings are skipped and their
  * stored map and fit (exact: JSON keeps every double) are read back for the next frame, so a
  * resumed run maps every frame exactly as an uninterrupted one. A failing frame is reported and
  * the next frame starts afresh.
@@ -27,17 +28,22 @@ export interface ChunkContext {
   readonly onFrame: (event: FrameEvent) => void;
 }
 
-async function storedMap(outDir: string, frame: FrameJob, size: ChunkContext['expectedSize']): Promise<Float32Array | null> {
+/** A done frame's stored 2-D array (its map or its statuses) of the series' size, or null. */
+async function storedArray<T extends Float32Array | Uint8Array>(path: string, stem: string, size: ChunkContext['expectedSize'], kind: new (n: number) => T): Promise<T | null> {
   try {
-    const npy = decodeNpy(await readFile(frameNpyPath(outDir, frame.stem)), frame.stem);
+    const npy = decodeNpy(await readFile(path), stem);
     const [height, width] = npy.shape;
-    if (!(npy.data instanceof Float32Array) || npy.shape.length !== 2) return null;
+    if (!(npy.data instanceof kind) || npy.shape.length !== 2) return null;
     if (size && (width !== size.width || height !== size.height)) return null;
     return npy.data;
   } catch {
     return null;
   }
 }
+
+const storedMap = (outDir: string, frame: FrameJob, size: ChunkContext['expectedSize']) => storedArray(frameNpyPath(outDir, frame.stem), frame.stem, size, Float32Array);
+/** The stored statuses of a done frame (its film area, the next frame's prior), or null. */
+const storedStatus = (outDir: string, frame: FrameJob, size: ChunkContext['expectedSize']) => storedArray(frameNpyPath(outDir, frame.stem, 'status'), frame.stem, size, Uint8Array);
 
 /** A light field fitted on a frame starts the next; a calibration's is applied to every frame anyway. */
 function carriedField(field: MapResult['exposureField'] | undefined): readonly number[] | null {
@@ -67,10 +73,11 @@ async function mapContainerFrame(
   prior: Float32Array | null,
   fit: MapResult['fitted'] | null,
   field: readonly number[] | null,
+  priorStatus: Uint8Array | null,
 ): Promise<MapResult> {
   if (!processor.mapPhoto) throw new Error('this frame processor cannot map frames of a video or stack');
   const photo = await reader.photoOf(frame);
-  return processor.mapPhoto(photo, frame.name, prior, fit, field);
+  return processor.mapPhoto(photo, frame.name, prior, fit, field, priorStatus);
 }
 
 async function runFramesOfChunk(
@@ -86,6 +93,7 @@ async function runFramesOfChunk(
     map: Float32Array | null;
     fitted: MapResult['fitted'] | null;
     field: readonly number[] | null;
+    status: Uint8Array | null;
     stored: boolean;
     hash: string;
   } | null = null;
@@ -95,7 +103,7 @@ async function runFramesOfChunk(
     // (and the frame before it in the chunk, whose map is the prior).
     const frameHash = frameSettingsHash(settingsHash, frame, previous?.hash ?? null);
     if (await isFrameDone(outDir, frame.stem, frameHash, previews)) {
-      previous = { frame, map: null, fitted: null, field: null, stored: true, hash: frameHash };
+      previous = { frame, map: null, fitted: null, field: null, status: null, stored: true, hash: frameHash };
       onFrame({ index: frame.index, name: frame.name, outcome: 'skipped' });
       continue;
     }
@@ -103,18 +111,21 @@ async function runFramesOfChunk(
       let prior: Float32Array | null = null;
       let previousFit: MapResult['fitted'] | null = null;
       let previousField: readonly number[] | null = null;
+      let previousStatus: Uint8Array | null = null;
       if (previous !== null) {
         prior = previous.stored ? await storedMap(outDir, previous.frame, expectedSize) : previous.map;
         const record = previous.stored ? await readFrameRecord(outDir, previous.frame.stem) : null;
         previousFit = previous.stored ? (record?.fitted ?? null) : previous.fitted;
         previousField = previous.stored ? carriedField(record?.exposureField) : previous.field;
+        previousStatus = previous.stored ? await storedStatus(outDir, previous.frame, expectedSize) : previous.status;
       }
       const priorFrame = prior === null ? null : previous!.frame.name;
       const fit = prior === null ? null : previousFit;
       const field = prior === null ? null : previousField;
+      const priorStatus = prior === null ? null : previousStatus;
       const result: MapResult = frame.container
-        ? await mapContainerFrame(processor, reader, frame, prior, fit, field)
-        : await processor.map(frame.path, prior, fit, field);
+        ? await mapContainerFrame(processor, reader, frame, prior, fit, field, priorStatus)
+        : await processor.map(frame.path, prior, fit, field, priorStatus);
       if (expectedSize && (result.width !== expectedSize.width || result.height !== expectedSize.height)) {
         throw new RangeError(`size ${result.width}x${result.height} differs from the series' ${expectedSize.width}x${expectedSize.height}; skipped`);
       }
@@ -131,6 +142,7 @@ async function runFramesOfChunk(
         map: result.thicknessNm,
         fitted: result.fitted,
         field: carriedField(result.exposureField),
+        status: result.status,
         stored: false,
         hash: mappedHash,
       };

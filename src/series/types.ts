@@ -33,15 +33,29 @@ export interface FrameSource {
 /**
  * Maps one frame; bound once to the map settings, called with the previous frame's map as order
  * prior, its fitted photo formation and its light field (log-gain coefficients) as the start of
- * this frame's fit (all null for the first frame of a chunk).
+ * this frame's fit, and its pixel statuses, whose film area is the prior of this frame's (all null
+ * for the first frame of a chunk).
  */
 export interface FrameProcessor {
-  map(framePath: string, prior: Float32Array | null, previousFit?: MapResult['fitted'] | null, previousField?: readonly number[] | null): Promise<MapResult>;
+  map(
+    framePath: string,
+    prior: Float32Array | null,
+    previousFit?: MapResult['fitted'] | null,
+    previousField?: readonly number[] | null,
+    priorStatus?: Uint8Array | null,
+  ): Promise<MapResult>;
   /**
    * Maps a frame already decoded (a video's or a stack's frame, ./frameReader.ts); `name` names
    * it in messages. Needed for series from video files and stacks.
    */
-  mapPhoto?(photo: Photo, name: string, prior: Float32Array | null, previousFit?: MapResult['fitted'] | null, previousField?: readonly number[] | null): Promise<MapResult>;
+  mapPhoto?(
+    photo: Photo,
+    name: string,
+    prior: Float32Array | null,
+    previousFit?: MapResult['fitted'] | null,
+    previousField?: readonly number[] | null,
+    priorStatus?: Uint8Array | null,
+  ): Promise<MapResult>;
   /** Optional preview writer (`--previews`): writes images for `stem` into `dir`; may say the colour range it used. */
   writePreviews?(result: MapResult, framePath: string, dir: string, stem: string): Promise<{ rangeNm?: [number, number] } | void | unknown>;
   /** Optional: (re)draws a stored frame's map preview in the series' common colour range. */
