@@ -119,7 +119,7 @@ export interface LightFieldPreview<P extends MapResult> {
   readonly rgb: Float32Array;
   readonly width: number;
   readonly height: number;
-  readonly mapWith: (pixels: Float32Array) => P;
+  readonly mapWith: (pixels: Float32Array, fitStart?: ExposureParameters | null, fixed?: ExposureParameters | null) => P;
   /** The same, measuring only the middle of the photo (see `mapWithLightField`). */
   readonly mapCentreWith?: (pixels: Float32Array) => P;
 }
@@ -138,7 +138,7 @@ function alternate<R extends MapResult>(
   rgb: Float32Array,
   width: number,
   height: number,
-  mapWith: (pixels: Float32Array, fitStart?: ExposureParameters | null) => R,
+  mapWith: (pixels: Float32Array, fitStart?: ExposureParameters | null, fixed?: ExposureParameters | null) => R,
   start: readonly number[] | null,
   startFlare: readonly number[],
   fitStart: ExposureParameters | null = null,
@@ -157,8 +157,11 @@ function alternate<R extends MapResult>(
     const step = current.lightEvenness.logGainCoefficients;
     for (let k = 0; k < total.length; k++) total[k] += step[k] ?? 0;
     const range = logGainRangeOver(current, total, width, height);
-    // Each round starts its photo-formation fit from the last (the photo changed only by the field).
-    current = mapWith(evenOutLight(rgb, width, height, total, current.fitted.flare, range), current.fitted);
+    // Each round starts its photo-formation fit from the last (the photo changed only by the field);
+    // should the refit lose the film, the round keeps the last fit's parameters instead.
+    const evened = evenOutLight(rgb, width, height, total, current.fitted.flare, range);
+    const refitted = mapWith(evened, current.fitted);
+    current = refitted.filmArea?.found === false ? mapWith(evened, null, current.fitted) : refitted;
     rounds++;
     if (ratioOf(current) < ratioOf(best)) {
       best = current;
@@ -180,7 +183,7 @@ function fromCentre<R extends MapResult>(
   rgb: Float32Array,
   width: number,
   height: number,
-  mapWith: (pixels: Float32Array, fitStart?: ExposureParameters | null) => R,
+  mapWith: (pixels: Float32Array, fitStart?: ExposureParameters | null, fixed?: ExposureParameters | null) => R,
   mapCentreWith: (pixels: Float32Array) => R,
   startFlare: readonly number[],
 ): Alternation<R> | null {
@@ -203,8 +206,8 @@ export function mapWithLightField<R extends MapResult, P extends MapResult = R>(
   rgb: Float32Array,
   width: number,
   height: number,
-  /** Maps the (evened) pixels; `fitStart` starts the photo-formation fit (the preview's fit). */
-  mapWith: (pixels: Float32Array, fitStart?: ExposureParameters | null) => R,
+  /** Maps the (evened) pixels; `fitStart` starts the photo-formation fit (the preview's fit); `fixed` replaces it. */
+  mapWith: (pixels: Float32Array, fitStart?: ExposureParameters | null, fixed?: ExposureParameters | null) => R,
   mode: LightFieldMode,
   start: LightFieldStart | null = null,
   preview: LightFieldPreview<P> | null = null,

@@ -113,7 +113,7 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
   // (buildColourTable.ts), and the same monotone encoding on both sides leaves the model exact.
   const rgb = built.camera.encoding === 'linear' ? encodeLinearPhoto(photo.rgb) : photo.rgb;
   const film = buildFilmMask(photo.width, photo.height, options.region, mask, photo.alpha);
-  const mapAt = (pixels: Float32Array, at: FrameGeometry, fitStart: ExposureParameters | null = null) => mapPixels({
+  const mapAt = (pixels: Float32Array, at: FrameGeometry, fitStart: ExposureParameters | null = null, fixed: ExposureParameters | null = null) => mapPixels({
     rgb: pixels,
     width: at.width,
     height: at.height,
@@ -125,7 +125,7 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
     anchors: at.anchors,
     prior: at.prior,
     priorStatus: at.priorStatus,
-    exposureFixed: options.exposureFixed ?? null,
+    exposureFixed: fixed ?? options.exposureFixed ?? null,
     fitStart: fitStart ?? options.fitStart ?? null,
     keepConsistent: options.keepConsistent ?? true,
     threads: options.threads ?? defaultThreads(),
@@ -150,11 +150,11 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
     rgb,
     photo.width,
     photo.height,
-    (pixels, fitStart) => mapAt(pixels, full, fitStart ?? null),
+    (pixels, fitStart, fixed) => mapAt(pixels, full, fitStart ?? null, fixed ?? null),
     options.lightField ?? 'auto',
     lightFieldStartOf(options, photo.width, photo.height),
     preview
-      ? { rgb: preview.rgb, width: preview.at.width, height: preview.at.height, mapWith: (pixels) => mapAt(pixels, preview.at), mapCentreWith: (pixels) => mapAt(pixels, centreOf(preview.at)) }
+      ? { rgb: preview.rgb, width: preview.at.width, height: preview.at.height, mapWith: (pixels, fitStart, fixed) => mapAt(pixels, preview.at, fitStart ?? null, fixed ?? null), mapCentreWith: (pixels) => mapAt(pixels, centreOf(preview.at)) }
       : null,
     (pixels) => mapAt(pixels, centreOf(full)),
   );
