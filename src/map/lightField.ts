@@ -10,9 +10,13 @@
  * smooth and slow), too few to follow the film's own colours, so it cannot invent structure.
  * Evenly lit photos are left alone: the field is fitted only when the first map's unevenness
  * exceeds `START_RATIO`, and kept only when it leaves the photo more even than it found it.
+ * With a camera response (picture style) the photo's values are first brought back through the
+ * inverse of the response (saturation, then tone curve) to plain sRGB, decoded, divided, encoded
+ * and passed through the response again, so the gain is divided out where it acted: in linear light.
  */
 import { decodeSrgb, encodeSrgb } from '../colour/srgb.js';
 import { relativeGainAt } from './lightEvenness.js';
+import { applyResponse, type CameraResponse, createResponseInverse } from '../colour/toneResponse.js';
 import type { MapResult } from './types.js';
 
 export type LightFieldMode = 'auto' | 'off';
@@ -37,19 +41,33 @@ function ratioOf(result: MapResult): number {
   return e ? e.gainMax / e.gainMin : 1;
 }
 
-/** The photo with the field's gain divided out in linear light (a copy in shared memory). */
-export function evenOutLight(rgb: Float32Array, width: number, height: number, logGainCoefficients: readonly number[], flare: readonly number[]): Float32Array {
+/**
+ * The photo with the field's gain divided out in linear light (a copy in shared memory). With a
+ * camera response, each pixel is taken back through its inverse first and the response is applied
+ * again after (../colour/toneResponse.ts).
+ */
+export function evenOutLight(
+  rgb: Float32Array,
+  width: number,
+  height: number,
+  logGainCoefficients: readonly number[],
+  flare: readonly number[],
+  response: CameraResponse | null = null,
+): Float32Array {
   const out = new Float32Array(new SharedArrayBuffer(rgb.length * 4));
+  const inverseResponse = createResponseInverse(response);
   for (let y = 0; y < height; y++) {
     for (let x = 0; x < width; x++) {
       const inverse = 1 / relativeGainAt(logGainCoefficients, width, height, x, y);
       const i = (y * width + x) * 3;
+      inverseResponse.invert(rgb[i], rgb[i + 1], rgb[i + 2], out, i);
       for (let c = 0; c < 3; c++) {
-        const linear = decodeSrgb(rgb[i + c]);
+        const linear = decodeSrgb(out[i + c]);
         const evened = (linear - flare[c]) * inverse + flare[c];
         out[i + c] = encodeSrgb(evened < 0 ? 0 : evened > 1 ? 1 : evened);
       }
     }
+    if (!inverseResponse.identity) applyResponse(out.subarray(y * width * 3, (y + 1) * width * 3), width, response);
   }
   return out;
 }
@@ -71,7 +89,7 @@ export function mapWithLightField<R extends MapResult>(
   while (rounds < MAX_ROUNDS && current.lightEvenness && ratioOf(current) > SETTLED_RATIO) {
     const step = current.lightEvenness.logGainCoefficients;
     for (let k = 0; k < total.length; k++) total[k] += step[k];
-    current = mapWith(evenOutLight(rgb, width, height, total, current.fitted.flare));
+    current = mapWith(evenOutLight(rgb, width, height, total, current.fitted.flare, current.fitted.response ?? null));
     rounds++;
     if (ratioOf(current) < ratioOf(best)) {
       best = current;

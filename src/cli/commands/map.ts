@@ -3,6 +3,7 @@
  * and its outputs written atomically; a bad photo is reported and the others go on (exit 3 at
  * the end). `--fail-if-thin` turns a thin region into exit status 1.
  */
+import { describeResponse, isStrongResponse } from '../../colour/toneResponse.js';
 import type { ExposureField } from '../../map/lightField.js';
 import { CAMERA_HELP, parseCameraOption } from '../cameraOption.js';
 import type { Command } from 'commander';
@@ -197,7 +198,9 @@ export function summaryLine(photo: string, result: Pick<MapResult, 'stats' | 'th
     ? ` over uneven light (fitted field ${result.exposureField.gainMin.toFixed(2)}–${result.exposureField.gainMax.toFixed(2)})`
     : '';
   const film = result.filmArea && result.filmArea.mode === 'auto' ? `, film ${f(result.filmArea.fraction * 100)} % of the photo` : '';
-  return `${photo}: median ${f(s.median_nm)} nm (p05 ${f(s.p05_nm)}, p95 ${f(s.p95_nm)})${film}, coverage ${f(s.coverage * 100)} %${thin}, ${result.thinRegions.length} thin region(s), exposure ×${result.fitted.exposure.toFixed(2)}${field}`;
+  const response = result.fitted.response;
+  const style = response && isStrongResponse(response) ? `, picture style ${result.fitted.responseSource === 'calibration' ? 'from the calibration' : 'fitted'} (${describeResponse(response)})` : '';
+  return `${photo}: median ${f(s.median_nm)} nm (p05 ${f(s.p05_nm)}, p95 ${f(s.p95_nm)})${film}, coverage ${f(s.coverage * 100)} %${thin}, ${result.thinRegions.length} thin region(s), exposure ×${result.fitted.exposure.toFixed(2)}${field}${style}`;
 }
 
 function parseThreads(value: string): number {
