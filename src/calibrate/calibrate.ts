@@ -85,7 +85,10 @@ export function calibrateDecoded(
       flare: parameters.flare,
       filmIndexScale: parameters.filmIndexScale,
       angleDeg: parameters.angleDeg,
+      // The camera's response (picture style); null = none fitted (identity). Older files lack it.
+      response: parameters.response ?? null,
     },
+    ...(result.responseNote ? { response_note: result.responseNote } : {}),
     filmIndexScale: parameters.filmIndexScale,
     uncertainty: result.uncertainties,
     residual_rms_encoded: result.rmsResidual,

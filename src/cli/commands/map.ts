@@ -3,7 +3,7 @@
  * and its outputs written atomically; a bad photo is reported and the others go on (exit 3 at
  * the end). `--fail-if-thin` turns a thin region into exit status 1.
  */
-import { describeResponse, isStrongResponse } from '../../colour/toneResponse.js';
+import { type CameraResponse, describeResponse, isStrongResponse } from '../../colour/toneResponse.js';
 import type { ExposureField } from '../../map/lightField.js';
 import { CAMERA_HELP, parseCameraOption } from '../cameraOption.js';
 import type { Command } from 'commander';
@@ -144,10 +144,10 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
           camera,
           angleRad,
           known,
-          fit: ['exposure', 'flare', 'white-balance'],
+          fit: ['exposure', 'flare', 'white-balance', 'response'],
         });
-        const fitted = onPhoto.fitted as { exposure: number; whiteBalance: [number, number, number]; flare: [number, number, number] };
-        photoOptions = { ...options, exposureFixed: fitted };
+        const fitted = onPhoto.fitted as { exposure: number; whiteBalance: [number, number, number]; flare: [number, number, number]; response: CameraResponse | null };
+        photoOptions = { ...options, exposureFixed: { ...fitted, responseSource: fitted.response ? 'calibration' : 'identity' } };
         for (const warning of onPhoto.warnings) warn(`${photo}: calibration: ${warning}`);
       }
       const result = mapDecodedPhoto(decoded, photoOptions, mask, photo);
