@@ -136,3 +136,22 @@ export async function asCameraJpeg(path: string, samples: Uint8Array): Promise<P
   writeFileSync(path, buffer);
   return readPhoto(path);
 }
+
+/**
+ * Invented step wafer for a calibration: six oxide patches (3 × 2, 80 × 90 px) of known thickness
+ * on silicon, our own choice of values spanning dark, mid and bright colours under F11.
+ */
+export const STEP_NM = [40, 120, 210, 300, 390, 480] as const;
+
+export function stepWaferNm(): Float32Array {
+  const out = new Float32Array(SCENE_WIDTH * SCENE_HEIGHT);
+  for (let y = 0; y < SCENE_HEIGHT; y++) {
+    for (let x = 0; x < SCENE_WIDTH; x++) out[y * SCENE_WIDTH + x] = STEP_NM[Math.min(2, Math.floor(x / 80)) + 3 * Math.min(1, Math.floor(y / 90))];
+  }
+  return out;
+}
+
+/** The known rectangles of the step wafer (50 × 50 px inside each patch, away from its edges). */
+export function stepKnown(): Array<{ region: [number, number, number, number]; thicknessNm: number }> {
+  return STEP_NM.map((thicknessNm, k) => ({ region: [15 + 80 * (k % 3), 20 + 90 * Math.floor(k / 3), 50, 50], thicknessNm }));
+}
