@@ -26,6 +26,7 @@ import {
   IDENTITY_RESPONSE,
   isStrongResponse,
   SATURATION_RANGE,
+  applyTabulatedTone,
   toneAt,
   type CameraResponse,
 } from '../src/colour/toneResponse.js';
@@ -106,6 +107,22 @@ describe('the tone curve and saturation (formula properties)', () => {
     }
     expect(worst).toBeLessThan(2e-4);
     expect(inverse.invertTone(toneAt(0.37, 0.5, 1.1))).toBeCloseTo(0.37, 4);
+  });
+
+  it('the tabulated T used for large tables is within 1e-4 of the formula above e = 0.01 (and 0.01 below, at codes under 3)', () => {
+    for (const [k, g] of [[0.5, 1.1], [-0.8, 0.5], [0.9, 2], [0.3, 0.7], [0.9, 0.5]] as const) {
+      const values = Float64Array.from({ length: 10001 }, (_, j) => j / 10000);
+      applyTabulatedTone(values, k, g);
+      let worstAbove = 0;
+      let worstBelow = 0;
+      values.forEach((t, j) => {
+        const error = Math.abs(t - toneAt(j / 10000, k, g));
+        if (j >= 100) worstAbove = Math.max(worstAbove, error);
+        else worstBelow = Math.max(worstBelow, error);
+      });
+      expect(worstAbove, `k ${k}, γ ${g}`).toBeLessThan(1e-4);
+      expect(worstBelow, `k ${k}, γ ${g}`).toBeLessThan(0.01);
+    }
   });
 
   it('parameters outside the allowed ranges are refused by name', async () => {
