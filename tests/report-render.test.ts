@@ -114,6 +114,25 @@ describe('renderMapReport()', () => {
     expect(() => renderMapReport({ ...input, title: 5 as unknown as string })).toThrow(/input.title must be a string, received number 5/);
     expect(() => renderMapReport({ ...input, histogram: { edgesNm: [0, 1], counts: [1, 2] } })).toThrow(/input.histogram: edgesNm must have/);
   });
+  it('shows the light field as a small grey picture (one cell per grid value, dim = dark) with its range, and refuses a grid that does not match', () => {
+    const relativeGain = [0.7, 0.8, 0.9, 1, 1.05, 1.1];
+    const light = { field: { gridWidth: 3, gridHeight: 2, relativeGain, gainMin: 0.72, gainMax: 1.08, rounds: 2, source: 'photo' as const }, evenness: { gainMin: 0.99, gainMax: 1.01 } };
+    const text = renderMapReport({ ...input, light });
+    const card = /<section class="card" id="light">[\s\S]*?<\/section>/.exec(text)![0];
+    expect(card).toContain('fitted to this photo (2 rounds)');
+    expect(card).toContain('×0.72 to ×1.08');
+    expect(card).toContain('×0.990 to ×1.010');
+    const fills = [...card.matchAll(/<rect x="\d+" y="\d+" width="\d+" height="\d+" fill="(#[0-9a-f]{6})"\/>/g)].map((m) => parseInt(m[1].slice(1, 3), 16));
+    expect(fills).toHaveLength(6);
+    // Monotone in the gain: the dimmest cell darkest, the brightest lightest.
+    for (let k = 1; k < 6; k++) expect(fills[k]).toBeGreaterThan(fills[k - 1]);
+    expect(text).toContain('href="#light"');
+    // Without a field: says one exposure, no picture.
+    const none = renderMapReport({ ...input, light: { field: null, evenness: null } });
+    expect(none).toContain('none: one exposure for the whole photo');
+    expect(none).not.toContain('class="light-field"');
+    expect(() => renderMapReport({ ...input, light: { ...light, field: { ...light.field, relativeGain: [1, 2] } } })).toThrow(/input.light.field.relativeGain must hold gridWidth × gridHeight/);
+  });
 });
 
 describe('renderSeriesReport()', () => {

@@ -118,6 +118,10 @@ describe('runSeries() with the real mapper (round trip on a rendered, thinning w
     const reportHtml = await readFile(join(dir, 'wedge-out', 'report.html'), 'utf8');
     expect(reportHtml).toMatch(/^<!DOCTYPE html>/i);
     expect(reportHtml).toContain('Map view: Thickness map of shot3.jpg');
+    // The map view shows the stored result of the last frame (no second mapping): its median is series.csv's.
+    const viewMedian = /Median thickness<\/div><div class="value">([\d.]+) nm/.exec(reportHtml.slice(reportHtml.indexOf('Map view:')));
+    expect(Number(viewMedian![1])).toBeCloseTo(Number(rows[2][3]), 1);
+    expect(await readFile(join(dir, 'wedge-out', 'frames', 'shot3.confidence.npy'))).toBeTruthy();
     expect(result.summary!.drainageFits.length).toBeGreaterThan(0);
   });
 });

@@ -10,7 +10,9 @@ import { readPhoto } from '../io/readPhoto.js';
 import { MAP_MAX_PIXELS } from '../io/limits.js';
 import type { Stack } from '../optics/types.js';
 import { CALIBRATION_VERSION } from './calibrationFile.js';
-import { type CalibrationParameter, fitCalibration } from './fitCalibration.js';
+import { type CalibrationField, type CalibrationParameter, fitCalibration } from './fitCalibration.js';
+import { relativeGainAt } from '../map/lightEvenness.js';
+import { EXPOSURE_FIELD_TERMS } from '../map/mapResultJson.js';
 import { type KnownRegion, knownRegionColours } from './knownRegions.js';
 
 export interface CalibrateOptions {
@@ -24,6 +26,8 @@ export interface CalibrateOptions {
   readonly angleRad: number;
   readonly known: readonly KnownRegion[];
   readonly fit: readonly CalibrationParameter[];
+  /** `auto` (default): fit a light field when the known regions are spread over the photo; `off`: one exposure. */
+  readonly lightField?: 'auto' | 'off';
 }
 
 export interface CalibrationRecord extends Record<string, unknown> {
@@ -46,7 +50,15 @@ export function calibrateDecoded(
   const whiteBalance = options.whiteBalanceLight ? resolveLight(options.whiteBalanceLight) : undefined;
   const camera = cameraFromSpec(options.camera, light, whiteBalance);
   const regions = knownRegionColours(rgb, width, height, options.known);
-  const result = fitCalibration({ stack: options.stack, camera, angleRad: options.angleRad, regions, fit: options.fit });
+  const result = fitCalibration({
+    stack: options.stack,
+    camera,
+    angleRad: options.angleRad,
+    regions,
+    fit: options.fit,
+    photoSize: { width, height },
+    lightField: options.lightField ?? 'auto',
+  });
   const known = regions.map((r, k) => ({
     region_px: r.region,
     thickness_nm: r.thicknessNm,
@@ -90,6 +102,7 @@ export function calibrateDecoded(
     },
     ...(result.responseNote ? { response_note: result.responseNote } : {}),
     filmIndexScale: parameters.filmIndexScale,
+    exposure_field: calibrationFieldJson(result.field, result.fieldNote, width, height),
     uncertainty: result.uncertainties,
     residual_rms_encoded: result.rmsResidual,
     known_regions: known,
@@ -100,6 +113,37 @@ export function calibrateDecoded(
 }
 
 const MISFIT_DELTA_E = 2;
+
+/**
+ * The calibration file's light field: the coefficients `map --calibration` applies (basis of
+ * ../map/lightEvenness.ts, gain 1 at the photo's centre where `fitted.exposure` holds), the photo
+ * size they belong to, and the field's range over the photo; `null` coefficients with the reason
+ * when one exposure was used.
+ */
+function calibrationFieldJson(field: CalibrationField | null, note: string, width: number, height: number): Record<string, unknown> {
+  if (!field) return { log_gain_coefficients: null, note };
+  let gainMin = Infinity;
+  let gainMax = -Infinity;
+  const step = Math.max(1, Math.floor(Math.max(width, height) / 64));
+  for (let y = 0; y < height; y += step) {
+    for (let x = 0; x < width; x += step) {
+      const gain = relativeGainAt(field.logGainCoefficients, width, height, x, y);
+      if (gain < gainMin) gainMin = gain;
+      if (gain > gainMax) gainMax = gain;
+    }
+  }
+  return {
+    model: 'log relative gain = quadratic in u, v plus a radial r⁴ term (u, v: pixel centre minus photo centre, over half the longer side); gain 1 at the centre',
+    log_gain_coefficients: field.logGainCoefficients,
+    standard_errors: field.standardErrors.map(round4),
+    terms: [...EXPOSURE_FIELD_TERMS],
+    fitted_terms: field.tier,
+    photo_size_px: [width, height],
+    relative_gain_min: round4(gainMin),
+    relative_gain_max: round4(gainMax),
+    note,
+  };
+}
 
 const WHITE = SRGB_WHITE_XYZ.map((v) => v * 100);
 

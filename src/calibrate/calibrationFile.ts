@@ -8,6 +8,8 @@
  *     (response: { contrast, gamma, saturation } of the camera's picture style, ../colour/toneResponse.ts,
  *     or null; absent in older files = the identity)
  *   filmIndexScale (top level, same value), uncertainty, known_regions, photo, photo_size_px, warnings
+ *   exposure_field: { log_gain_coefficients: [7 numbers] | null, photo_size_px: [w, h], … }  (the light
+ *     field fitted on the known regions, see ./fitCalibration.ts; absent in older files = none)
  * A calibration made for another stack, light, angle, camera white balance or camera is refused unless
  * the user overrides.
  */
@@ -16,11 +18,14 @@ import { describeJsonSyntaxError, noteInputFile, regularFileProblemSync } from '
 import { InputError, UsageError } from '../errors.js';
 import type { ExposureParameters } from '../map/types.js';
 import { type CameraResponse, checkResponse } from '../colour/toneResponse.js';
+import { EXPOSURE_FIELD_TERMS } from '../map/mapResultJson.js';
 
 export const CALIBRATION_VERSION = 1;
 
 export interface CalibrationForRun {
   readonly exposureFixed: ExposureParameters;
+  /** The light field and the photo size it was fitted on, or null (one exposure). */
+  readonly exposureField: { readonly logGainCoefficients: number[]; readonly widthPx: number; readonly heightPx: number } | null;
   readonly filmIndexScale: number | null;
   readonly angleDeg: number | null;
   readonly raw: Record<string, unknown>;
@@ -85,6 +90,7 @@ export async function readCalibrationFile(file: string): Promise<CalibrationForR
       flare: triple(file, 'fitted.flare', f.flare),
       ...responseOf(file, f.response),
     },
+    exposureField: fieldOf(file, record.exposure_field),
     filmIndexScale: scale === undefined || scale === null ? null : finite(file, 'fitted.filmIndexScale', scale, true),
     angleDeg: f.angleDeg === undefined || f.angleDeg === null ? null : finite(file, 'fitted.angleDeg', f.angleDeg),
     raw: record,
@@ -108,6 +114,24 @@ function responseOf(file: string, value: unknown): { response: CameraResponse | 
     throw new InputError(file, `fitted.${(error as Error).message}`);
   }
   return { response, responseSource: 'calibration' };
+}
+
+/** The stored light field (see the header), or null when the file holds none. */
+function fieldOf(file: string, value: unknown): CalibrationForRun['exposureField'] {
+  if (value === undefined || value === null) return null;
+  if (typeof value !== 'object' || Array.isArray(value)) throw new InputError(file, `exposure_field must be an object, received ${show(value)}`);
+  const field = value as Record<string, unknown>;
+  if (field.log_gain_coefficients === null || field.log_gain_coefficients === undefined) return null;
+  const c = field.log_gain_coefficients;
+  if (!Array.isArray(c) || c.length !== EXPOSURE_FIELD_TERMS.length) {
+    throw new InputError(file, `exposure_field.log_gain_coefficients must be an array of ${EXPOSURE_FIELD_TERMS.length} finite numbers (${EXPOSURE_FIELD_TERMS.join(', ')}), received ${show(c)}`);
+  }
+  const coefficients = c.map((v, k) => finite(file, `exposure_field.log_gain_coefficients[${k}]`, v));
+  const size = field.photo_size_px;
+  if (!Array.isArray(size) || size.length !== 2 || !size.every((v) => Number.isInteger(v) && (v as number) > 0)) {
+    throw new InputError(file, `exposure_field.photo_size_px must be [width, height] in whole pixels, received ${show(size)}`);
+  }
+  return { logGainCoefficients: coefficients, widthPx: size[0] as number, heightPx: size[1] as number };
 }
 
 /** Largest difference between the calibration's angle and the run's that passes unremarked, degrees. */

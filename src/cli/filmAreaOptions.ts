@@ -73,15 +73,15 @@ const EXPECT_FORM = new RegExp(`^\\s*(${DECIMAL})\\s*[-–]\\s*(${DECIMAL})\\s*(
  * `--expect MIN-MAX` in nm (decimal numbers, e.g. `80-140` or `92.5-110`): 0 ≤ MIN < MAX ≤
  * `maxThicknessNm` (the largest thickness the map considers).
  */
-export function parseExpect(text: string, maxThicknessNm: number): [number, number] {
+export function parseExpect(text: string, maxThicknessNm: number, option = '--expect'): [number, number] {
   const match = EXPECT_FORM.exec(text);
-  if (!match) throw new UsageError(`--expect must be MIN-MAX in nm with decimal numbers (e.g. 80-140), received ${JSON.stringify(text)}`);
+  if (!match) throw new UsageError(`${option} must be MIN-MAX in nm with decimal numbers (e.g. 80-140), received ${JSON.stringify(text)}`);
   const minNm = Number(match[1]);
   const maxNm = Number(match[2]);
-  if (minNm < 0 || maxNm < 0) throw new UsageError(`--expect must not be negative (MIN-MAX in nm, 0 <= MIN < MAX), received ${JSON.stringify(text)}`);
-  if (!(minNm < maxNm)) throw new UsageError(`--expect MIN must be below MAX (MIN-MAX in nm), received ${JSON.stringify(text)}`);
+  if (minNm < 0 || maxNm < 0) throw new UsageError(`${option} must not be negative (MIN-MAX in nm, 0 <= MIN < MAX), received ${JSON.stringify(text)}`);
+  if (!(minNm < maxNm)) throw new UsageError(`${option} MIN must be below MAX (MIN-MAX in nm), received ${JSON.stringify(text)}`);
   if (maxNm > maxThicknessNm) {
-    throw new UsageError(`--expect must lie within 0-${maxThicknessNm} nm (--max-thickness), received ${JSON.stringify(text)}`);
+    throw new UsageError(`${option} must lie within 0-${maxThicknessNm} nm (--max-thickness), received ${JSON.stringify(text)}`);
   }
   return [minNm, maxNm];
 }

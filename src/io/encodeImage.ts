@@ -37,3 +37,22 @@ export async function encodeJpeg(image: RasterImage, quality = 90): Promise<Buff
 export async function encodeTiff(image: RasterImage): Promise<Buffer> {
   return pipeline(image).tiff({ compression: 'deflate', predictor: 'horizontal' }).toBuffer();
 }
+
+/** A multi-page TIFF (an image stack, deflate), one page per image; all pages of one size, type and channel count. */
+export async function encodeTiffStack(pages: readonly RasterImage[]): Promise<Buffer> {
+  if (pages.length === 0) throw new RangeError('a stack needs at least one page');
+  for (const page of pages) checkRasterImage(page);
+  const [first] = pages;
+  const is16 = first.data instanceof Uint16Array;
+  if (pages.some((p) => p.width !== first.width || p.height !== first.height || p.channels !== first.channels || (p.data instanceof Uint16Array) !== is16)) {
+    throw new RangeError('every page of a stack must have the size, channels and sample type of the first');
+  }
+  const perPage = first.width * first.height * first.channels;
+  const joined = is16 ? new Uint16Array(perPage * pages.length) : new Uint8Array(perPage * pages.length);
+  pages.forEach((p, k) => joined.set(p.data, k * perPage));
+  const grey = first.channels <= 2;
+  return sharp(joined, { raw: { width: first.width, height: first.height * pages.length, channels: first.channels, pageHeight: first.height } })
+    .toColourspace(grey ? (is16 ? 'grey16' : 'b-w') : is16 ? 'rgb16' : 'srgb')
+    .tiff({ compression: 'deflate', predictor: 'horizontal' })
+    .toBuffer();
+}

@@ -49,6 +49,10 @@ export interface PhotoMetadata {
   hasAlpha: boolean;
   orientation: number;
   exif: PhotoTime;
+  /** Pages (images) in the file: more than 1 for a multi-page TIFF stack. */
+  pages: number;
+  /** Height of one page (equal to `height` for single-page files). */
+  pageHeight: number;
 }
 
 export interface ReadPhotoOptions {
@@ -60,6 +64,8 @@ export interface ReadPhotoOptions {
    * estimate) and `warnings` says so. Default false: any decoder warning is an error.
    */
   allowDamaged?: boolean;
+  /** Page (image) of a multi-page file to decode, from 0 (default 0; a stack's frames). */
+  page?: number;
 }
 
 /** Plain raster for writing: interleaved samples, 8-bit (Uint8Array) or 16-bit (Uint16Array). */

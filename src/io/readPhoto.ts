@@ -15,7 +15,7 @@ import sharp, { type Metadata, type OutputInfo } from 'sharp';
 import { InputError } from '../errors.js';
 import { MAX_PIXELS } from './limits.js';
 import { parseExifTime } from './exifTime.js';
-import { readInputFile } from './readInputFile.js';
+import { checkInputFile, readInputFile } from './readInputFile.js';
 import { decodeInputError } from './decodeErrors.js';
 import { checkMaxPixels } from './checkMaxPixels.js';
 import { uint16View } from './typedView.js';
@@ -24,11 +24,13 @@ import type { Photo, ReadPhotoOptions } from './photo.js';
 
 export async function readPhoto(path: string, options: ReadPhotoOptions = {}): Promise<Photo> {
   const maxPixels = checkMaxPixels(options.maxPixels);
-  const bytes = await readInputFile(path);
+  const page = options.page ?? 0;
+  // A page of a stack is read from the file (a stack of a thousand frames need not sit in memory).
+  const bytes: Buffer | string = options.page === undefined ? await readInputFile(path) : (await checkInputFile(path), path);
   let meta: Metadata;
   try {
     // Header only (no pixels decoded), so the size can be checked and named below.
-    meta = await sharp(bytes, { limitInputPixels: false }).metadata();
+    meta = await sharp(bytes, { limitInputPixels: false, page }).metadata();
   } catch (error) {
     throw decodeInputError(path, error, maxPixels);
   }
@@ -50,7 +52,7 @@ export async function readPhoto(path: string, options: ReadPhotoOptions = {}): P
   const space = is16 ? 'rgb16' : 'srgb';
   let raw: { data: Buffer; info: OutputInfo };
   const decode = (failOn: 'warning' | 'none') =>
-    sharp(bytes, { autoOrient: true, limitInputPixels: maxPixels, failOn, ignoreIcc: is16 })
+    sharp(bytes, { autoOrient: true, limitInputPixels: maxPixels, failOn, ignoreIcc: is16, page })
       .toColourspace(space)
       .raw({ depth: is16 ? 'ushort' : 'uchar' })
       .toBuffer({ resolveWithObject: true });
@@ -132,7 +134,7 @@ export async function readPhoto(path: string, options: ReadPhotoOptions = {}): P
     exif: parseExifTime(meta.exif),
   };
   if (typeof meta.chromaSubsampling === 'string') photo.chromaSubsampling = meta.chromaSubsampling;
-  if (typeof meta.pages === 'number' && meta.pages > 1) {
+  if (typeof meta.pages === 'number' && meta.pages > 1 && options.page === undefined) {
     // Only the first page is decoded; say so, since a stack of frames may hide in one file.
     photo.warnings = [...(photo.warnings ?? []), `the file holds ${meta.pages} pages (images); page 1 of ${meta.pages} was used (split the pages into separate files to map the others)`];
   }

@@ -28,5 +28,7 @@ export async function readPhotoMetadata(path: string): Promise<PhotoMetadata> {
     hasAlpha: meta.hasAlpha,
     orientation,
     exif: parseExifTime(meta.exif),
+    pages: typeof meta.pages === 'number' && meta.pages > 1 ? meta.pages : 1,
+    pageHeight: meta.pageHeight ?? upright.height,
   };
 }

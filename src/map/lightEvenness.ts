@@ -3,8 +3,10 @@
  * ratio of the photo's luminance to the model's luminance at the mapped thickness (both in linear
  * light, Rec. 709 / sRGB luminance weights, IEC 61966-2-1) is the light the photo received there
  * relative to the fitted exposure. Its logarithm is fitted by least squares with a quadratic in
- * position (a smooth fall-off across the photo and lens vignetting are both smooth; common
- * practice), with one pass of outlier trimming, and the surface's range over the film is reported
+ * position plus a radial fourth-order term (a smooth fall-off across the photo and lens
+ * vignetting are both smooth; the cos⁴ law of illumination, common practice, falls off as
+ * cos⁴θ = (1 + r²·tan²θ₁)⁻², whose logarithm has an r⁴ term a quadratic misses: without it a
+ * 25 % vignetting leaves the corners a few per cent off), with one pass of outlier trimming, and the surface's range over the film is reported
  * as relative gains (1 = the median). The mapper fits one exposure for the whole photo, so a wide
  * range means the model does not explain the photo: pixels in the dim or bright parts can be
  * read at a wrong thickness. With a camera response (picture style) both colours are taken back
@@ -24,18 +26,19 @@ export interface LightEvenness {
   readonly pixelsUsed: number;
   /**
    * The fitted surface: log(relative gain) = Σ c_k·b_k(u, v) − c_median with the basis
-   * 1, u, v, u², uv, v² of u = (x + ½ − width/2)/s, v = (y + ½ − height/2)/s, s = max(width, height)/2
+   * 1, u, v, u², uv, v², r⁴ = (u² + v²)² of u = (x + ½ − width/2)/s, v = (y + ½ − height/2)/s, s = max(width, height)/2
    * (pixel centres; the constant term already holds the median's offset).
    */
   readonly logGainCoefficients: readonly number[];
 }
 
-/** Relative gain of a fitted surface at pixel (x, y) of a width × height photo. */
+/** Relative gain of a fitted surface at pixel (x, y) of a width × height photo (a missing 7th coefficient is 0). */
 export function relativeGainAt(coefficients: readonly number[], width: number, height: number, x: number, y: number): number {
   const half = Math.max(width, height) / 2;
   const u = (x + 0.5 - width / 2) / half;
   const v = (y + 0.5 - height / 2) / half;
-  return Math.exp(coefficients[0] + coefficients[1] * u + coefficients[2] * v + coefficients[3] * u * u + coefficients[4] * u * v + coefficients[5] * v * v);
+  const r2 = u * u + v * v;
+  return Math.exp(coefficients[0] + coefficients[1] * u + coefficients[2] * v + coefficients[3] * u * u + coefficients[4] * u * v + coefficients[5] * v * v + (coefficients[6] ?? 0) * r2 * r2);
 }
 
 export interface LightEvennessInput extends PhotoAndModel {
@@ -51,7 +54,7 @@ const MAX_SAMPLES = 40_000;
 const MIN_SAMPLES = 200;
 /** Model luminance below which the ratio is too noisy to use (dark film, black film). */
 const MIN_MODEL_LUMINANCE = 0.04;
-const TERMS = 6;
+const TERMS = 7;
 
 function linearOf(value: number, encoded: boolean): number {
   return encoded ? decodeSrgb(value < 0 ? 0 : value > 1 ? 1 : value) : value;
@@ -68,6 +71,7 @@ function basis(u: number, v: number, out: Float64Array): void {
   out[3] = u * u;
   out[4] = u * v;
   out[5] = v * v;
+  out[6] = (u * u + v * v) ** 2;
 }
 
 export function lightEvennessOf(input: LightEvennessInput): LightEvenness | null {

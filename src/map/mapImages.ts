@@ -70,8 +70,11 @@ function findScaleRange(result: MapResult): ScaleRange {
     if (seen++ % stride === 0) values[m++] = thicknessNm[i];
   }
   const sample = values.subarray(0, m);
-  const lo = percentileSelect(sample, 0.5);
-  const hi = percentileSelect(sample, 99.5);
+  return roundedRange(percentileSelect(sample, 0.5), percentileSelect(sample, 99.5));
+}
+
+/** A colour-bar range from `lo` to `hi` nm widened to round numbers (about 5 steps). */
+export function roundedRange(lo: number, hi: number): ScaleRange {
   const step = niceStep(Math.max(hi - lo, 1) / 5);
   const minNm = Math.floor(lo / step) * step;
   let maxNm = Math.ceil(hi / step) * step;

@@ -6,13 +6,13 @@
  *   <stem>.thickness.npy (float32 nm, NaN = no estimate), <stem>.thickness.tif (float32),
  *   <stem>.confidence.npy, <stem>.map.png, <stem>.flags.png, <stem>.json, and the report.
  */
-import { type ExposureField, mapWithLightField } from './lightField.js';
+import { type LightFieldStart, mapWithLightField } from './lightField.js';
 import { encodeSrgb } from '../colour/srgb.js';
 import { unlink } from 'node:fs/promises';
 import { basename } from 'node:path';
 import { join } from 'node:path';
 import { resolveLight } from '../colour/index.js';
-import { InputError } from '../errors.js';
+import { InputError, UsageError } from '../errors.js';
 import { readPhoto } from '../io/readPhoto.js';
 import { MAP_MAX_PIXELS } from '../io/limits.js';
 import { writeNpy } from '../io/encodeNpy.js';
@@ -37,8 +37,6 @@ export type MappedPhoto = MapResult & {
   /** The decoded photo's encoded RGB (for the flags image and the report). */
   readonly photoRgb?: Float32Array;
   readonly extra?: Record<string, unknown>;
-  /** The exposure field fitted for uneven light (./lightField.ts), null when one exposure was used. */
-  readonly exposureField?: ExposureField | null;
 };
 
 const tableCache = new Map<string, BuiltColourTable>();
@@ -136,7 +134,7 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
     expectNm: options.expectNm ?? null,
   });
   // Uneven light: the exposure is fitted as a smooth field by alternation (./lightField.ts).
-  const { result, field } = mapWithLightField(rgb, photo.width, photo.height, mapWith, options.lightField ?? 'auto');
+  const { result, field } = mapWithLightField(rgb, photo.width, photo.height, mapWith, options.lightField ?? 'auto', lightFieldStartOf(options, photo.width, photo.height));
   const warnings = [...result.warnings];
   if (built.camera.encoding === 'linear' && photo.bitDepth === 8) {
     warnings.push(
@@ -180,6 +178,8 @@ export interface OutputSelection {
   readonly json: boolean;
   readonly npy: boolean;
   readonly tiff: boolean;
+  /** The map picture's colour range [min, max] nm (a series' common range); default the map's own. */
+  readonly rangeNm?: readonly [number, number] | null;
 }
 
 /**
@@ -241,7 +241,7 @@ async function writeEachOutput(
     start(jsonPath, () => atomicWriteFile(jsonPath, Buffer.from(`${JSON.stringify(json, null, 2)}\n`, 'utf8')));
   }
   if (what.images) {
-    const range = scaleRangeOf(result);
+    const range = what.rangeNm ? { minNm: what.rangeNm[0], maxNm: what.rangeNm[1] } : scaleRangeOf(result);
     const mapPath = join(outDir, `${stem}.map.png`);
     const mapPng = renderMapPng(result, range, options?.pixelSizeUm ?? null, `${basename(photoPath)} — thickness`);
     start(mapPath, async () => atomicWriteFile(mapPath, await mapPng));
@@ -257,8 +257,28 @@ async function writeEachOutput(
   if (failure) throw failure.reason;
 }
 
+/**
+ * Where the light field starts: a calibration's field (applied as it is, on a photo of the size it
+ * was fitted on), else a series' previous frame's field, else nowhere.
+ */
+function lightFieldStartOf(options: MapOptions, width: number, height: number): LightFieldStart | null {
+  const fixed = options.exposureFieldFixed ?? null;
+  if (fixed) {
+    if ((fixed.widthPx !== width || fixed.heightPx !== height) && !fixed.ignoreSizeMismatch) {
+      throw new UsageError(
+        `--calibration ${fixed.file}: its light field was fitted on a ${fixed.widthPx}×${fixed.heightPx} photo, this photo is ${width}×${height}; a field belongs to one camera position and framing (calibrate on a photo of this size, or add --ignore-calibration-mismatch to stretch it over this photo)`,
+      );
+    }
+    return { logGainCoefficients: fixed.logGainCoefficients, flare: options.exposureFixed?.flare ?? [0, 0, 0], response: options.exposureFixed?.response ?? null, use: 'fixed' };
+  }
+  if (options.fieldStart && options.lightField !== 'off') {
+    return { logGainCoefficients: options.fieldStart, flare: options.fitStart?.flare ?? [0, 0, 0], response: options.fitStart?.response ?? null, use: 'start' };
+  }
+  return null;
+}
+
 /** sRGB-encodes a linear photo's values (a copy in shared memory, for the mapper's threads). */
-function encodeLinearPhoto(linear: Float32Array): Float32Array {
+export function encodeLinearPhoto(linear: Float32Array): Float32Array {
   const out = new Float32Array(new SharedArrayBuffer(linear.length * 4));
   for (let i = 0; i < linear.length; i++) out[i] = encodeSrgb(linear[i] < 0 ? 0 : linear[i] > 1 ? 1 : linear[i]);
   return out;

@@ -7,12 +7,13 @@
 import { basename } from 'node:path';
 import { encodePng } from '../io/encodeImage.js';
 import { makeReportGrid } from '../report/makeReportGrid.js';
-import type { MapReportInput } from '../report/types.js';
+import type { MapReportInput, ReportLight } from '../report/types.js';
 import { colourScaleStops } from './colourScale.js';
 import { mapRaster, paintFilmOutline, type ScaleRange, scaleRangeOf } from './mapImages.js';
 import type { MappedPhoto } from './mapPhoto.js';
 import { filmAreaOf, mapResultJson } from './mapResultJson.js';
 import type { MapOptions } from './types.js';
+import { relativeGainAt } from './lightEvenness.js';
 
 const MAX_PICTURE_SIDE = 1200;
 
@@ -61,8 +62,29 @@ export async function mapReportInput(
     warnings: [...result.warnings],
     filmArea: { ...filmArea, excludedPx: { ...filmArea.excludedPx } },
     fitQuality: result.fitQuality ? { ...result.fitQuality } : null,
+    light: reportLightOf(result),
     ...(notes.length > 0 ? { downsampleNote: notes.join('; ') } : {}),
   };
+}
+
+/** The light field sampled at the centres of a grid of about 24 cells on the photo's longer side. */
+function reportLightOf(result: MappedPhoto): ReportLight {
+  const field = result.exposureField ?? null;
+  const evenness = result.lightEvenness ? { gainMin: result.lightEvenness.gainMin, gainMax: result.lightEvenness.gainMax } : null;
+  if (!field) return { field: null, evenness };
+  const { width, height } = result;
+  const cellPx = Math.max(width, height) / 24;
+  const gridWidth = Math.max(1, Math.round(width / cellPx));
+  const gridHeight = Math.max(1, Math.round(height / cellPx));
+  const relativeGain: number[] = [];
+  for (let gy = 0; gy < gridHeight; gy++) {
+    for (let gx = 0; gx < gridWidth; gx++) {
+      const x = ((gx + 0.5) * width) / gridWidth - 0.5;
+      const y = ((gy + 0.5) * height) / gridHeight - 0.5;
+      relativeGain.push(relativeGainAt(field.logGainCoefficients, width, height, x, y));
+    }
+  }
+  return { field: { gridWidth, gridHeight, relativeGain, gainMin: field.gainMin, gainMax: field.gainMax, rounds: field.rounds, source: field.source }, evenness };
 }
 
 /**

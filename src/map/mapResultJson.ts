@@ -4,10 +4,9 @@
  * model fits, and warnings. Field names are snake_case with units in the name; null means "not
  * available".
  */
-import type { ExposureField } from './lightField.js';
 import { basename } from 'node:path';
 import { IDENTITY_RESPONSE, TONE_FAMILY } from '../colour/toneResponse.js';
-import { type FilmAreaSummary, type MapOptions, type MapResult, PixelStatus } from './types.js';
+import { type ExposureField, type FilmAreaSummary, type MapOptions, type MapResult, PixelStatus } from './types.js';
 
 /** Pixels by status (JSON `pixel_counts`); `unknown` only when some code is none of PixelStatus. */
 export interface PixelCounts {
@@ -84,7 +83,7 @@ export function filmAreaJson(area: FilmAreaSummary): Record<string, unknown> {
 export const MAP_RECORD_VERSION = 1;
 
 export function mapResultJson(
-  result: MapResult & { readonly extra?: Record<string, unknown>; readonly exposureField?: ExposureField | null },
+  result: MapResult & { readonly extra?: Record<string, unknown> },
   options: MapOptions,
   photoPath: string,
 ): Record<string, unknown> {
@@ -147,16 +146,7 @@ export function mapResultJson(
     film_area: filmAreaJson(filmArea),
     fit_quality: result.fitQuality ? { ...result.fitQuality } : null,
     // The exposure fitted as a smooth field for uneven light (./lightField.ts), null when one exposure was used.
-    exposure_field: result.exposureField
-      ? {
-          model: 'log relative gain = quadratic in u, v (pixel centre minus photo centre, over half the longer side)',
-          log_gain_coefficients: result.exposureField.logGainCoefficients.map((c) => Math.round(c * 1e6) / 1e6),
-          terms: ['1', 'u', 'v', 'u²', 'uv', 'v²'],
-          relative_gain_min: round(result.exposureField.gainMin),
-          relative_gain_max: round(result.exposureField.gainMax),
-          rounds: result.exposureField.rounds,
-        }
-      : null,
+    exposure_field: exposureFieldJson(result.exposureField ?? null),
     light_evenness: result.lightEvenness
       ? { relative_gain_min: round(result.lightEvenness.gainMin), relative_gain_max: round(result.lightEvenness.gainMax), pixels_used: result.lightEvenness.pixelsUsed }
       : null,
@@ -195,6 +185,23 @@ export function responseJson(fitted: MapResult['fitted'], options: Pick<MapOptio
 function round4(value: number): number {
   return Math.round(value * 1e4) / 1e4;
 }
+
+/** The JSON form of a light field (./lightField.ts), shared by map records and calibration files. */
+export function exposureFieldJson(field: ExposureField | null): Record<string, unknown> | null {
+  if (!field) return null;
+  return {
+    model: 'log relative gain = quadratic in u, v plus a radial r⁴ term (u, v: pixel centre minus photo centre, over half the longer side)',
+    log_gain_coefficients: field.logGainCoefficients.map((c) => Math.round(c * 1e6) / 1e6),
+    terms: [...EXPOSURE_FIELD_TERMS],
+    relative_gain_min: round(field.gainMin),
+    relative_gain_max: round(field.gainMax),
+    rounds: field.rounds,
+    source: field.source === 'calibration' ? 'calibration file (applied as it is)' : 'fitted to this photo',
+  };
+}
+
+/** Names of the light field's basis terms, in the order of its coefficients. */
+export const EXPOSURE_FIELD_TERMS = ['1', 'u', 'v', 'u²', 'uv', 'v²', 'r⁴'] as const;
 
 function round(value: number): number {
   return Math.round(value * 100) / 100;

@@ -137,10 +137,47 @@ export interface MapOptions {
   /** `auto` (default): fit the exposure as a smooth field when the light is uneven (./lightField.ts); `off`: one exposure. */
   readonly lightField?: 'auto' | 'off';
   /**
+   * A light field fixed by a calibration (src/calibrate): divided out of the photo before the
+   * map, not refitted. Its photo size must match the photo's unless `ignoreSizeMismatch`.
+   */
+  readonly exposureFieldFixed?: FixedExposureField | null;
+  /**
+   * Previous frame's fitted light field (log-gain coefficients) in a series: this frame starts
+   * from it and refines it; ignored with `exposureFieldFixed`.
+   */
+  readonly fieldStart?: readonly number[] | null;
+  /**
    * `--expect MIN-MAX`: the thickness range the film is known to lie in (nm); orders and the fit
    * are restricted to it; pixels that fit only outside it are reported, not forced.
    */
   readonly expectNm?: readonly [number, number] | null;
+}
+
+/**
+ * The exposure as a smooth field over the photo (./lightField.ts): relative gain
+ * exp(Σ c_k·b_k(u, v)) on the basis 1, u, v, u², uv, v², r⁴ of ./lightEvenness.ts (`relativeGainAt`).
+ */
+export interface ExposureField {
+  readonly logGainCoefficients: readonly number[];
+  /** Lowest and highest relative gain over the photo's film (median 1; 1st/99th percentiles). */
+  readonly gainMin: number;
+  readonly gainMax: number;
+  /** Alternation rounds run on this photo (0 for a field applied from a calibration). */
+  readonly rounds: number;
+  /** Where the field came from: fitted on this photo, or a calibration file applied as it is. */
+  readonly source: 'photo' | 'calibration';
+}
+
+/** A calibration's light field, as `map --calibration` applies it. */
+export interface FixedExposureField {
+  readonly logGainCoefficients: readonly number[];
+  /** Size of the photo the field was fitted on. */
+  readonly widthPx: number;
+  readonly heightPx: number;
+  /** The calibration file (for messages). */
+  readonly file: string;
+  /** Apply it to a photo of another size anyway (on the photo's normalised coordinates). */
+  readonly ignoreSizeMismatch: boolean;
 }
 
 export interface ThinRegion {
@@ -196,4 +233,6 @@ export interface MapResult {
   readonly fitQuality?: FitQuality | null;
   /** How evenly the film was lit, relative to the one fitted exposure (./lightEvenness.ts); null when not measured. */
   readonly lightEvenness?: { readonly gainMin: number; readonly gainMax: number; readonly pixelsUsed: number; readonly logGainCoefficients: readonly number[] } | null;
+  /** The exposure fitted as a smooth field for uneven light, null when one exposure was used. */
+  readonly exposureField?: ExposureField | null;
 }

@@ -2,12 +2,14 @@
  * The sections of a map report (also embedded in a series report for its chosen frame):
  * key figures, photo and map side by side with the pointer readout and colour bar, histogram,
  * column profile, thin regions (table and outlines on the map), the film area and fit quality,
+ * the light on the film (its fitted field as a small picture),
  * statistics and parameters. A map that found no film says so instead of giving statistics.
  */
 import { checkColourStops, colourAtNm } from './colourRamp.js';
 import { encodeFloat32Base64 } from './encodeFloat32Base64.js';
 import { escapeHtml } from './escapeHtml.js';
 import { NO_FILM_TEXT, renderFilmAreaCard } from './filmAreaSection.js';
+import { renderLightCard } from './lightSection.js';
 import { formatFixed, formatNm, formatPercent } from './formatNumber.js';
 import { imageDataUri } from './imageDataUri.js';
 import { niceDomain } from './niceTicks.js';
@@ -121,8 +123,8 @@ ${options.parameterTables ? renderParameterSections(input.settings, input.calibr
 </div>`;
 
   return {
-    sections: [`<div class="tiles">${tiles.join('')}</div>`, view, renderFilmAreaCard(area, fitQuality, W * H), charts, regions, tables],
-    nav: [['map-view', 'Map'], ['film-area', 'Film area'], ['histogram', 'Histogram'], ['profile', 'Profile'], ['thin-regions', 'Thin regions'],
+    sections: [`<div class="tiles">${tiles.join('')}</div>`, view, renderFilmAreaCard(area, fitQuality, W * H), renderLightCard(input.light), charts, regions, tables],
+    nav: [['map-view', 'Map'], ['film-area', 'Film area'], ...(input.light ? [['light', 'Light'] as [string, string]] : []), ['histogram', 'Histogram'], ['profile', 'Profile'], ['thin-regions', 'Thin regions'],
       ['statistics', 'Statistics'], ...(options.parameterTables ? [['settings', 'Settings'] as [string, string]] : [])],
     data: {
       'lamella-map-data': {

@@ -5,6 +5,7 @@
 import { checkRecord, checkString, checkStringArray } from './checkInput.js';
 import { checkHistogram } from './svgHistogram.js';
 import { checkFilmArea, checkFitQuality } from './filmAreaSection.js';
+import { checkReportLight } from './lightSection.js';
 import { renderMapSections } from './mapSections.js';
 import { renderPage } from './pageShell.js';
 import type { MapReportInput } from './types.js';
@@ -24,6 +25,7 @@ export function checkMapReportInput(input: MapReportInput, name = 'input'): void
   checkStringArray(input.warnings, `${name}.warnings`);
   checkFilmArea(input.filmArea, `${name}.filmArea`);
   checkFitQuality(input.fitQuality, `${name}.fitQuality`);
+  checkReportLight(input.light, `${name}.light`);
 }
 
 /** Full HTML document (UTF-8 text) of a map report. */

@@ -14,7 +14,7 @@ import { renderPage } from './pageShell.js';
 import { checkMapReportInput } from './renderMapReport.js';
 import { describeRuptureLine, formatSecondsShort, renderDrainageChart, renderThinFractionChart, ruptureColour } from './seriesCharts.js';
 import { renderFitsTable, renderFramesTable } from './seriesTables.js';
-import type { DrainageFitSummary, SeriesFrameRow, SeriesReportInput, SeriesRupture } from './types.js';
+import type { DrainageFitSummary, ReportSeriesObservations, SeriesFrameRow, SeriesReportInput, SeriesRupture } from './types.js';
 
 export function checkSeriesReportInput(input: SeriesReportInput): void {
   checkRecord(input, 'input');
@@ -77,6 +77,28 @@ function crossingTile(crossing: DrainageFitSummary['crossing']): string {
   return tile(label, `${formatFixed(crossing.timeS, 1)} s`, crossing.extrapolated, note);
 }
 
+/** The observed figures first (first thin region, recent thinning), then reliable predictions only. */
+function observationTiles(o: ReportSeriesObservations): string[] {
+  const tiles = [
+    o.first_thin
+      ? tile('First thin region', `${formatFixed(o.first_thin.time_s, 1)} s`, true, `frame ${o.first_thin.frame}`)
+      : tile('First thin region', 'none', false, 'no frame has a thin region'),
+  ];
+  const r = o.recent_thinning;
+  if (r) {
+    tiles.push(tile('Recent thinning', `${formatFixed(-r.rate_nm_per_s, 2)} nm/s`, false,
+      `mean thickness, last ${r.frames} frames (${formatFixed(r.from_s, 1)}–${formatFixed(r.to_s, 1)} s)${r.standard_error_nm_per_s === null ? '' : ` · ±${formatFixed(r.standard_error_nm_per_s, 2)}`}`));
+  }
+  for (const p of o.predictions) {
+    const label = `${p.quantity === 'min' ? 'Minimum' : 'Mean'} reaches ${formatFixed(p.threshold_nm, 0)} nm`;
+    if (p.time_s === null) tiles.push(tile(label, 'no reliable prediction', false, p.reason ?? ''));
+    else if (p.reason) tiles.push(tile(label, `${formatFixed(p.time_s, 1)} s`, false, p.reason));
+    else tiles.push(tile(label, `≈ ${formatFixed(p.time_s, 1)} s`, p.extrapolated,
+      `the laws agree: ${formatFixed(p.range_s![0], 1)}–${formatFixed(p.range_s![1], 1)} s${p.extrapolated ? ' · extrapolated beyond the last frame' : ''}`));
+  }
+  return tiles;
+}
+
 /** Full HTML document (UTF-8 text) of a series report. */
 export function renderSeriesReport(input: SeriesReportInput): string {
   checkSeriesReportInput(input);
@@ -87,14 +109,18 @@ export function renderSeriesReport(input: SeriesReportInput): string {
   const lastFilm = ([...frames].reverse().find((f) => f.filmFound !== false) ?? last) as SeriesFrameRow | undefined;
   const lastNote = rupture && lastFilm ? `${lastFilm.frame}, before the rupture` : '';
   const crossingFit = input.fits.find((f) => f.crossing && f.crossing.timeS !== null) ?? input.fits.find((f) => f.crossing);
+  const observations = input.observations ?? null;
+  const ruptureTile = rupture
+    ? [tile('Rupture', `${formatSecondsShort(rupture.timeS)} s`, true, `between ${formatSecondsShort(rupture.lastTimeS)} and ${formatSecondsShort(rupture.firstTimeS)} s`)]
+    : [];
+  // What the frames show leads; a prediction follows only where the drainage laws agree.
   const tiles = [
+    ...(observations ? [observationTiles(observations)[0], ...ruptureTile, ...observationTiles(observations).slice(1)] : ruptureTile),
     tile('Frames', String(frames.length)),
     tile('Time span', frames.length === 0 ? '—' : `${formatFixed(frames[0].timeS, 0)}–${formatFixed(last?.timeS, 0)} s`),
     tile('Last median', formatNm(lastFilm?.medianNm ?? null), false, lastNote),
     tile('Last minimum', formatNm(lastFilm?.minNm ?? null), false, lastNote),
-    ...(rupture ? [tile('Rupture', `${formatSecondsShort(rupture.timeS)} s`, true,
-      `between ${formatSecondsShort(rupture.lastTimeS)} and ${formatSecondsShort(rupture.firstTimeS)} s`)] : []),
-    crossingTile(crossingFit?.crossing ?? null),
+    ...(observations ? [] : [crossingTile(crossingFit?.crossing ?? null)]),
   ];
   const thinChart = renderThinFractionChart(frames, rupture);
   const sections = [

@@ -61,6 +61,23 @@ export interface MapReportInput {
   filmArea?: ReportFilmArea | null;
   /** Optional: how well the model explains the film's colours (the JSON `fit_quality`). */
   fitQuality?: ReportFitQuality | null;
+  /** Optional: the light field and the light's evenness (the JSON `exposure_field`, `light_evenness`). */
+  light?: ReportLight | null;
+}
+
+/** The light on the film: the exposure field sampled on a coarse grid over the photo, and the evenness left. */
+export interface ReportLight {
+  field: {
+    gridWidth: number;
+    gridHeight: number;
+    /** Row-major relative gain at the centre of each grid cell (median over the film = 1). */
+    relativeGain: number[];
+    gainMin: number;
+    gainMax: number;
+    rounds: number;
+    source: 'photo' | 'calibration';
+  } | null;
+  evenness: { gainMin: number; gainMax: number } | null;
 }
 
 /** The film area of a map, as in the JSON `film_area` block (`FilmAreaSummary` of src/map/types.ts). */
@@ -142,4 +159,13 @@ export interface SeriesReportInput {
   rupture?: SeriesRupture | null;
   /** The full map view for the last (or a chosen) frame. */
   lastMap?: MapReportInput;
+  /** Optional: what the frames observed and the reliable predictions (`series.json` `observations`); they lead the page. */
+  observations?: ReportSeriesObservations | null;
+}
+
+/** As `series.json` `observations` (src/series/observations.ts). */
+export interface ReportSeriesObservations {
+  first_thin: { frame: string; time_s: number } | null;
+  recent_thinning: { rate_nm_per_s: number; standard_error_nm_per_s: number | null; frames: number; from_s: number; to_s: number } | null;
+  predictions: ReadonlyArray<{ quantity: 'mean' | 'min'; threshold_nm: number; time_s: number | null; range_s: readonly [number, number] | null; extrapolated: boolean; reason: string | null }>;
 }

@@ -10,12 +10,15 @@ import { glob } from 'tinyglobby';
 import { compareNatural } from './naturalOrder.js';
 import { isImageFileName } from './imageExtensions.js';
 import type { FrameJob } from './types.js';
-import { InputError } from '../errors.js';
+import { InputError, UsageError } from '../errors.js';
+import { containerFrameJobs, containerOf, type ContainerInput } from './containerFrames.js';
 
 export interface ExpandedInputs {
   readonly frames: FrameJob[];
   /** Inputs that matched nothing, and duplicates removed, as one-line warnings. */
   readonly warnings: string[];
+  /** Set when the input is one video file or multi-page stack (./containerFrames.ts). */
+  readonly container?: ContainerInput;
 }
 
 /** True when `input` uses glob syntax (*, ?, [ ], { }, a leading !). */
@@ -62,6 +65,18 @@ export async function expandInputs(inputs: readonly string[], cwd: string = proc
     }
   }
   const unique = [...new Set(found)];
+  // A video or a multi-page stack is a series of its own.
+  for (const path of unique) {
+    const container = await containerOf(path);
+    if (!container) continue;
+    if (unique.length > 1) {
+      throw new UsageError(
+        `${basename(path)} is a ${container.kind === 'video' ? 'video' : 'multi-page image stack'} of ${container.frameCount} frames: map it on its own (one video or stack per series), not with ${unique.length - 1} other input file(s)`,
+      );
+    }
+    if (container.frameCount === 0) throw new InputError(path, 'holds no frames');
+    return { frames: containerFrameJobs(container), warnings, container };
+  }
   if (unique.length < found.length) warnings.push(`${found.length - unique.length} input file(s) named more than once were taken once`);
   unique.sort((a, b) => compareNatural(basename(a), basename(b)) || compareNatural(a, b));
   const byStem = new Map<string, string>();

@@ -1,7 +1,8 @@
 /**
  * Where a series keeps its per-frame results inside OUT, and when a frame counts as done.
  * Layout: `OUT/frames/<stem>.json` (FrameRecord, written last), `<stem>.thickness.npy` (float32 nm,
- * NaN = no estimate), `<stem>.status.npy` (uint8 PixelStatus codes, src/map/types.ts), and with
+ * NaN = no estimate), `<stem>.status.npy` (uint8 PixelStatus codes, src/map/types.ts),
+ * `<stem>.confidence.npy` (float32 0..1), and with
  * previews the images the processor writes (`<stem>.map.png`, `<stem>.flags.png`). Work in
  * progress lives in `OUT/frames/.partial-<pid>-<thread>-<stem>/` until it is moved into place.
  */
@@ -20,8 +21,8 @@ export function frameJsonPath(outDir: string, stem: string): string {
   return join(framesDir(outDir), `${stem}.json`);
 }
 
-export function frameNpyPath(outDir: string, stem: string): string {
-  return join(framesDir(outDir), `${stem}.thickness.npy`);
+export function frameNpyPath(outDir: string, stem: string, what: 'thickness' | 'status' | 'confidence' = 'thickness'): string {
+  return join(framesDir(outDir), `${stem}.${what}.npy`);
 }
 
 async function exists(path: string): Promise<boolean> {

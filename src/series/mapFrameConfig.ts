@@ -4,7 +4,7 @@
  * each worker rebuilds it from the same CLI stack options.
  */
 import type { StackCliOptions } from '../optics/stackSettings.js';
-import type { ExposureParameters, FilmAreaMode } from '../map/types.js';
+import type { ExposureParameters, FilmAreaMode, FixedExposureField } from '../map/types.js';
 
 export interface MapFrameConfig {
   readonly stackOptions: StackCliOptions;
@@ -16,6 +16,12 @@ export interface MapFrameConfig {
   readonly maxThicknessNm: number;
   readonly filmIndexScale: number | null;
   readonly exposureFixed: ExposureParameters | null;
+  /** The calibration's light field (MapOptions.exposureFieldFixed), if any. */
+  readonly exposureFieldFixed?: FixedExposureField | null;
+  /** `--range`: the colour range of the frame previews [min, max] nm (absent: each frame's own, redrawn in the series' range at aggregation). */
+  readonly rangeNm?: readonly [number, number] | null;
+  /** `--light-field` (MapOptions.lightField; absent = auto). */
+  readonly lightField?: 'auto' | 'off';
   /** Film area, as for `lamella map`: a rectangle x, y, w, h or a mask image path (optional). */
   readonly region?: readonly [number, number, number, number] | null;
   readonly maskPath?: string | null;

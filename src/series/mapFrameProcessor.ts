@@ -4,11 +4,14 @@
  * (`MAP_FRAME_PROCESSOR_URL` in ./mapFrameConfig.ts) and call `createFrameProcessor(config)`.
  */
 import { stackFromOptions } from '../optics/stackSettings.js';
-import { mapPhotoFile, writeMapOutputs, type MappedPhoto } from '../map/mapPhoto.js';
+import { encodeLinearPhoto, mapDecodedPhoto, mapPhotoFile, readMask, writeMapOutputs, type MappedPhoto } from '../map/mapPhoto.js';
+import { thicknessHistogram } from '../map/statistics.js';
+import { InputError } from '../errors.js';
 import { mapReportInput } from '../map/mapReportInput.js';
 import type { MapOptions } from '../map/types.js';
 import type { MapFrameConfig } from './mapFrameConfig.js';
-import type { FrameProcessor } from './types.js';
+import type { FrameProcessor, StoredFrame } from './types.js';
+import { scaleRangeOf } from '../map/mapImages.js';
 
 export function mapOptionsFromConfig(config: MapFrameConfig): MapOptions {
   // The film index scale goes to the mapper only (it scales the film index when building its
@@ -24,6 +27,8 @@ export function mapOptionsFromConfig(config: MapFrameConfig): MapOptions {
     thinBelowNm: config.thinBelowNm,
     maxThicknessNm: config.maxThicknessNm,
     exposureFixed: config.exposureFixed,
+    exposureFieldFixed: config.exposureFieldFixed ?? null,
+    lightField: config.lightField ?? 'auto',
     region: config.region ?? null,
     maskPath: config.maskPath ?? null,
     anchors: config.anchors ?? [],
@@ -35,12 +40,58 @@ export function mapOptionsFromConfig(config: MapFrameConfig): MapOptions {
   };
 }
 
+/** A frame's stored result as a map result (for its report view and its preview). */
+function storedResult(stored: StoredFrame): MappedPhoto {
+  const { record } = stored;
+  return {
+    width: record.width,
+    height: record.height,
+    thicknessNm: stored.thicknessNm,
+    confidence: stored.confidence,
+    status: stored.status,
+    fitted: record.fitted,
+    stats: record.stats,
+    histogram: thicknessHistogram(stored.thicknessNm, stored.status, record.stats.min_nm, record.stats.max_nm),
+    thinRegions: record.thinRegions,
+    darkLimitNm: record.darkLimitNm,
+    warnings: record.warnings,
+    ...(record.filmArea ? { filmArea: record.filmArea } : {}),
+    fitQuality: record.fitQuality ?? null,
+    lightEvenness: record.lightEvenness ?? null,
+    exposureField: record.exposureField ?? null,
+  };
+}
+
 export async function createFrameProcessor(config: MapFrameConfig): Promise<FrameProcessor> {
   const base = mapOptionsFromConfig(config);
+  let mask: { width: number; height: number; pixels: Promise<Uint8Array> } | null = null;
+  const maskFor = (width: number, height: number): Promise<Uint8Array> | null => {
+    if (!base.maskPath) return null;
+    if (!mask || mask.width !== width || mask.height !== height) mask = { width, height, pixels: readMask(base.maskPath, width, height) };
+    return mask.pixels;
+  };
   return {
-    map: (framePath, prior, previousFit) => mapPhotoFile(framePath, { ...base, prior, fitStart: previousFit ?? null }, { allowDamaged: config.allowDamaged === true }),
-    writePreviews: (result, framePath, dir, stem) =>
-      writeMapOutputs(result, framePath, dir, stem, { images: true, json: false, npy: false, tiff: false }, base),
+    mapPhoto: async (photo, name, prior, previousFit, previousField) => {
+      if (prior && prior.length !== photo.width * photo.height) throw new InputError(name, `frame is ${photo.width}×${photo.height}, a different size from the previous frame`);
+      const pixels = maskFor(photo.width, photo.height);
+      return mapDecodedPhoto(photo, { ...base, prior, fitStart: previousFit ?? null, fieldStart: previousField ?? null }, pixels ? await pixels : null, name);
+    },
+    map: (framePath, prior, previousFit, previousField) =>
+      mapPhotoFile(framePath, { ...base, prior, fitStart: previousFit ?? null, fieldStart: previousField ?? null }, { allowDamaged: config.allowDamaged === true }),
+    writePreviews: async (result, framePath, dir, stem) => {
+      const range = config.rangeNm ?? null;
+      await writeMapOutputs(result, framePath, dir, stem, { images: true, json: false, npy: false, tiff: false, rangeNm: range }, base);
+      const used = range ?? [scaleRangeOf(result).minNm, scaleRangeOf(result).maxNm];
+      return { rangeNm: [used[0], used[1]] as [number, number] };
+    },
     mapReportInput: (result, framePath) => mapReportInput(result as MappedPhoto, base, framePath),
+    storedReportInput: (stored, photo, framePath) => {
+      // The photo as the mapper saw it: a linear camera's values sRGB-encoded (mapPhoto.ts).
+      const photoRgb = base.camera && base.camera !== 'srgb' ? encodeLinearPhoto(photo.rgb) : photo.rgb;
+      return mapReportInput({ ...storedResult(stored), photoRgb }, { ...base, prior: null }, framePath);
+    },
+    renderStoredPreview: async (stored, framePath, dir, stem, rangeNm) => {
+      await writeMapOutputs(storedResult(stored), framePath, dir, stem, { images: true, json: false, npy: false, tiff: false, rangeNm }, base);
+    },
   };
 }

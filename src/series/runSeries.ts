@@ -5,11 +5,13 @@
  * Writes files, never prints; progress and problems come back through callbacks and the result.
  */
 import { mkdir } from 'node:fs/promises';
-import { join, resolve, sep } from 'node:path';
+import { basename, join, resolve, sep } from 'node:path';
 import { atomicWriteFile } from '../io/atomicWriteFile.js';
 import { expandInputs, type ExpandedInputs } from './expandInputs.js';
 import { ensureOutputDir } from '../io/ensureOutputDir.js';
-import { probeFrames, type ReadFrameHeader } from './probeFrames.js';
+import { probeFrames, type ProbedFrames, type ReadFrameHeader } from './probeFrames.js';
+import { containerFingerprint, containerFrameSource, type ContainerInput } from './containerFrames.js';
+import { UsageError } from '../errors.js';
 import { assignFrameTimes } from './frameTimes.js';
 import { chunkFrames, shardChunks } from './chunkFrames.js';
 import type { Shard } from './parseShard.js';
@@ -25,22 +27,27 @@ import { fitSeriesDrainage } from './fits/fitSeriesDrainage.js';
 import { findRupture, rowHasFilm } from './rupture.js';
 import { renderSeriesReport } from '../report/renderSeriesReport.js';
 import { seriesReportInput } from './seriesReportInput.js';
-import { lastFrameView } from './lastFrameView.js';
+import { lastFrameView, processorOf } from './lastFrameView.js';
+import { redrawPreviews, seriesRangeOf } from './seriesPreviews.js';
 import type { MapReportInput } from '../report/types.js';
 import { seriesSummary, type SeriesSummary } from './seriesSummary.js';
-import type { FrameEvent, FrameProcessor, ProcessorSource, SeriesProgress } from './types.js';
+import type { FrameEvent, FrameJob, FrameProcessor, ProcessorSource, SeriesProgress } from './types.js';
 
 export const DEFAULT_CHUNK_FRAMES = 10;
 /** The aggregate outputs in OUT, replaced as one set. */
 export const AGGREGATE_OUTPUTS = ['series.csv', 'series.json', 'report.html'] as const;
 /** Per-frame outputs in OUT/frames (./frameFiles.ts). */
-const FRAME_SUFFIXES = ['.json', '.thickness.npy', '.status.npy', '.map.png', '.flags.png'];
+const FRAME_SUFFIXES = ['.json', '.thickness.npy', '.status.npy', '.confidence.npy', '.map.png', '.flags.png'];
 
 export interface SeriesOptions {
   readonly inputs: readonly string[];
   readonly outDir: string;
   readonly fps?: number | null;
   readonly intervalS?: number | null;
+  /** `--range`: the previews' colour range [min, max] nm; default the series' own (./seriesPreviews.ts). */
+  readonly rangeNm?: readonly [number, number] | null;
+  /** Frames to take: times from `startS` to `endS` (seconds, inclusive), then every `every`-th of them. */
+  readonly select?: { readonly startS?: number | null; readonly endS?: number | null; readonly every?: number | null } | null;
   readonly thinBelowNm: number | null;
   /** Frames per chunk (prior chains restart at each chunk); default DEFAULT_CHUNK_FRAMES. */
   readonly chunkFrames?: number;
@@ -109,24 +116,39 @@ export async function runSeries(options: SeriesOptions): Promise<SeriesResult> {
     throw new RangeError(`inputs ${list}: no image frames found${expanded.warnings.length ? ` (${expanded.warnings.join('; ')})` : ''}`);
   }
   const warnings = [...expanded.warnings];
-  const probed = await probeFrames(expanded.frames, options.readHeader);
+  const container = expanded.container ?? null;
+  const probed = container ? containerProbe(expanded.frames, container) : await probeFrames(expanded.frames, options.readHeader);
   const failures = [...probed.messages];
+  if (container?.damage) {
+    failures.push(`${basename(container.path)}: the video is truncated or damaged (FFmpeg: ${container.damage}); the ${container.frameCount} frame(s) before the damage are mapped`);
+  }
   if (probed.readable.length === 0) throw new RangeError(`inputs ${options.inputs.join(' ')}: none of the ${expanded.frames.length} frames could be read (${failures[0]})`);
-  const timing = assignFrameTimes(
-    probed.readable.map(({ frame, header }) => ({ name: frame.name, exifTimeMs: header.exifTimeMs, exifProblem: header.exifProblem ?? null })),
-    options.fps ?? null,
-    options.intervalS ?? null,
-  );
+  const fromFile = container !== null && container.timesS !== null && options.fps == null && options.intervalS == null;
+  if (container !== null && container.timesS === null && options.fps == null && options.intervalS == null) {
+    throw new UsageError(`${basename(container.path)} is an image stack without frame times: give --fps or --interval`);
+  }
+  const timing = fromFile
+    ? { timesS: container!.timesS!, source: 'video' as const, warnings: [] as string[] }
+    : assignFrameTimes(
+        probed.readable.map(({ frame, header }) => ({ name: frame.name, exifTimeMs: header.exifTimeMs, exifProblem: header.exifProblem ?? null })),
+        options.fps ?? null,
+        options.intervalS ?? null,
+      );
   warnings.push(...timing.warnings);
   // Timed by a frame rate, a frame keeps its place in the input list: an unreadable frame leaves
   // its gap in time instead of shifting every later frame one step earlier.
   const stepS = timing.source === 'fps' ? (options.fps ? 1 / options.fps : (options.intervalS ?? null)) : null;
-  const timed = probed.readable
-    .map(({ frame }, i) => ({ frame, timeS: stepS !== null ? frame.index * stepS : timing.timesS[i] }))
-    .filter(({ frame }) => !probed.wrongSize.has(frame.index));
+  const timed = selectFrames(
+    probed.readable
+      .map(({ frame }, i) => ({ frame, timeS: stepS !== null ? frame.index * stepS : timing.timesS[i] }))
+      .filter(({ frame }) => !probed.wrongSize.has(frame.index)),
+    options.select ?? null,
+  );
+  if (timed.length === 0) throw new UsageError(`--start/--end/--every leave no frame of the ${probed.readable.length}`);
   // Each frame's own file, by content: a replaced photo is mapped again.
+  const containerFile = container ? await containerFingerprint(container.path) : null;
   for (const t of timed) {
-    const source = await fingerprintFrame(t.frame.path);
+    const source = t.frame.container ? (containerFile ? containerFrameSource(containerFile, t.frame.container.index) : null) : await fingerprintFrame(t.frame.path);
     if (source) t.frame = { ...t.frame, source };
   }
   const frames = timed.map((t) => t.frame);
@@ -185,13 +207,25 @@ export async function runSeries(options: SeriesOptions): Promise<SeriesResult> {
   if (aborted()) return interrupted;
   const collected = await collectSeriesRows(outDir, frames, timed.map((t) => t.timeS), hash);
   if (collected.stale.length > 0) warnings.push(`${collected.stale.length} frame(s) have results from other settings or another photo file (e.g. ${collected.stale[0]}); they are left out until mapped again`);
+  // Previews in one colour range for the whole series (given, or the series' own).
+  let previewRangeNm: readonly [number, number] | null = null;
+  if (options.previews && collected.rows.length > 0) {
+    const current = frames.filter((f) => collected.rows.some((r) => r.frame === f.name));
+    const records = (await Promise.all(current.map((f) => readFrameRecord(outDir, f.stem)))).filter((r): r is NonNullable<typeof r> => r !== null);
+    previewRangeNm = options.rangeNm ?? seriesRangeOf(records);
+    if (previewRangeNm) await redrawPreviews(outDir, current, previewRangeNm, await processorOf(options.processor), aborted);
+    if (aborted()) return interrupted;
+  }
   // Rupture and fits from the aggregated rows only, so shards + aggregation give a single run's record.
   const film = findRupture(collected.rows);
   warnings.push(...film.warnings);
   const drainage = fitSeriesDrainage(collected.rows, options.thinBelowNm, film);
   warnings.push(...drainage.warnings);
   const summary = seriesSummary({
-    settings: { ...options.mapSettings, thinBelowNm: options.thinBelowNm, chunkFrames: chunkSize, timeSource: timing.source, settingsHash: hash },
+    settings: {
+      ...options.mapSettings, thinBelowNm: options.thinBelowNm, chunkFrames: chunkSize, timeSource: timing.source, settingsHash: hash,
+      ...(previewRangeNm ? { previewRangeNm: [...previewRangeNm], previewRangeSource: options.rangeNm ? '--range' : 'the series (lowest 5th to highest 95th percentile)' } : {}),
+    },
     calibration: options.calibration ?? null,
     frames: frames.length,
     rows: collected.rows,
@@ -241,6 +275,25 @@ export async function runSeries(options: SeriesOptions): Promise<SeriesResult> {
   // A signal that came after the swap: the new set is whole; the run still reports the signal.
   if (aborted()) return { ...interrupted, summary, outputs };
   return { interrupted: false, summary, failures, warnings, events: run.events, outputs };
+}
+
+/** A container's frames all readable at the container's size (a frame that differs fails when decoded). */
+function containerProbe(frames: readonly FrameJob[], container: ContainerInput): ProbedFrames {
+  return {
+    readable: frames.map((frame) => ({ frame, header: { width: container.width, height: container.height, exifTimeMs: null } })),
+    size: { width: container.width, height: container.height },
+    wrongSize: new Set(),
+    messages: [],
+  };
+}
+
+/** Frames within [startS, endS], then every n-th of those (the first kept). */
+function selectFrames<T extends { timeS: number }>(frames: T[], select: SeriesOptions['select']): T[] {
+  if (!select) return frames;
+  const tolerance = 1e-9;
+  const inRange = frames.filter((f) => (select.startS == null || f.timeS >= select.startS - tolerance) && (select.endS == null || f.timeS <= select.endS + tolerance));
+  const every = select.every ?? 1;
+  return every > 1 ? inRange.filter((_, i) => i % every === 0) : inRange;
 }
 
 /** Drops inputs inside OUT/frames (previews of an earlier run picked up by a broad glob). */

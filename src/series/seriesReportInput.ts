@@ -99,6 +99,7 @@ export async function seriesReportInput(
     calibration: summary.calibration,
     warnings: [...summary.warnings],
     rupture: rupture ? reportRupture(rupture) : null,
+    observations: summary.observations,
   };
 }
 

@@ -1,12 +1,13 @@
 /**
  * `series.json`: the settings and calibration a series was mapped with, its frame count and
- * coverage, the rupture (./rupture.ts; null when the film lasts to the last frame) and the
- * drainage fits with their threshold-crossing predictions. Contains no clock time, so identical
+ * coverage, the rupture (./rupture.ts; null when the film lasts to the last frame), what the
+ * frames observed (./observations.ts) and the drainage fits with their threshold-crossing predictions. Contains no clock time, so identical
  * inputs give identical files.
  */
 import type { DrainageFit } from './fits/fitDrainage.js';
 import type { SeriesRow } from './seriesRows.js';
 import type { RuptureRecord } from './rupture.js';
+import { observeSeries, type SeriesObservations } from './observations.js';
 
 export interface SeriesSummaryInput {
   readonly settings: Record<string, unknown>;
@@ -29,6 +30,8 @@ export interface SeriesSummary {
   readonly timeRangeS: readonly [number, number] | null;
   /** Last frame with film and first frame without, when the film is gone from a frame on; else null. */
   readonly rupture: RuptureRecord | null;
+  /** What the frames show first (the first thin region, the recent thinning rate), and reliable crossings only (./observations.ts). */
+  readonly observations: SeriesObservations;
   readonly drainageFits: readonly DrainageFit[];
   readonly caution: string;
   readonly warnings: readonly string[];
@@ -53,6 +56,7 @@ export function seriesSummary(input: SeriesSummaryInput): SeriesSummary {
     },
     timeRangeS: times.length > 0 ? [Math.min(...times), Math.max(...times)] : null,
     rupture: input.rupture,
+    observations: observeSeries(input.rows, input.fits, input.rupture),
     drainageFits: [...input.fits],
     caution: SERIES_CAUTION,
     warnings: [...input.warnings],

@@ -1,12 +1,34 @@
 /**
- * The few lines `lamella series` prints when done: counts, outputs, the rupture of the film when
- * it is gone from a frame on, and each drainage law's predicted threshold crossing with its ±1σ
+ * The few lines `lamella series` prints when done: counts, outputs, what the frames observed (the
+ * first thin region, the recent thinning rate), the rupture of the film when it is gone from a
+ * frame on, a threshold crossing only where the laws agree (./observations.ts), and each drainage law's predicted threshold crossing with its ±1σ
  * interval and whether it is an extrapolation (none is predicted past the rupture).
  */
 import type { SeriesResult } from './runSeries.js';
 import { describeRupture, formatSeconds } from './rupture.js';
+import type { SeriesObservations } from './observations.js';
 
 const sec = (v: number | null): string => (v === null ? '—' : `${v.toFixed(1)} s`);
+
+function observationLines(o: SeriesObservations): string[] {
+  const lines: string[] = [];
+  lines.push(o.first_thin ? `series: first thin region at ${sec(o.first_thin.time_s)} (frame ${o.first_thin.frame})` : 'series: no thin region in any frame');
+  const r = o.recent_thinning;
+  if (r) {
+    const se = r.standard_error_nm_per_s === null ? '' : ` ± ${r.standard_error_nm_per_s.toFixed(2)}`;
+    lines.push(`series: mean thickness ${r.rate_nm_per_s <= 0 ? 'thinning' : 'growing'} at ${Math.abs(r.rate_nm_per_s).toFixed(2)}${se} nm/s over the last ${r.frames} frames (${sec(r.from_s)}–${sec(r.to_s)})`);
+  }
+  return lines;
+}
+
+function predictionLines(o: SeriesObservations): string[] {
+  return o.predictions.map((p) => {
+    const what = `${p.quantity} thickness reaches ${p.threshold_nm} nm`;
+    if (p.time_s === null) return `series: ${what}: no reliable prediction — ${p.reason}`;
+    if (p.reason) return `series: ${what} at ${sec(p.time_s)} (${p.reason})`;
+    return `series: ${what} at about ${sec(p.time_s)} (the laws agree: ${sec(p.range_s![0])}–${sec(p.range_s![1])}${p.extrapolated ? ', extrapolated beyond the last frame' : ''})`;
+  });
+}
 
 export function formatSeriesSummary(result: SeriesResult): string[] {
   const count = (o: string) => result.events.filter((e) => e.outcome === o).length;
@@ -15,7 +37,10 @@ export function formatSeriesSummary(result: SeriesResult): string[] {
   if (summary === null) return lines;
   lines.push(`series: ${summary.frames.withResults}/${summary.frames.total} frames in ${result.outputs.join(', ')}`);
   const rupture = summary.rupture;
+  // Observations first, then predictions, then each law's own numbers.
+  lines.push(...observationLines(summary.observations));
   if (rupture) lines.push(`series: ${describeRupture(rupture)}; drainage fits use the frames up to ${rupture.last_frame_with_film}`);
+  lines.push(...predictionLines(summary.observations));
   for (const fit of summary.drainageFits) {
     const r2 = fit.rSquared === null ? '—' : fit.rSquared.toFixed(4);
     let text = `  ${fit.quantity} thickness, ${fit.model}: R² ${r2}, RMS ${fit.rmsNm.toFixed(1)} nm`;

@@ -4,6 +4,7 @@
  */
 import type { MapResult } from '../map/types.js';
 import type { MapReportInput } from '../report/types.js';
+import type { Photo } from '../io/photo.js';
 
 /** One input frame after expansion and timing. `index` is its place in the whole, ordered input list. */
 export interface FrameJob {
@@ -15,6 +16,11 @@ export interface FrameJob {
   readonly stem: string;
   /** The frame file's fingerprint when known (./frameSource.ts): a changed photo is mapped again. */
   readonly source?: FrameSource;
+  /**
+   * A frame inside a video file or a multi-page image stack (`path` is that file): its kind and
+   * its index in the file, from 0 (./containerFrames.ts). Absent for a frame that is a file.
+   */
+  readonly container?: { readonly kind: 'video' | 'stack'; readonly index: number };
 }
 
 /** Size, modification time and SHA-256 of a frame's file. */
@@ -26,15 +32,24 @@ export interface FrameSource {
 
 /**
  * Maps one frame; bound once to the map settings, called with the previous frame's map as order
- * prior and its fitted photo formation as the start of this frame's fit (both null for the first
- * frame of a chunk).
+ * prior, its fitted photo formation and its light field (log-gain coefficients) as the start of
+ * this frame's fit (all null for the first frame of a chunk).
  */
 export interface FrameProcessor {
-  map(framePath: string, prior: Float32Array | null, previousFit?: MapResult['fitted'] | null): Promise<MapResult>;
-  /** Optional preview writer (`--previews`): writes images for `stem` into `dir`. */
-  writePreviews?(result: MapResult, framePath: string, dir: string, stem: string): Promise<unknown>;
+  map(framePath: string, prior: Float32Array | null, previousFit?: MapResult['fitted'] | null, previousField?: readonly number[] | null): Promise<MapResult>;
+  /**
+   * Maps a frame already decoded (a video's or a stack's frame, ./frameReader.ts); `name` names
+   * it in messages. Needed for series from video files and stacks.
+   */
+  mapPhoto?(photo: Photo, name: string, prior: Float32Array | null, previousFit?: MapResult['fitted'] | null, previousField?: readonly number[] | null): Promise<MapResult>;
+  /** Optional preview writer (`--previews`): writes images for `stem` into `dir`; may say the colour range it used. */
+  writePreviews?(result: MapResult, framePath: string, dir: string, stem: string): Promise<{ rangeNm?: [number, number] } | void | unknown>;
+  /** Optional: (re)draws a stored frame's map preview in the series' common colour range. */
+  renderStoredPreview?(stored: StoredFrame, framePath: string, dir: string, stem: string, rangeNm: readonly [number, number]): Promise<void>;
   /** Optional: the single-map report view of a frame (used for the series report's last frame). */
   mapReportInput?(result: MapResult, framePath: string): Promise<MapReportInput>;
+  /** Optional: the report view of a frame's stored result and its decoded photo (no second mapping). */
+  storedReportInput?(stored: StoredFrame, photo: Photo, framePath: string): Promise<MapReportInput>;
 }
 
 /**
@@ -92,4 +107,20 @@ export interface FrameRecord {
    * before film areas existed: such a frame counts as film, its area the pixels not excluded.
    */
   readonly filmArea?: MapResult['filmArea'];
+  /** The light field the frame was mapped with (exact coefficients; absent or null = one exposure). */
+  readonly exposureField?: MapResult['exposureField'];
+  /** How evenly the frame's film was lit after the map (src/map/lightEvenness.ts). */
+  readonly lightEvenness?: MapResult['lightEvenness'];
+  /** How well the model explains the frame's colours (absent in older records). */
+  readonly fitQuality?: MapResult['fitQuality'];
+  /** The colour range [min, max] nm its map preview was drawn in (with --previews). */
+  readonly previewRangeNm?: readonly [number, number];
+}
+
+/** A frame's stored result as read back from `frames/` (for the report's map view). */
+export interface StoredFrame {
+  readonly record: FrameRecord;
+  readonly thicknessNm: Float32Array;
+  readonly status: Uint8Array;
+  readonly confidence: Float32Array;
 }

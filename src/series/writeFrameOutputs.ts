@@ -29,6 +29,9 @@ export function frameRecordOf(frame: FrameJob, result: MapResult, hash: string, 
     thinRegions: result.thinRegions,
     warnings: [...result.warnings],
     ...(result.filmArea ? { filmArea: result.filmArea } : {}),
+    exposureField: result.exposureField ?? null,
+    lightEvenness: result.lightEvenness ?? null,
+    fitQuality: result.fitQuality ?? null,
   };
 }
 
@@ -46,9 +49,11 @@ export async function writeFrameOutputs(
   try {
     await writeFile(join(staging, `${frame.stem}.thickness.npy`), encodeNpy(result.thicknessNm, [result.height, result.width]));
     await writeFile(join(staging, `${frame.stem}.status.npy`), encodeNpy(result.status, [result.height, result.width]));
-    if (previews) await previews(result, frame.path, staging, frame.stem);
+    await writeFile(join(staging, `${frame.stem}.confidence.npy`), encodeNpy(result.confidence, [result.height, result.width]));
+    const drawn = previews ? ((await previews(result, frame.path, staging, frame.stem)) as { rangeNm?: [number, number] } | undefined) : undefined;
     const recordName = `${frame.stem}.json`;
-    await writeFile(join(staging, recordName), `${JSON.stringify(record, null, 2)}\n`);
+    const full = drawn?.rangeNm ? { ...record, previewRangeNm: drawn.rangeNm } : record;
+    await writeFile(join(staging, recordName), `${JSON.stringify(full, null, 2)}\n`);
     const names = (await readdir(staging)).filter((n) => n !== recordName);
     for (const name of names) await rename(join(staging, name), join(dir, name));
     await rename(join(staging, recordName), join(dir, recordName));

@@ -5,6 +5,7 @@
  */
 import { describeResponse } from '../../colour/toneResponse.js';
 import { CAMERA_HELP, parseCameraOption } from '../cameraOption.js';
+import { LIGHT_FIELD_HELP, parseLightFieldOption } from '../lightFieldOption.js';
 import type { Command } from 'commander';
 import { atomicWriteFile } from '../../io/atomicWriteFile.js';
 import { calibratePhotoFile } from '../../calibrate/calibrate.js';
@@ -24,6 +25,7 @@ interface CalibrateCliOptions extends StackCliOptions {
   out: string;
   json?: boolean;
   force?: boolean;
+  lightField?: string;
 }
 
 export function parseFitList(text: string): CalibrationParameter[] {
@@ -45,6 +47,7 @@ export function register(program: Command): void {
   addLightOptions(addStackOptions(command), { required: false })
     .option('--camera <mode-or-file>', CAMERA_HELP)
     .option('--known <x,y,w,h=nm>', 'a rectangle of known film thickness (repeatable, at least one)', collect)
+    .option('--light-field <mode>', `${LIGHT_FIELD_HELP}; fitted on the known regions when they are 4 or more spread over at least half the photo's width and height, and stored for \`map --calibration\` (same photo size)`, 'auto')
     .option('--fit <list>', `parameters to fit, from ${CALIBRATION_PARAMETERS.join(',')} (response: the camera's tone curve and saturation, fitted from 4 or more known thicknesses)`, 'exposure,flare,white-balance,response')
     .requiredOption('--out <file>', 'calibration file to write (JSON)')
     .option('--force', 'overwrite an existing calibration file')
@@ -53,6 +56,7 @@ export function register(program: Command): void {
       const { stack, angleRad } = stackFromOptions(opts);
       lightsFromOptions(opts);
       const camera = parseCameraOption(opts.camera);
+      const lightField = parseLightFieldOption(opts.lightField);
       const known = (opts.known ?? []).map(parseKnown);
       if (known.length === 0) throw new UsageError('--known is required at least once: X,Y,W,H=NM (a rectangle of known thickness)');
       await checkOutputFile(opts.out, { force: opts.force === true, inputs: [photo], example: 'cal.json' });
@@ -65,12 +69,18 @@ export function register(program: Command): void {
         angleRad,
         known: known.map((k) => ({ region: k.region, thicknessNm: k.thicknessNm })),
         fit: parseFitList(opts.fit),
+        lightField,
       });
       await atomicWriteFile(opts.out, Buffer.from(`${JSON.stringify(record, null, 2)}\n`, 'utf8'));
       for (const warning of record.warnings) process.stderr.write(`lamella: warning: ${warning}\n`);
       if (opts.json) process.stdout.write(`${JSON.stringify(record, null, 2)}\n`);
       else process.stdout.write(summary(record, opts.out));
     });
+}
+
+function lightFieldLine(field: { relative_gain_min?: number; relative_gain_max?: number; fitted_terms?: string; note: string }): string {
+  if (field.relative_gain_min === undefined || field.relative_gain_max === undefined) return field.note;
+  return `${field.fitted_terms}, relative gain ${field.relative_gain_min.toFixed(3)}–${field.relative_gain_max.toFixed(3)} over the photo (${field.note})`;
 }
 
 function summary(record: Record<string, unknown>, out: string): string {
@@ -92,6 +102,7 @@ function summary(record: Record<string, unknown>, out: string): string {
     `  index scale    ${fitted.filmIndexScale.toFixed(4)}${pm('indexScale')}`,
     `  angle          ${fitted.angleDeg.toFixed(2)}°${pm('angleDeg')}`,
     `  picture style  ${fitted.response ? describeResponse(fitted.response) : `none (identity)${typeof record.response_note === 'string' ? `: ${record.response_note}` : ''}`}`,
+    `  light field    ${lightFieldLine(record.exposure_field as { relative_gain_min?: number; relative_gain_max?: number; fitted_terms?: string; note: string })}`,
     ...(record.known_regions as Array<{ region_px: number[]; thickness_nm: number; residual_delta_e2000: number }>).map(
       (k) => `  known ${k.region_px.join(',')} = ${k.thickness_nm} nm: residual ΔE2000 ${k.residual_delta_e2000.toFixed(2)}`,
     ),

@@ -4,8 +4,8 @@
  * the end). `--fail-if-thin` turns a thin region into exit status 1.
  */
 import { type CameraResponse, describeResponse, isStrongResponse } from '../../colour/toneResponse.js';
-import type { ExposureField } from '../../map/lightField.js';
 import { CAMERA_HELP, parseCameraOption } from '../cameraOption.js';
+import { LIGHT_FIELD_HELP, parseLightFieldOption } from '../lightFieldOption.js';
 import type { Command } from 'commander';
 import { basename, extname, join } from 'node:path';
 import { EXIT_FINDING, EXIT_INPUT, oneLine } from '../errors.js';
@@ -42,6 +42,7 @@ interface MapCliOptions extends StackCliOptions, FilmAreaCliOptions {
   quiet?: boolean;
   threads?: string;
   allowDamaged?: boolean;
+  lightField?: string;
 }
 
 export const OUTPUT_SUFFIXES = ['.thickness.npy', '.thickness.tif', '.confidence.npy', '.map.png', '.flags.png', '.json', '.report.html'];
@@ -53,7 +54,8 @@ export function register(program: Command): void {
     .argument('<photo...>', 'photos (JPEG, PNG, TIFF; 8 or 16 bit)');
   addFilmAreaOptions(addLightOptions(addStackOptions(command), { required: false }), 'photo')
     .option('--camera <mode-or-file>', CAMERA_HELP)
-    .option('--calibration <file>', 'photo-formation parameters from `lamella calibrate` instead of fitting them')
+    .option('--light-field <mode>', LIGHT_FIELD_HELP, 'auto')
+    .option('--calibration <file>', 'photo-formation parameters (and light field) from `lamella calibrate` instead of fitting them')
     .option('--ignore-calibration-mismatch', 'use a calibration made for another stack or light')
     .option('--known <x,y,w,h=nm>', 'calibrate on each photo itself from a rectangle of known thickness (repeatable)', collect)
     .requiredOption('--out <dir>', 'output folder (created if missing)')
@@ -77,6 +79,7 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
   lightsFromOptions(opts);
   lineOfLight(opts.light);
   const camera = parseCameraOption(opts.camera);
+  const lightField = parseLightFieldOption(opts.lightField);
   const { thinBelowNm, maxThicknessNm, region, maskPath, anchors, pixelSizeUm, filmArea, expectNm } = filmAreaFromOptions(opts);
   if ((opts.known ?? []).length > 0 && opts.calibration) {
     throw new UsageError('give either --known (calibrate on the photo) or --calibration (a calibration file), not both');
@@ -105,6 +108,10 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
     maxThicknessNm,
     pixelSizeUm,
     exposureFixed: calibration?.exposureFixed ?? null,
+    exposureFieldFixed: calibration?.exposureField
+      ? { ...calibration.exposureField, file: opts.calibration!, ignoreSizeMismatch: opts.ignoreCalibrationMismatch === true }
+      : null,
+    lightField,
     filmArea,
     expectNm,
     ...(opts.threads !== undefined ? { threads: parseThreads(opts.threads) } : {}),
@@ -145,9 +152,15 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
           angleRad,
           known,
           fit: ['exposure', 'flare', 'white-balance', 'response'],
+          lightField,
         });
         const fitted = onPhoto.fitted as { exposure: number; whiteBalance: [number, number, number]; flare: [number, number, number]; response: CameraResponse | null };
-        photoOptions = { ...options, exposureFixed: { ...fitted, responseSource: fitted.response ? 'calibration' : 'identity' } };
+        const field = (onPhoto.exposure_field as { log_gain_coefficients: number[] | null }).log_gain_coefficients;
+        photoOptions = {
+          ...options,
+          exposureFixed: { ...fitted, responseSource: fitted.response ? 'calibration' : 'identity' },
+          exposureFieldFixed: field ? { logGainCoefficients: field, widthPx: decoded.width, heightPx: decoded.height, file: photo, ignoreSizeMismatch: false } : null,
+        };
         for (const warning of onPhoto.warnings) warn(`${photo}: calibration: ${warning}`);
       }
       const result = mapDecodedPhoto(decoded, photoOptions, mask, photo);
@@ -170,6 +183,8 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
       for (const warning of result.warnings) warn(`${photo}: ${warning}`);
       if (!opts.json && !opts.quiet) process.stdout.write(`${summaryLine(photo, result)}\n`);
     } catch (error) {
+      // A usage error (a calibration's light field made for another photo size) holds for the run.
+      if (error instanceof UsageError) throw error;
       failed.push(photo);
       process.stderr.write(`lamella: ${oneLine(error).startsWith(photo) ? '' : `${photo}: `}${oneLine(error)}\n`);
     }
@@ -188,14 +203,14 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
   return 0;
 }
 
-export function summaryLine(photo: string, result: Pick<MapResult, 'stats' | 'thinRegions' | 'fitted' | 'filmArea'> & { readonly exposureField?: ExposureField | null }): string {
+export function summaryLine(photo: string, result: Pick<MapResult, 'stats' | 'thinRegions' | 'fitted' | 'filmArea' | 'exposureField'>): string {
   // The warning itself comes from the mapper; the line only says there is nothing to summarise.
   if (result.filmArea && !result.filmArea.found) return `${photo}: no film found in this photo (no statistics, no thin regions)`;
   const s = result.stats;
   const f = (v: number | null, d = 1): string => (v === null ? '–' : v.toFixed(d));
   const thin = s.thin_fraction === null ? '' : `, thin ${f(s.thin_fraction * 100)} %`;
   const field = result.exposureField
-    ? ` over uneven light (fitted field ${result.exposureField.gainMin.toFixed(2)}–${result.exposureField.gainMax.toFixed(2)})`
+    ? ` over uneven light (${result.exposureField.source === 'calibration' ? "calibration's" : 'fitted'} field ${result.exposureField.gainMin.toFixed(2)}–${result.exposureField.gainMax.toFixed(2)})`
     : '';
   const film = result.filmArea && result.filmArea.mode === 'auto' ? `, film ${f(result.filmArea.fraction * 100)} % of the photo` : '';
   const response = result.fitted.response;

@@ -4,12 +4,13 @@
  * Exit status 3 when any frame failed, 130/143 when interrupted by SIGINT/SIGTERM.
  */
 import { CAMERA_HELP, parseCameraOption } from '../cameraOption.js';
+import { LIGHT_FIELD_HELP, parseLightFieldOption } from '../lightFieldOption.js';
 import { availableParallelism } from 'node:os';
 import { Option, type Command } from 'commander';
 import { resolve } from 'node:path';
 import { InputError, UsageError, EXIT_INPUT } from '../errors.js';
 import { addStackOptions, parseNumberOption, stackFromOptions, type StackCliOptions } from '../stackOptions.js';
-import { addFilmAreaOptions, filmAreaFromOptions, type FilmAreaCliOptions } from '../filmAreaOptions.js';
+import { addFilmAreaOptions, filmAreaFromOptions, parseExpect, type FilmAreaCliOptions } from '../filmAreaOptions.js';
 import { parseShard } from '../../series/parseShard.js';
 import { runSeries, DEFAULT_CHUNK_FRAMES, type SeriesOptions } from '../../series/runSeries.js';
 import { loadCalibrationForRun } from '../../calibrate/calibrationFile.js';
@@ -27,8 +28,13 @@ export interface SeriesCliOptions extends StackCliOptions, FilmAreaCliOptions {
   whiteBalance?: string;
   camera?: string;
   ignoreCalibrationMismatch?: boolean;
+  lightField?: string;
   fps?: string;
   interval?: string;
+  start?: string;
+  end?: string;
+  every?: string;
+  range?: string;
   calibration?: string;
   workers: string;
   shard?: string;
@@ -73,6 +79,13 @@ export async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions
   // million frames a second.
   if (intervalS !== null && intervalS > YEAR_S) throw new UsageError(`--interval must be a number of seconds > 0 and at most ${YEAR_S} (a year), received ${opts.interval}`);
   if (fps !== null && !(fps >= 1 / YEAR_S && fps <= 1e6)) throw new UsageError(`--fps must be a number of frames per second from 1/${YEAR_S} (one a year) to 1e6, received ${opts.fps}`);
+  const startS = opts.start === undefined ? null : parseNumberOption(opts.start, '--start', 'a time in seconds >= 0');
+  const endS = opts.end === undefined ? null : parseNumberOption(opts.end, '--end', 'a time in seconds >= 0');
+  if (startS !== null && startS < 0) throw new UsageError(`--start must be a time in seconds >= 0, received ${opts.start}`);
+  if (endS !== null && endS < 0) throw new UsageError(`--end must be a time in seconds >= 0, received ${opts.end}`);
+  if (startS !== null && endS !== null && startS > endS) throw new UsageError(`--start ${opts.start} is after --end ${opts.end}`);
+  const every = positive(opts.every, '--every', true);
+  const rangeNm = opts.range === undefined ? null : parseExpect(opts.range, Number.MAX_VALUE, '--range');
   // The same film-area options, defaults and limits as `lamella map`.
   const area = filmAreaFromOptions(opts);
   const { thinBelowNm, maxThicknessNm, region, anchors, pixelSizeUm, filmArea, expectNm } = area;
@@ -88,6 +101,7 @@ export async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions
   // Lights are checked here, once, not by every frame's worker.
   lightsFromOptions(opts);
   const camera = parseCameraOption(opts.camera);
+  const lightField = parseLightFieldOption(opts.lightField);
   const calibration = opts.calibration === undefined
     ? null
     : await loadCalibrationForRun(opts.calibration, { stack: opts.stack ?? '', light: opts.light, angleRad, whiteBalanceLight: opts.whiteBalance ?? null, camera, ignoreMismatch: opts.ignoreCalibrationMismatch === true });
@@ -102,11 +116,18 @@ export async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions
   const config: MapFrameConfig = {
     stackOptions, light: opts.light, whiteBalanceLight, camera, thinBelowNm, maxThicknessNm,
     filmIndexScale: calibration?.filmIndexScale ?? null, exposureFixed: calibration?.exposureFixed ?? null,
+    ...(rangeNm !== null ? { rangeNm } : {}),
+    exposureFieldFixed: calibration?.exposureField
+      ? { ...calibration.exposureField, file: opts.calibration!, ignoreSizeMismatch: opts.ignoreCalibrationMismatch === true }
+      : null,
+    lightField,
     region, maskPath, anchors, pixelSizeUm, filmArea, expectNm,
     ...(opts.allowDamaged ? { allowDamaged: true } : {}),
   };
   return {
     inputs, outDir: opts.out, fps, intervalS, thinBelowNm, shard,
+    ...(startS !== null || endS !== null || every !== null ? { select: { startS, endS, every } } : {}),
+    ...(rangeNm !== null ? { rangeNm } : {}),
     chunkFrames: positive(opts.chunkFrames, '--chunk-frames', true)!,
     workers: positive(opts.workers, '--workers', true)!,
     aggregateOnly: opts.aggregateOnly === true, previews: opts.previews === true, report: opts.report,
@@ -119,6 +140,7 @@ export async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions
       ...(opts.allowDamaged ? { allowDamaged: true } : {}),
       // Part of the settings hash: changing either re-maps the frames.
       filmArea, ...(expectNm !== null ? { expectNm } : {}),
+      ...(lightField !== 'auto' ? { lightField } : {}),
     },
     calibration: calibration?.raw ?? null,
     // Stack, material, SPD and calibration files read above, and the mask: by content.
@@ -138,6 +160,12 @@ export async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions
         if (!(a.x >= 0 && a.x < width && a.y >= 0 && a.y < height)) throw new UsageError(`--anchor ${a.x},${a.y} lies outside the ${frames}`);
       }
       if (maskPath) await readMask(maskPath, width, height);
+      const field = config.exposureFieldFixed;
+      if (field && !field.ignoreSizeMismatch && (field.widthPx !== width || field.heightPx !== height)) {
+        throw new UsageError(
+          `--calibration ${field.file}: its light field was fitted on a ${field.widthPx}×${field.heightPx} photo, the frames are ${width}×${height} (calibrate on a frame of this size, or add --ignore-calibration-mismatch to stretch it over the frames)`,
+        );
+      }
     },
   };
 }
@@ -205,19 +233,24 @@ export function register(program: Command): void {
   const command = program
     .command('series')
     .description('thickness maps of a photo series (worker threads, resumable, shardable), drainage fits and a report')
-    .argument('<inputs...>', 'photos, folders of photos, or glob patterns; frames are taken in natural order of their names');
+    .argument('<inputs...>', 'photos, folders of photos, or glob patterns (frames in natural order of their names); or one video file (MP4, MOV, AVI, MKV, … read with FFmpeg) or one multi-page TIFF stack');
   addLightOptions(addStackOptions(command), { required: false })
     .option('--camera <mode-or-file>', CAMERA_HELP)
-    .option('--fps <n>', 'frames per second, for frames without an EXIF capture time')
-    .option('--interval <s>', 'seconds between frames, for frames without an EXIF capture time')
+    .option('--fps <n>', "frames per second, for frames without an EXIF capture time; for a video, overrides its own timestamps (e.g. a high-speed recording played back slower)")
+    .option('--interval <s>', 'seconds between frames, for frames without an EXIF capture time (or instead of a video\'s timestamps)')
+    .option('--start <s>', 'take frames from this time on (seconds from the first frame)')
+    .option('--end <s>', 'take frames up to this time (seconds from the first frame)')
+    .option('--every <n>', 'take every n-th of the frames in --start..--end (the first one first)')
     .option('--calibration <file>', 'photo-formation parameters from `lamella calibrate` instead of fitting them on every frame')
+    .option('--light-field <mode>', LIGHT_FIELD_HELP, 'auto')
     .option('--ignore-calibration-mismatch', 'use a calibration made for another stack or light');
   addFilmAreaOptions(command, 'frames')
     .option('--workers <n>', 'worker threads', String(availableParallelism()))
     .option('--shard <K/N>', 'map only the K-th of N contiguous parts of the series (1-based), then aggregate what OUT holds')
     .option('--chunk-frames <n>', 'frames per chunk: each chunk starts without a prior map; keep equal across shards', String(DEFAULT_CHUNK_FRAMES))
     .option('--aggregate-only', 'map nothing; aggregate the per-frame results already in OUT (after shard runs)')
-    .option('--previews', 'also write <frame>.map.png and <frame>.flags.png per frame')
+    .option('--previews', 'also write <frame>.map.png and <frame>.flags.png per frame (all maps in one colour range: the series\' own, or --range)')
+    .option('--range <min-max>', 'colour range of the previews and the report\'s frame slider, nm (e.g. 0-1200); default the series\' own (lowest 5th to highest 95th percentile)')
     .option('--allow-damaged', 'map frames the decoder reports as damaged as far as they decode (a warning; the rest has no estimate)')
     .option('--quiet', 'no progress display, warnings or summary (failed frames are still reported)')
     .addOption(new Option('--no-report', 'do not write report.html'))
