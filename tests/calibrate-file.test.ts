@@ -56,7 +56,9 @@ describe('calibration record shape (as documented in calibrationFile.ts)', () =>
     expect(record.lamella_calibration).toBe(CALIBRATION_VERSION);
     expect(record.applies_to).toEqual({ stack: 'oxide-on-silicon', light: 'F2', white_balance_light: null, angle_deg: 0, camera: expect.any(String), camera_mode: 'srgb' });
     const fitted = record.fitted as Record<string, unknown>;
-    expect(Object.keys(fitted).sort()).toEqual(['angleDeg', 'exposure', 'filmIndexScale', 'flare', 'whiteBalance']);
+    expect(Object.keys(fitted).sort()).toEqual(['angleDeg', 'exposure', 'filmIndexScale', 'flare', 'response', 'whiteBalance']);
+    // Not asked for in --fit: no response (the identity).
+    expect(fitted.response).toBeNull();
     expect(fitted.whiteBalance).toHaveLength(3);
     expect(fitted.flare).toHaveLength(3);
     expect(record.filmIndexScale).toBe(fitted.filmIndexScale);
@@ -74,7 +76,7 @@ describe('readCalibrationFile()', () => {
   it('reads back what was written: exposure, gains, flare, index scale and angle', async () => {
     const read = await readCalibrationFile(good);
     const fitted = record.fitted as { exposure: number; whiteBalance: number[]; flare: number[]; filmIndexScale: number; angleDeg: number };
-    expect(read.exposureFixed).toEqual({ exposure: fitted.exposure, whiteBalance: fitted.whiteBalance, flare: fitted.flare });
+    expect(read.exposureFixed).toEqual({ exposure: fitted.exposure, whiteBalance: fitted.whiteBalance, flare: fitted.flare, response: null, responseSource: 'identity' });
     expect(read.filmIndexScale).toBe(fitted.filmIndexScale);
     expect(Math.abs((read.filmIndexScale as number) - 1.02)).toBeLessThan(0.003); // round trip of the rendered 1.02
     expect(read.angleDeg).toBe(0);

@@ -68,7 +68,13 @@ describe('lamella calibrate + map --calibration: F2 light, camera white balance 
     const cal = readJson<CalibrationJson>(join(dir, 'cal.json'));
     expect(cal.lamella_calibration).toBe(1);
     expect(cal.applies_to).toMatchObject({ stack: 'oxide-on-silicon', light: 'F2', white_balance_light: null, angle_deg: 0 });
-    expect(cal.fitted_parameters).toEqual(['exposure', 'flare', 'white-balance']);
+    expect(cal.fitted_parameters).toEqual(['exposure', 'flare', 'white-balance', 'response']);
+    // A photo without a picture style (rendered plain sRGB): the response fitted from six known
+    // thicknesses stays near the identity (a round trip through our own model; tolerance a judgement).
+    const response = (cal.fitted as unknown as { response: { contrast: number; gamma: number; saturation: number } }).response;
+    expect(Math.abs(response.contrast)).toBeLessThan(0.1);
+    expect(Math.abs(response.gamma - 1)).toBeLessThan(0.1);
+    expect(Math.abs(response.saturation - 1)).toBeLessThan(0.05);
     expect(cal.known_regions.map((k) => k.thickness_nm)).toEqual([0, 92, 185, 275, 370, 460]);
     for (const k of cal.known_regions) expect(k.residual_delta_e2000).toBeLessThan(0.6); // JPEG: a little above the PNG case
     expect(cal.warnings).toEqual([]);

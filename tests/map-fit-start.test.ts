@@ -37,7 +37,9 @@ describe('the photo-formation fit started from a previous frame', () => {
       flare: cold.fitted.flare.map((f) => f + 0.003) as [number, number, number],
     };
     const warm = await mapPhotoFile(photo, { ...options, fitStart: start });
-    expect(Math.abs(warm.fitted.exposure / cold.fitted.exposure - 1)).toBeLessThan(0.005);
+    // With the camera's response fitted as well (this photo has enough colours), the exposure and
+    // the tone curve's gamma trade a little: measured 0.53 % apart (0.1 % before the response).
+    expect(Math.abs(warm.fitted.exposure / cold.fitted.exposure - 1)).toBeLessThan(0.008);
     for (let c = 0; c < 3; c++) {
       expect(Math.abs(warm.fitted.whiteBalance[c] - cold.fitted.whiteBalance[c])).toBeLessThan(0.005);
       // Flare is the weakest-determined parameter (it trades with exposure in the dark channel):

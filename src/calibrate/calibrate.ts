@@ -103,7 +103,10 @@ export function calibrateDecoded(
       flare: parameters.flare,
       filmIndexScale: parameters.filmIndexScale,
       angleDeg: parameters.angleDeg,
+      // The camera's response (picture style); null = none fitted (identity). Older files lack it.
+      response: parameters.response ?? null,
     },
+    ...(result.responseNote ? { response_note: result.responseNote } : {}),
     filmIndexScale: parameters.filmIndexScale,
     exposure_field: calibrationFieldJson(result.field, result.fieldNote, width, height),
     uncertainty: result.uncertainties,

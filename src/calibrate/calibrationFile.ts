@@ -4,7 +4,9 @@
  *   lamella_calibration: 1
  *   applies_to: { stack, light, white_balance_light, angle_deg, camera, camera_mode }  (camera_mode:
  *     the --camera value, srgb | linear | a sensitivities CSV path; absent in older files = srgb)
- *   fitted: { exposure, whiteBalance: [r,g,b], flare: [r,g,b], filmIndexScale, angleDeg }
+ *   fitted: { exposure, whiteBalance: [r,g,b], flare: [r,g,b], filmIndexScale, angleDeg, response }
+ *     (response: { contrast, gamma, saturation } of the camera's picture style, ../colour/toneResponse.ts,
+ *     or null; absent in older files = the identity)
  *   filmIndexScale (top level, same value), uncertainty, known_regions, photo, photo_size_px, warnings
  *   exposure_field: { log_gain_coefficients: [7 numbers] | null, photo_size_px: [w, h], … }  (the light
  *     field fitted on the known regions, see ./fitCalibration.ts; absent in older files = none)
@@ -15,6 +17,7 @@ import { readFile } from 'node:fs/promises';
 import { describeJsonSyntaxError, noteInputFile, regularFileProblemSync } from '../io/inputFiles.js';
 import { InputError, UsageError } from '../errors.js';
 import type { ExposureParameters } from '../map/types.js';
+import { type CameraResponse, checkResponse } from '../colour/toneResponse.js';
 import { EXPOSURE_FIELD_TERMS } from '../map/mapResultJson.js';
 
 export const CALIBRATION_VERSION = 1;
@@ -85,6 +88,7 @@ export async function readCalibrationFile(file: string): Promise<CalibrationForR
       exposure: finite(file, 'fitted.exposure', f.exposure, true),
       whiteBalance: triple(file, 'fitted.whiteBalance', f.whiteBalance, true),
       flare: triple(file, 'fitted.flare', f.flare),
+      ...responseOf(file, f.response),
     },
     exposureField: fieldOf(file, record.exposure_field),
     filmIndexScale: scale === undefined || scale === null ? null : finite(file, 'fitted.filmIndexScale', scale, true),
@@ -92,6 +96,24 @@ export async function readCalibrationFile(file: string): Promise<CalibrationForR
     raw: record,
     appliesTo: appliesTo as Record<string, unknown>,
   };
+}
+
+/** The stored response (absent or null = identity), checked: an object of three numbers in the allowed ranges. */
+function responseOf(file: string, value: unknown): { response: CameraResponse | null; responseSource: 'calibration' | 'identity' } {
+  if (value === undefined || value === null) return { response: null, responseSource: 'identity' };
+  if (typeof value !== 'object' || Array.isArray(value)) throw new InputError(file, `fitted.response must be an object {contrast, gamma, saturation} or null, received ${show(value)}`);
+  const r = value as Record<string, unknown>;
+  const response = {
+    contrast: finite(file, 'fitted.response.contrast', r.contrast),
+    gamma: finite(file, 'fitted.response.gamma', r.gamma, true),
+    saturation: finite(file, 'fitted.response.saturation', r.saturation, true),
+  };
+  try {
+    checkResponse(response);
+  } catch (error) {
+    throw new InputError(file, `fitted.${(error as Error).message}`);
+  }
+  return { response, responseSource: 'calibration' };
 }
 
 /** The stored light field (see the header), or null when the file holds none. */

@@ -19,15 +19,25 @@
  * the plane (u, v) from 4. A field whose coefficients the regions
  * cannot pin down (standard uncertainty above `FIELD_SE_MAX`) falls back to the plane, then to one
  * exposure. Each region's colour is its median, so the field is taken at its centre.
+ *
+ * `response`: the camera's response (picture style, ../colour/toneResponse.ts) applied after the
+ * encode, fitted with weak priors toward the identity (contrast 0 ± 0.4, ln γ 0 ± 0.2, saturation
+ * 1 ± 0.25, as in the photo fit). A tone curve and a saturation need colours spread over dark, mid
+ * and bright values: it is fitted only for an sRGB camera with at least MIN_RESPONSE_THICKNESSES
+ * known thicknesses and observations to spare, and otherwise held at the identity (the record
+ * says so in `response_note`).
  */
 import { balanceTable, decodeSrgb, encodeSrgb, filmColourTable, type Camera } from '../colour/index.js';
+import { applyResponse, CONTRAST_RANGE, GAMMA_RANGE, IDENTITY_RESPONSE, SATURATION_RANGE } from '../colour/toneResponse.js';
 import { fitLeastSquares } from '../fit/fitLeastSquares.js';
 import type { Stack } from '../optics/types.js';
 import type { ExposureParameters } from '../map/types.js';
 import type { KnownRegionColour } from './knownRegions.js';
 
-export type CalibrationParameter = 'exposure' | 'flare' | 'white-balance' | 'index' | 'angle';
-export const CALIBRATION_PARAMETERS: readonly CalibrationParameter[] = ['exposure', 'flare', 'white-balance', 'index', 'angle'];
+export type CalibrationParameter = 'exposure' | 'flare' | 'white-balance' | 'index' | 'angle' | 'response';
+export const CALIBRATION_PARAMETERS: readonly CalibrationParameter[] = ['exposure', 'flare', 'white-balance', 'index', 'angle', 'response'];
+/** Fewest known thicknesses from which the camera's response is fitted (a judgement: dark, mid, bright and one to check). */
+export const MIN_RESPONSE_THICKNESSES = 4;
 
 export interface CalibrationFitInput {
   readonly stack: Stack;
@@ -62,6 +72,8 @@ export interface CalibrationFitResult {
   /** The light field, or null with `fieldNote` saying why none was fitted. */
   readonly field: CalibrationField | null;
   readonly fieldNote: string;
+  /** Why the response asked for was held at the identity (null when fitted or not asked for). */
+  readonly responseNote: string | null;
 }
 
 /** Largest standard uncertainty of a field coefficient that is kept (3 % of gain at the photo's edge). */
@@ -73,13 +85,38 @@ const FIELD_RADIAL_REGIONS = 12;
 const FIELD_SPREAD = 0.5;
 
 /** Slots of the full parameter vector. */
-const SLOTS = ['exposure', 'wbR', 'wbB', 'flareR', 'flareG', 'flareB', 'indexScale', 'angleDeg', 'field u', 'field v', 'field u²', 'field uv', 'field v²', 'field r⁴'] as const;
+const SLOTS = [
+  'exposure',
+  'wbR',
+  'wbB',
+  'flareR',
+  'flareG',
+  'flareB',
+  'indexScale',
+  'angleDeg',
+  'field u',
+  'field v',
+  'field u²',
+  'field uv',
+  'field v²',
+  'field r⁴',
+  'contrast',
+  'gamma',
+  'saturation',
+] as const;
 const FIELD_SLOTS = [8, 9, 10, 11, 12, 13];
+const RESPONSE_SLOTS = [14, 15, 16];
+/** Weak priors of the response toward the identity: [slot, centre, sigma, on the log?]. */
+const RESPONSE_PRIORS: ReadonlyArray<readonly [number, number, number, boolean]> = [
+  [14, 0, 0.4, false],
+  [15, 0, 0.2, true],
+  [16, 1, 0.25, false],
+];
 /** Field terms of each tier: a plane (u, v), a quadratic, a quadratic with the radial r⁴ of vignetting. */
 const TIER_TERMS = { plane: 2, quadratic: 5, radial: 6 } as const;
 type FieldTier = keyof typeof TIER_TERMS;
 /** Slots each --fit name stands for. */
-const PARAMETER_SLOTS: Record<CalibrationParameter, readonly number[]> = { exposure: [0], 'white-balance': [1, 2], flare: [3, 4, 5], index: [6], angle: [7] };
+const PARAMETER_SLOTS: Record<CalibrationParameter, readonly number[]> = { exposure: [0], 'white-balance': [1, 2], flare: [3, 4, 5], index: [6], angle: [7], response: RESPONSE_SLOTS };
 
 export function fitCalibration(input: CalibrationFitInput): CalibrationFitResult {
   const { stack, camera, regions } = input;
@@ -93,6 +130,16 @@ export function fitCalibration(input: CalibrationFitInput): CalibrationFitResult
   if (wanted.has('flare')) active.push(3, 4, 5);
   if (wanted.has('index')) active.push(6);
   if (wanted.has('angle')) active.push(7);
+  let responseNote: string | null = null;
+  if (wanted.has('response')) {
+    const thicknesses = new Set(regions.map((r) => r.thicknessNm)).size;
+    if (camera.encoding !== 'srgb') responseNote = 'a linear camera has no picture style: response held at the identity';
+    else if (thicknesses < MIN_RESPONSE_THICKNESSES) {
+      responseNote = `${thicknesses} known thickness(es): fewer than ${MIN_RESPONSE_THICKNESSES}, too few to fit the camera's picture style; response held at the identity`;
+    } else if (active.length + 3 >= regions.length * 3) {
+      responseNote = `${regions.length} known region(s) give ${regions.length * 3} colour values: too few to fit the camera's picture style as well; response held at the identity`;
+    } else active.push(...RESPONSE_SLOTS);
+  }
   // Too few observations: drop what cannot be constrained, most specific first.
   const dropOrder: Array<[number[], string]> = [
     [[7], 'angle'],
@@ -115,7 +162,7 @@ export function fitCalibration(input: CalibrationFitInput): CalibrationFitResult
       warnings.push(`known region ${r.region.join(',')}=${r.thicknessNm} nm has ${(100 * r.clippedFraction).toFixed(1)} % clipped (saturated or black) pixels: its colour is not reliable`);
     }
   }
-  const full = [1, 1, 1, 0, 0, 0, 1, (input.angleRad * 180) / Math.PI, 0, 0, 0, 0, 0, 0];
+  const full = [1, 1, 1, 0, 0, 0, 1, (input.angleRad * 180) / Math.PI, 0, 0, 0, 0, 0, 0, IDENTITY_RESPONSE.contrast, IDENTITY_RESPONSE.gamma, IDENTITY_RESPONSE.saturation];
   // Start the exposure from the brightest region's ratio of observed to modelled luminance.
   const base = regionColoursLinear(stack, camera, regions, 1, full[7]);
   let ratio = 0;
@@ -129,11 +176,14 @@ export function fitCalibration(input: CalibrationFitInput): CalibrationFitResult
   });
   // Only when the exposure is fitted: otherwise it is held at 1, as the warning above says.
   if (active.includes(0) && weight > 0 && ratio > 0) full[0] = ratio / weight;
-  const lowerFull = [full[0] * 0.02, 0.25, 0.25, -0.05, -0.05, -0.05, 0.8, 0, -2, -2, -2, -2, -2, -2];
-  const upperFull = [full[0] * 50, 4, 4, 0.5, 0.5, 0.5, 1.25, 80, 2, 2, 2, 2, 2, 2];
-  const scaleFull = [full[0], 1, 1, 0.05, 0.05, 0.05, 0.05, 10, 0.1, 0.1, 0.1, 0.1, 0.1, 0.1];
-  const y = new Float64Array(observations);
-  const weights = new Float64Array(observations);
+  const lowerFull = [full[0] * 0.02, 0.25, 0.25, -0.05, -0.05, -0.05, 0.8, 0, -2, -2, -2, -2, -2, -2, CONTRAST_RANGE[0], GAMMA_RANGE[0], SATURATION_RANGE[0]];
+  const upperFull = [full[0] * 50, 4, 4, 0.5, 0.5, 0.5, 1.25, 80, 2, 2, 2, 2, 2, 2, CONTRAST_RANGE[1], GAMMA_RANGE[1], SATURATION_RANGE[1]];
+  const scaleFull = [full[0], 1, 1, 0.05, 0.05, 0.05, 0.05, 10, 0.1, 0.1, 0.1, 0.1, 0.1, 0.1, 0.1, 0.1, 0.1];
+  const responseFitted = active.includes(RESPONSE_SLOTS[0]);
+  // Prior rows (value (p − centre)/σ) follow the observations when the response is fitted.
+  const rows = observations + (responseFitted ? RESPONSE_PRIORS.length : 0);
+  const y = new Float64Array(rows);
+  const weights = new Float64Array(rows);
   regions.forEach((r, k) => {
     for (let c = 0; c < 3; c++) {
       y[k * 3 + c] = r.colour[c];
@@ -142,7 +192,11 @@ export function fitCalibration(input: CalibrationFitInput): CalibrationFitResult
       weights[k * 3 + c] = 1 / (sigma * sigma);
     }
   });
-  const x = Float64Array.from({ length: observations }, (_, i) => i);
+  // The priors weigh as in the photo fit (../map/fitPhotoFormation.ts): a deviation of one prior
+  // sigma costs as much as a third of all the colour values at their own uncertainty (weights
+  // 1/σ² make each colour value's residual count 1 at its uncertainty).
+  for (let j = observations; j < rows; j++) weights[j] = observations / 3;
+  const x = Float64Array.from({ length: rows }, (_, i) => i);
   // Basis of the field at each region's centre (u, v, u², uv, v², r⁴).
   const fieldBasis = input.photoSize ? regionFieldBasis(regions, input.photoSize.width, input.photoSize.height) : null;
   let linearKey = '';
@@ -154,7 +208,7 @@ export function fitCalibration(input: CalibrationFitInput): CalibrationFitResult
       linearKey = key;
     }
     const balanced = balanceTable(linear, { exposure: v[0], whiteBalance: [v[1], 1, v[2]], flare: [0, 0, 0] }, camera.encoding);
-    const out = new Float64Array(observations);
+    const out = new Float64Array(rows);
     for (let k = 0; k < regions.length; k++) {
       let logGain = 0;
       if (fieldBasis) for (let j = 0; j < 6; j++) logGain += v[8 + j] * fieldBasis[k * 6 + j];
@@ -163,6 +217,10 @@ export function fitCalibration(input: CalibrationFitInput): CalibrationFitResult
         const value = Math.min(1, Math.max(0, gain * balanced[k * 3 + c] + v[3 + c]));
         out[k * 3 + c] = camera.encoding === 'linear' ? value : encodeSrgb(value);
       }
+    }
+    if (camera.encoding === 'srgb') applyResponse(out, regions.length, { contrast: v[14], gamma: v[15], saturation: v[16] });
+    if (responseFitted) {
+      RESPONSE_PRIORS.forEach(([slot, centre, sigma, log], j) => (out[observations + j] = ((log ? Math.log(v[slot]) : v[slot]) - centre) / sigma));
     }
     return out;
   };
@@ -199,7 +257,9 @@ export function fitCalibration(input: CalibrationFitInput): CalibrationFitResult
       se[slot] = Number.isFinite(error) ? error : Infinity;
       if (FIELD_SLOTS.includes(slot)) return;
       uncertainties[SLOTS[slot]] = Number.isFinite(error) ? error : null;
-      if (!Number.isFinite(error) || error > Math.abs(v[slot]) * 0.5 + (slot >= 3 && slot <= 5 ? 0.05 : 0)) {
+      // The response's parameters sit near 0 or 1 by nature: judged by an absolute uncertainty.
+      const loose = RESPONSE_SLOTS.includes(slot) ? error > 0.15 : error > Math.abs(v[slot]) * 0.5 + (slot >= 3 && slot <= 5 ? 0.05 : 0);
+      if (!Number.isFinite(error) || loose) {
         fitWarnings.push(`the known regions cannot constrain ${SLOTS[slot]} (uncertainty ${Number.isFinite(error) ? error.toPrecision(2) : 'undefined'}): add regions of other thicknesses, or fix it`);
       }
     });
@@ -229,7 +289,7 @@ export function fitCalibration(input: CalibrationFitInput): CalibrationFitResult
   const v = solved.v;
   warnings.push(...solved.warnings);
   const uncertainties = active.length > 0 ? solved.uncertainties : {};
-  const predicted = predictFor(v);
+  const predicted = predictFor(v).subarray(0, observations);
   let sum = 0;
   for (let i = 0; i < observations; i++) sum += (predicted[i] - y[i]) ** 2;
   const rms = Math.sqrt(sum / observations);
@@ -240,6 +300,8 @@ export function fitCalibration(input: CalibrationFitInput): CalibrationFitResult
       flare: [v[3], v[4], v[5]],
       filmIndexScale: v[6],
       angleDeg: v[7],
+      response: responseFitted ? { contrast: v[14], gamma: v[15], saturation: v[16] } : null,
+      responseSource: responseFitted ? 'calibration' : 'identity',
     },
     uncertainties,
     predicted: regions.map((_, k) => [predicted[k * 3], predicted[k * 3 + 1], predicted[k * 3 + 2]]),
@@ -249,6 +311,7 @@ export function fitCalibration(input: CalibrationFitInput): CalibrationFitResult
     warnings: [...new Set(warnings)],
     field,
     fieldNote,
+    responseNote,
   };
 }
 

@@ -8,11 +8,14 @@
  * W(wb) are white-balance gains on the camera's own channels (see ../colour/exposureModel.ts).
  *
  * `encode` is the sRGB transfer function (IEC 61966-2-1:1999) for JPEG/PNG photos, or the
- * identity for linear raw images.
+ * identity for linear raw images. For sRGB photos the camera's response (its picture style: a tone
+ * curve and a saturation factor, ../colour/toneResponse.ts) is applied after the encode when the
+ * parameters carry one, so every consumer of the predicted table sees it.
  */
 import type { ExposureParameters } from './types.js';
 import { createSrgbEncoder } from '../colour/srgbEncoderTable.js';
 import { balanceTable } from '../colour/exposureModel.js';
+import { applyResponse } from '../colour/toneResponse.js';
 
 export interface ColourTable {
   readonly startNm: number;
@@ -48,6 +51,7 @@ export function predictEncodedTable(
     out[o + 1] = linearOut ? g : encodeFast(g);
     out[o + 2] = linearOut ? b : encodeFast(b);
   }
+  if (!linearOut) applyResponse(out, table.count, parameters.response);
   return out;
 }
 

@@ -13,6 +13,17 @@
  * gains near 1 (± 0.3) and the flare near 0 (± 0.05 of full scale), so that a photo with few
  * distinct colours cannot trade them freely against thickness; such a photo is also reported
  * (see `distinctColourCount`), since its parameters rest on those priors.
+ *
+ * With `fitResponse` the camera's response (picture style, ../colour/toneResponse.ts: tone-curve
+ * contrast and gamma, saturation about luma) is fitted in the same LM, with weak priors toward the
+ * identity (contrast 0 ± 0.4, ln γ 0 ± 0.2, saturation 1 ± 0.25), so a clean photo stays near it.
+ * The degeneracies are kept apart by the model's shapes over a photo of many colours: the
+ * exposure scales linear light before the encode and clips, the gamma bends encoded values as a
+ * power; flare lifts every channel's darkest linear level, the contrast darkens the shadows of all
+ * colours alike and brightens the highlights; the white balance scales the camera's channels, the
+ * saturation moves every colour away from its own luma along its own hue. The caller fits it only
+ * on photos with enough distinct colours (mapPixels.ts, MIN_RESPONSE_COLOURS); without
+ * `fitResponse` the start's response (a series' previous frame) is held, else the identity.
  */
 import { fitLeastSquares } from '../fit/fitLeastSquares.js';
 import { decodeSrgb } from '../colour/srgb.js';
@@ -21,10 +32,17 @@ import { type MatchSpace, toMatchSpace } from './matchSpace.js';
 import { distanceAt } from './candidateCube.js';
 import { refinePosition, walkDownhill } from './matchColour.js';
 import type { ExposureParameters } from './types.js';
+import { CONTRAST_RANGE, GAMMA_RANGE, IDENTITY_RESPONSE, SATURATION_RANGE } from '../colour/toneResponse.js';
 
 export interface PhotoFormationFit {
   readonly parameters: ExposureParameters;
-  readonly standardErrors: { exposure: number; whiteBalance: [number, number, number]; flare: [number, number, number] };
+  readonly standardErrors: {
+    exposure: number;
+    whiteBalance: [number, number, number];
+    flare: [number, number, number];
+    /** Standard errors of contrast, gamma and saturation (NaN when the response was not fitted). */
+    response: [number, number, number];
+  };
   /** Root-mean-square colour residual of the retained samples (encoded units). */
   readonly rmsResidual: number;
   readonly samplesUsed: number;
@@ -52,6 +70,8 @@ export interface PhotoFormationOptions {
    * parameters in a series, where the light and camera rarely change between frames.
    */
   readonly start?: ExposureParameters | null;
+  /** Fit the camera's response (tone curve and saturation) too; default false. */
+  readonly fitResponse?: boolean;
 }
 
 /** Predicted table in the matching space. */
@@ -68,6 +88,10 @@ const OUTER_ITERATIONS = 4;
 /** Samples used by the coarse exposure scan. */
 const SCAN_SAMPLES = 500;
 const TRIM_FACTOR = 6;
+/** Weak priors of the response toward the identity (judgements: wider than everyday styles' spread). */
+const CONTRAST_PRIOR_SIGMA = 0.4;
+const LOG_GAMMA_PRIOR_SIGMA = 0.2;
+const SATURATION_PRIOR_SIGMA = 0.25;
 
 export function fitPhotoFormation(options: PhotoFormationOptions): PhotoFormationFit {
   const { table, samples, noiseSigma } = options;
@@ -75,13 +99,14 @@ export function fitPhotoFormation(options: PhotoFormationOptions): PhotoFormatio
   const warnings: string[] = [];
   let current: ExposureParameters;
   if (options.start) {
-    current = { exposure: options.start.exposure, whiteBalance: [...options.start.whiteBalance], flare: [...options.start.flare] };
+    current = { exposure: options.start.exposure, whiteBalance: [...options.start.whiteBalance], flare: [...options.start.flare], response: options.start.response ?? null };
   } else {
     const initialFlare = estimateFlare(options.samplesRgb ?? samples, table.encoding);
     const initialWb = options.initialWhiteBalance ?? [1, 1, 1];
     const exposure0 = scanExposure(table, samples, initialWb, initialFlare, options.space);
-    current = { exposure: exposure0, whiteBalance: [...initialWb], flare: initialFlare };
+    current = { exposure: exposure0, whiteBalance: [...initialWb], flare: initialFlare, response: null };
   }
+  if (options.fitResponse && table.encoding === 'srgb' && !current.response) current = { ...current, response: IDENTITY_RESPONSE };
   const assigned = new Int32Array(sampleCount);
   const keep = new Uint8Array(sampleCount).fill(1);
   const predicted = new Float32Array(table.count * 3);
@@ -89,6 +114,7 @@ export function fitPhotoFormation(options: PhotoFormationOptions): PhotoFormatio
     exposure: NaN,
     whiteBalance: [NaN, NaN, NaN],
     flare: [NaN, NaN, NaN],
+    response: [NaN, NaN, NaN],
   };
   let rms = NaN;
   const previous = new Int32Array(sampleCount).fill(-1);
@@ -105,6 +131,9 @@ export function fitPhotoFormation(options: PhotoFormationOptions): PhotoFormatio
     current = result.parameters;
     standardErrors = result.standardErrors;
     rms = result.rms;
+    // An inner fit that stopped short is taken up by the next outer iteration from where it
+    // ended: only the last inner fit's warnings describe the parameters returned.
+    warnings.length = 0;
     warnings.push(...result.warnings);
   }
   let used = 0;
@@ -232,9 +261,26 @@ interface InnerResult {
   warnings: string[];
 }
 
-const PARAMETER_NAMES = ['the exposure', 'the red white-balance gain', 'the blue white-balance gain', 'the red flare', 'the green flare', 'the blue flare'];
+const PARAMETER_NAMES = [
+  'the exposure',
+  'the red white-balance gain',
+  'the blue white-balance gain',
+  'the red flare',
+  'the green flare',
+  'the blue flare',
+  'the tone-curve contrast',
+  'the tone-curve gamma',
+  'the saturation',
+];
+const PRIOR_ROWS = 8;
+const MAX_ITERATIONS = 25;
+/** Three more parameters, and the tone curve bends the path: more room to settle. */
+const MAX_ITERATIONS_WITH_RESPONSE = 25;
 
-/** Parameter vector: [exposure, wbR, wbB, flareR, flareG, flareB] (wbG ≡ 1, exposure absorbs it). */
+/**
+ * Parameter vector: [exposure, wbR, wbB, flareR, flareG, flareB, contrast, gamma, saturation]
+ * (wbG ≡ 1, exposure absorbs it).
+ */
 function innerFit(
   options: PhotoFormationOptions,
   start: ExposureParameters,
@@ -247,7 +293,11 @@ function innerFit(
   const m = kept.length;
   const priorWeight = (Math.sqrt(m) * Math.max(noiseSigma, 1e-3)) / WHITE_BALANCE_PRIOR_SIGMA;
   const flarePriorWeight = (Math.sqrt(m) * Math.max(noiseSigma, 1e-3)) / FLARE_PRIOR_SIGMA;
-  const rows = m * 3 + 5;
+  const fitResponse = options.fitResponse === true && table.encoding === 'srgb';
+  const contrastPriorWeight = (Math.sqrt(m) * Math.max(noiseSigma, 1e-3)) / CONTRAST_PRIOR_SIGMA;
+  const gammaPriorWeight = (Math.sqrt(m) * Math.max(noiseSigma, 1e-3)) / LOG_GAMMA_PRIOR_SIGMA;
+  const saturationPriorWeight = (Math.sqrt(m) * Math.max(noiseSigma, 1e-3)) / SATURATION_PRIOR_SIGMA;
+  const rows = m * 3 + PRIOR_ROWS;
   const y = new Float64Array(rows);
   for (let j = 0; j < m; j++) {
     const i = kept[j];
@@ -258,12 +308,25 @@ function innerFit(
   const x = new Float64Array(rows);
   for (let i = 0; i < rows; i++) x[i] = i;
   const wbG = start.whiteBalance[1];
-  // Full vector: [exposure, wbR, wbB, flareR, flareG, flareB]; only the active ones are fitted.
-  const full = [start.exposure, start.whiteBalance[0], start.whiteBalance[2], start.flare[0], start.flare[1], start.flare[2]];
-  const lowerFull = [start.exposure * 0.05, 0.25, 0.25, -0.05, -0.05, -0.05];
-  const upperFull = [start.exposure * 20, 4, 4, 0.6, 0.6, 0.6];
-  const scaleFull = [start.exposure, 1, 1, 0.05, 0.05, 0.05];
-  const active = [0, ...(fitWhiteBalance ? [1, 2] : []), ...(fitFlare ? [3, 4, 5] : [])];
+  // Full vector: [exposure, wbR, wbB, flareR, flareG, flareB, contrast, gamma, saturation];
+  // only the active ones are fitted.
+  const startResponse = start.response ?? IDENTITY_RESPONSE;
+  const hasResponse = fitResponse || (start.response !== null && start.response !== undefined);
+  const full = [
+    start.exposure,
+    start.whiteBalance[0],
+    start.whiteBalance[2],
+    start.flare[0],
+    start.flare[1],
+    start.flare[2],
+    startResponse.contrast,
+    startResponse.gamma,
+    startResponse.saturation,
+  ];
+  const lowerFull = [start.exposure * 0.05, 0.25, 0.25, -0.05, -0.05, -0.05, CONTRAST_RANGE[0], GAMMA_RANGE[0], SATURATION_RANGE[0]];
+  const upperFull = [start.exposure * 20, 4, 4, 0.6, 0.6, 0.6, CONTRAST_RANGE[1], GAMMA_RANGE[1], SATURATION_RANGE[1]];
+  const scaleFull = [start.exposure, 1, 1, 0.05, 0.05, 0.05, 0.1, 0.1, 0.1];
+  const active = [0, ...(fitWhiteBalance ? [1, 2] : []), ...(fitFlare ? [3, 4, 5] : []), ...(fitResponse ? [6, 7, 8] : [])];
   const expand = (p: readonly number[]): number[] => {
     const v = full.slice();
     active.forEach((slot, j) => (v[slot] = p[j]));
@@ -273,6 +336,7 @@ function innerFit(
     exposure: v[0],
     whiteBalance: [v[1], wbG, v[2]],
     flare: [v[3], v[4], v[5]],
+    response: hasResponse ? { contrast: v[6], gamma: v[7], saturation: v[8] } : null,
   });
   const predicted = new Float32Array(table.count * 3);
   const modelValues = new Float64Array(rows);
@@ -297,6 +361,9 @@ function innerFit(
     modelValues[m * 3] = fitWhiteBalance ? priorWeight * (v[1] - 1) : 0;
     modelValues[m * 3 + 1] = fitWhiteBalance ? priorWeight * (v[2] - 1) : 0;
     for (let c = 0; c < 3; c++) modelValues[m * 3 + 2 + c] = fitFlare ? flarePriorWeight * v[3 + c] : 0;
+    modelValues[m * 3 + 5] = fitResponse ? contrastPriorWeight * v[6] : 0;
+    modelValues[m * 3 + 6] = fitResponse ? gammaPriorWeight * Math.log(v[7]) : 0;
+    modelValues[m * 3 + 7] = fitResponse ? saturationPriorWeight * (v[8] - 1) : 0;
     return modelValues;
   };
   const fit = fitLeastSquares({
@@ -310,7 +377,7 @@ function innerFit(
     lower: active.map((slot) => lowerFull[slot]),
     upper: active.map((slot) => upperFull[slot]),
     scale: active.map((slot) => scaleFull[slot]),
-    maxIterations: 25,
+    maxIterations: fitResponse ? MAX_ITERATIONS_WITH_RESPONSE : MAX_ITERATIONS,
     tolerance: 1e-8,
     // The start comes from the exposure scan (first outer iteration) or the previous inner fit:
     // no second polish from it (a third fewer model evaluations, the same parameters on the
@@ -319,18 +386,19 @@ function innerFit(
     parameterNames: active.map((slot) => PARAMETER_NAMES[slot]),
   });
   const v = expand(fit.parameters);
-  const se = [NaN, 0, 0, 0, 0, 0];
+  const se = [NaN, 0, 0, 0, 0, 0, NaN, NaN, NaN];
   active.forEach((slot, j) => (se[slot] = fit.standardErrors[j]));
   const priorRss =
     (fitWhiteBalance ? (priorWeight * (v[1] - 1)) ** 2 + (priorWeight * (v[2] - 1)) ** 2 : 0) +
-    (fitFlare ? flarePriorWeight ** 2 * (v[3] ** 2 + v[4] ** 2 + v[5] ** 2) : 0);
+    (fitFlare ? flarePriorWeight ** 2 * (v[3] ** 2 + v[4] ** 2 + v[5] ** 2) : 0) +
+    (fitResponse ? (contrastPriorWeight * v[6]) ** 2 + (gammaPriorWeight * Math.log(v[7])) ** 2 + (saturationPriorWeight * (v[8] - 1)) ** 2 : 0);
   return {
     parameters: toParameters(v),
-    standardErrors: { exposure: se[0], whiteBalance: [se[1], 0, se[2]], flare: [se[3], se[4], se[5]] },
+    standardErrors: { exposure: se[0], whiteBalance: [se[1], 0, se[2]], flare: [se[3], se[4], se[5]], response: [se[6], se[7], se[8]] },
     rms: Math.sqrt(Math.max(0, fit.residualSumOfSquares - priorRss) / Math.max(1, m * 3)),
     warnings: fit.warnings.map((w) =>
       w.startsWith('did not converge')
-        ? `the exposure, white-balance and flare fit did not settle within ${25} iterations: the map uses the best values found, which may be slightly off (see fit_quality; a calibration removes the doubt)`
+        ? `the exposure, white-balance${fitResponse ? ', flare and camera-response' : ' and flare'} fit did not settle within ${fitResponse ? MAX_ITERATIONS_WITH_RESPONSE : MAX_ITERATIONS} iterations: the map uses the best values found, which may be slightly off (see fit_quality; a calibration removes the doubt)`
         : w,
     ),
   };

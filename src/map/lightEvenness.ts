@@ -9,13 +9,15 @@
  * 25 % vignetting leaves the corners a few per cent off), with one pass of outlier trimming, and the surface's range over the film is reported
  * as relative gains (1 = the median). The mapper fits one exposure for the whole photo, so a wide
  * range means the model does not explain the photo: pixels in the dim or bright parts can be
- * read at a wrong thickness. It is a check, not a correction; a pixel pulled to a wrong thickness
+ * read at a wrong thickness. With a camera response (picture style) both colours are taken back
+ * through its inverse before decoding (../colour/toneResponse.ts). It is a check, not a correction; a pixel pulled to a wrong thickness
  * partly hides its own shortfall, so the range found is a lower bound of the real one.
  */
 import { choleskySolve } from '../fit/normalEquations.js';
 import { decodeSrgb } from '../colour/srgb.js';
 import { PixelStatus } from './types.js';
 import { modelColourAt, type PhotoAndModel } from './fitQuality.js';
+import { type CameraResponse, createResponseInverse } from '../colour/toneResponse.js';
 
 export interface LightEvenness {
   /** Lowest and highest relative gain of the fitted surface over the film (median 1). */
@@ -42,6 +44,8 @@ export function relativeGainAt(coefficients: readonly number[], width: number, h
 export interface LightEvennessInput extends PhotoAndModel {
   readonly width: number;
   readonly height: number;
+  /** The camera's response the model's colours carry (absent = identity). */
+  readonly response?: CameraResponse | null;
 }
 
 /** Above this max/min gain ratio over the film, the map warns (a judgement: 15 % shifts orders' colours visibly). */
@@ -80,6 +84,8 @@ export function lightEvennessOf(input: LightEvennessInput): LightEvenness | null
   const vs = new Float64Array(us.length);
   const logs = new Float64Array(us.length);
   const model = new Float64Array(3);
+  const plain = new Float64Array(6);
+  const inverseResponse = createResponseInverse(input.encoded ? input.response : null);
   const half = Math.max(width, height) / 2;
   let seen = 0;
   let n = 0;
@@ -90,8 +96,10 @@ export function lightEvennessOf(input: LightEvennessInput): LightEvenness | null
     const b = rgb[i * 3 + 2];
     if (r > 0.97 || g > 0.97 || b > 0.97) continue;
     modelColourAt(input, thicknessNm[i], model);
-    const modelY = luminance(model[0], model[1], model[2], input.encoded);
-    const photoY = luminance(r, g, b, input.encoded);
+    inverseResponse.invert(model[0], model[1], model[2], plain, 0);
+    inverseResponse.invert(r, g, b, plain, 3);
+    const modelY = luminance(plain[0], plain[1], plain[2], input.encoded);
+    const photoY = luminance(plain[3], plain[4], plain[5], input.encoded);
     if (modelY < MIN_MODEL_LUMINANCE || photoY <= 0) continue;
     const x = i % width;
     const y = (i - x) / width;

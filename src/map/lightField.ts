@@ -17,6 +17,7 @@
  */
 import { createSrgbDecoder, createSrgbEncoder } from '../colour/srgbEncoderTable.js';
 import { relativeGainAt } from './lightEvenness.js';
+import { applyResponse, type CameraResponse, createResponseInverse } from '../colour/toneResponse.js';
 import type { ExposureField, ExposureParameters, MapResult } from './types.js';
 
 export type { ExposureField } from './types.js';
@@ -57,7 +58,12 @@ function logGainRangeOver(result: MapResult, coefficients: readonly number[], wi
 /** Log-gain margin beyond the range seen over the film (2 %). */
 const CLAMP_MARGIN = 0.02;
 
-/** The photo with the field's gain divided out in linear light (a copy in shared memory). */
+/**
+ * The photo with the field's gain divided out in linear light (a copy in shared memory). With a
+ * camera response (picture style), each pixel is taken back through its inverse first and the
+ * response is applied again after (../colour/toneResponse.ts), so the gain is divided out where
+ * it acted: in linear light.
+ */
 export function evenOutLight(
   rgb: Float32Array,
   width: number,
@@ -66,8 +72,10 @@ export function evenOutLight(
   flare: readonly number[],
   /** Hold the log gain within [lo, hi] (see `logGainRangeOver`); null = as the surface gives it. */
   clamp: readonly [number, number] | null = null,
+  response: CameraResponse | null = null,
 ): Float32Array {
   const out = new Float32Array(new SharedArrayBuffer(rgb.length * 4));
+  const inverseResponse = createResponseInverse(response);
   const c = logGainCoefficients;
   const half = Math.max(width, height) / 2;
   // log gain = a(u) + b(v) + c4·u·v + c6·(u² + v²)²: the u and v parts once per column and row.
@@ -93,10 +101,18 @@ export function evenOutLight(
       if (clamp) logGain = logGain < clamp[0] ? clamp[0] : logGain > clamp[1] ? clamp[1] : logGain;
       const inverse = Math.exp(-logGain);
       const i = (y * width + x) * 3;
-      out[i] = encodeFast((decodeFast(rgb[i]) - f0) * inverse + f0);
-      out[i + 1] = encodeFast((decodeFast(rgb[i + 1]) - f1) * inverse + f1);
-      out[i + 2] = encodeFast((decodeFast(rgb[i + 2]) - f2) * inverse + f2);
+      if (inverseResponse.identity) {
+        out[i] = encodeFast((decodeFast(rgb[i]) - f0) * inverse + f0);
+        out[i + 1] = encodeFast((decodeFast(rgb[i + 1]) - f1) * inverse + f1);
+        out[i + 2] = encodeFast((decodeFast(rgb[i + 2]) - f2) * inverse + f2);
+      } else {
+        inverseResponse.invert(rgb[i], rgb[i + 1], rgb[i + 2], out, i);
+        out[i] = encodeFast((decodeFast(out[i]) - f0) * inverse + f0);
+        out[i + 1] = encodeFast((decodeFast(out[i + 1]) - f1) * inverse + f1);
+        out[i + 2] = encodeFast((decodeFast(out[i + 2]) - f2) * inverse + f2);
+      }
     }
+    if (!inverseResponse.identity) applyResponse(out.subarray(y * width * 3, (y + 1) * width * 3), width, response);
   }
   return out;
 }
@@ -110,6 +126,8 @@ export interface LightFieldStart {
   readonly logGainCoefficients: readonly number[];
   /** The flare to keep while dividing the gain out before the first map (linear, per channel). */
   readonly flare: readonly number[];
+  /** The camera response to undo and re-apply around the division (a calibration's or the previous frame's); absent = none. */
+  readonly response?: CameraResponse | null;
   /** `fixed`: apply only (a calibration's field); `start`: apply, then refine as usual. */
   readonly use: 'fixed' | 'start';
 }
@@ -142,8 +160,9 @@ function alternate<R extends MapResult>(
   start: readonly number[] | null,
   startFlare: readonly number[],
   fitStart: ExposureParameters | null = null,
+  startResponse: CameraResponse | null = null,
 ): Alternation<R> {
-  const first = mapWith(start ? evenOutLight(rgb, width, height, start, startFlare) : rgb, fitStart);
+  const first = mapWith(start ? evenOutLight(rgb, width, height, start, startFlare, null, startResponse) : rgb, fitStart);
   if (!first.lightEvenness || first.filmArea?.found === false) return { first, best: first, coefficients: start ? [...start] : null, clamp: null, rounds: 0 };
   if (!start && ratioOf(first) <= START_RATIO) return { first, best: first, coefficients: null, clamp: null, rounds: 0 };
   let best = first;
@@ -159,7 +178,7 @@ function alternate<R extends MapResult>(
     const range = logGainRangeOver(current, total, width, height);
     // Each round starts its photo-formation fit from the last (the photo changed only by the field);
     // should the refit lose the film, the round keeps the last fit's parameters instead.
-    const evened = evenOutLight(rgb, width, height, total, current.fitted.flare, range);
+    const evened = evenOutLight(rgb, width, height, total, current.fitted.flare, range, current.fitted.response ?? null);
     const refitted = mapWith(evened, current.fitted);
     current = refitted.filmArea?.found === false ? mapWith(evened, null, current.fitted) : refitted;
     rounds++;
@@ -191,7 +210,7 @@ function fromCentre<R extends MapResult>(
   if (centre.filmArea?.found === false) return null;
   const e = centre.lightEvenness;
   const plane = e && e.gainMax / e.gainMin > START_RATIO ? [e.logGainCoefficients[0], e.logGainCoefficients[1], e.logGainCoefficients[2], 0, 0, 0, 0] : null;
-  const run = alternate(rgb, width, height, mapWith, plane, plane ? centre.fitted.flare : startFlare, centre.fitted);
+  const run = alternate(rgb, width, height, mapWith, plane, plane ? centre.fitted.flare : startFlare, centre.fitted, centre.fitted.response ?? null);
   return run.best.filmArea?.found === false ? null : run;
 }
 
@@ -221,23 +240,24 @@ export function mapWithLightField<R extends MapResult, P extends MapResult = R>(
 ): { result: R; field: ExposureField | null } {
   if (start && start.use === 'fixed') {
     const coefficients = [...start.logGainCoefficients];
-    const result = mapWith(evenOutLight(rgb, width, height, coefficients, start.flare));
+    const result = mapWith(evenOutLight(rgb, width, height, coefficients, start.flare, null, start.response ?? null));
     return { result, field: fieldOver(result, coefficients, width, height, 0, 'calibration', false) };
   }
   const startCoefficients = mode === 'auto' && start ? [...start.logGainCoefficients] : null;
   const startFlare = start?.flare ?? [0, 0, 0];
+  const startResponse = start?.response ?? null;
   if (mode === 'off') return { result: mapWith(rgb), field: null };
   if (preview) {
-    let small = alternate(preview.rgb, preview.width, preview.height, preview.mapWith, startCoefficients, startFlare);
+    let small = alternate(preview.rgb, preview.width, preview.height, preview.mapWith, startCoefficients, startFlare, null, startResponse);
     if (!small.coefficients && small.first.filmArea?.found === false && preview.mapCentreWith) {
       small = fromCentre(preview.rgb, preview.width, preview.height, preview.mapWith, preview.mapCentreWith, startFlare) ?? small;
     }
     if (!small.coefficients) return { result: mapWith(rgb), field: null };
     // The preview's fit starts the full map's (the same light, once evened).
-    const result = mapWith(evenOutLight(rgb, width, height, small.coefficients, small.best.fitted.flare, small.clamp), small.best.fitted);
+    const result = mapWith(evenOutLight(rgb, width, height, small.coefficients, small.best.fitted.flare, small.clamp, small.best.fitted.response ?? null), small.best.fitted);
     return { result, field: fieldOver(result, small.coefficients, width, height, small.rounds, 'photo', true) };
   }
-  let run = alternate(rgb, width, height, mapWith, startCoefficients, startFlare);
+  let run = alternate(rgb, width, height, mapWith, startCoefficients, startFlare, null, startResponse);
   if (!run.coefficients && run.first.filmArea?.found === false && mapCentreWith) {
     run = fromCentre(rgb, width, height, mapWith, mapCentreWith, startFlare) ?? run;
   }

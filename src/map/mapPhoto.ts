@@ -359,10 +359,10 @@ function lightFieldStartOf(options: MapOptions, width: number, height: number): 
         `--calibration ${fixed.file}: its light field was fitted on a ${fixed.widthPx}×${fixed.heightPx} photo, this photo is ${width}×${height}; a field belongs to one camera position and framing (calibrate on a photo of this size, or add --ignore-calibration-mismatch to stretch it over this photo)`,
       );
     }
-    return { logGainCoefficients: fixed.logGainCoefficients, flare: options.exposureFixed?.flare ?? [0, 0, 0], use: 'fixed' };
+    return { logGainCoefficients: fixed.logGainCoefficients, flare: options.exposureFixed?.flare ?? [0, 0, 0], response: options.exposureFixed?.response ?? null, use: 'fixed' };
   }
   if (options.fieldStart && options.lightField !== 'off') {
-    return { logGainCoefficients: options.fieldStart, flare: options.fitStart?.flare ?? [0, 0, 0], use: 'start' };
+    return { logGainCoefficients: options.fieldStart, flare: options.fitStart?.flare ?? [0, 0, 0], response: options.fitStart?.response ?? null, use: 'start' };
   }
   return null;
 }

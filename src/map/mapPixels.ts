@@ -36,6 +36,7 @@ import { resolveOrders } from './resolveOrders.js';
 import { percentileSelect } from './statistics.js';
 import { summariseMap } from './summariseMap.js';
 import { tableLimits } from './tableLimits.js';
+import { type CameraResponse, describeResponse, isStrongResponse } from '../colour/toneResponse.js';
 import { type Anchor, type ExposureParameters, type FilmAreaMode, type FilmAreaSummary, type MapResult, PixelStatus } from './types.js';
 
 export interface MapPixelsInput {
@@ -101,6 +102,15 @@ const MIN_FIT_SAMPLES = 64;
 const REFIT_EXCLUDED_SHARE = 0.1;
 /** Fewer distinct colours than this: the photo-formation fit is reported as poorly determined. */
 const MIN_DISTINCT_COLOURS = 12;
+/**
+ * Fewer distinct colours than this (distinctColourCount): the camera's response is not fitted
+ * (identity, or a series' previous frame's). A judgement, see DEVELOPERS.md: a tone curve and a
+ * saturation need dark, mid and bright colours of several hues beside exposure, white balance and
+ * flare. Measured on invented scenes: a draining soap film or a wafer with a bowl and steps holds
+ * 57–68; a film whose gradient spans 140 nm holds 36, and there the contrast traded with the
+ * flare enough to split a black-film disc into false thin regions; so 48.
+ */
+export const MIN_RESPONSE_COLOURS = 48;
 /** Pixels sampled (on a regular stride) for the photo-formation fit. */
 const FIT_SAMPLES = 2000;
 /** Smaller photos are mapped on one thread (starting helpers would cost more than it saves). */
@@ -152,8 +162,9 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   let fitSampleCount = 0;
   const fitOnFilm = (start: ExposureParameters | null, balanced: boolean): ExposureParameters => {
     const plain = sampleFitPixels(rgb, status, pixels, FIT_SAMPLES, balanced);
+    const distinct = distinctColourCount(sampleFitPixels(rgb, status, pixels, FIT_SAMPLES, false));
     // Anchors take part in the fit: their pixels are samples of known thickness.
-    const anchored = anchorSamples(rgb, status, width, height, anchors, table, plain.length / 3, distinctColourCount(sampleFitPixels(rgb, status, pixels, FIT_SAMPLES, false)));
+    const anchored = anchorSamples(rgb, status, width, height, anchors, table, plain.length / 3, distinct);
     const samplesRgb = anchored ? concatFloat32(plain, anchored.colours) : plain;
     const fixedIndex = anchored ? new Int32Array(samplesRgb.length / 3).fill(-1) : null;
     if (anchored && fixedIndex) fixedIndex.set(anchored.index, plain.length / 3);
@@ -174,8 +185,9 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
       samplesRgb,
       fixedIndex,
       start,
+      fitResponse: responseFitted(table, distinct),
     });
-    return fit.parameters;
+    return { ...fit.parameters, responseSource: responseSourceOf(table, distinct, start) };
   };
   // Before the film area is known, a colour-balanced sample keeps a large uniform background
   // from outvoting the film; once it is known, the film's own pixels are sampled plainly.
@@ -233,6 +245,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
         );
       }
       warnings.push(...currentFit.warnings);
+      warnings.push(...responseWarnings(table, parameters, distinct));
     }
   }
   const { predictedRgb, predicted, limits, cellDark, field } = cells;
@@ -319,7 +332,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   });
   if (fitQuality && fitQuality.verdict === 'poor' && filmArea.found) warnings.push(poorFitWarning(fitQuality));
   const lightEvenness = filmArea.found
-    ? lightEvennessOf({ rgb, status, thicknessNm, predictedRgb, startNm: table.startNm, stepNm: table.stepNm, width, height, encoded: table.encoding === 'srgb' })
+    ? lightEvennessOf({ rgb, status, thicknessNm, predictedRgb, startNm: table.startNm, stepNm: table.stepNm, width, height, encoded: table.encoding === 'srgb', response: parameters.response })
     : null;
   if (lightEvenness && lightEvenness.gainMax / lightEvenness.gainMin > UNEVEN_LIGHT_RATIO) warnings.push(unevenLightWarning(lightEvenness));
   if (input.expectNm && filmArea.found && reasons.poorMatch + filmArea.excludedPx.not_film_colour > 0.01 * pixels) {
@@ -925,6 +938,27 @@ function restrictTable(table: ColourTable, [minNm, maxNm]: readonly [number, num
     count: last - first + 1,
     rgbLinear: table.rgbLinear.subarray(first * 3, (last + 1) * 3),
   };
+}
+
+function responseFitted(table: ColourTable, distinct: number): boolean {
+  return table.encoding === 'srgb' && distinct >= MIN_RESPONSE_COLOURS;
+}
+
+function responseSourceOf(table: ColourTable, distinct: number, start: ExposureParameters | null): 'photo' | 'calibration' | 'identity' {
+  if (responseFitted(table, distinct)) return 'photo';
+  return start?.response ? (start.responseSource ?? 'photo') : 'identity';
+}
+
+/** Plain words on the camera's response: a strong picture style found, or none fitted for want of colours. */
+function responseWarnings(table: ColourTable, parameters: ExposureParameters, distinct: number): string[] {
+  if (table.encoding !== 'srgb') return [];
+  if (parameters.responseSource === 'photo' && isStrongResponse(parameters.response)) {
+    return [`the camera's picture style was fitted: ${describeResponse(parameters.response as CameraResponse)} (the map undoes it; a photo without a picture style, or a --calibration of this camera, is more certain)`];
+  }
+  // Too few colours to fit it: the JSON record says so (response.source 'identity'); no warning,
+  // as most such photos (a uniform coating, a step wafer) are mapped with a calibration anyway.
+  void distinct;
+  return [];
 }
 
 function round1(value: number): number {

@@ -6,6 +6,7 @@
  */
 import { basename } from 'node:path';
 import { LAMELLA_VERSION } from '../version.js';
+import { IDENTITY_RESPONSE, TONE_FAMILY } from '../colour/toneResponse.js';
 import { type ExposureField, type FilmAreaSummary, type MapOptions, type MapResult, PixelStatus } from './types.js';
 
 /** Pixels by status (JSON `pixel_counts`); `unknown` only when some code is none of PixelStatus. */
@@ -131,6 +132,7 @@ export function mapResultJson(
           ? 'brightest and darkest fringes of this photo (single-line light)'
           : 'fitted to this photo (Levenberg–Marquardt)',
     },
+    response: responseJson(result.fitted, options),
     limits: {
       dark_limit_nm: result.darkLimitNm,
       // A film whose reflectance vanishes as it thins (a free film) looks black when very thin;
@@ -164,6 +166,26 @@ export function mapResultJson(
     caution:
       'Thickness from a photograph is an estimate, not a substitute for qualified metrology (ellipsometry, reflectometry, profilometry) for release or safety decisions.',
   };
+}
+
+/**
+ * The JSON `response` block: the camera's response (picture style) the map assumed, with where it
+ * came from: fitted to this photo, from the calibration, or the identity (a linear camera, too few
+ * colours to fit it, or a series frame holding its predecessor's).
+ */
+export function responseJson(fitted: MapResult['fitted'], options: Pick<MapOptions, 'exposureFixed'>): Record<string, unknown> {
+  const response = fitted.response ?? IDENTITY_RESPONSE;
+  const source = fitted.response ? (fitted.responseSource ?? (options.exposureFixed ? 'calibration' : 'photo')) : 'identity';
+  return {
+    tone: { family: TONE_FAMILY, parameters: { contrast: round4(response.contrast), gamma: round4(response.gamma) } },
+    saturation: round4(response.saturation),
+    luma_weights: 'BT.601',
+    source,
+  };
+}
+
+function round4(value: number): number {
+  return Math.round(value * 1e4) / 1e4;
 }
 
 /** The JSON form of a light field (./lightField.ts), shared by map records and calibration files. */

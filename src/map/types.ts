@@ -3,6 +3,7 @@
  * calibration, the monochromatic mode and the report all build on these records.
  */
 import type { Stack } from '../optics/types.js';
+import type { CameraResponse } from '../colour/toneResponse.js';
 
 /** Per-pixel status codes stored alongside the thickness map. */
 export const PixelStatus = {
@@ -80,11 +81,18 @@ export interface Anchor {
   readonly thicknessNm: number;
 }
 
-/** Photo-formation parameters: encoded = encode(exposure · wb_c · rgbLinear_c(d) + flare_c). */
+/**
+ * Photo-formation parameters: encoded = R(encode(exposure · wb_c · rgbLinear_c(d) + flare_c)),
+ * R the camera's response (picture style: tone curve and saturation, ../colour/toneResponse.ts).
+ */
 export interface ExposureParameters {
   readonly exposure: number;
   readonly whiteBalance: readonly [number, number, number];
   readonly flare: readonly [number, number, number];
+  /** The camera's response; absent or null = the identity (pixel values are plain sRGB). */
+  readonly response?: CameraResponse | null;
+  /** Where the response came from (absent = identity, nothing fitted). */
+  readonly responseSource?: 'photo' | 'calibration' | 'identity';
 }
 
 export interface MapOptions {

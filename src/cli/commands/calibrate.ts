@@ -3,6 +3,7 @@
  * photo-formation parameters (and on request film index and angle) from rectangles of known
  * thickness, writes them with uncertainties to a file `map` and `series` take with --calibration.
  */
+import { describeResponse } from '../../colour/toneResponse.js';
 import { CAMERA_HELP, parseCameraOption } from '../cameraOption.js';
 import { LIGHT_FIELD_HELP, parseLightFieldOption } from '../lightFieldOption.js';
 import type { Command } from 'commander';
@@ -41,13 +42,13 @@ export function parseFitList(text: string): CalibrationParameter[] {
 export function register(program: Command): void {
   const command = program
     .command('calibrate')
-    .description('fit exposure, flare and white balance (optionally film index and angle) from regions of known thickness; writes a calibration file')
+    .description("fit exposure, flare, white balance and the camera's picture style (optionally film index and angle) from regions of known thickness; writes a calibration file")
     .argument('<photo>', 'photo of a reference sample (e.g. a step wafer with measured patches)');
   addLightOptions(addStackOptions(command), { required: false })
     .option('--camera <mode-or-file>', CAMERA_HELP)
     .option('--known <x,y,w,h=nm>', 'a rectangle of known film thickness (repeatable, at least one)', collect)
     .option('--light-field <mode>', `${LIGHT_FIELD_HELP}; fitted on the known regions when they are 4 or more spread over at least half the photo's width and height, and stored for \`map --calibration\` (same photo size)`, 'auto')
-    .option('--fit <list>', `parameters to fit, from ${CALIBRATION_PARAMETERS.join(',')}`, 'exposure,flare,white-balance')
+    .option('--fit <list>', `parameters to fit, from ${CALIBRATION_PARAMETERS.join(',')} (response: the camera's tone curve and saturation, fitted from 4 or more known thicknesses)`, 'exposure,flare,white-balance,response')
     .requiredOption('--out <file>', 'calibration file to write (JSON)')
     .option('--force', 'overwrite an existing calibration file')
     .option('--json', 'print the calibration record on stdout')
@@ -83,7 +84,14 @@ function lightFieldLine(field: { relative_gain_min?: number; relative_gain_max?:
 }
 
 function summary(record: Record<string, unknown>, out: string): string {
-  const fitted = record.fitted as { exposure: number; whiteBalance: number[]; flare: number[]; filmIndexScale: number; angleDeg: number };
+  const fitted = record.fitted as {
+    exposure: number;
+    whiteBalance: number[];
+    flare: number[];
+    filmIndexScale: number;
+    angleDeg: number;
+    response?: { contrast: number; gamma: number; saturation: number } | null;
+  };
   const u = record.uncertainty as Record<string, number | null>;
   const pm = (key: string): string => (u[key] == null ? '' : ` ± ${(u[key] as number).toPrecision(2)}`);
   const lines = [
@@ -93,6 +101,7 @@ function summary(record: Record<string, unknown>, out: string): string {
     `  flare          ${fitted.flare.map((f) => f.toFixed(4)).join(', ')}`,
     `  index scale    ${fitted.filmIndexScale.toFixed(4)}${pm('indexScale')}`,
     `  angle          ${fitted.angleDeg.toFixed(2)}°${pm('angleDeg')}`,
+    `  picture style  ${fitted.response ? describeResponse(fitted.response) : `none (identity)${typeof record.response_note === 'string' ? `: ${record.response_note}` : ''}`}`,
     `  light field    ${lightFieldLine(record.exposure_field as { relative_gain_min?: number; relative_gain_max?: number; fitted_terms?: string; note: string })}`,
     ...(record.known_regions as Array<{ region_px: number[]; thickness_nm: number; residual_delta_e2000: number }>).map(
       (k) => `  known ${k.region_px.join(',')} = ${k.thickness_nm} nm: residual ΔE2000 ${k.residual_delta_e2000.toFixed(2)}`,

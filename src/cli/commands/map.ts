@@ -3,6 +3,7 @@
  * and its outputs written atomically; a bad photo is reported and the others go on (exit 3 at
  * the end). `--fail-if-thin` turns a thin region into exit status 1.
  */
+import { type CameraResponse, describeResponse, isStrongResponse } from '../../colour/toneResponse.js';
 import { CAMERA_HELP, parseCameraOption } from '../cameraOption.js';
 import { LIGHT_FIELD_HELP, parseLightFieldOption } from '../lightFieldOption.js';
 import type { Command } from 'commander';
@@ -153,14 +154,14 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
           camera,
           angleRad,
           known,
-          fit: ['exposure', 'flare', 'white-balance'],
+          fit: ['exposure', 'flare', 'white-balance', 'response'],
           lightField,
         });
-        const fitted = onPhoto.fitted as { exposure: number; whiteBalance: [number, number, number]; flare: [number, number, number] };
+        const fitted = onPhoto.fitted as { exposure: number; whiteBalance: [number, number, number]; flare: [number, number, number]; response: CameraResponse | null };
         const field = (onPhoto.exposure_field as { log_gain_coefficients: number[] | null }).log_gain_coefficients;
         photoOptions = {
           ...options,
-          exposureFixed: fitted,
+          exposureFixed: { ...fitted, responseSource: fitted.response ? 'calibration' : 'identity' },
           exposureFieldFixed: field ? { logGainCoefficients: field, widthPx: decoded.width, heightPx: decoded.height, file: photo, ignoreSizeMismatch: false } : null,
         };
         for (const warning of onPhoto.warnings) warn(`${photo}: calibration: ${warning}`);
@@ -219,7 +220,9 @@ export function summaryLine(photo: string, result: Pick<MapResult, 'stats' | 'th
     ? ` over uneven light (${result.exposureField.source === 'calibration' ? "calibration's" : 'fitted'} field ${result.exposureField.gainMin.toFixed(2)}–${result.exposureField.gainMax.toFixed(2)})`
     : '';
   const film = result.filmArea && result.filmArea.mode === 'auto' ? `, film ${f(result.filmArea.fraction * 100)} % of the photo` : '';
-  return `${photo}: median ${f(s.median_nm)} nm (p05 ${f(s.p05_nm)}, p95 ${f(s.p95_nm)})${film}, coverage ${f(s.coverage * 100)} %${thin}, ${result.thinRegions.length} thin region(s), exposure ×${result.fitted.exposure.toFixed(2)}${field}`;
+  const response = result.fitted.response;
+  const style = response && isStrongResponse(response) ? `, picture style ${result.fitted.responseSource === 'calibration' ? 'from the calibration' : 'fitted'} (${describeResponse(response)})` : '';
+  return `${photo}: median ${f(s.median_nm)} nm (p05 ${f(s.p05_nm)}, p95 ${f(s.p95_nm)})${film}, coverage ${f(s.coverage * 100)} %${thin}, ${result.thinRegions.length} thin region(s), exposure ×${result.fitted.exposure.toFixed(2)}${field}${style}`;
 }
 
 function parseThreads(value: string): number {
