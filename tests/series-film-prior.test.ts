@@ -74,7 +74,7 @@ describe('series film area following the previous frame (invented scenes; round 
     expect(await readFile(join(dir, 'burst-sh', 'series.csv'), 'utf8')).toBe(csv);
   }, 240_000);
 
-  it('black film growing from the top wire over most of the frame stays film in every frame; alone, the frame where it fills 2/3 of the film finds none', async () => {
+  it('black film growing from the top wire over most of the frame stays film in every frame; alone, the frame where it fills 2/3 of the film loses most of it', async () => {
     // Stage 0 … 14: the black front moves from 5 % to 77 % of the frame's height.
     const series = await scenes.blackFilmGrowingSeries(5, 14);
     await writeFrames('grow', series.frames);
@@ -90,9 +90,12 @@ describe('series film area following the previous frame (invented scenes; round 
       const truth = scenes.truthFractions(series.frames[i]).thinFraction!;
       expect(Math.abs(Number(row.split(',')[thinColumn]) - truth), `frame ${i}`).toBeLessThanOrEqual(0.02);
     });
-    // The case the prior is for: frame 3 mapped on its own (no previous frame) loses its film,
-    // since its black film meets the first-order band along a short front only.
+    // The case the prior is for: frame 3 mapped on its own (no previous frame) loses most of its
+    // film (or all of it), since its black film meets the first-order band along a short front
+    // only; in the series it keeps it (above).
     const alone = await mapPhotoFile(join(dir, 'grow', series.frames[3].fileName), scenes.mapOptionsFor(series.frames[3], { filmArea: 'auto', threads: 1 }) as never);
-    expect(alone.filmArea?.found).toBe(false);
+    const truthPx = scenes.truthFractions(series.frames[3]).filmPx;
+    expect(alone.filmArea?.found === false || alone.filmArea!.areaPx < 0.5 * truthPx).toBe(true);
+    expect((await filmPerFrame('grow-out'))[3]).toBeGreaterThan(0.8 * truthPx);
   }, 240_000);
 });

@@ -30,11 +30,11 @@ export const START_RATIO = 1.04;
 export const SETTLED_RATIO = 1.02;
 const MAX_ROUNDS = 3;
 
-/** Max/min gain left over the film; a map that found no film, or could not tell, is never "more even". */
+/** Max/min gain left over the film; a map that found no film, or too little to tell, is never "more even". */
 function ratioOf(result: MapResult): number {
   const e = result.lightEvenness;
-  if (result.filmArea?.found === false) return Infinity;
-  return e ? e.gainMax / e.gainMin : 1;
+  if (result.filmArea?.found === false || !e) return Infinity;
+  return e.gainMax / e.gainMin;
 }
 
 /**
@@ -176,11 +176,8 @@ function alternate<R extends MapResult>(
     const step = current.lightEvenness.logGainCoefficients;
     for (let k = 0; k < total.length; k++) total[k] += step[k] ?? 0;
     const range = logGainRangeOver(current, total, width, height);
-    // Each round starts its photo-formation fit from the last (the photo changed only by the field);
-    // should the refit lose the film, the round keeps the last fit's parameters instead.
-    const evened = evenOutLight(rgb, width, height, total, current.fitted.flare, range, current.fitted.response ?? null);
-    const refitted = mapWith(evened, current.fitted);
-    current = refitted.filmArea?.found === false ? mapWith(evened, null, current.fitted) : refitted;
+    // Each round starts its photo-formation fit from the last (the photo changed only by the field).
+    current = mapWith(evenOutLight(rgb, width, height, total, current.fitted.flare, range, current.fitted.response ?? null), current.fitted);
     rounds++;
     if (ratioOf(current) < ratioOf(best)) {
       best = current;
@@ -207,11 +204,16 @@ function fromCentre<R extends MapResult>(
   startFlare: readonly number[],
 ): Alternation<R> | null {
   const centre = mapCentreWith(rgb);
-  if (centre.filmArea?.found === false) return null;
+  if (!centre.filmArea || centre.filmArea.found === false) return null;
   const e = centre.lightEvenness;
   const plane = e && e.gainMax / e.gainMin > START_RATIO ? [e.logGainCoefficients[0], e.logGainCoefficients[1], e.logGainCoefficients[2], 0, 0, 0, 0] : null;
   const run = alternate(rgb, width, height, mapWith, plane, plane ? centre.fitted.flare : startFlare, centre.fitted, centre.fitted.response ?? null);
-  return run.best.filmArea?.found === false ? null : run;
+  // Kept only when the whole photo then shows at least the film the middle showed, and the model
+  // explains it (a few stray pixels "found" would be worse than saying no film was found).
+  const area = run.best.filmArea;
+  const centreArea = centre.filmArea?.areaPx ?? 0;
+  if (!area || area.found === false || area.areaPx < centreArea || centre.fitQuality?.verdict === 'poor' || run.best.fitQuality?.verdict === 'poor') return null;
+  return run;
 }
 
 /**

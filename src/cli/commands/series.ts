@@ -247,10 +247,9 @@ async function run(inputs: string[], opts: SeriesCliOptions): Promise<void> {
     });
   } catch (error) {
     throw cliError(error, inputs);
-  } finally {
-    process.off('SIGINT', onSignal);
-    process.off('SIGTERM', onSignal);
   }
+  // The handlers stay until the process ends: a signal after the run (while the image codec's
+  // threads wind down) must not reach the fallback handler, whose immediate exit could cut them.
   if (result.interrupted || signalName !== null) {
     process.stderr.write(`\nlamella: series interrupted by ${signalName ?? 'a signal'}; finished frames are kept, rerun the same command to resume\n`);
     process.exitCode = signalName === 'SIGTERM' ? 143 : 130;
