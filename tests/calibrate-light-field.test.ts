@@ -17,6 +17,7 @@ import { encodeNpy } from '../src/io/encodeNpy.js';
 import { readPhoto } from '../src/io/readPhoto.js';
 import { encodeSrgb } from '../src/colour/srgb.js';
 import { relativeGainAt } from '../src/map/lightEvenness.js';
+import { unevenGainAt } from './uneven-light.js';
 
 const root = new URL('..', import.meta.url).pathname;
 const dir = mkdtempSync(join(tmpdir(), 'lamella-cal-field-'));
@@ -33,15 +34,9 @@ function decodeNpyFloat(buf: Buffer): Float32Array {
   return new Float32Array(buf.buffer.slice(buf.byteOffset + 10 + headerLength, buf.byteOffset + buf.length));
 }
 
-/** Relative light at (x, y) of a width × height photo: tilted 35 % fall-off × vignetting (25 % at the corners). */
+/** Relative light at (x, y) of a width × height photo (./uneven-light.ts). */
 function gainAt(x: number, y: number, width = W, height = H): number {
-  const u = x / (width - 1);
-  const v = y / (height - 1);
-  const along = 0.8 * u + 0.6 * v - 0.1 * Math.min(u, v);
-  const falloff = 1 - 0.35 * Math.min(1, Math.max(0, along / 1.3));
-  const rNorm = Math.hypot(x - width / 2, y - height / 2) / Math.hypot(width / 2, height / 2);
-  const theta = Math.atan(rNorm * Math.tan(Math.acos(Math.pow(0.75, 0.25))));
-  return falloff * Math.pow(Math.cos(theta), 4);
+  return unevenGainAt(x, y, width, height);
 }
 
 /** Step wafer: 4 × 3 patches of known oxide thickness, 4 px lanes of 60 nm oxide between them. */

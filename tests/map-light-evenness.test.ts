@@ -16,6 +16,7 @@ import { readPhoto } from '../src/io/readPhoto.js';
 import { mapDecodedPhoto } from '../src/map/mapPhoto.js';
 import { relativeGainAt } from '../src/map/lightEvenness.js';
 import { resolveStack } from '../src/optics/index.js';
+import { unevenGainAt } from './uneven-light.js';
 
 function decodeNpyFloat(buf: Buffer): Float32Array {
   const headerLength = buf.readUInt16LE(8);
@@ -33,15 +34,9 @@ function lamella(...args: string[]): { status: number | null; stdout: string; st
   return { status: r.status, stdout: r.stdout, stderr: r.stderr };
 }
 
-/** Relative light at (x, y): tilted 35 % fall-off × vignetting (25 % at the corners). */
+/** Relative light at (x, y) (./uneven-light.ts). */
 function gainAt(x: number, y: number): number {
-  const u = x / (W - 1);
-  const v = y / (H - 1);
-  const along = 0.8 * u + 0.6 * v - 0.1 * Math.min(u, v);
-  const falloff = 1 - 0.35 * Math.min(1, Math.max(0, along / 1.3));
-  const rNorm = Math.hypot(x - W / 2, y - H / 2) / Math.hypot(W / 2, H / 2);
-  const theta = Math.atan(rNorm * Math.tan(Math.acos(Math.pow(0.75, 0.25))));
-  return falloff * Math.pow(Math.cos(theta), 4);
+  return unevenGainAt(x, y, W, H);
 }
 
 beforeAll(async () => {
@@ -112,15 +107,7 @@ describe('light evenness and the exposure field (JSON light_evenness, exposure_f
     const render = lamella('render', 'big.npy', '--stack', 'soap-film', '--light', 'D65', '--camera', 'linear', '--exposure', '0.9', '--flare', '0.003', '--noise', '0.002', '--out', 'big-even.tif');
     expect(render.status, render.stderr).toBe(0);
     const even = await readPhoto(join(dir, 'big-even.tif'));
-    const gainBig = (x: number, y: number): number => {
-      const u = x / (BW - 1);
-      const v = y / (BH - 1);
-      const along = 0.8 * u + 0.6 * v - 0.1 * Math.min(u, v);
-      const falloff = 1 - 0.35 * Math.min(1, Math.max(0, along / 1.3));
-      const rNorm = Math.hypot(x - BW / 2, y - BH / 2) / Math.hypot(BW / 2, BH / 2);
-      const theta = Math.atan(rNorm * Math.tan(Math.acos(Math.pow(0.75, 0.25))));
-      return falloff * Math.pow(Math.cos(theta), 4);
-    };
+    const gainBig = (x: number, y: number): number => unevenGainAt(x, y, BW, BH);
     const lit = new Uint16Array(BW * BH * 3);
     for (let i = 0; i < BW * BH; i++) {
       const g = gainBig(i % BW, Math.floor(i / BW));

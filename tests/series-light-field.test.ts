@@ -12,6 +12,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { encodeNpy } from '../src/io/encodeNpy.js';
 import { encodeTiff } from '../src/io/encodeImage.js';
 import { readPhoto } from '../src/io/readPhoto.js';
+import { unevenGainAt } from './uneven-light.js';
 
 const root = new URL('..', import.meta.url).pathname;
 const dir = mkdtempSync(join(tmpdir(), 'lamella-series-field-'));
@@ -26,12 +27,7 @@ function lamella(...args: string[]): { status: number | null; stdout: string; st
 }
 
 function gainAt(x: number, y: number): number {
-  const u = x / (W - 1);
-  const v = y / (H - 1);
-  const falloff = 1 - 0.35 * Math.min(1, Math.max(0, (0.8 * u + 0.6 * v - 0.1 * Math.min(u, v)) / 1.3));
-  const rNorm = Math.hypot(x - W / 2, y - H / 2) / Math.hypot(W / 2, H / 2);
-  const theta = Math.atan(rNorm * Math.tan(Math.acos(Math.pow(0.75, 0.25))));
-  return falloff * Math.pow(Math.cos(theta), 4);
+  return unevenGainAt(x, y, W, H);
 }
 
 beforeAll(async () => {

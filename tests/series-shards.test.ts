@@ -1,7 +1,8 @@
 // Shards as schedulers hand them out: `--shard auto` from a Slurm job array's variables (task ids
 // MIN, MIN+STEP, …; Slurm's sbatch documentation, "OUTPUT ENVIRONMENT VARIABLES": SLURM_ARRAY_TASK_ID,
-// _MIN, _STEP, _COUNT) or a Kubernetes indexed Job (JOB_COMPLETION_INDEX from 0; Kubernetes
-// documentation, "Indexed Job for Parallel Processing"); more shards than chunks is a usage error;
+// _MIN, _STEP, _COUNT — from memory) or a Kubernetes indexed Job (JOB_COMPLETION_INDEX from 0;
+// Kubernetes documentation, "Indexed Job for Parallel Processing" — from memory); the frame
+// counts and names below are of our own rules (shard and aggregation contract, common practice); more shards than chunks is a usage error;
 // `--aggregate-only` with frames lacking a result exits 3 naming them. Frames: the first 4 of the
 // bundled demo (invented data).
 import { spawnSync } from 'node:child_process';
