@@ -18,6 +18,7 @@ import { readPhoto } from '../src/io/readPhoto.js';
 import { encodeSrgb } from '../src/colour/srgb.js';
 import { relativeGainAt } from '../src/map/lightEvenness.js';
 import { unevenGainAt } from './uneven-light.js';
+import { EVERYDAY_STYLE, applyStyle } from './response-scenes.js';
 
 const root = new URL('..', import.meta.url).pathname;
 const dir = mkdtempSync(join(tmpdir(), 'lamella-cal-field-'));
@@ -65,17 +66,21 @@ function knownArgs(which: readonly number[] = STEPS_NM.map((_, k) => k)): string
 const production = new Float32Array(W * H);
 
 /** Renders a thickness map as a linear 16-bit TIFF, applies the light, writes an 8-bit sRGB PNG. */
-async function photograph(truth: Float32Array, name: string, width: number, height: number, lit: boolean, exposure: number): Promise<void> {
+async function photograph(truth: Float32Array, name: string, width: number, height: number, lit: boolean, exposure: number, styled = false): Promise<void> {
   writeFileSync(join(dir, `${name}.npy`), encodeNpy(truth, [height, width]));
   const r = lamella('render', `${name}.npy`, '--stack', 'oxide-on-silicon', '--light', 'F11', '--camera', 'linear', '--exposure', String(exposure), '--noise', '0.002', '--out', `${name}.linear.tif`);
   expect(r.status, r.stderr).toBe(0);
   const linear = await readPhoto(join(dir, `${name}.linear.tif`));
-  const out = Buffer.alloc(width * height * 3);
+  const encoded = new Float64Array(width * height * 3);
   for (let i = 0; i < width * height; i++) {
     const g = lit ? gainAt(i % width, Math.floor(i / width), width, height) : 1;
     // Veiling glare of 0.4 % of full scale, added after the lamp's fall-off (common practice).
-    for (let c = 0; c < 3; c++) out[i * 3 + c] = Math.round(255 * encodeSrgb(Math.min(1, linear.rgb[i * 3 + c] * g + 0.004)));
+    for (let c = 0; c < 3; c++) encoded[i * 3 + c] = encodeSrgb(Math.min(1, linear.rgb[i * 3 + c] * g + 0.004));
   }
+  // The camera's picture style on the encoded values (./response-scenes.ts: not the fit's family).
+  if (styled) applyStyle(encoded, EVERYDAY_STYLE);
+  const out = Buffer.alloc(width * height * 3);
+  for (let i = 0; i < encoded.length; i++) out[i] = Math.round(255 * encoded[i]);
   await sharp(out, { raw: { width, height, channels: 3 } }).png().toFile(join(dir, `${name}.png`));
 }
 
@@ -92,6 +97,9 @@ beforeAll(async () => {
   await photograph(steps, 'steps', W, H, true, 1.6);
   await photograph(steps, 'steps-even', W, H, false, 1.6);
   await photograph(production, 'wafer', W, H, true, 1.6);
+  // The same station through a camera with an everyday picture style (S-curve, saturation ×1.25).
+  await photograph(steps, 'steps-styled', W, H, true, 1.6, true);
+  await photograph(production, 'wafer-styled', W, H, true, 1.6, true);
   // The same station's camera with a smaller crop: another photo size.
   const small = new Float32Array(200 * 150);
   for (let i = 0; i < small.length; i++) small[i] = 450;
@@ -176,6 +184,26 @@ describe('map --calibration applies the stored field to another photo of the sam
     const without = errors('m-off');
     expect(without.p95).toBeGreaterThan(2 * withField.p95);
   }, 60_000);
+
+  it('a station with uneven light and a picture style: calibrate fits both (--fit …,response), and the production wafer mapped with them meets the targets', () => {
+    const c = lamella('calibrate', 'steps-styled.png', ...base, ...knownArgs(), '--fit', 'exposure,white-balance,flare,response', '--out', 'cal-styled.json');
+    expect(c.status, c.stderr).toBe(0);
+    const cal = JSON.parse(readFileSync(join(dir, 'cal-styled.json'), 'utf8'));
+    expect(['radial', 'quadratic']).toContain(cal.exposure_field.fitted_terms);
+    expect(Math.abs(cal.fitted.response.saturation - EVERYDAY_STYLE.saturation)).toBeLessThanOrEqual(0.08);
+    const r = lamella('map', 'wafer-styled.png', ...base, '--calibration', 'cal-styled.json', '--film-area', 'whole', '--out', 'm-styled', '--no-report');
+    expect(r.status, r.stderr).toBe(0);
+    const record = JSON.parse(readFileSync(join(dir, 'm-styled', 'wafer-styled.json'), 'utf8'));
+    expect(record.response.source).toBe('calibration');
+    expect(record.exposure_field.source).toContain('calibration');
+    const map = decodeNpyFloat(readFileSync(join(dir, 'm-styled', 'wafer-styled.thickness.npy')));
+    const diffs: number[] = [];
+    for (let i = 0; i < map.length; i++) if (Number.isFinite(map[i])) diffs.push(Math.abs(map[i] - production[i]));
+    diffs.sort((a, b) => a - b);
+    expect(diffs.length / map.length).toBeGreaterThanOrEqual(0.95);
+    expect(diffs.filter((d) => d > 50).length / map.length).toBeLessThanOrEqual(0.01);
+    expect(diffs[Math.floor(0.95 * (diffs.length - 1))]).toBeLessThanOrEqual(15);
+  }, 90_000);
 
   it('a photo of another size is refused (exit 2, both sizes named) unless --ignore-calibration-mismatch', () => {
     const r = lamella('map', 'crop.png', ...base, '--calibration', 'cal.json', '--out', 'c', '--no-report');

@@ -27,7 +27,10 @@
  *    caller warns). Otherwise dark surroundings (a cloth around a film held in view).
  * 3. Cells enclosed by the film (unexplained colour mixtures on steep rings, small isolated
  *    matches) belong to it; what is not enclosed is not film (by reason). Clipped cells and a halo
- *    around them (four cells plus the glint's radius) are glints.
+ *    around them (four cells plus the glint's radius) are glints. A cell counts as clipped only when
+ *    its clipped pixels are glare, two or more channels at the clipping level (mapPixels.ts): a
+ *    vivid film colour that a picture style's saturation boost pushed past the encoding in one
+ *    channel is film with a colour no thickness gives, not a glint.
  */
 import { type Components, dilateSquare, erodeSquare, labelComponents } from './gridMorphology.js';
 import type { FilmAreaExclusions } from './types.js';

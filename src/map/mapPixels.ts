@@ -401,6 +401,7 @@ function averageCells(
       let n = 0;
       let darkCount = 0;
       let saturatedCount = 0;
+      let glareCount = 0;
       let total = 0;
       for (let y = y0; y < y1; y++) {
         for (let x = x0; x < x1; x++) {
@@ -409,7 +410,10 @@ function averageCells(
           if (s === PixelStatus.excluded) continue;
           total++;
           if (s === PixelStatus.dark) darkCount++;
-          else if (s === PixelStatus.saturated) saturatedCount++;
+          else if (s === PixelStatus.saturated) {
+            saturatedCount++;
+            if (isGlare(rgb, i)) glareCount++;
+          }
           if (s !== PixelStatus.ok) continue;
           r += rgb[i * 3];
           g += rgb[i * 3 + 1];
@@ -422,7 +426,7 @@ function averageCells(
         const s = status[centre];
         if (s !== PixelStatus.ok) {
           if (s === PixelStatus.dark) dark[c] = 1;
-          state[c] = s === PixelStatus.dark ? 1 : s === PixelStatus.saturated ? 2 : s === PixelStatus.excluded ? 3 : 4;
+          state[c] = s === PixelStatus.dark ? 1 : s === PixelStatus.saturated && isGlare(rgb, centre) ? 2 : s === PixelStatus.excluded ? 3 : 4;
           continue;
         }
       } else if (total === 0) {
@@ -431,7 +435,11 @@ function averageCells(
       } else if (darkCount * 2 > total) {
         dark[c] = 1;
         state[c] = 1;
-      } else if (saturatedCount * 2 > total) state[c] = 2;
+      } else if (saturatedCount * 2 > total) {
+        // Clipped mostly in one channel: a vivid film colour beyond the encoding (a picture
+        // style's saturation boost), not a glint; its cell is a colour no thickness gives here.
+        state[c] = glareCount * 2 >= saturatedCount ? 2 : 4;
+      }
       if (n === 0 || n * 2 < total) {
         if (state[c] === 0) state[c] = 4;
         continue;
@@ -870,6 +878,15 @@ function applyFilmArea(
     }
   }
   return marked;
+}
+
+/**
+ * A clipped pixel that looks like glare (a lamp's reflection, a glint): at least two channels at
+ * the clipping level. One clipped channel with the others well below is a vivid colour the
+ * encoding could not hold, on film as much as anywhere.
+ */
+function isGlare(rgb: Float32Array, i: number): boolean {
+  return (rgb[i * 3] >= SATURATED ? 1 : 0) + (rgb[i * 3 + 1] >= SATURATED ? 1 : 0) + (rgb[i * 3 + 2] >= SATURATED ? 1 : 0) >= 2;
 }
 
 /** Undoes what the film area and the dark test wrote (before they are decided again). */
