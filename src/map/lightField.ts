@@ -36,6 +36,14 @@ export const SETTLED_RATIO = 1.02;
  * soon as the light is even within SETTLED_RATIO, so evenly lit or mildly uneven photos pay less.
  */
 const MAX_ROUNDS = 5;
+/**
+ * Each round's measured gain is added 1.5 times (over-relaxation). The measurement understates the
+ * fall-off, since pixels still read at a wrong thickness pull the photo-to-model ratio towards one;
+ * taking a larger step settles in fewer rounds (measured on the bench's light scenes: 5, 5, 4
+ * rounds at 1.0 against 4, 4, 2 at 1.6, with equal or smaller errors). A step that overshoots is
+ * measured and taken back by the next round, and a round is kept only when the photo ends more even.
+ */
+const OVER_RELAXATION = 1.5;
 
 /** Max/min gain left over the film; a map that found no film, or too little to tell, is never "more even". */
 function ratioOf(result: MapResult): number {
@@ -181,7 +189,7 @@ function alternate<R extends MapResult>(
   let clamp: [number, number] | null = null;
   while (rounds < MAX_ROUNDS && current.lightEvenness && ratioOf(current) > SETTLED_RATIO) {
     const step = current.lightEvenness.logGainCoefficients;
-    for (let k = 0; k < total.length; k++) total[k] += step[k] ?? 0;
+    for (let k = 0; k < total.length; k++) total[k] += OVER_RELAXATION * (step[k] ?? 0);
     const range = logGainRangeOver(current, total, width, height);
     // Each round starts its photo-formation fit from the last (the photo changed only by the field).
     // The camera response starts again from where the photo's started (a previous frame's or a
