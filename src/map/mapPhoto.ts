@@ -22,7 +22,7 @@ import type { Photo } from '../io/photo.js';
 import { isMonochromaticLight, mapMonochromatic } from '../mono/index.js';
 import { type BuiltColourTable, buildColourTable } from './buildColourTable.js';
 import { buildFilmMask } from './filmMask.js';
-import { mapPixels } from './mapPixels.js';
+import { mapPixels, type MapPixelsResult } from './mapPixels.js';
 import { defaultThreads } from './pixelThreads.js';
 import { chromaWeightFor } from './matchSpace.js';
 import { renderFlagsPng, renderMapPng, scaleRangeOf } from './mapImages.js';
@@ -32,8 +32,11 @@ import { mapResultJson } from './mapResultJson.js';
 
 export { mapResultJson } from './mapResultJson.js';
 
-/** A map plus what is needed to write its outputs. */
-export type MappedPhoto = MapResult & {
+/**
+ * A map plus what is needed to write its outputs. Why pixels lack an estimate and how many poor
+ * matches their neighbours kept are present on a fresh map, absent on one read back from disk.
+ */
+export type MappedPhoto = MapResult & Partial<Pick<MapPixelsResult, 'ambiguousReasons' | 'keptByNeighbours'>> & {
   /** The decoded photo's encoded RGB (for the flags image and the report). */
   readonly photoRgb?: Float32Array;
   readonly extra?: Record<string, unknown>;
