@@ -235,30 +235,40 @@ function fromCentre<R extends MapResult>(
   return run;
 }
 
-/**
- * Maps the photo with the exposure as a smooth field when the light is uneven. With a `preview`
- * (a large photo subsampled to a few hundred thousand pixels), the field is found by the
- * alternation on the preview and the full photo is mapped once, evened by it: an uneven 12-MP
- * photo then costs one full map plus a few small ones instead of 2–4 full maps. The field's
- * coordinates are fractions of the photo (./lightEvenness.ts), the same on both.
- */
-export function mapWithLightField<R extends MapResult, P extends MapResult = R>(
-  rgb: Float32Array,
-  width: number,
-  height: number,
+/** The photo and how to map it, for `mapWithLightField`. */
+export interface LightFieldJob<R extends MapResult, P extends MapResult = R> {
+  /** Encoded RGB, interleaved. */
+  readonly rgb: Float32Array;
+  readonly width: number;
+  readonly height: number;
   /** Maps the (evened) pixels; `fitStart` starts the photo-formation fit (the preview's fit); `fixed` replaces it. */
-  mapWith: (pixels: Float32Array, fitStart?: ExposureParameters | null, fixed?: ExposureParameters | null) => R,
-  mode: LightFieldMode,
-  start: LightFieldStart | null = null,
-  preview: LightFieldPreview<P> | null = null,
+  readonly mapWith: (pixels: Float32Array, fitStart?: ExposureParameters | null, fixed?: ExposureParameters | null) => R;
+  readonly mode: LightFieldMode;
+  /** A previous frame's field to start from, or a calibration's to apply. */
+  readonly start?: LightFieldStart | null;
+  /** A subsampled copy of a large photo to find the field on. */
+  readonly preview?: LightFieldPreview<P> | null;
   /**
    * Maps the pixels measuring only the middle of the photo. When one exposure explains no part of
    * the photo (strong fall-off across a film on a dark background can make the one-exposure fit
    * fail everywhere), the field is first found where the light varies least — the middle — then
    * refined over the whole photo; a photo that is not a film finds no film there either.
    */
-  mapCentreWith: ((pixels: Float32Array) => R) | null = null,
-): { result: R; field: ExposureField | null } {
+  readonly mapCentreWith?: ((pixels: Float32Array) => R) | null;
+}
+
+/**
+ * Maps the photo with the exposure as a smooth field when the light is uneven. With a `preview`
+ * (a large photo subsampled to a few hundred thousand pixels), the field is found by the
+ * alternation on the preview and the full photo is mapped once, evened by it: an uneven 12-MP
+ * photo then costs one full map plus a few small ones instead of 2–6 full maps. The field's
+ * coordinates are fractions of the photo (./lightEvenness.ts), the same on both.
+ */
+export function mapWithLightField<R extends MapResult, P extends MapResult = R>(job: LightFieldJob<R, P>): { result: R; field: ExposureField | null } {
+  const { rgb, width, height, mapWith, mode } = job;
+  const start = job.start ?? null;
+  const preview = job.preview ?? null;
+  const mapCentreWith = job.mapCentreWith ?? null;
   if (start && start.use === 'fixed') {
     const coefficients = [...start.logGainCoefficients];
     const result = mapWith(evenOutLight(rgb, width, height, coefficients, start.flare, null, start.response ?? null));

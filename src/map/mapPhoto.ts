@@ -149,18 +149,18 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
   // Uneven light: the exposure is fitted as a smooth field by alternation (./lightField.ts), on a
   // subsampled preview when the photo is large.
   const preview = previewOf(rgb, full);
-  const { result, field } = mapWithLightField(
+  const { result, field } = mapWithLightField({
     rgb,
-    photo.width,
-    photo.height,
-    (pixels, fitStart, fixed) => mapAt(pixels, full, fitStart ?? null, fixed ?? null),
-    options.lightField ?? 'auto',
-    lightFieldStartOf(options, photo.width, photo.height),
-    preview
+    width: photo.width,
+    height: photo.height,
+    mapWith: (pixels, fitStart, fixed) => mapAt(pixels, full, fitStart ?? null, fixed ?? null),
+    mode: options.lightField ?? 'auto',
+    start: lightFieldStartOf(options, photo.width, photo.height),
+    preview: preview
       ? { rgb: preview.rgb, width: preview.at.width, height: preview.at.height, mapWith: (pixels, fitStart, fixed) => mapAt(pixels, preview.at, fitStart ?? null, fixed ?? null), mapCentreWith: (pixels) => mapAt(pixels, centreOf(preview.at)) }
       : null,
-    (pixels) => mapAt(pixels, centreOf(full)),
-  );
+    mapCentreWith: (pixels) => mapAt(pixels, centreOf(full)),
+  });
   const warnings = [...result.warnings];
   if (built.camera.encoding === 'linear' && photo.bitDepth === 8) {
     warnings.push(
