@@ -1,9 +1,9 @@
 /**
- * Runs the mapper's pixel pass (./pixelPass.ts) on horizontal bands in parallel: the calling
- * thread takes the first band, helper worker threads (./pixelWorker.ts, `node:worker_threads`)
- * the others. The call stays synchronous, so `mapPixels` keeps its plain signature: tasks are
+ * Runs the mapper's pixel pass (./pixelPass.ts) on chunks of rows in parallel: the calling
+ * thread and helper worker threads (./pixelWorker.ts, `node:worker_threads`) each take the next
+ * chunk from a shared counter until none is left. The call stays synchronous, so `mapPixels` keeps its plain signature: tasks are
  * posted to the helpers and the caller blocks in `Atomics.wait` on a small shared control block
- * until each helper has written its counts (the pattern of synchronous calls into a worker).
+ * until each helper has written its summed counts (the pattern of synchronous calls into a worker).
  * Every pixel is computed exactly as on one thread, so the map is identical whatever the count.
  *
  * The large arrays (photo, status, outputs) must live in SharedArrayBuffers (`sharedCopy` makes
@@ -24,9 +24,31 @@ export const CONTROL = { state: 0, first: 1, second: 2, starting: 0, ready: 1, b
 /** A match task's input: the pass input without its per-thread cube and memo. */
 export type SharedPassInput = Omit<PixelPassInput, 'cube' | 'memo'> & { cubeLevels: number; perCell: number; eightBit: boolean };
 
+/**
+ * Rows are handed out in chunks from a shared counter: every thread, the caller included, takes
+ * the next chunk until none is left (`nextChunk`), so a thread slowed by the machine or by a hard
+ * part of the photo (many distinct colours) does not hold up the others.
+ */
+export interface ChunkQueue {
+  /** Int32 slot 0: the index of the next chunk to take. */
+  readonly next: SharedArrayBuffer;
+  readonly chunkRows: number;
+  readonly height: number;
+}
 export type BandTask =
-  | { kind: 'match'; input: SharedPassInput; output: PixelPassOutput; y0: number; y1: number }
-  | { kind: 'score'; input: ScoreInput; output: PixelPassOutput; y0: number; y1: number };
+  | { kind: 'match'; input: SharedPassInput; output: PixelPassOutput; queue: ChunkQueue }
+  | { kind: 'score'; input: ScoreInput; output: PixelPassOutput; queue: ChunkQueue };
+
+/** Rows [y0, y1) of the next chunk of the queue, or null when every chunk is taken. */
+export function nextChunk(queue: ChunkQueue, counter: Int32Array): [number, number] | null {
+  const y0 = Atomics.add(counter, 0, 1) * queue.chunkRows;
+  return y0 < queue.height ? [y0, Math.min(queue.height, y0 + queue.chunkRows)] : null;
+}
+
+/** Rows per chunk: about eight chunks per thread, at least 16 rows. */
+function chunkRowsFor(height: number, threads: number): number {
+  return Math.max(16, Math.ceil(height / (threads * 8)));
+}
 
 interface Helper {
   readonly worker: Worker;
@@ -73,45 +95,43 @@ function startHelpers(count: number): Helper[] {
   return helpers.slice(0, count);
 }
 
-/** The rows of band `k` of `bands` over `height` rows. */
-function bandRows(k: number, bands: number, height: number): [number, number] {
-  return [Math.floor((k * height) / bands), Math.floor(((k + 1) * height) / bands)];
-}
-
 /**
- * Runs `local(y0, y1)` on the first band here and the task for the other bands on up to
- * `threads − 1` helpers; returns every band's result in band order.
+ * Runs the rows of the photo in chunks on this thread and up to `threads − 1` helpers (each
+ * takes chunks from a shared queue until none is left); returns each thread's summed result.
  */
 function runBands<T>(
   threads: number,
   height: number,
-  post: (y0: number, y1: number) => BandTask,
+  post: (queue: ChunkQueue) => BandTask,
   local: (y0: number, y1: number) => T,
   read: (control: Int32Array) => T,
-): T[] {
+  add: (a: T, b: T) => T,
+): T {
   const started = threads > 1 ? startHelpers(threads - 1) : [];
-  const bands = started.length + 1;
-  const posted: Helper[] = [];
-  for (let k = 1; k < bands; k++) {
-    const helper = started[k - 1];
-    const [y0, y1] = bandRows(k, bands, height);
+  const queue: ChunkQueue = { next: new SharedArrayBuffer(4), chunkRows: chunkRowsFor(height, started.length + 1), height };
+  const counter = new Int32Array(queue.next);
+  for (const helper of started) {
     Atomics.store(helper.control, CONTROL.state, CONTROL.busy);
-    helper.worker.postMessage(post(y0, y1));
-    posted.push(helper);
+    helper.worker.postMessage(post(queue));
   }
-  const [y0, y1] = bandRows(0, bands, height);
-  const results = [local(y0, y1)];
-  for (const helper of posted) {
+  let total: T | null = null;
+  for (let rows = nextChunk(queue, counter); rows; rows = nextChunk(queue, counter)) {
+    const part = local(rows[0], rows[1]);
+    total = total === null ? part : add(total, part);
+  }
+  for (const helper of started) {
     Atomics.wait(helper.control, CONTROL.state, CONTROL.busy, BAND_TIMEOUT_MS);
     const state = Atomics.load(helper.control, CONTROL.state);
     if (state === CONTROL.failed) {
       const reply = receiveMessageOnPort(helper.replies);
       throw new Error(`pixel thread failed: ${reply ? String(reply.message) : 'no reason given'}`);
     }
-    if (state !== CONTROL.done) throw new Error(`pixel thread did not finish its band within ${BAND_TIMEOUT_MS / 1000} s`);
-    results.push(read(helper.control));
+    if (state !== CONTROL.done) throw new Error(`pixel thread did not finish its rows within ${BAND_TIMEOUT_MS / 1000} s`);
+    const part = read(helper.control);
+    total = total === null ? part : add(total, part);
   }
-  return results;
+  // A photo has at least one row, and the caller always takes a chunk or a helper did.
+  return total as T;
 }
 
 /** The pixel pass's matching over all rows, on up to `threads` threads; counts are summed. */
@@ -121,14 +141,14 @@ export function matchPixelsThreaded(
   threads: number,
   local: (y0: number, y1: number) => PixelPassCounts,
 ): PixelPassCounts {
-  const counts = runBands(
+  return runBands(
     threads,
     input.height,
-    (y0, y1) => ({ kind: 'match', input, output, y0, y1 }),
+    (queue) => ({ kind: 'match', input, output, queue }),
     local,
     (control) => ({ unresolved: control[CONTROL.first], discontinuous: control[CONTROL.second] }),
+    (a, b) => ({ unresolved: a.unresolved + b.unresolved, discontinuous: a.discontinuous + b.discontinuous }),
   );
-  return counts.reduce((a, b) => ({ unresolved: a.unresolved + b.unresolved, discontinuous: a.discontinuous + b.discontinuous }));
 }
 
 /** The pixel pass's scoring over all rows, on up to `threads` threads; returns the poor matches. */
@@ -139,10 +159,7 @@ export function scorePixelsThreaded(
   threads: number,
   local: (y0: number, y1: number) => number,
 ): number {
-  return runBands(threads, height, (y0, y1) => ({ kind: 'score', input, output, y0, y1 }), local, (control) => control[CONTROL.first]).reduce(
-    (a, b) => a + b,
-    0,
-  );
+  return runBands(threads, height, (queue) => ({ kind: 'score', input, output, queue }), local, (control) => control[CONTROL.first], (a, b) => a + b);
 }
 
 /** A typed array of the same values in a SharedArrayBuffer (the array itself when it is one). */

@@ -1,7 +1,7 @@
 /**
- * Worker-thread entry of the mapper's pixel pass (see ./pixelThreads.ts). Receives band tasks
- * whose large arrays live in SharedArrayBuffers, runs `matchPixelRows` or `scorePixelRows` on its
- * rows, writes the counts into the shared control block and wakes the waiting main thread. Each
+ * Worker-thread entry of the mapper's pixel pass (see ./pixelThreads.ts). Receives tasks whose
+ * large arrays live in SharedArrayBuffers, runs `matchPixelRows` or `scorePixelRows` on chunks of
+ * rows taken from the shared queue until none is left, writes the counts into the shared control block and wakes the waiting main thread. Each
  * match task builds its own colour cube and colour memo (both are deterministic functions of
  * the predicted table, so every thread finds the same answer for the same pixel).
  */
@@ -9,7 +9,7 @@ import { parentPort, workerData, type MessagePort } from 'node:worker_threads';
 import { createCandidateCube } from './candidateCube.js';
 import { createMatchScratch } from './matchColour.js';
 import { createAlternativeMemo, matchPixelRows, scorePixelRows, type PixelPassInput, type ScoreInput } from './pixelPass.js';
-import { CONTROL, type BandTask } from './pixelThreads.js';
+import { CONTROL, nextChunk, type BandTask } from './pixelThreads.js';
 
 const { control: controlBuffer, replies } = workerData as { control: SharedArrayBuffer; replies: MessagePort };
 const control = new Int32Array(controlBuffer);
@@ -21,6 +21,7 @@ function finish(state: number): void {
 
 parentPort?.on('message', (task: BandTask) => {
   try {
+    const counter = new Int32Array(task.queue.next);
     if (task.kind === 'match') {
       const { cubeLevels, perCell, eightBit, ...rest } = task.input;
       const input: PixelPassInput = {
@@ -28,11 +29,20 @@ parentPort?.on('message', (task: BandTask) => {
         cube: createCandidateCube(cubeLevels, perCell),
         memo: eightBit ? createAlternativeMemo(rest.count) : null,
       };
-      const counts = matchPixelRows(input, task.output, createMatchScratch(perCell), task.y0, task.y1);
-      control[CONTROL.first] = counts.unresolved;
-      control[CONTROL.second] = counts.discontinuous;
+      const scratch = createMatchScratch(perCell);
+      let unresolved = 0;
+      let discontinuous = 0;
+      for (let rows = nextChunk(task.queue, counter); rows; rows = nextChunk(task.queue, counter)) {
+        const counts = matchPixelRows(input, task.output, scratch, rows[0], rows[1]);
+        unresolved += counts.unresolved;
+        discontinuous += counts.discontinuous;
+      }
+      control[CONTROL.first] = unresolved;
+      control[CONTROL.second] = discontinuous;
     } else {
-      control[CONTROL.first] = scorePixelRows(task.input as ScoreInput, task.output, task.y0, task.y1);
+      let poor = 0;
+      for (let rows = nextChunk(task.queue, counter); rows; rows = nextChunk(task.queue, counter)) poor += scorePixelRows(task.input as ScoreInput, task.output, rows[0], rows[1]);
+      control[CONTROL.first] = poor;
     }
     finish(CONTROL.done);
   } catch (error) {
