@@ -135,7 +135,7 @@ describe('a stopped re-run leaves the whole old set or the whole new one', () =>
     const b = folder('reference-new');
     expect(cli(b, 'map', 'p.jpg', ...NEW, '--quiet', '--out', '.').status).toBe(0);
     newSet = outputSet(b);
-    expect(Object.keys(oldSet).sort()).toEqual(['p.confidence.npy', 'p.flags.png', 'p.json', 'p.map.png', 'p.report.html', 'p.thickness.npy', 'p.thickness.tif', 'report.html']);
+    expect(Object.keys(oldSet).sort()).toEqual(['p.confidence.npy', 'p.flags.png', 'p.json', 'p.map.png', 'p.report.html', 'p.status.npy', 'p.thickness.npy', 'p.thickness.tif', 'report.html']);
     expect(newSet['p.json']).not.toBe(oldSet['p.json']);
   }, 60_000);
 

@@ -78,7 +78,7 @@ describe('lamella map outputs, read back', () => {
   it('runs and writes every output', () => {
     expect(cli.stderr).toBe('');
     expect(cli.status).toBe(0);
-    for (const suffix of ['.thickness.npy', '.confidence.npy', '.thickness.tif', '.map.png', '.flags.png', '.json', '.report.html']) {
+    for (const suffix of ['.thickness.npy', '.confidence.npy', '.status.npy', '.thickness.tif', '.map.png', '.flags.png', '.json', '.report.html']) {
       expect(existsSync(join(out, `wedge${suffix}`)), suffix).toBe(true);
     }
     expect(existsSync(join(out, 'report.html'))).toBe(true);

@@ -22,7 +22,7 @@ export interface ExpandedInputs {
 }
 
 /** True when `input` uses glob syntax (*, ?, [ ], { }, a leading !). */
-function isGlobPattern(input: string): boolean {
+export function isGlobPattern(input: string): boolean {
   return /[*?[\]{}]/.test(input) || input.startsWith('!');
 }
 

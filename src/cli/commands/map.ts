@@ -9,7 +9,7 @@ import { LIGHT_FIELD_HELP, parseLightFieldOption } from '../lightFieldOption.js'
 import type { Command } from 'commander';
 import { basename, extname, join } from 'node:path';
 import { existsSync, readdirSync, rmdirSync } from 'node:fs';
-import { expandInputPaths } from '../../series/expandInputs.js';
+import { expandInputPaths, isGlobPattern } from '../../series/expandInputs.js';
 import { EXIT_FINDING, EXIT_INPUT, InputError, oneLine } from '../errors.js';
 import { addStackOptions, stackFromOptions, type StackCliOptions } from '../stackOptions.js';
 import { addFilmAreaOptions, filmAreaFromOptions, type FilmAreaCliOptions } from '../filmAreaOptions.js';
@@ -56,7 +56,7 @@ export function register(program: Command): void {
   const command = program
     .command('map')
     .description('map film thickness from colour photos; writes .npy/.tif maps, confidence, previews, JSON and an HTML report per photo')
-    .argument('<photo...>', 'photos (JPEG, PNG, TIFF; 8 or 16 bit), folders of photos or glob patterns (quote them)');
+    .argument('<photo...>', "photos (JPEG, PNG, TIFF; 8 or 16 bit) or glob patterns such as 'shots/*.jpg' (quoted)");
   addFilmAreaOptions(addLightOptions(addStackOptions(command), { required: false }), 'photo')
     .option('--camera <mode-or-file>', CAMERA_HELP)
     .option('--light-field <mode>', LIGHT_FIELD_HELP, 'auto')
@@ -79,11 +79,19 @@ async function runMap(inputs: string[], opts: MapCliOptions): Promise<number> {
   const warn = (message: string): void => {
     if (!opts.quiet) process.stderr.write(`lamella: warning: ${message}\n`);
   };
-  // Files, folders and glob patterns, as for `lamella series`; each photo once, in the order given.
-  const expanded = await expandInputPaths(inputs, process.cwd(), { absolute: false });
-  for (const warning of expanded.warnings) warn(warning);
-  const photos = [...new Set(expanded.paths)];
-  if (photos.length === 0) throw new InputError(inputs.join(' '), 'no photos to map (the folders and patterns given match no image file)');
+  // Glob patterns are expanded as `lamella series` expands them; anything else is a photo path
+  // (a missing file or a folder then fails as that photo, and the other photos go on).
+  const photos: string[] = [];
+  for (const input of inputs) {
+    if (!isGlobPattern(input) || existsSync(input)) {
+      photos.push(input);
+      continue;
+    }
+    const expanded = await expandInputPaths([input], process.cwd(), { absolute: false });
+    for (const warning of expanded.warnings) warn(warning);
+    photos.push(...expanded.paths.filter((path) => !photos.includes(path)));
+  }
+  if (photos.length === 0) throw new InputError(inputs.join(' '), 'no photos to map (the patterns given match no file)');
   const { stack, angleRad } = stackFromOptions(opts, { onWarning: warn });
   // Check the lights before any photo is read: a bad name is a usage error, not a failed photo.
   lightsFromOptions(opts);
