@@ -92,6 +92,10 @@ const KNOWN: Readonly<Record<string, FieldLabel>> = {
   role: { label: 'Role', unit: '' },
   path: { label: 'Path', unit: '' },
   material: { label: 'Material', unit: '' },
+  observed_srgb: { label: 'Observed colour (sRGB 0–1)', unit: '' },
+  fitted_srgb: { label: 'Model colour (sRGB 0–1)', unit: '' },
+  clipped_fraction: { label: 'Share of clipped pixels', unit: '' },
+  pixels: { label: 'Pixels', unit: '' },
 };
 
 /** Unit suffixes of the JSON convention and the unit they stand for. */

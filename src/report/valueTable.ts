@@ -19,6 +19,7 @@ export function formatUnknown(value: unknown, depth = 0): string {
   if (typeof value === 'bigint') return escapeHtml(value.toString());
   if (ArrayBuffer.isView(value)) return `${escapeHtml(value.constructor.name)} (${(value as unknown as ArrayLike<unknown>).length ?? value.byteLength} values)`;
   if (Array.isArray(value)) {
+    if (value.length === 0) return 'none';
     if (value.every((v) => v === null || typeof v !== 'object')) {
       return `[${value.map((v) => formatUnknown(v, depth + 1)).join(', ')}]`;
     }
@@ -43,7 +44,7 @@ export function renderValueTable(record: Record<string, unknown> | null | undefi
       const shown = formatUnknown(value, depth);
       // The unit goes with a value that is a number or a list of numbers, not with "—" or text.
       const numeric = typeof value === 'number' || (typeof value === 'string' && /^-?\d+(\.\d+)?$/.test(value)) || (Array.isArray(value) && value.length > 0 && value.every((v) => typeof v === 'number'));
-      const withUnit = numeric && unit ? `${shown} ${escapeHtml(unit)}` : shown;
+      const withUnit = numeric && unit ? `${shown}${unit === '°' ? '' : ' '}${escapeHtml(unit)}` : shown;
       const title = escapeHtml(help ? `${key}: ${help}` : key);
       return `<tr><th scope="row" title="${title}">${escapeHtml(label)}</th><td>${withUnit}</td></tr>`;
     })
