@@ -23,6 +23,8 @@ import sharp from 'sharp';
 import { Ajv2020 } from 'ajv/dist/2020.js';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { decodeNpy } from '../src/io/decodeNpy.js';
+import { frameRecordFromJson, frameRecordToJson } from '../src/series/frameRecordJson.js';
+import type { FrameRecord } from '../src/series/types.js';
 import { lamella, lamellaAsync, shoot, stepKnownArgs, stepWafer, writePhoto } from './calibrate-scenes.js';
 
 const root = new URL('..', import.meta.url).pathname;
@@ -285,5 +287,34 @@ describe('map inputs', () => {
     mkdirSync(join(dir, 'kept-out'));
     expect(lamella(dir, 'map', 'broken.png', ...STACK, '--out', 'kept-out').status).toBe(3);
     expect(existsSync(join(dir, 'kept-out'))).toBe(true);
+  });
+});
+
+describe('frame records on disk (src/series/frameRecordJson.ts)', () => {
+  // An invented record with every block that is camelCase in memory.
+  const record: FrameRecord = {
+    format: 'lamella-series-frame', version: 1, lamella_version: '0.1.0', frame: 'f1.jpg', stem: 'f1', settingsHash: '0123456789abcdef',
+    width: 4, height: 3, priorFrame: null,
+    stats: { mean_nm: 500, median_nm: 500, std_nm: 0, min_nm: 500, max_nm: 500, p05_nm: 500, p95_nm: 500, uniformity: 0, coverage: 1, thin_fraction: 0, thin_regions: 0, film_area_px: 12 },
+    fitted: { exposure: 6, whiteBalance: [1, 1, 1], flare: [0, 0, 0], responseSource: 'identity' },
+    darkLimitNm: 20, thinRegions: [{ id: 1, areaPx: 2, areaUm2: null, centroidX: 1, centroidY: 1, minThicknessNm: 30, bbox: [0, 0, 2, 1] }], warnings: [],
+    filmArea: { mode: 'auto', areaPx: 12, fraction: 1, areaUm2: null, found: true, excludedPx: { outside_region: 0, dark_surroundings: 0, not_film_colour: 0, glint: 0, isolated: 0, undecided: 0 } },
+    exposureField: null, lightEvenness: { gainMin: 0.98, gainMax: 1.02, pixelsUsed: 12, logGainCoefficients: [0, 0, 0, 0, 0, 0, 0] },
+    fitQuality: { median_delta_e2000: 0.5, p95_delta_e2000: 1, unmatched_fraction: 0, verdict: 'good' },
+    seriesHash: 'fedcba9876543210', source: { sizeBytes: 100, mtimeMs: 1.5, sha256: 'a'.repeat(64) },
+    inputFiles: { 'stack /data/My Stack.json': 'b'.repeat(64) }, previewRangeNm: [0, 1000],
+  };
+
+  it('the JSON form is snake_case (paths kept as keys), follows the schema, and reads back to the same record (a round trip through our own code)', () => {
+    const json = frameRecordToJson(record);
+    expect(notSnakeCase(json)).toEqual([]);
+    expect(validator('series-frame')(json)).toEqual([]);
+    expect((json.input_files as Record<string, string>)['stack /data/My Stack.json']).toBe('b'.repeat(64));
+    expect(frameRecordFromJson(JSON.parse(JSON.stringify(json)))).toEqual(record);
+  });
+
+  it('a record written before the convention (camelCase, no schema_version) is read as it is, so a run resumes over it', () => {
+    expect(frameRecordFromJson(JSON.parse(JSON.stringify(record)))).toEqual(record);
+    expect(frameRecordFromJson({ format: 'something else' })).toBeNull();
   });
 });

@@ -58,12 +58,14 @@ export const SERIES_SCHEMA_VERSION = 1;
 export function seriesSummaryJson(summary: SeriesSummary): Record<string, unknown> {
   const { format, version, ...rest } = summary;
   const json = snakeCaseKeys(rest, new Set(['input_files'])) as Record<string, unknown>;
-  const settings = { ...(json.settings as Record<string, unknown>) };
-  if (typeof settings.angle === 'string' && Number.isFinite(Number(settings.angle))) {
-    // The --angle text as typed is hashed into the settings; the record states the number.
-    const { angle, ...others } = settings;
-    return { format, version, schema_version: SERIES_SCHEMA_VERSION, ...json, settings: { angle_deg: Number(angle), ...others } };
-  }
+  // The --angle text as typed is hashed into the settings; the record states it as a number, in degrees.
+  const settings = Object.fromEntries(
+    Object.entries(json.settings as Record<string, unknown>).map(([key, value]) =>
+      key === 'angle' && (typeof value === 'number' || (typeof value === 'string' && value.trim() !== '' && Number.isFinite(Number(value))))
+        ? ['angle_deg', Number(value)]
+        : [key, value],
+    ),
+  );
   return { format, version, schema_version: SERIES_SCHEMA_VERSION, ...json, settings };
 }
 
