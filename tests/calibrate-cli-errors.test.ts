@@ -16,6 +16,7 @@ import { lamellaAsync } from './calibrate-scenes.js';
 const dir = mkdtempSync(join(tmpdir(), 'lamella-cal-err-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
+// Written in the form of files made before the JSON convention (camelCase fitted names): still read.
 const GOOD = {
   lamella_calibration: 1,
   applies_to: { stack: 'oxide-on-silicon', light: 'D65', white_balance_light: null, angle_deg: 0, camera: 'sRGB' },
@@ -63,7 +64,7 @@ const CASES: Case[] = [
   { name: '--out that is the photo', args: ['calibrate', 'grey.png', '--stack', 'oxide-on-silicon', '--known', '5,5,4,4=100', '--out', 'grey.png', '--force'], status: 2, message: 'grey.png: output would overwrite an input file (it is the input file grey.png); choose another output folder or name' },
   { name: 'a photo that is missing', args: ['calibrate', 'none.png', '--stack', 'oxide-on-silicon', '--known', '5,5,4,4=100', '--out', 'cal.json'], status: 3, message: 'none.png: file not found' },
   { name: 'map --calibration with malformed JSON', args: [...MAP, '--calibration', 'broken.json'], status: 3, message: /^broken\.json: calibration file is not valid JSON \(.+\)$/ },
-  { name: 'map --calibration missing "fitted"', args: [...MAP, '--calibration', 'no-fitted.json'], status: 3, message: 'no-fitted.json: missing field "fitted" (an object with exposure, whiteBalance, flare)' },
+  { name: 'map --calibration missing "fitted"', args: [...MAP, '--calibration', 'no-fitted.json'], status: 3, message: 'no-fitted.json: missing field "fitted" (an object with exposure, white_balance, flare)' },
   { name: 'map --calibration with an infinite exposure', args: [...MAP, '--calibration', 'infinite.json'], status: 3, message: 'infinite.json: fitted.exposure must be a finite number > 0, received Infinity' },
   { name: 'map --calibration with a non-number flare', args: [...MAP, '--calibration', 'nan-flare.json'], status: 3, message: 'nan-flare.json: fitted.flare[1] must be a finite number, received "NaN"' },
   { name: 'map --calibration that is missing', args: [...MAP, '--calibration', 'none.json'], status: 3, message: 'none.json: cannot read calibration file (ENOENT)' },

@@ -56,14 +56,15 @@ describe('calibration record shape (as documented in calibrationFile.ts)', () =>
     expect(record.lamella_calibration).toBe(CALIBRATION_VERSION);
     expect(record.applies_to).toEqual({ stack: 'oxide-on-silicon', light: 'F2', white_balance_light: null, angle_deg: 0, camera: expect.any(String), camera_mode: 'srgb' });
     const fitted = record.fitted as Record<string, unknown>;
-    expect(Object.keys(fitted).sort()).toEqual(['angleDeg', 'exposure', 'filmIndexScale', 'flare', 'response', 'whiteBalance']);
+    expect(record.schema_version).toBe(1);
+    expect(Object.keys(fitted).sort()).toEqual(['angle_deg', 'exposure', 'film_index_scale', 'flare', 'response', 'white_balance']);
     // Not asked for in --fit: no response (the identity).
     expect(fitted.response).toBeNull();
-    expect(fitted.whiteBalance).toHaveLength(3);
+    expect(fitted.white_balance).toHaveLength(3);
     expect(fitted.flare).toHaveLength(3);
-    expect(record.filmIndexScale).toBe(fitted.filmIndexScale);
+    expect(record.film_index_scale).toBe(fitted.film_index_scale);
     expect(record.fitted_parameters).toEqual(['exposure', 'flare', 'white-balance', 'index']);
-    expect(Object.keys(record.uncertainty as object).sort()).toEqual(['exposure', 'flareB', 'flareG', 'flareR', 'indexScale', 'wbB', 'wbR']);
+    expect(Object.keys(record.uncertainty as object).sort()).toEqual(['exposure', 'flare_b', 'flare_g', 'flare_r', 'index_scale', 'wb_b', 'wb_r']);
     expect(record.known_regions).toHaveLength(6);
     expect(record.photo).toBe('step.png');
     expect(record.photo_size_px).toEqual([WIDTH, HEIGHT]);
@@ -75,9 +76,9 @@ describe('calibration record shape (as documented in calibrationFile.ts)', () =>
 describe('readCalibrationFile()', () => {
   it('reads back what was written: exposure, gains, flare, index scale and angle', async () => {
     const read = await readCalibrationFile(good);
-    const fitted = record.fitted as { exposure: number; whiteBalance: number[]; flare: number[]; filmIndexScale: number; angleDeg: number };
-    expect(read.exposureFixed).toEqual({ exposure: fitted.exposure, whiteBalance: fitted.whiteBalance, flare: fitted.flare, response: null, responseSource: 'identity' });
-    expect(read.filmIndexScale).toBe(fitted.filmIndexScale);
+    const fitted = record.fitted as { exposure: number; white_balance: number[]; flare: number[]; film_index_scale: number; angle_deg: number };
+    expect(read.exposureFixed).toEqual({ exposure: fitted.exposure, whiteBalance: fitted.white_balance, flare: fitted.flare, response: null, responseSource: 'identity' });
+    expect(read.filmIndexScale).toBe(fitted.film_index_scale);
     expect(Math.abs((read.filmIndexScale as number) - 1.02)).toBeLessThan(0.003); // round trip of the rendered 1.02
     expect(read.angleDeg).toBe(0);
     expect(read.appliesTo.light).toBe('F2');
@@ -85,13 +86,35 @@ describe('readCalibrationFile()', () => {
 
   it('takes a missing index scale and angle as "not calibrated" (null)', async () => {
     const path = variant('no-index', (r) => {
-      delete r.fitted.filmIndexScale;
-      delete r.filmIndexScale;
-      delete r.fitted.angleDeg;
+      delete r.fitted.film_index_scale;
+      delete r.film_index_scale;
+      delete r.fitted.angle_deg;
     });
     const read = await readCalibrationFile(path);
     expect(read.filmIndexScale).toBeNull();
     expect(read.angleDeg).toBeNull();
+  });
+
+  it('reads a file written before the JSON convention (camelCase names, no schema_version) to the same values', async () => {
+    // A calibration made by an earlier release must not be refused: the same numbers under the old names.
+    const older = variant('older', (r) => {
+      delete r.schema_version;
+      const { white_balance, film_index_scale, angle_deg, ...rest } = r.fitted;
+      r.fitted = { ...rest, whiteBalance: white_balance, filmIndexScale: film_index_scale, angleDeg: angle_deg };
+      r.filmIndexScale = r.film_index_scale;
+      delete r.film_index_scale;
+    });
+    const [now, then] = await Promise.all([readCalibrationFile(good), readCalibrationFile(older)]);
+    expect(then.exposureFixed).toEqual(now.exposureFixed);
+    expect(then.filmIndexScale).toBe(now.filmIndexScale);
+    expect(then.angleDeg).toBe(now.angleDeg);
+    // Its own names in its messages.
+    const broken = variant('older-wb', (r) => {
+      delete r.schema_version;
+      const { white_balance: _w, ...rest } = r.fitted;
+      r.fitted = { ...rest, whiteBalance: [1, 1] };
+    });
+    await expect(readCalibrationFile(broken)).rejects.toThrow(/fitted\.whiteBalance must be an array of 3 finite numbers > 0/);
   });
 
   const bad: Array<[string, () => string, RegExp]> = [
@@ -104,10 +127,10 @@ describe('readCalibrationFile()', () => {
     ['an infinite exposure (1e999)', () => text('inf.json', JSON.stringify(record).replace(/"exposure":[^,}]+/, '"exposure":1e999')), /fitted\.exposure must be a finite number > 0, received Infinity$/],
     ['a negative exposure', () => variant('neg', (r) => (r.fitted.exposure = -2)), /fitted\.exposure must be a finite number > 0, received -2$/],
     ['an exposure given as text', () => variant('textexp', (r) => (r.fitted.exposure = '1.5')), /fitted\.exposure must be a finite number > 0, received "1\.5"$/],
-    ['two white-balance gains', () => variant('wb2', (r) => (r.fitted.whiteBalance = [1, 1])), /fitted\.whiteBalance must be an array of 3 finite numbers > 0, received \[1,1\]$/],
-    ['a zero white-balance gain', () => variant('wb0', (r) => (r.fitted.whiteBalance = [1, 1, 0])), /fitted\.whiteBalance\[2\] must be a finite number > 0, received 0$/],
+    ['two white-balance gains', () => variant('wb2', (r) => (r.fitted.white_balance = [1, 1])), /fitted\.white_balance must be an array of 3 finite numbers > 0, received \[1,1\]$/],
+    ['a zero white-balance gain', () => variant('wb0', (r) => (r.fitted.white_balance = [1, 1, 0])), /fitted\.white_balance\[2\] must be a finite number > 0, received 0$/],
     ['a null flare value', () => variant('flnull', (r) => (r.fitted.flare = [0, null, 0])), /fitted\.flare\[1\] must be a finite number, received null$/],
-    ['an index scale of 0', () => variant('idx0', (r) => (r.fitted.filmIndexScale = 0)), /fitted\.filmIndexScale must be a finite number > 0, received 0$/],
+    ['an index scale of 0', () => variant('idx0', (r) => (r.fitted.film_index_scale = 0)), /fitted\.film_index_scale must be a finite number > 0, received 0$/],
   ];
   for (const [what, make, message] of bad) {
     it(`refuses ${what} with an InputError naming the file and the field`, async () => {
@@ -153,7 +176,7 @@ describe('loadCalibrationForRun()', () => {
   it('with --fit …,angle, compares the fitted angle, not the starting one', async () => {
     const fitted = variant('fitted-angle', (r) => {
       r.fitted_parameters = [...r.fitted_parameters, 'angle'];
-      r.fitted.angleDeg = 30.06;
+      r.fitted.angle_deg = 30.06;
     });
     await expect(loadCalibrationForRun(fitted, run)).rejects.toThrow(
       `--calibration ${fitted} was fitted at an angle of 30.06°, not 0° (give --angle 30.06, or add --ignore-calibration-mismatch to use it anyway)`,
@@ -173,6 +196,6 @@ describe('loadCalibrationForRun()', () => {
 
   it('uses it anyway when asked to ignore the mismatch', async () => {
     const loaded = await loadCalibrationForRun(good, { ...run, light: 'F11', stack: 'nitride-on-silicon', angleRad: 1, whiteBalanceLight: 'A', ignoreMismatch: true });
-    expect(loaded.filmIndexScale).toBe(record.filmIndexScale);
+    expect(loaded.filmIndexScale).toBe(record.film_index_scale);
   });
 });

@@ -26,6 +26,7 @@ import { calibrateDecoded, type CalibrationRecord } from '../src/calibrate/calib
 import type { CalibrationParameter } from '../src/calibrate/fitCalibration.js';
 import { deltaE2000 } from '../src/colour/index.js';
 import { sharedPath } from '../src/data/sharedDir.js';
+import { camelCaseKeysShallow } from '../src/io/jsonKeys.js';
 import { resolveStack } from '../src/optics/index.js';
 import { asDecoded, HEIGHT, shoot, stepKnownRegions, stepWafer, WIDTH, type Shot } from './calibrate-scenes.js';
 
@@ -55,7 +56,10 @@ function calibrate(shot: Shot, fit: CalibrationParameter[], light = shot.light ?
     known: stepKnownRegions(),
     fit,
   });
-  const result = { record, fitted: record.fitted as Fitted, u: record.uncertainty as Record<string, number | null> };
+  // The file's snake_case names (fitted.white_balance, uncertainty.wb_r) read back under the model's names.
+  const f = record.fitted as { exposure: number; white_balance: Fitted['whiteBalance']; flare: Fitted['flare']; film_index_scale: number; angle_deg: number };
+  const fitted: Fitted = { exposure: f.exposure, whiteBalance: f.white_balance, flare: f.flare, filmIndexScale: f.film_index_scale, angleDeg: f.angle_deg };
+  const result = { record, fitted, u: camelCaseKeysShallow<Record<string, number | null>>(record.uncertainty) };
   done.set(key, result);
   return result;
 }
@@ -102,7 +106,7 @@ describe('calibrateDecoded(): round trips through our own forward model (invente
     const { record, fitted, u } = calibrate({ ...PHOTO, seed: 1, filmIndexScale: 1.03 }, [...BASIC, 'index']);
     expectRecovered('index scale', fitted.filmIndexScale, 1.03, u.indexScale, 0.002);
     expectPhotoRecovered(fitted, u);
-    expect(record.filmIndexScale).toBe(fitted.filmIndexScale);
+    expect(record.film_index_scale).toBe(fitted.filmIndexScale);
     expect(record.warnings).toEqual([]);
   });
 

@@ -50,7 +50,7 @@ describe('calibrateDecoded() warnings on calibrations the data cannot support', 
     const record = calibrate(known, ['exposure', 'flare', 'white-balance', 'index']);
     expect(record.warnings.some((w) => TRADE_OFF.test(w))).toBe(true);
     expect(record.warnings.some((w) => /cannot constrain indexScale/.test(w))).toBe(true);
-    expect((record.uncertainty as Record<string, number | null>).indexScale ?? null).toBeNull();
+    expect((record.uncertainty as Record<string, number | null>).index_scale ?? null).toBeNull();
   });
 
   it('six different thicknesses with --fit …,index give no trade-off warning (the warning is not always on)', () => {
@@ -63,8 +63,8 @@ describe('calibrateDecoded() warnings on calibrations the data cannot support', 
     expect(record.warnings).toContain('1 known region(s) give 3 colour values: too few to fit the flare as well; held at its default');
     expect(record.warnings).toContain('1 known region(s) give 3 colour values: too few to fit the white balance as well; held at its default');
     expect(record.fitted_parameters).toEqual(['exposure']);
-    const fitted = record.fitted as { whiteBalance: number[]; flare: number[] };
-    expect(fitted.whiteBalance).toEqual([1, 1, 1]);
+    const fitted = record.fitted as { white_balance: number[]; flare: number[] };
+    expect(fitted.white_balance).toEqual([1, 1, 1]);
     expect(fitted.flare).toEqual([0, 0, 0]);
   });
 

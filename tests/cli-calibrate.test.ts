@@ -34,7 +34,7 @@ const BOWL = bowlWafer();
 interface CalibrationJson {
   lamella_calibration: number;
   applies_to: Record<string, unknown>;
-  fitted: { exposure: number; whiteBalance: number[]; flare: number[]; filmIndexScale: number; angleDeg: number };
+  fitted: { exposure: number; white_balance: number[]; flare: number[]; film_index_scale: number; angle_deg: number };
   fitted_parameters: string[];
   known_regions: Array<{ region_px: number[]; thickness_nm: number; residual_delta_e2000: number }>;
   warnings: string[];
@@ -113,24 +113,24 @@ describe('lamella calibrate + map --calibration: F2 light, camera white balance 
     expect(score.gross).toBeLessThanOrEqual(0.01);
     expect(score.coverage).toBeGreaterThanOrEqual(0.95);
     // The map used the file's numbers instead of fitting its own.
-    const record = JSON.parse(run.stdout) as { settings: { calibrated: boolean }; fitted: { exposure: number; white_balance: number[]; flare: number[]; source: string } };
+    const [record] = JSON.parse(run.stdout) as Array<{ settings: { calibrated: boolean }; fitted: { exposure: number; white_balance: number[]; flare: number[]; source: string } }>;
     const cal = readJson<CalibrationJson>(join(dir, 'cal.json'));
     expect(record.settings.calibrated).toBe(true);
     expect(record.fitted.source).toBe('calibration');
     expect(record.fitted.exposure).toBe(cal.fitted.exposure);
-    expect(record.fitted.white_balance).toEqual(cal.fitted.whiteBalance);
+    expect(record.fitted.white_balance).toEqual(cal.fitted.white_balance);
     expect(record.fitted.flare).toEqual(cal.fitted.flare);
   });
 
   it('a calibration with --fit …,index carries the film index scale (1.03 rendered) into map, which then stays within the same targets', () => {
     const cal = lamella(dir, 'calibrate', 'step-dense.jpg', ...STACK, '--light', 'F2', ...stepKnownArgs(), '--fit', 'exposure,flare,white-balance,index', '--out', 'cal-dense.json');
     expect(cal.status, cal.stderr).toBe(0);
-    const scale = readJson<CalibrationJson>(join(dir, 'cal-dense.json')).fitted.filmIndexScale;
+    const scale = readJson<CalibrationJson>(join(dir, 'cal-dense.json')).fitted.film_index_scale;
     expect(Math.abs(scale - 1.03)).toBeLessThan(0.003);
     const out = join(dir, 'out-dense');
     const run = lamella(dir, 'map', 'wafer-dense.jpg', ...STACK, '--light', 'F2', '--calibration', 'cal-dense.json', '--out', out, '--no-report', '--json');
     expect(run.status, run.stderr).toBe(0);
-    expect((JSON.parse(run.stdout) as { settings: { film_index_scale: number } }).settings.film_index_scale).toBe(scale);
+    expect((JSON.parse(run.stdout) as Array<{ settings: { film_index_scale: number } }>)[0].settings.film_index_scale).toBe(scale);
     const score = scoreThickness(BOWL, mappedThickness(out, 'wafer-dense'));
     expect(score.medianAbsNm).toBeLessThanOrEqual(3);
     expect(score.p95AbsNm).toBeLessThanOrEqual(15);
@@ -143,7 +143,7 @@ describe('lamella calibrate + map --calibration: F2 light, camera white balance 
   it('a calibration with --fit …,angle (30° rendered) is refused by map at 0° with a hint, and maps within the targets at the fitted --angle', () => {
     const cal = lamella(dir, 'calibrate', 'step-30.jpg', ...STACK, '--light', 'F2', ...stepKnownArgs(), '--fit', 'exposure,flare,white-balance,angle', '--out', 'cal-30.json');
     expect(cal.status, cal.stderr).toBe(0);
-    const angleDeg = readJson<CalibrationJson>(join(dir, 'cal-30.json')).fitted.angleDeg;
+    const angleDeg = readJson<CalibrationJson>(join(dir, 'cal-30.json')).fitted.angle_deg;
     expect(Math.abs(angleDeg - 30)).toBeLessThan(0.5);
     const at = String(Math.round(angleDeg * 100) / 100);
     const refused = lamella(dir, 'map', 'wafer-30.jpg', ...STACK, '--light', 'F2', '--calibration', 'cal-30.json', '--out', join(dir, 'out-0'), '--no-report');
@@ -163,12 +163,12 @@ describe('lamella calibrate + map --calibration: F2 light, camera white balance 
     const out = join(dir, 'out-known');
     const run = lamella(dir, 'map', 'step.jpg', ...STACK, '--light', 'F2', ...stepKnownArgs(), '--out', out, '--no-report', '--json');
     expect(run.status, run.stderr).toBe(0);
-    const record = JSON.parse(run.stdout) as { settings: { calibrated: boolean }; fitted: { exposure: number; white_balance: number[]; flare: number[] } };
+    const [record] = JSON.parse(run.stdout) as Array<{ settings: { calibrated: boolean }; fitted: { exposure: number; white_balance: number[]; flare: number[] } }>;
     const cal = readJson<CalibrationJson>(join(dir, 'cal.json'));
     expect(record.settings.calibrated).toBe(true);
     expect(record.fitted.exposure).toBeCloseTo(cal.fitted.exposure, 12);
     for (const c of [0, 1, 2]) {
-      expect(record.fitted.white_balance[c]).toBeCloseTo(cal.fitted.whiteBalance[c], 12);
+      expect(record.fitted.white_balance[c]).toBeCloseTo(cal.fitted.white_balance[c], 12);
       expect(record.fitted.flare[c]).toBeCloseTo(cal.fitted.flare[c], 12);
     }
   });
@@ -223,6 +223,6 @@ describe('a calibration made for another light or stack', () => {
     const out = join(dir, 'out-ignore');
     const run = lamella(dir, 'map', 'wafer.jpg', ...STACK, '--light', 'F11', '--calibration', 'cal.json', '--ignore-calibration-mismatch', '--out', out, '--no-report', '--json');
     expect(run.status, run.stderr).toBe(0);
-    expect((JSON.parse(run.stdout) as { fitted: { source: string } }).fitted.source).toBe('calibration');
+    expect((JSON.parse(run.stdout) as Array<{ fitted: { source: string } }>)[0].fitted.source).toBe('calibration');
   });
 });

@@ -7,7 +7,7 @@
  * standard air (Ciddor 1996), so r = (n − n_air)/(n + n_air).
  */
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import sharp from 'sharp';
@@ -56,10 +56,11 @@ describe('lamella chart: tables', () => {
     expect(record.light).toBe('A');
     expect(record.observer).toBe('1964');
     expect(record.rows).toHaveLength(301);
-    expect(Object.keys(record.rows[0])).toEqual(['thickness_nm', 'X', 'Y', 'Z', 'L', 'a', 'b', 'r8', 'g8', 'b8', 'hex', 'order']);
-    expect(record.orderBoundariesNm.length).toBeGreaterThanOrEqual(2);
+    expect(record.schema_version).toBe(1);
+    expect(Object.keys(record.rows[0])).toEqual(['thickness_nm', 'xyz', 'lab', 'srgb_8bit', 'hex', 'order']);
+    expect(record.order_boundaries_nm.length).toBeGreaterThanOrEqual(2);
     // A free-standing film of zero thickness reflects nothing (common practice: the "black film").
-    expect(record.rows[0].Y).toBeCloseTo(0, 10);
+    expect(record.rows[0].xyz[1]).toBeCloseTo(0, 10);
   });
   it('--out writes the file atomically and prints nothing', () => {
     const path = join(dir, 'chart.csv');
@@ -67,6 +68,15 @@ describe('lamella chart: tables', () => {
     expect(out.status).toBe(0);
     expect(out.stdout).toBe('');
     expect(readFileSync(path, 'utf8').trim().split('\n')).toHaveLength(12);
+  });
+  it("--out - writes to standard output, the same bytes as no --out (common practice: '-' names standard output)", () => {
+    const args = ['chart', '--stack', 'oxide-on-silicon', '--light', 'F2', '--to', '10'];
+    const plain = lamella(...args);
+    const dash = lamella(...args, '--out', '-');
+    expect(dash.status, dash.stderr).toBe(0);
+    expect(dash.stdout).toBe(plain.stdout);
+    expect(dash.stdout.trim().split('\n')).toHaveLength(12);
+    expect(existsSync(join(root, '-'))).toBe(false);
   });
 });
 

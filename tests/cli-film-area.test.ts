@@ -77,7 +77,7 @@ describe('lamella map: film area in the JSON record', () => {
   it('--film-area auto: settings, film_area, fit_quality and pixel counts agree with each other', async () => {
     const run = await lamella(['map', 'wedge.png', '--stack', 'soap-film', '--film-area', 'auto', '--out', 'out-auto', '--json', '--no-report']);
     expect(run.status, run.stderr).toBe(0);
-    const record = JSON.parse(run.stdout) as Record<string, any>;
+    const [record] = JSON.parse(run.stdout) as Array<Record<string, any>>;
     expect(record.settings.film_area).toBe('auto');
     expect(record.settings.expect_nm).toBeNull();
     const area = record.film_area;
@@ -109,7 +109,7 @@ describe('lamella map: film area in the JSON record', () => {
       '--film-area', 'whole', '--expect', '100-1100', '--region', '10,10,100,60', '--pixel-size', '4', '--anchor', '2,3=300',
     ]);
     expect(run.status, run.stderr).toBe(0);
-    const record = JSON.parse(run.stdout) as Record<string, any>;
+    const [record] = JSON.parse(run.stdout) as Array<Record<string, any>>;
     expect(record.settings.film_area).toBe('whole');
     expect(record.settings.expect_nm).toEqual([100, 1100]);
     const area = record.film_area;

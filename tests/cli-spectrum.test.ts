@@ -5,7 +5,7 @@
  * WE08 for bare Si (Green 2008) at 632.8 nm.
  */
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
@@ -62,12 +62,28 @@ describe('lamella spectrum: output', () => {
     expect(rows[3000][0]).toBe(700);
     expect(rows[1234][0]).toBe(523.4);
   });
+  it("--out FILE writes the CSV there and prints nothing; --out - is standard output (common practice: '-' names standard output)", () => {
+    const args = ['spectrum', '--stack', 'soap-film', '--thickness', '250', '--from', '500', '--to', '520', '--step', '10'];
+    const plain = lamella(...args);
+    const path = join(mkdtempSync(join(tmpdir(), 'lamella-spectrum-')), 'r.csv');
+    const toFile = lamella(...args, '--out', path);
+    expect(toFile.status, toFile.stderr).toBe(0);
+    expect(toFile.stdout).toBe('');
+    expect(readFileSync(path, 'utf8')).toBe(plain.stdout);
+    const again = lamella(...args, '--out', path);
+    expect(again.status).toBe(3);
+    expect(again.stderr).toContain('exists already; add --force to replace it');
+    const dash = lamella(...args, '--out', '-', '--json');
+    expect(dash.status, dash.stderr).toBe(0);
+    expect(JSON.parse(dash.stdout).wavelengths_nm).toEqual([500, 510, 520]);
+    expect(existsSync(join(root, '-'))).toBe(false);
+  });
   it('--json prints the settings and arrays', () => {
     const out = lamella('spectrum', '--stack', 'nitride-on-silicon', '--thickness', '80', '--angle', '30', '--polarisation', 'p', '--from', '500', '--to', '520', '--step', '10', '--json');
     expect(out.status).toBe(0);
     const record = JSON.parse(out.stdout);
-    expect(record).toMatchObject({ stack: 'nitride-on-silicon', thicknessNm: 80, polarisation: 'p', substrate: 'si', wavelengthsNm: [500, 510, 520] });
-    expect(record.angleDeg).toBeCloseTo(30, 12);
+    expect(record).toMatchObject({ schema_version: 1, stack: 'nitride-on-silicon', thickness_nm: 80, polarisation: 'p', substrate: 'si', wavelengths_nm: [500, 510, 520] });
+    expect(record.angle_deg).toBeCloseTo(30, 12);
     expect(record.reflectance).toHaveLength(3);
     expect(record.absorptance).toHaveLength(3);
   });

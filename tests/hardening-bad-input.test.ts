@@ -244,7 +244,7 @@ describe('valid but unusual input is not refused', () => {
     const r = lamella(['map', name, '--stack', 'soap-film', '--out', 'out-unusual', '--quiet']);
     expect(r.status, r.stderr).toBe(0);
     const stem = name.replace(/\.png$/, '');
-    for (const suffix of ['.thickness.npy', '.thickness.tif', '.confidence.npy', '.map.png', '.flags.png', '.json', '.report.html']) {
+    for (const suffix of ['.thickness.npy', '.thickness.tif', '.confidence.npy', '.status.npy', '.map.png', '.flags.png', '.json', '.report.html']) {
       expect(existsSync(join(dir, 'out-unusual', stem + suffix)), stem + suffix).toBe(true);
     }
   });

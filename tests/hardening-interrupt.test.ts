@@ -113,7 +113,7 @@ describe('lamella series interrupted by SIGINT, then rerun', () => {
 });
 
 describe('lamella map with several photos, stopped by SIGTERM', () => {
-  const SUFFIXES = ['.thickness.npy', '.thickness.tif', '.confidence.npy', '.map.png', '.flags.png', '.json', '.report.html'];
+  const SUFFIXES = ['.thickness.npy', '.thickness.tif', '.confidence.npy', '.status.npy', '.map.png', '.flags.png', '.json', '.report.html'];
   const photos = [1, 2, 3, 4, 5].map((p) => `photo${p}.png`);
 
   it.each([

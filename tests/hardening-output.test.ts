@@ -66,7 +66,8 @@ function parse(stdout: string): { status: number; stderr: string[]; files: strin
   return { status, stderr, files };
 }
 
-const SIX = ['.confidence.npy', '.flags.png', '.json', '.map.png', '.thickness.npy', '.thickness.tif'];
+// The outputs of one photo (without --report): maps, status, previews and the record.
+const SIX = ['.confidence.npy', '.flags.png', '.json', '.map.png', '.status.npy', '.thickness.npy', '.thickness.tif'];
 
 describe.skipIf(!canMount)('a full disk (tmpfs of 512 KiB)', () => {
   it('map: the photo that does not fit fails with one line, leaves none of its outputs, and the next photo is still mapped', () => {

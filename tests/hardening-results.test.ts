@@ -135,7 +135,7 @@ describe('a stopped re-run leaves the whole old set or the whole new one', () =>
     const b = folder('reference-new');
     expect(cli(b, 'map', 'p.jpg', ...NEW, '--quiet', '--out', '.').status).toBe(0);
     newSet = outputSet(b);
-    expect(Object.keys(oldSet).sort()).toEqual(['p.confidence.npy', 'p.flags.png', 'p.json', 'p.map.png', 'p.report.html', 'p.thickness.npy', 'p.thickness.tif', 'report.html']);
+    expect(Object.keys(oldSet).sort()).toEqual(['p.confidence.npy', 'p.flags.png', 'p.json', 'p.map.png', 'p.report.html', 'p.status.npy', 'p.thickness.npy', 'p.thickness.tif', 'report.html']);
     expect(newSet['p.json']).not.toBe(oldSet['p.json']);
   }, 60_000);
 
@@ -212,6 +212,6 @@ describe.skipIf(!canMount)('a re-run on a full disk (tmpfs that holds one set, n
     expect(lines.filter((l) => l.startsWith('lamella: '))[0]).toMatch(/^lamella: .*out\/p\.[a-z.]+: cannot write output file \(no space left on the device, ENOSPC\)$/);
     expect(readFileSync(join(cwd, 'after.txt'), 'utf8')).toBe(readFileSync(join(cwd, 'before.txt'), 'utf8'));
     expect(lines.filter((l) => l.startsWith('file=.'))).toEqual([]);
-    expect(lines.filter((l) => l.startsWith('file='))).toHaveLength(6);
+    expect(lines.filter((l) => l.startsWith('file='))).toHaveLength(7); // the seven outputs of one photo without the report
   });
 });

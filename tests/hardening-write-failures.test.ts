@@ -189,7 +189,7 @@ describe('ensureOutputDir() with a folder it may not write', () => {
 });
 
 describe('writeMapOutputs() on a full disk', () => {
-  it('the fourth of six files to be opened fails: the others are removed, the error names the file', async () => {
+  it('the fourth of seven files to be opened fails: the others are removed, the error names the file', async () => {
     const { mapDecodedPhoto, writeMapOutputs } = await import('../src/map/mapPhoto.js');
     const { resolveStack } = await import('../src/optics/index.js');
     const { sampleField, shoot } = await import('./map-scenes.js');
@@ -204,15 +204,15 @@ describe('writeMapOutputs() on a full disk', () => {
     const out = mkdtempSync(join(dir, 'map-'));
     failNextOpen('ENOSPC', 4);
     const error = await writeMapOutputs(result, 'wedge.png', out, 'wedge', { images: true, json: true, npy: true, tiff: true }, options).catch((e: unknown) => e);
-    // The six are written concurrently, so which file is opened fourth depends on timing.
+    // The seven are written concurrently, so which file is opened fourth depends on timing.
     expect((error as Error).message).toMatch(
-      /wedge\.(thickness\.npy|confidence\.npy|thickness\.tif|map\.png|flags\.png|json): cannot write output file \(no space left on the device, ENOSPC\)$/,
+      /wedge\.(thickness\.npy|confidence\.npy|status\.npy|thickness\.tif|map\.png|flags\.png|json): cannot write output file \(no space left on the device, ENOSPC\)$/,
     );
     expect(readdirSync(out)).toEqual([]);
-    // And with room again, all six are written.
+    // And with room again, all seven are written.
     const written = await writeMapOutputs(result, 'wedge.png', out, 'wedge', { images: true, json: true, npy: true, tiff: true }, options);
     expect(readdirSync(out).sort()).toEqual(written.map((p) => p.slice(out.length + 1)).sort());
-    expect(written).toHaveLength(6);
+    expect(written).toHaveLength(7);
   });
 });
 

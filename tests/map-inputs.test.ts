@@ -104,7 +104,7 @@ describe('lamella map on unusual valid photos', () => {
     const out = join(dir, 'dot-out');
     mkdirSync(out);
     const written = await writeMapOutputs(result, path, out, 'dot', { images: true, json: true, npy: true, tiff: true }, options);
-    expect(written).toHaveLength(6);
+    expect(written).toHaveLength(7); // thickness (npy, tif), confidence, status, map, flags, JSON
     for (const file of written) expect(statSync(file).size).toBeGreaterThan(0);
     const html = renderMapReport(await mapReportInput(result, options, path));
     expect(html).toContain('dot.png');

@@ -78,7 +78,7 @@ describe('lamella map outputs, read back', () => {
   it('runs and writes every output', () => {
     expect(cli.stderr).toBe('');
     expect(cli.status).toBe(0);
-    for (const suffix of ['.thickness.npy', '.confidence.npy', '.thickness.tif', '.map.png', '.flags.png', '.json', '.report.html']) {
+    for (const suffix of ['.thickness.npy', '.confidence.npy', '.status.npy', '.thickness.tif', '.map.png', '.flags.png', '.json', '.report.html']) {
       expect(existsSync(join(out, `wedge${suffix}`)), suffix).toBe(true);
     }
     expect(existsSync(join(out, 'report.html'))).toBe(true);
@@ -138,7 +138,8 @@ describe('lamella map outputs, read back', () => {
 
   it('JSON (file and --json stdout): fields present, statistics recomputed from the .npy agree', () => {
     const record = JSON.parse(readFileSync(join(out, 'wedge.json'), 'utf8'));
-    expect(JSON.parse(cli.stdout)).toEqual(record);
+    // --json prints an array of records, one per photo, also for one photo.
+    expect(JSON.parse(cli.stdout)).toEqual([record]);
     expect(record.width_px).toBe(W);
     expect(record.height_px).toBe(H);
     expect(record.photo).toBe('wedge.jpg');

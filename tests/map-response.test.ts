@@ -261,10 +261,10 @@ describe('calibrate: the picture style from a step wafer, applied to another pho
       fit: ['exposure', 'flare', 'white-balance', 'response'],
     });
     expect(record.fitted_parameters).toEqual(['exposure', 'flare', 'white-balance', 'response']);
-    const fitted = record.fitted as { exposure: number; whiteBalance: [number, number, number]; flare: [number, number, number]; response: CameraResponse };
+    const fitted = record.fitted as { exposure: number; white_balance: [number, number, number]; flare: [number, number, number]; response: CameraResponse };
     expect(Math.abs(fitted.response.saturation - 1.25)).toBeLessThanOrEqual(0.05);
     expect(fitted.response.contrast).toBeGreaterThan(0.2);
-    const exposureFixed: ExposureParameters = { ...fitted, responseSource: 'calibration' };
+    const exposureFixed: ExposureParameters = { exposure: fitted.exposure, whiteBalance: fitted.white_balance, flare: fitted.flare, response: fitted.response, responseSource: 'calibration' };
     const other = scenes.waferStyledOther;
     const result = mapScene(other, { exposureFixed });
     expectTargets(other.truth, result, 'calibrated');

@@ -54,7 +54,7 @@ describe('thin regions on drawn discs', () => {
     );
     expect(result.stderr).toBe('');
     expect(result.status).toBe(0);
-    const record = JSON.parse(result.stdout);
+    const [record] = JSON.parse(result.stdout);
     expect(record.thin_regions).toHaveLength(2);
     for (const disc of DISCS) {
       const region = record.thin_regions.find(

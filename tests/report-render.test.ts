@@ -94,6 +94,24 @@ describe('renderMapReport()', () => {
     expect(text).toContain('No calibration file was used.');
     expect(text).not.toContain('id="warnings"');
   });
+  it('settings and calibration tables show labelled values with units, the raw key as tooltip; confidence is explained by the readout', () => {
+    const text = renderMapReport({
+      ...input,
+      settings: { thin_below_nm: 50, angle_deg: 12.5, pixel_size_um: 40, series_prior: true, anchors: [] },
+      // An older calibration file (camelCase) and a current one read alike.
+      calibration: { residual_rms_encoded: 0.0021, fitted: { filmIndexScale: 1.02, white_balance: [1.1, 1, 0.9] } },
+    });
+    expect(text).toContain('<th scope="row" title="thin_below_nm">Thin below</th><td>50 nm</td>');
+    expect(text).toContain('<th scope="row" title="angle_deg">Angle of incidence</th><td>12.5°</td>');
+    expect(text).toContain('<td>40 µm</td>');
+    expect(text).toMatch(/title="series_prior: [^"]+">Previous frame used as order prior<\/th><td>yes<\/td>/);
+    expect(text).toContain('<td>none</td>');
+    expect(text).toMatch(/>RMS colour residual<\/th><td>0\.0021 \(encoded 0–1\)<\/td>/);
+    expect(text).toMatch(/>Film index scale<\/th><td>1\.02 ×<\/td>/);
+    expect(text).toMatch(/>White-balance gains R, G, B<\/th><td>\[1\.1, 1, 0\.9\] ×<\/td>/);
+    for (const raw of ['>series_prior<', '>residual_rms_encoded<', '>thin_below_nm<', '>filmIndexScale<']) expect(text).not.toContain(raw);
+    expect(text).toMatch(/<b>Confidence<\/b> \(0 to 1\): how well the pixel&#39;s colour matches/);
+  });
   it('refuses a colour bar whose maximum is below its minimum', () => {
     expect(() => renderMapReport({ ...input, colourBar: { ...input.colourBar, minNm: 10, maxNm: 5 } }))
       .toThrow(/colourBar: minNm and maxNm must be finite with minNm <= maxNm, received 10 and 5/);

@@ -70,13 +70,13 @@ describe('series: the light field carries from frame to frame', () => {
     expect(r.status, r.stderr).toBe(0);
     const records = frameRecords('w1');
     for (const record of records) {
-      expect(record.exposureField.source).toBe('photo');
-      expect(record.exposureField.gainMax / record.exposureField.gainMin).toBeGreaterThan(1.3);
-      expect(record.lightEvenness.gainMax / record.lightEvenness.gainMin).toBeLessThan(1.05);
+      expect(record.exposure_field.source).toBe('photo');
+      expect(record.exposure_field.gain_max / record.exposure_field.gain_min).toBeGreaterThan(1.3);
+      expect(record.light_evenness.gain_max / record.light_evenness.gain_min).toBeLessThan(1.05);
     }
     // The first frame starts cold; the others from their predecessor's field.
-    const later = records.slice(1).map((rec) => rec.exposureField.rounds);
-    expect(Math.max(...later)).toBeLessThan(records[0].exposureField.rounds);
+    const later = records.slice(1).map((rec) => rec.exposure_field.rounds);
+    expect(Math.max(...later)).toBeLessThan(records[0].exposure_field.rounds);
     // In-film targets of the issue on every frame: gross (> 50 nm) ≤ 1 %, p95 ≤ 15 nm, coverage ≥ 95 %.
     for (let f = 0; f < FRAMES; f++) {
       const map = thicknessOf('w1', f);
@@ -95,7 +95,7 @@ describe('series: the light field carries from frame to frame', () => {
     const one = frameRecords('w1');
     const two = frameRecords('w2');
     for (let f = 0; f < FRAMES; f++) {
-      expect(two[f].exposureField).toEqual(one[f].exposureField);
+      expect(two[f].exposure_field).toEqual(one[f].exposure_field);
       expect(Buffer.compare(Buffer.from(thicknessOf('w2', f).buffer), Buffer.from(thicknessOf('w1', f).buffer))).toBe(0);
     }
     // Interrupted after frame 1: frames 2 and 3 are mapped again, frame 2 starting from frame 1's stored field.
@@ -104,7 +104,7 @@ describe('series: the light field carries from frame to frame', () => {
     expect(resumed.status, resumed.stderr).toBe(0);
     const again = frameRecords('w2');
     for (let f = 2; f < FRAMES; f++) {
-      expect(again[f].exposureField).toEqual(one[f].exposureField);
+      expect(again[f].exposure_field).toEqual(one[f].exposure_field);
       expect(Buffer.compare(Buffer.from(thicknessOf('w2', f).buffer), Buffer.from(thicknessOf('w1', f).buffer))).toBe(0);
     }
   }, 240_000);

@@ -196,7 +196,8 @@ describe('runSeries() with a test-double mapper', () => {
     const calibration = { fitted: { exposure: 6.1, whiteBalance: [1, 1, 1], flare: [0, 0, 0] } };
     await runSeries(options(double(calls), { calibration }));
     expect(calls).toHaveLength(3);
-    expect(JSON.parse(await readFile(join(outDir, 'series.json'), 'utf8')).calibration).toEqual(calibration);
+    // series.json states it in the records' snake_case.
+    expect(JSON.parse(await readFile(join(outDir, 'series.json'), 'utf8')).calibration).toEqual({ fitted: { exposure: 6.1, white_balance: [1, 1, 1], flare: [0, 0, 0] } });
   });
 
   it('two shards plus an aggregation run give the same series.csv and series.json as one run, byte for byte', async () => {

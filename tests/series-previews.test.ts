@@ -25,12 +25,12 @@ describe('series previews in one colour range', () => {
     const r = lamella('series', ...args, '--out', 'own');
     expect(r.status, r.stderr).toBe(0);
     const summary = JSON.parse(readFileSync(join(dir, 'own', 'series.json'), 'utf8'));
-    const range = summary.settings.previewRangeNm as [number, number];
+    const range = summary.settings.preview_range_nm as [number, number];
     const p05 = Math.min(...frames.map((f) => record('own', f).stats.p05_nm));
     const p95 = Math.max(...frames.map((f) => record('own', f).stats.p95_nm));
     expect(range[0]).toBeLessThanOrEqual(p05);
     expect(range[1]).toBeGreaterThanOrEqual(p95);
-    for (const f of frames) expect(record('own', f).previewRangeNm).toEqual(range);
+    for (const f of frames) expect(record('own', f).preview_range_nm).toEqual(range);
     const before = frames.map((f) => statSync(join(dir, 'own', 'frames', `${f}.map.png`)).mtimeMs);
     expect(lamella('series', ...args, '--out', 'own').status).toBe(0);
     expect(frames.map((f) => statSync(join(dir, 'own', 'frames', `${f}.map.png`)).mtimeMs)).toEqual(before);
@@ -39,8 +39,8 @@ describe('series previews in one colour range', () => {
   it('--range MIN-MAX fixes it (previews drawn in it, series.json says so); a bad range is exit 2', () => {
     const r = lamella('series', ...args, '--range', '0-1200', '--out', 'own');
     expect(r.status, r.stderr).toBe(0);
-    for (const f of frames) expect(record('own', f).previewRangeNm).toEqual([0, 1200]);
-    expect(JSON.parse(readFileSync(join(dir, 'own', 'series.json'), 'utf8')).settings.previewRangeSource).toBe('--range');
+    for (const f of frames) expect(record('own', f).preview_range_nm).toEqual([0, 1200]);
+    expect(JSON.parse(readFileSync(join(dir, 'own', 'series.json'), 'utf8')).settings.preview_range_source).toBe('--range');
     const bad = lamella('series', ...args, '--range', '900-100', '--out', 'bad');
     expect(bad.status).toBe(2);
     expect(bad.stderr).toContain('--range MIN must be below MAX');

@@ -247,14 +247,14 @@ describe('series rupture: fits and crossings stop at the rupture', () => {
     await makeFrames(bursting);
     await runSeries(options(double()));
     const cleanCsv = await readFile(join(outDir, 'series.csv'), 'utf8');
-    const cleanFits = (await seriesJson()).drainageFits;
+    const cleanFits = (await seriesJson()).drainage_fits;
     await rm(outDir, { recursive: true });
     await rm(inDir, { recursive: true });
     await mkdir(inDir);
     await makeFrames(bursting, 'none!');
     await runSeries(options(double()));
     expect(await readFile(join(outDir, 'series.csv'), 'utf8')).toBe(cleanCsv);
-    expect((await seriesJson()).drainageFits).toEqual(cleanFits);
+    expect((await seriesJson()).drainage_fits).toEqual(cleanFits);
   });
 
   it('a crossing the curve would make after the rupture is not predicted, and the summary says so', async () => {
@@ -306,7 +306,8 @@ describe('series rupture: shards, old records', () => {
     await writeFile(join(inDir, 'f2.jpg'), 'old 800');
     const result = await runSeries(options(double()));
     const record = JSON.parse(await readFile(join(outDir, 'frames', 'f1.json'), 'utf8'));
-    expect(record.filmArea).toBeUndefined();
+    expect(record.schema_version).toBe(1);
+    expect(record.film_area).toBeUndefined();
     expect(record.stats.film_area_px).toBeUndefined();
     const rows = await csvRows();
     expect(rows.slice(1).map((r) => [r[0], r[2], r[10]])).toEqual([['f1.jpg', '900.00', '8'], ['f2.jpg', '800.00', '8']]);

@@ -12,7 +12,8 @@ import { provenanceOf } from '../io/provenance.js';
 import { LAMELLA_VERSION } from '../version.js';
 import { MAP_MAX_PIXELS } from '../io/limits.js';
 import type { Stack } from '../optics/types.js';
-import { CALIBRATION_VERSION } from './calibrationFile.js';
+import { CALIBRATION_SCHEMA_VERSION, CALIBRATION_VERSION } from './calibrationFile.js';
+import { snakeCaseKeys } from '../io/jsonKeys.js';
 import { type CalibrationField, type CalibrationParameter, fitCalibration } from './fitCalibration.js';
 import { relativeGainAt } from '../map/lightEvenness.js';
 import { EXPOSURE_FIELD_TERMS } from '../map/mapResultJson.js';
@@ -84,6 +85,7 @@ export function calibrateDecoded(
     );
   return {
     lamella_calibration: CALIBRATION_VERSION,
+    schema_version: CALIBRATION_SCHEMA_VERSION,
     lamella_version: LAMELLA_VERSION,
     created: new Date().toISOString(),
     photo: photoName,
@@ -99,17 +101,17 @@ export function calibrateDecoded(
     fitted_parameters: result.fitted,
     fitted: {
       exposure: parameters.exposure,
-      whiteBalance: parameters.whiteBalance,
+      white_balance: parameters.whiteBalance,
       flare: parameters.flare,
-      filmIndexScale: parameters.filmIndexScale,
-      angleDeg: parameters.angleDeg,
+      film_index_scale: parameters.filmIndexScale,
+      angle_deg: parameters.angleDeg,
       // The camera's response (picture style); null = none fitted (identity). Older files lack it.
       response: parameters.response ?? null,
     },
     ...(result.responseNote ? { response_note: result.responseNote } : {}),
-    filmIndexScale: parameters.filmIndexScale,
+    film_index_scale: parameters.filmIndexScale,
     exposure_field: calibrationFieldJson(result.field, result.fieldNote, width, height),
-    uncertainty: result.uncertainties,
+    uncertainty: snakeCaseKeys(result.uncertainties),
     residual_rms_encoded: result.rmsResidual,
     known_regions: known,
     warnings: [...result.warnings, ...misfits],

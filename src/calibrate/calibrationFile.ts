@@ -1,15 +1,17 @@
 /**
  * The calibration file written by `lamella calibrate` and read by `map` and `series`
  * (`--calibration CAL.json`). Shape (JSON object):
- *   lamella_calibration: 1
+ *   lamella_calibration: 1, schema_version: 1 (schemas/calibration.schema.json)
  *   applies_to: { stack, light, white_balance_light, angle_deg, camera, camera_mode }  (camera_mode:
  *     the --camera value, srgb | linear | a sensitivities CSV path; absent in older files = srgb)
- *   fitted: { exposure, whiteBalance: [r,g,b], flare: [r,g,b], filmIndexScale, angleDeg, response }
+ *   fitted: { exposure, white_balance: [r,g,b], flare: [r,g,b], film_index_scale, angle_deg, response }
  *     (response: { contrast, gamma, saturation } of the camera's picture style, ../colour/toneResponse.ts,
  *     or null; absent in older files = the identity)
- *   filmIndexScale (top level, same value), uncertainty, known_regions, photo, photo_size_px, warnings
+ *   film_index_scale (top level, same value), uncertainty, known_regions, photo, photo_size_px, warnings
  *   exposure_field: { log_gain_coefficients: [7 numbers] | null, photo_size_px: [w, h], … }  (the light
  *     field fitted on the known regions, see ./fitCalibration.ts; absent in older files = none)
+ * Files written before the JSON convention (no schema_version) name these fields in camelCase
+ * (`whiteBalance`, `filmIndexScale`, `angleDeg`); they are read just the same.
  * A calibration made for another stack, light, angle, camera white balance or camera is refused unless
  * the user overrides.
  */
@@ -21,6 +23,8 @@ import { type CameraResponse, checkResponse } from '../colour/toneResponse.js';
 import { EXPOSURE_FIELD_TERMS } from '../map/mapResultJson.js';
 
 export const CALIBRATION_VERSION = 1;
+/** Version of the file's JSON form: 1 = snake_case names; absent = the older camelCase names. */
+export const CALIBRATION_SCHEMA_VERSION = 1;
 
 export interface CalibrationForRun {
   readonly exposureFixed: ExposureParameters;
@@ -78,21 +82,27 @@ export async function readCalibrationFile(file: string): Promise<CalibrationForR
     );
   }
   const fitted = record.fitted;
-  if (fitted === null || typeof fitted !== 'object') throw new InputError(file, 'missing field "fitted" (an object with exposure, whiteBalance, flare)');
+  if (fitted === null || typeof fitted !== 'object') throw new InputError(file, 'missing field "fitted" (an object with exposure, white_balance, flare)');
   const f = fitted as Record<string, unknown>;
-  const scale = f.filmIndexScale ?? record.filmIndexScale;
+  // snake_case names, or the camelCase ones of files written before the JSON convention.
+  const older = f.white_balance === undefined && f.whiteBalance !== undefined;
+  const wbName = older ? 'whiteBalance' : 'white_balance';
+  const scaleName = older ? 'filmIndexScale' : 'film_index_scale';
+  const angleName = older ? 'angleDeg' : 'angle_deg';
+  const scale = f[scaleName] ?? record[scaleName];
+  const angle = f[angleName];
   const appliesTo = record.applies_to;
   if (appliesTo === null || typeof appliesTo !== 'object') throw new InputError(file, 'missing field "applies_to" (stack, light, angle_deg)');
   return {
     exposureFixed: {
       exposure: finite(file, 'fitted.exposure', f.exposure, true),
-      whiteBalance: triple(file, 'fitted.whiteBalance', f.whiteBalance, true),
+      whiteBalance: triple(file, `fitted.${wbName}`, f[wbName], true),
       flare: triple(file, 'fitted.flare', f.flare),
       ...responseOf(file, f.response),
     },
     exposureField: fieldOf(file, record.exposure_field),
-    filmIndexScale: scale === undefined || scale === null ? null : finite(file, 'fitted.filmIndexScale', scale, true),
-    angleDeg: f.angleDeg === undefined || f.angleDeg === null ? null : finite(file, 'fitted.angleDeg', f.angleDeg),
+    filmIndexScale: scale === undefined || scale === null ? null : finite(file, `fitted.${scaleName}`, scale, true),
+    angleDeg: angle === undefined || angle === null ? null : finite(file, `fitted.${angleName}`, angle),
     raw: record,
     appliesTo: appliesTo as Record<string, unknown>,
   };

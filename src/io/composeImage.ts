@@ -6,6 +6,7 @@
 import sharp from 'sharp';
 import { checkRasterImage } from './checkRasterImage.js';
 import type { RasterImage } from './photo.js';
+import { setPngPixelSize } from './pngPixelSize.js';
 
 export interface ComposeRequest {
   readonly canvasWidth: number;
@@ -20,6 +21,8 @@ export interface ComposeRequest {
    * is a smaller document placed at that offset (much cheaper to draw on a large canvas).
    */
   readonly overlays: ReadonlyArray<string | { readonly svg: string; readonly left: number; readonly top: number }>;
+  /** Size of one image pixel on the sample, µm: written as the PNG's pHYs; absent or null = no pHYs (./pngPixelSize.ts). */
+  readonly pixelSizeUm?: number | null;
 }
 
 export async function composeImagePng(request: ComposeRequest): Promise<Buffer> {
@@ -59,11 +62,12 @@ export async function composeImagePng(request: ComposeRequest): Promise<Buffer> 
     }
   }
   for (const overlay of await drawn) blendOver(canvas, canvasWidth, canvasHeight, overlay);
-  return sharp(Buffer.from(canvas.buffer, canvas.byteOffset, canvas.byteLength), {
+  const png = await sharp(Buffer.from(canvas.buffer, canvas.byteOffset, canvas.byteLength), {
     raw: { width: canvasWidth, height: canvasHeight, channels: 3 },
   })
     .png({ compressionLevel: 3, adaptiveFiltering: false })
     .toBuffer();
+  return setPngPixelSize(png, request.pixelSizeUm ?? null);
 }
 
 /** Source-over blending of an RGBA raster (straight alpha) into an RGB canvas, clipped. */

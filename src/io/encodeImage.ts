@@ -5,6 +5,7 @@
 import sharp, { type Sharp } from 'sharp';
 import { checkRasterImage } from './checkRasterImage.js';
 import type { RasterImage } from './photo.js';
+import { setPngPixelSize } from './pngPixelSize.js';
 
 function pipeline(image: RasterImage): Sharp {
   checkRasterImage(image);
@@ -16,9 +17,9 @@ function pipeline(image: RasterImage): Sharp {
   );
 }
 
-/** Lossless PNG (8- or 16-bit per the data type). */
-export async function encodePng(image: RasterImage): Promise<Buffer> {
-  return pipeline(image).png({ compressionLevel: 6, adaptiveFiltering: false }).toBuffer();
+/** Lossless PNG (8- or 16-bit per the data type); pHYs from `pixelSizeUm`, none when it is not given (./pngPixelSize.ts). */
+export async function encodePng(image: RasterImage, pixelSizeUm: number | null = null): Promise<Buffer> {
+  return setPngPixelSize(await pipeline(image).png({ compressionLevel: 6, adaptiveFiltering: false }).toBuffer(), pixelSizeUm);
 }
 
 /** Baseline JPEG, 8-bit data only. `quality` 1–100 (default 90), 4:4:4 chroma to keep colours sharp. */

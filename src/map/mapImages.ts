@@ -204,6 +204,7 @@ export async function renderMapPng(result: MapResult, range: ScaleRange, pixelSi
     imageLeft: margin,
     imageTop: top,
     overlays,
+    pixelSizeUm: pixelSizeUm !== null && pixelSizeUm > 0 ? pixelSizeUm : null,
   });
 }
 
@@ -377,7 +378,7 @@ export function paintFilmOutline(out: Uint8Array, status: Uint8Array, width: num
  * statuses are given, the film area's outline (thin, dashed cyan and black; under the thin
  * regions' outlines where they meet).
  */
-export async function renderFlagsPng(rgb: Float32Array, width: number, height: number, labels: Int32Array, status?: Uint8Array): Promise<Buffer> {
+export async function renderFlagsPng(rgb: Float32Array, width: number, height: number, labels: Int32Array, status?: Uint8Array, pixelSizeUm: number | null = null): Promise<Buffer> {
   const out = new Uint8Array(width * height * 3);
   // rgb ∈ [0, 1]: (v·255 + 0.5) | 0 is Math.round(v·255), cheaper over tens of millions of values.
   for (let i = 0, n = width * height * 3; i < n; i++) out[i] = (rgb[i] * 255 + 0.5) | 0;
@@ -443,5 +444,6 @@ export async function renderFlagsPng(rgb: Float32Array, width: number, height: n
     imageLeft: 0,
     imageTop: 0,
     overlays: [],
+    pixelSizeUm: pixelSizeUm !== null && pixelSizeUm > 0 ? pixelSizeUm : null,
   });
 }

@@ -4,7 +4,8 @@
  *
  * Outputs for `<stem>` in the output folder:
  *   <stem>.thickness.npy (float32 nm, NaN = no estimate), <stem>.thickness.tif (float32),
- *   <stem>.confidence.npy, <stem>.map.png, <stem>.flags.png, <stem>.json, and the report.
+ *   <stem>.confidence.npy (float32 0..1), <stem>.status.npy (uint8 PixelStatus codes, ./types.ts),
+ *   <stem>.map.png, <stem>.flags.png, <stem>.json, and the report.
  */
 import { type LightFieldStart, mapWithLightField } from './lightField.js';
 import { encodeSrgb } from '../colour/srgb.js';
@@ -16,7 +17,7 @@ import { InputError, UsageError } from '../errors.js';
 import { readPhoto } from '../io/readPhoto.js';
 import { MAP_MAX_PIXELS } from '../io/limits.js';
 import { writeNpy } from '../io/encodeNpy.js';
-import { writeFloatTiff } from '../io/encodeFloatTiff.js';
+import { thicknessTiffDescription, writeFloatTiff } from '../io/encodeFloatTiff.js';
 import { atomicWriteFile } from '../io/atomicWriteFile.js';
 import type { Photo } from '../io/photo.js';
 import { isMonochromaticLight, mapMonochromatic } from '../mono/index.js';
@@ -256,10 +257,13 @@ async function writeEachOutput(
     start(thicknessPath, () => writeNpy(thicknessPath, result.thicknessNm, [height, width]));
     const confidencePath = join(outDir, `${stem}.confidence.npy`);
     start(confidencePath, () => writeNpy(confidencePath, result.confidence, [height, width]));
+    const statusPath = join(outDir, `${stem}.status.npy`);
+    start(statusPath, () => writeNpy(statusPath, result.status, [height, width]));
   }
   if (what.tiff) {
     const tiffPath = join(outDir, `${stem}.thickness.tif`);
-    start(tiffPath, () => writeFloatTiff(tiffPath, result.thicknessNm, width, height));
+    const pixelSizeUm = options?.pixelSizeUm ?? null;
+    start(tiffPath, () => writeFloatTiff(tiffPath, result.thicknessNm, width, height, { pixelSizeUm, description: thicknessTiffDescription(pixelSizeUm) }));
   }
   if (what.json) {
     const jsonPath = join(outDir, `${stem}.json`);
@@ -274,7 +278,7 @@ async function writeEachOutput(
     if (result.photoRgb) {
       const labels = result.thinLabels ?? findThinRegions(result.thicknessNm, result.status, width, height, options?.thinBelowNm ?? null, null).labels;
       const flagsPath = join(outDir, `${stem}.flags.png`);
-      const flagsPng = renderFlagsPng(result.photoRgb, width, height, labels, result.status);
+      const flagsPng = renderFlagsPng(result.photoRgb, width, height, labels, result.status, options?.pixelSizeUm ?? null);
       start(flagsPath, async () => atomicWriteFile(flagsPath, await flagsPng));
     }
   }

@@ -6,6 +6,7 @@
  */
 import { basename } from 'node:path';
 import { LAMELLA_VERSION } from '../version.js';
+import { snakeCaseKeys } from '../io/jsonKeys.js';
 import { IDENTITY_RESPONSE, TONE_FAMILY } from '../colour/toneResponse.js';
 import { type ExposureField, type FilmAreaSummary, type MapOptions, type MapResult, PixelStatus } from './types.js';
 
@@ -82,6 +83,8 @@ export function filmAreaJson(area: FilmAreaSummary): Record<string, unknown> {
 }
 
 export const MAP_RECORD_VERSION = 1;
+/** Version of the record's JSON form (schemas/map-record.schema.json). */
+export const MAP_SCHEMA_VERSION = 1;
 
 export function mapResultJson(
   result: MapResult & { readonly extra?: Record<string, unknown> },
@@ -97,6 +100,7 @@ export function mapResultJson(
   }));
   return {
     lamella_map_record: MAP_RECORD_VERSION,
+    schema_version: MAP_SCHEMA_VERSION,
     lamella_version: LAMELLA_VERSION,
     photo: basename(photoPath),
     width_px: result.width,
@@ -161,7 +165,8 @@ export function mapResultJson(
       min_thickness_nm: r.minThicknessNm,
       bbox_px: r.bbox,
     })),
-    details: result.extra ?? {},
+    // Free-form details of the mapper, in the records' snake_case like the rest.
+    details: snakeCaseKeys(result.extra ?? {}),
     warnings: result.warnings,
     caution:
       'Thickness from a photograph is an estimate, not a substitute for qualified metrology (ellipsometry, reflectometry, profilometry) for release or safety decisions.',

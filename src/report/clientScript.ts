@@ -93,7 +93,7 @@ function initMap(data) {
     if (box) box.classList.add('active');
     setText('readout-x', String(p.x));
     setText('readout-y', String(p.y));
-    setText('readout-thickness', isFinite(t) ? shortestFloat32Text(t) + ' nm' : 'no estimate');
+    setText('readout-thickness', isFinite(t) ? t.toFixed(1) + ' nm' : 'no estimate');
     setText('readout-confidence', isFinite(q) ? q.toFixed(2) : '—');
     var code = status ? status[c.index] : 0;
     setText('readout-status', code && data.statusLabels[code] !== undefined ? data.statusLabels[code] : (code ? 'status ' + code : ''));

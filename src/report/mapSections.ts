@@ -87,9 +87,10 @@ export function renderMapSections(input: MapReportInput, name = 'input', options
 </div>
 <div class="readout" id="readout"><span class="hint">Under the pointer:</span>`
     + '<span>x <b id="readout-x">—</b> y <b id="readout-y">—</b> px</span>'
-    + '<span>thickness <b id="readout-thickness">—</b></span><span>confidence <b id="readout-confidence">—</b></span>'
+    + `<span>thickness <b id="readout-thickness">—</b></span><span title="${escapeHtml(CONFIDENCE_MEANING)}">confidence <b id="readout-confidence">—</b></span>`
     + '<span id="readout-cell" class="muted"></span><span id="readout-status" class="muted"></span><span id="readout-flag" class="flag"></span></div>'
-    + '<p class="note">Point at the photo or the map to read the thickness and confidence stored for that pixel (coordinates in the original photo); click to move the profile to that column; point along the profile chart to follow that column on the images.</p>'
+    + '<p class="note">Point at the photo or the map to read the thickness (to 0.1 nm) and confidence stored for that pixel (coordinates in the original photo); click to move the profile to that column; point along the profile chart to follow that column on the images.</p>'
+    + `<p class="note"><b>Confidence</b> (0 to 1): ${escapeHtml(CONFIDENCE_MEANING)}</p>`
     + renderColourBar({ minNm: input.colourBar.minNm, maxNm: input.colourBar.maxNm, stops }, thin, 1000)
     + notes.map((n) => `<p class="note downsample-note">${escapeHtml(n)}</p>`).join('')
     + '</section>';
@@ -140,6 +141,10 @@ ${options.parameterTables ? renderParameterSections(input.settings, input.calibr
     },
   };
 }
+
+/** What the confidence of a pixel means, in words (the readout, the profile chart). */
+export const CONFIDENCE_MEANING =
+  'how well the pixel\'s colour matches the model at the thickness given, times how clearly that thickness beats the next-best interference order. Near 1: a close match and a clear order; near 0: a poor match or orders hard to tell apart. It is not an uncertainty in nm.';
 
 /** Settings and calibration cards (ids `settings`, `calibration`). */
 export function renderParameterSections(settings: Record<string, unknown>, calibration: Record<string, unknown> | null | undefined): string {

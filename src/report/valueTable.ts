@@ -1,9 +1,11 @@
 /**
  * Tables of settings, fitted parameters and calibration records (`Record<string, unknown>`):
- * numbers with a sensible number of digits, arrays inline, nested records as nested tables,
- * everything escaped.
+ * each key shown as a label with the value's unit beside the value (./fieldLabels.ts), the raw key
+ * in the row's tooltip; numbers with a sensible number of digits, arrays inline, nested records as
+ * nested tables, everything escaped.
  */
 import { escapeHtml } from './escapeHtml.js';
+import { fieldLabel } from './fieldLabels.js';
 import { formatSignificant, noValue } from './formatNumber.js';
 
 const maxDepth = 4;
@@ -17,6 +19,7 @@ export function formatUnknown(value: unknown, depth = 0): string {
   if (typeof value === 'bigint') return escapeHtml(value.toString());
   if (ArrayBuffer.isView(value)) return `${escapeHtml(value.constructor.name)} (${(value as unknown as ArrayLike<unknown>).length ?? value.byteLength} values)`;
   if (Array.isArray(value)) {
+    if (value.length === 0) return 'none';
     if (value.every((v) => v === null || typeof v !== 'object')) {
       return `[${value.map((v) => formatUnknown(v, depth + 1)).join(', ')}]`;
     }
@@ -36,7 +39,15 @@ export function renderValueTable(record: Record<string, unknown> | null | undefi
   const entries = Object.entries(record);
   if (entries.length === 0) return '<p class="muted">(none)</p>';
   const rows = entries
-    .map(([key, value]) => `<tr><th scope="row">${escapeHtml(key)}</th><td>${formatUnknown(value, depth)}</td></tr>`)
+    .map(([key, value]) => {
+      const { label, unit, help } = fieldLabel(key);
+      const shown = formatUnknown(value, depth);
+      // The unit goes with a value that is a number or a list of numbers, not with "—" or text.
+      const numeric = typeof value === 'number' || (typeof value === 'string' && /^-?\d+(\.\d+)?$/.test(value)) || (Array.isArray(value) && value.length > 0 && value.every((v) => typeof v === 'number'));
+      const withUnit = numeric && unit ? `${shown}${unit === '°' ? '' : ' '}${escapeHtml(unit)}` : shown;
+      const title = escapeHtml(help ? `${key}: ${help}` : key);
+      return `<tr><th scope="row" title="${title}">${escapeHtml(label)}</th><td>${withUnit}</td></tr>`;
+    })
     .join('');
   return `<table class="${escapeHtml(className)}"><tbody>${rows}</tbody></table>`;
 }

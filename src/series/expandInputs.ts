@@ -22,7 +22,7 @@ export interface ExpandedInputs {
 }
 
 /** True when `input` uses glob syntax (*, ?, [ ], { }, a leading !). */
-function isGlobPattern(input: string): boolean {
+export function isGlobPattern(input: string): boolean {
   return /[*?[\]{}]/.test(input) || input.startsWith('!');
 }
 
@@ -35,8 +35,19 @@ async function kindOf(path: string): Promise<'file' | 'dir' | null> {
   }
 }
 
-export async function expandInputs(inputs: readonly string[], cwd: string = process.cwd()): Promise<ExpandedInputs> {
+/**
+ * The files that INPUT arguments name, in argument order (not sorted, duplicates kept): a file as
+ * is, a folder's image files (not recursive), a glob pattern's matches (tinyglobby). A plain path
+ * that does not exist is an InputError; a folder or pattern that yields nothing is a warning.
+ * `absolute: false` keeps the paths as the user wrote them (relative to `cwd`), for messages.
+ */
+export async function expandInputPaths(
+  inputs: readonly string[],
+  cwd: string = process.cwd(),
+  options: { readonly absolute?: boolean } = {},
+): Promise<{ paths: string[]; warnings: string[] }> {
   if (!Array.isArray(inputs)) throw new TypeError(`inputs must be an array of strings, received ${typeof inputs}`);
+  const absolutePaths = options.absolute !== false;
   const warnings: string[] = [];
   const found: string[] = [];
   for (const input of inputs) {
@@ -44,26 +55,31 @@ export async function expandInputs(inputs: readonly string[], cwd: string = proc
     const absolute = resolve(cwd, input);
     const kind = await kindOf(absolute);
     if (kind === 'file') {
-      found.push(absolute);
+      found.push(absolutePaths ? absolute : input);
     } else if (kind === 'dir') {
       // Symlinked frames count like files (the link is followed when the frame is read).
       const entries = (await readdir(absolute, { withFileTypes: true })).filter((entry) => isImageFileName(entry.name));
       const names: string[] = [];
       for (const entry of entries) {
         const path = join(absolute, entry.name);
-        if (entry.isFile() || (entry.isSymbolicLink() && (await kindOf(path)) === 'file')) names.push(path);
+        if (entry.isFile() || (entry.isSymbolicLink() && (await kindOf(path)) === 'file')) names.push(absolutePaths ? path : join(input, entry.name));
       }
       if (names.length === 0) warnings.push(`input folder ${input} holds no image files (.jpg, .png, .tif, .webp)`);
-      found.push(...names);
+      found.push(...names.sort((a, b) => compareNatural(basename(a), basename(b))));
     } else if (!isGlobPattern(input)) {
       // A plain path that does not exist is a mistake, not an empty pattern: stop before any frame.
       throw new InputError(input, 'no such file or folder (give photos, folders of photos or a glob pattern)');
     } else {
-      const matches = await glob(input, { cwd, absolute: true, onlyFiles: true, expandDirectories: false });
+      const matches = await glob(input, { cwd, absolute: absolutePaths, onlyFiles: true, expandDirectories: false });
       if (matches.length === 0) warnings.push(`input ${input} matches no file`);
-      found.push(...matches.map((m) => resolve(m)));
+      found.push(...(absolutePaths ? matches.map((m) => resolve(m)) : matches.sort((a, b) => compareNatural(basename(a), basename(b)))));
     }
   }
+  return { paths: found, warnings };
+}
+
+export async function expandInputs(inputs: readonly string[], cwd: string = process.cwd()): Promise<ExpandedInputs> {
+  const { paths: found, warnings } = await expandInputPaths(inputs, cwd);
   const unique = [...new Set(found)];
   // A video or a multi-page stack is a series of its own.
   for (const path of unique) {
@@ -83,11 +99,12 @@ export async function expandInputs(inputs: readonly string[], cwd: string = proc
   const frames = unique.map((path, index) => {
     const name = basename(path);
     const stem = name.slice(0, name.length - extname(name).length) || name;
-    const clash = byStem.get(stem);
+    // Stems that differ only in case name one file on case-insensitive file systems (macOS, Windows).
+    const clash = byStem.get(stem.toLowerCase());
     if (clash !== undefined) {
-      throw new RangeError(`input frames ${clash} and ${path} share the name stem "${stem}"; per-frame outputs would collide, rename one`);
+      throw new RangeError(`input frames ${clash} and ${path} share the name stem "${stem}" (names that differ only in case count as equal); per-frame outputs would collide, rename one`);
     }
-    byStem.set(stem, path);
+    byStem.set(stem.toLowerCase(), path);
     return { index, path, name, stem };
   });
   return { frames, warnings };

@@ -9,6 +9,7 @@
 import { readFile, readdir, rm, access } from 'node:fs/promises';
 import { join } from 'node:path';
 import type { FrameRecord } from './types.js';
+import { frameRecordFromJson } from './frameRecordJson.js';
 
 export const PARTIAL_PREFIX = '.partial-';
 export const PREVIEW_SUFFIXES = ['.map.png', '.flags.png'] as const;
@@ -43,8 +44,7 @@ export async function readFrameRecord(outDir: string, stem: string): Promise<Fra
     return null;
   }
   try {
-    const record = JSON.parse(text) as FrameRecord;
-    return record && record.format === 'lamella-series-frame' ? record : null;
+    return frameRecordFromJson(JSON.parse(text));
   } catch {
     return null;
   }

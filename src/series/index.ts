@@ -8,7 +8,7 @@ export { chunkFrames, shardChunks } from './chunkFrames.js';
 export { settingsHash, canonicalJson } from './settingsHash.js';
 export { collectSeriesRows, type SeriesRow, type CollectedRows } from './seriesRows.js';
 export { formatSeriesCsv, SERIES_CSV_COLUMNS } from './seriesCsv.js';
-export { seriesSummary, SERIES_CAUTION, type SeriesSummary } from './seriesSummary.js';
+export { seriesSummary, seriesSummaryJson, SERIES_SCHEMA_VERSION, SERIES_CAUTION, type SeriesSummary } from './seriesSummary.js';
 export { formatProgressBar, formatProgressLine, formatDuration } from './progressText.js';
 export { MAP_FRAME_PROCESSOR_URL, type MapFrameConfig } from './mapFrameConfig.js';
 export { DRAINAGE_MODELS, exponentialModel, powerLawModel, reynoldsModel, type DrainageModel } from './fits/drainageModels.js';

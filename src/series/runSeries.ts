@@ -30,7 +30,7 @@ import { seriesReportInput } from './seriesReportInput.js';
 import { lastFrameView, processorOf } from './lastFrameView.js';
 import { redrawPreviews, seriesRangeOf } from './seriesPreviews.js';
 import type { MapReportInput } from '../report/types.js';
-import { seriesSummary, type SeriesSummary } from './seriesSummary.js';
+import { seriesSummary, seriesSummaryJson, type SeriesSummary } from './seriesSummary.js';
 import type { FrameEvent, FrameJob, FrameProcessor, ProcessorSource, SeriesProgress } from './types.js';
 
 export const DEFAULT_CHUNK_FRAMES = 10;
@@ -253,7 +253,7 @@ export async function runSeries(options: SeriesOptions): Promise<SeriesResult> {
   try {
     await writeOutputSet([csvPath, jsonPath, reportPath], async (staging) => {
       await writeAtomic(join(staging, AGGREGATE_OUTPUTS[0]), formatSeriesCsv(collected.rows));
-      await writeAtomic(join(staging, AGGREGATE_OUTPUTS[1]), `${JSON.stringify(summary, null, 2)}\n`);
+      await writeAtomic(join(staging, AGGREGATE_OUTPUTS[1]), `${JSON.stringify(seriesSummaryJson(summary), null, 2)}\n`);
       if (options.report !== false) {
         const input = await seriesReportInput(summary, collected.rows, {
           title: options.reportTitle ?? `Series of ${frames.length} frames`,

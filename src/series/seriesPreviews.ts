@@ -10,6 +10,7 @@ import { join } from 'node:path';
 import { atomicWriteFile } from '../io/atomicWriteFile.js';
 import { roundedRange } from '../map/mapImages.js';
 import { framesDir, readFrameRecord } from './frameFiles.js';
+import { frameRecordToJson } from './frameRecordJson.js';
 import { storedFrame } from './lastFrameView.js';
 import type { FrameJob, FrameProcessor, FrameRecord } from './types.js';
 
@@ -48,7 +49,7 @@ export async function redrawPreviews(
     if (!stored) continue;
     await processor.renderStoredPreview(stored, frame.path, framesDir(outDir), frame.stem, rangeNm);
     const updated: FrameRecord = { ...record, previewRangeNm: [rangeNm[0], rangeNm[1]] };
-    await atomicWriteFile(join(framesDir(outDir), `${frame.stem}.json`), Buffer.from(`${JSON.stringify(updated, null, 2)}\n`, 'utf8'));
+    await atomicWriteFile(join(framesDir(outDir), `${frame.stem}.json`), Buffer.from(`${JSON.stringify(frameRecordToJson(updated), null, 2)}\n`, 'utf8'));
     redrawn++;
   }
   return redrawn;

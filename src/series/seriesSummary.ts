@@ -6,6 +6,7 @@
  */
 import type { DrainageFit } from './fits/fitDrainage.js';
 import { LAMELLA_VERSION } from '../version.js';
+import { snakeCaseKeys } from '../io/jsonKeys.js';
 import type { SeriesRow } from './seriesRows.js';
 import type { RuptureRecord } from './rupture.js';
 import { observeSeries, type SeriesObservations } from './observations.js';
@@ -45,6 +46,28 @@ export interface SeriesSummary {
 
 export const SERIES_CAUTION =
   'Thicknesses and predicted crossing times are estimates from photographs and fitted laws; predictions beyond the last frame are extrapolations, and none is made past a rupture. Do not base release or safety decisions on them without qualified metrology.';
+
+/** Version of `series.json`'s form (schemas/series.schema.json). */
+export const SERIES_SCHEMA_VERSION = 1;
+
+/**
+ * `series.json` as written: the summary in Lamella's JSON convention (snake_case keys with units,
+ * ../io/jsonKeys.ts), numbers as numbers (the angle as `angle_deg`) and a `schema_version`. The
+ * calibration embedded is normalised too (a file written before the convention had camelCase keys).
+ */
+export function seriesSummaryJson(summary: SeriesSummary): Record<string, unknown> {
+  const { format, version, ...rest } = summary;
+  const json = snakeCaseKeys(rest, new Set(['input_files'])) as Record<string, unknown>;
+  // The --angle text as typed is hashed into the settings; the record states it as a number, in degrees.
+  const settings = Object.fromEntries(
+    Object.entries(json.settings as Record<string, unknown>).map(([key, value]) =>
+      key === 'angle' && (typeof value === 'number' || (typeof value === 'string' && value.trim() !== '' && Number.isFinite(Number(value))))
+        ? ['angle_deg', Number(value)]
+        : [key, value],
+    ),
+  );
+  return { format, version, schema_version: SERIES_SCHEMA_VERSION, ...json, settings };
+}
 
 export function seriesSummary(input: SeriesSummaryInput): SeriesSummary {
   const times = input.rows.map((r) => r.timeS);

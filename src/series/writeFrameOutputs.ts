@@ -12,6 +12,7 @@ import { LAMELLA_VERSION } from '../version.js';
 import { encodeNpy } from '../io/encodeNpy.js';
 import { describeWriteError } from '../io/atomicWriteFile.js';
 import { framesDir, partialDirName } from './frameFiles.js';
+import { frameRecordToJson } from './frameRecordJson.js';
 import type { FrameJob, FrameProcessor, FrameRecord } from './types.js';
 
 export function frameRecordOf(frame: FrameJob, result: MapResult, hash: string, priorFrame: string | null): FrameRecord {
@@ -55,7 +56,7 @@ export async function writeFrameOutputs(
     const drawn = previews ? ((await previews(result, frame.path, staging, frame.stem)) as { rangeNm?: [number, number] } | undefined) : undefined;
     const recordName = `${frame.stem}.json`;
     const full = drawn?.rangeNm ? { ...record, previewRangeNm: drawn.rangeNm } : record;
-    await writeFile(join(staging, recordName), `${JSON.stringify(full, null, 2)}\n`);
+    await writeFile(join(staging, recordName), `${JSON.stringify(frameRecordToJson(full), null, 2)}\n`);
     const names = (await readdir(staging)).filter((n) => n !== recordName);
     for (const name of names) await rename(join(staging, name), join(dir, name));
     await rename(join(staging, recordName), join(dir, recordName));

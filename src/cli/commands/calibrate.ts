@@ -86,10 +86,10 @@ function lightFieldLine(field: { relative_gain_min?: number; relative_gain_max?:
 function summary(record: Record<string, unknown>, out: string): string {
   const fitted = record.fitted as {
     exposure: number;
-    whiteBalance: number[];
+    white_balance: number[];
     flare: number[];
-    filmIndexScale: number;
-    angleDeg: number;
+    film_index_scale: number;
+    angle_deg: number;
     response?: { contrast: number; gamma: number; saturation: number } | null;
   };
   const u = record.uncertainty as Record<string, number | null>;
@@ -97,10 +97,10 @@ function summary(record: Record<string, unknown>, out: string): string {
   const lines = [
     `calibration written to ${out}`,
     `  exposure       ${fitted.exposure.toFixed(4)}${pm('exposure')}`,
-    `  white balance  R ${fitted.whiteBalance[0].toFixed(4)}${pm('wbR')}, G 1, B ${fitted.whiteBalance[2].toFixed(4)}${pm('wbB')}`,
+    `  white balance  R ${fitted.white_balance[0].toFixed(4)}${pm('wb_r')}, G 1, B ${fitted.white_balance[2].toFixed(4)}${pm('wb_b')}`,
     `  flare          ${fitted.flare.map((f) => f.toFixed(4)).join(', ')}`,
-    `  index scale    ${fitted.filmIndexScale.toFixed(4)}${pm('indexScale')}`,
-    `  angle          ${fitted.angleDeg.toFixed(2)}°${pm('angleDeg')}`,
+    `  index scale    ${fitted.film_index_scale.toFixed(4)}${pm('index_scale')}`,
+    `  angle          ${fitted.angle_deg.toFixed(2)}°${pm('angle_deg')}`,
     `  picture style  ${fitted.response ? describeResponse(fitted.response) : `none (identity)${typeof record.response_note === 'string' ? `: ${record.response_note}` : ''}`}`,
     `  light field    ${lightFieldLine(record.exposure_field as { relative_gain_min?: number; relative_gain_max?: number; fitted_terms?: string; note: string })}`,
     ...(record.known_regions as Array<{ region_px: number[]; thickness_nm: number; residual_delta_e2000: number }>).map(

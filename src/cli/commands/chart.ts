@@ -16,6 +16,10 @@ import { InputError, UsageError } from '../errors.js';
 import { addLightOptions, lightsFromOptions } from '../lightOptions.js';
 import { addStackOptions, parseNumberOption, stackFromOptions, type StackCliOptions } from '../stackOptions.js';
 import { checkOutputFile } from '../outputFile.js';
+import { LAMELLA_VERSION } from '../../version.js';
+
+/** Version of the `chart --format json` record (schemas/chart.schema.json). */
+export const CHART_SCHEMA_VERSION = 1;
 
 interface ChartCliOptions extends StackCliOptions {
   light: string;
@@ -59,7 +63,10 @@ async function run(opts: ChartCliOptions): Promise<void> {
   const fromNm = parseNumberOption(opts.from, '--from', 'a thickness in nm >= 0');
   const toNm = parseNumberOption(opts.to, '--to', 'a thickness in nm');
   const stepNm = parseNumberOption(opts.step, '--step', 'a thickness step in nm > 0');
-  if (opts.format === 'png' && !opts.out) throw new UsageError('--format png needs --out FILE.png');
+  // `--out -` is standard output (also for png, when asked for by name).
+  const out = opts.out === '-' ? undefined : opts.out;
+  if (opts.format === 'png' && opts.out === undefined) throw new UsageError('--format png needs --out FILE.png (or --out - for standard output)');
+  opts = { ...opts, out };
   if (opts.out) await checkOutputFile(opts.out, { force: opts.force === true, inputs: [], example: `chart.${opts.format}` });
   const resolution = parseNumberOption(opts.resolution, '--resolution', 'a pixel-density factor from 1 to 4');
   if (resolution < 1 || resolution > 4) throw new UsageError(`--resolution must be a pixel-density factor from 1 to 4, received ${resolution}`);
@@ -85,14 +92,14 @@ async function run(opts: ChartCliOptions): Promise<void> {
     ambient: stack.ambient.name,
     substrate: stack.substrate.name,
     light: light.name,
-    lightDescription: light.description,
-    whiteBalance: whiteBalance?.name ?? light.name,
-    angleDeg,
+    light_description: light.description,
+    white_balance: whiteBalance?.name ?? light.name,
+    angle_deg: angleDeg,
     polarisation: opts.polarisation,
     observer: opts.observer,
     exposure: table.exposure,
-    labWhite: 'D65 (sRGB white, Y = 100), after Bradford adaptation from the white-balance light',
-    orderRule: 'an order begins at each local minimum of the luminance Y',
+    lab_white: 'D65 (sRGB white, Y = 100), after Bradford adaptation from the white-balance light',
+    order_rule: 'an order begins at each local minimum of the luminance Y',
   };
   let bytes: Uint8Array;
   if (opts.format === 'csv') bytes = Buffer.from(chartCsv(table), 'utf8');
@@ -102,21 +109,22 @@ async function run(opts: ChartCliOptions): Promise<void> {
       const [r8, g8, b8] = [table.srgb8[k], table.srgb8[k + 1], table.srgb8[k + 2]];
       return {
         thickness_nm: thicknessNm,
-        X: table.xyz[k], Y: table.xyz[k + 1], Z: table.xyz[k + 2],
-        L: table.lab[k], a: table.lab[k + 1], b: table.lab[k + 2],
-        r8, g8, b8,
+        // CIE XYZ (Y = 100 for the white), CIELAB L*, a*, b*, and the 8-bit sRGB code values.
+        xyz: [table.xyz[k], table.xyz[k + 1], table.xyz[k + 2]],
+        lab: [table.lab[k], table.lab[k + 1], table.lab[k + 2]],
+        srgb_8bit: [r8, g8, b8],
         hex: `#${[r8, g8, b8].map((v) => v.toString(16).padStart(2, '0')).join('')}`,
         order: table.order[i],
       };
     });
-    bytes = Buffer.from(`${JSON.stringify({ ...settings, orderBoundariesNm: table.boundariesNm, rows }, null, 1)}\n`, 'utf8');
+    bytes = Buffer.from(`${JSON.stringify({ schema_version: CHART_SCHEMA_VERSION, lamella_version: LAMELLA_VERSION, ...settings, order_boundaries_nm: table.boundariesNm, rows }, null, 1)}\n`, 'utf8');
   } else {
     const svg = chartSvg(table, {
       title: `Interference colours: ${stack.name}`,
       details: [
         `film ${settings.film ?? '?'} between ${stack.ambient.name} and ${stack.substrate.name} · ${formatNumber(fromNm)}–${formatNumber(toNm)} nm`,
         `light ${light.name} (${light.description}) · angle of incidence ${formatNumber(angleDeg)}° · ${opts.polarisation} polarisation`,
-        `CIE ${opts.observer} observer · camera white-balanced to ${settings.whiteBalance} · exposure ×${formatNumber(table.exposure)} · sRGB display`,
+        `CIE ${opts.observer} observer · camera white-balanced to ${settings.white_balance} · exposure ×${formatNumber(table.exposure)} · sRGB display`,
       ],
     });
     bytes = await rasteriseSvg(svg, { density: 72 * resolution });
@@ -148,7 +156,7 @@ export function register(program: Command): void {
     .option('--exposure <gain|auto>', "gain on the recorded colours (1: a perfect white reflector is white; 'auto': brightest swatch at full scale)", '1')
     .option('--resolution <factor>', 'PNG pixel density: 1 gives a 1240-pixel-wide chart, 2 or 3 for print', '1')
     .addOption(new Option('--format <kind>', 'output format').choices(['csv', 'json', 'png']).default('csv'))
-    .option('--out <file>', 'write to this file (written atomically) instead of standard output; required for png')
+    .option('--out <file>', "write to this file (written atomically) instead of standard output; '-' is standard output; required for png")
     .option('--force', 'replace an existing --out file')
     .action((opts: ChartCliOptions) => run(opts));
 }

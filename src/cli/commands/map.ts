@@ -8,7 +8,9 @@ import { CAMERA_HELP, parseCameraOption } from '../cameraOption.js';
 import { LIGHT_FIELD_HELP, parseLightFieldOption } from '../lightFieldOption.js';
 import type { Command } from 'commander';
 import { basename, extname, join } from 'node:path';
-import { EXIT_FINDING, EXIT_INPUT, oneLine } from '../errors.js';
+import { existsSync, readdirSync, rmdirSync } from 'node:fs';
+import { expandInputPaths, isGlobPattern } from '../../series/expandInputs.js';
+import { EXIT_FINDING, EXIT_INPUT, InputError, oneLine } from '../errors.js';
 import { addStackOptions, stackFromOptions, type StackCliOptions } from '../stackOptions.js';
 import { addFilmAreaOptions, filmAreaFromOptions, type FilmAreaCliOptions } from '../filmAreaOptions.js';
 import { collect, parseKnown } from '../parseGeometry.js';
@@ -48,13 +50,13 @@ interface MapCliOptions extends StackCliOptions, FilmAreaCliOptions {
   lightField?: string;
 }
 
-export const OUTPUT_SUFFIXES = ['.thickness.npy', '.thickness.tif', '.confidence.npy', '.map.png', '.flags.png', '.json', '.report.html'];
+export const OUTPUT_SUFFIXES = ['.thickness.npy', '.thickness.tif', '.confidence.npy', '.status.npy', '.map.png', '.flags.png', '.json', '.report.html'];
 
 export function register(program: Command): void {
   const command = program
     .command('map')
     .description('map film thickness from colour photos; writes .npy/.tif maps, confidence, previews, JSON and an HTML report per photo')
-    .argument('<photo...>', 'photos (JPEG, PNG, TIFF; 8 or 16 bit)');
+    .argument('<photo...>', "photos (JPEG, PNG, TIFF; 8 or 16 bit) or glob patterns such as 'shots/*.jpg' (quoted)");
   addFilmAreaOptions(addLightOptions(addStackOptions(command), { required: false }), 'photo')
     .option('--camera <mode-or-file>', CAMERA_HELP)
     .option('--light-field <mode>', LIGHT_FIELD_HELP, 'auto')
@@ -68,15 +70,28 @@ export function register(program: Command): void {
     .option('--threads <n>', 'threads for the per-pixel pass of photos of 1 MP or more (default: the cores, at most 4)')
     .option('--allow-damaged', 'map photos the decoder reports as damaged as far as they decode (a warning; the rest has no estimate)')
     .option('--quiet', 'print nothing but errors')
-    .action(async (photos: string[], opts: MapCliOptions) => {
-      process.exitCode = await runMap(photos, opts);
+    .action(async (inputs: string[], opts: MapCliOptions) => {
+      process.exitCode = await runMap(inputs, opts);
     });
 }
 
-async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
+async function runMap(inputs: string[], opts: MapCliOptions): Promise<number> {
   const warn = (message: string): void => {
     if (!opts.quiet) process.stderr.write(`lamella: warning: ${message}\n`);
   };
+  // Glob patterns are expanded as `lamella series` expands them; anything else is a photo path
+  // (a missing file or a folder then fails as that photo, and the other photos go on).
+  const photos: string[] = [];
+  for (const input of inputs) {
+    if (!isGlobPattern(input) || existsSync(input)) {
+      photos.push(input);
+      continue;
+    }
+    const expanded = await expandInputPaths([input], process.cwd(), { absolute: false });
+    for (const warning of expanded.warnings) warn(warning);
+    photos.push(...expanded.paths.filter((path) => !photos.includes(path)));
+  }
+  if (photos.length === 0) throw new InputError(inputs.join(' '), 'no photos to map (the patterns given match no file)');
   const { stack, angleRad } = stackFromOptions(opts, { onWarning: warn });
   // Check the lights before any photo is read: a bad name is a usage error, not a failed photo.
   lightsFromOptions(opts);
@@ -121,8 +136,14 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
   };
   const known = (opts.known ?? []).map(parseKnown);
   const stems = photos.map((p) => basename(p, extname(p)));
-  const duplicate = stems.find((s, i) => stems.indexOf(s) !== i);
-  if (duplicate) throw new UsageError(`two photos share the name '${duplicate}': their outputs would collide; map them into different --out folders`);
+  // Names that differ only in case (a.jpg, A.JPG) name one file on case-insensitive file systems.
+  const folded = stems.map((s) => s.toLowerCase());
+  const duplicate = stems.find((s, i) => folded.indexOf(folded[i]) !== i);
+  if (duplicate) {
+    const first = stems[folded.indexOf(duplicate.toLowerCase())];
+    const names = first === duplicate ? `the name '${duplicate}'` : `the names '${first}' and '${duplicate}' (equal but for case)`;
+    throw new UsageError(`two photos share ${names}: their outputs would collide; map them into different --out folders`);
+  }
   // Every file the run reads (photos, mask, and the stack, material, SPD, camera and calibration
   // files read above) against every output, by identity, before any work.
   const plannedOutputs = stems.flatMap((stem) => OUTPUT_SUFFIXES.map((suffix) => join(opts.out, stem + suffix))).concat(join(opts.out, 'report.html'));
@@ -131,6 +152,7 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
   // Build the colour table once before any photo: a film, light or angle the model cannot use
   // (e.g. a material outside its wavelength range) is a usage error, not a failed photo.
   if (lineOfLight(options.light) === null) colourTableFor(options);
+  const outDirExisted = existsSync(opts.out);
   const outDir = await ensureOutputDir(opts.out, { inputs: runInputs, outputs: plannedOutputs });
   // What a run killed outright (SIGKILL) left here: finish or drop its output set.
   recoverStagedSets(outDir);
@@ -157,7 +179,8 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
           fit: ['exposure', 'flare', 'white-balance', 'response'],
           lightField,
         });
-        const fitted = onPhoto.fitted as { exposure: number; whiteBalance: [number, number, number]; flare: [number, number, number]; response: CameraResponse | null };
+        const onPhotoFitted = onPhoto.fitted as { exposure: number; white_balance: [number, number, number]; flare: [number, number, number]; response: CameraResponse | null };
+        const fitted = { exposure: onPhotoFitted.exposure, whiteBalance: onPhotoFitted.white_balance, flare: onPhotoFitted.flare, response: onPhotoFitted.response };
         const field = (onPhoto.exposure_field as { log_gain_coefficients: number[] | null }).log_gain_coefficients;
         photoOptions = {
           ...options,
@@ -199,7 +222,10 @@ async function runMap(photos: string[], opts: MapCliOptions): Promise<number> {
   if (opts.report && photos.length > 1 && reports.length > 0) {
     await atomicWriteFile(join(outDir, 'report.html'), Buffer.from(mapIndexPage(reports), 'utf8'));
   }
-  if (opts.json) process.stdout.write(`${JSON.stringify(photos.length === 1 ? (records[0] ?? null) : records, null, 2)}\n`);
+  // One shape for one photo or many: an array of records (README, "--json").
+  if (opts.json) process.stdout.write(`${JSON.stringify(records, null, 2)}\n`);
+  // A folder this run made and filled with nothing (every photo failed) is not left behind.
+  if (records.length === 0 && !outDirExisted) removeIfEmpty(outDir);
   if (failed.length > 0) {
     // With several photos, the names again at the end, where the user of a long batch looks.
     const names = failed.length <= 10 ? failed.join(', ') : `${failed.slice(0, 10).join(', ')} and ${failed.length - 10} more`;
@@ -223,6 +249,14 @@ export function summaryLine(photo: string, result: Pick<MapResult, 'stats' | 'th
   const response = result.fitted.response;
   const style = response && isStrongResponse(response) ? `, picture style ${result.fitted.responseSource === 'calibration' ? 'from the calibration' : 'fitted'} (${describeResponse(response)})` : '';
   return `${photo}: median ${f(s.median_nm)} nm (p05 ${f(s.p05_nm)}, p95 ${f(s.p95_nm)})${film}, coverage ${f(s.coverage * 100)} %${thin}, ${result.thinRegions.length} thin region(s), exposure ×${result.fitted.exposure.toFixed(2)}${field}${style}`;
+}
+
+function removeIfEmpty(dir: string): void {
+  try {
+    if (readdirSync(dir).length === 0) rmdirSync(dir);
+  } catch {
+    // Left as it is: a folder that cannot be listed or removed is not worth a second error.
+  }
 }
 
 function parseThreads(value: string): number {

@@ -8,6 +8,10 @@ import { stackSpectrum } from '../../optics/stackSpectrum.js';
 import type { Polarisation } from '../../optics/types.js';
 import { wavelengthGrid } from '../../optics/wavelengthGrid.js';
 import { InputError, UsageError } from '../errors.js';
+import { checkOutputFile } from '../outputFile.js';
+import { assertNoInputOverwritten } from '../../io/ensureOutputDir.js';
+import { atomicWriteFile } from '../../io/atomicWriteFile.js';
+import { LAMELLA_VERSION } from '../../version.js';
 import { addStackOptions, parseNumberOption, stackFromOptions, type StackCliOptions } from '../stackOptions.js';
 
 interface SpectrumOptions extends StackCliOptions {
@@ -17,7 +21,12 @@ interface SpectrumOptions extends StackCliOptions {
   to: string;
   step: string;
   json?: boolean;
+  out?: string;
+  force?: boolean;
 }
+
+/** Version of the `spectrum --json` record (schemas/spectrum.schema.json). */
+export const SPECTRUM_SCHEMA_VERSION = 1;
 
 /** Fixed-point text with tiny rounding residues (|x| < 5e-11) shown as 0. */
 function fraction(x: number): string {
@@ -28,7 +37,10 @@ function wavelengthText(x: number): string {
   return String(Number(x.toFixed(6)));
 }
 
-function run(opts: SpectrumOptions): void {
+async function run(opts: SpectrumOptions): Promise<void> {
+  // `--out -` (or no --out) is standard output.
+  const out = opts.out === undefined || opts.out === '-' ? null : opts.out;
+  if (out) await checkOutputFile(out, { force: opts.force === true, inputs: [], example: opts.json ? 'spectrum.json' : 'spectrum.csv' });
   const thicknessNm = parseNumberOption(opts.thickness, '--thickness', 'a finite number of nm >= 0');
   if (thicknessNm < 0) throw new UsageError(`--thickness must be a finite number of nm >= 0, received ${thicknessNm}`);
   const fromNm = parseNumberOption(opts.from, '--from', 'a wavelength in nm');
@@ -51,26 +63,36 @@ function run(opts: SpectrumOptions): void {
   const { reflectance, transmittance, absorptance } = spectrum;
   if (opts.json) {
     const record = {
+      schema_version: SPECTRUM_SCHEMA_VERSION,
+      lamella_version: LAMELLA_VERSION,
       stack: stack.name,
       ambient: stack.ambient.name,
-      layers: stack.layers.map((layer) => ({ material: layer.material.name, thicknessNm: layer.thicknessNm === 'film' ? thicknessNm : layer.thicknessNm, film: layer.thicknessNm === 'film' })),
+      layers: stack.layers.map((layer) => ({ material: layer.material.name, thickness_nm: layer.thicknessNm === 'film' ? thicknessNm : layer.thicknessNm, film: layer.thicknessNm === 'film' })),
       substrate: stack.substrate.name,
-      thicknessNm,
-      angleDeg: (angleRad * 180) / Math.PI,
+      thickness_nm: thicknessNm,
+      angle_deg: (angleRad * 180) / Math.PI,
       polarisation: opts.polarisation,
-      wavelengthsNm: Array.from(wavelengthsNm),
+      wavelengths_nm: Array.from(wavelengthsNm),
       reflectance: Array.from(reflectance),
       transmittance: Array.from(transmittance),
       absorptance: Array.from(absorptance, (a) => (Math.abs(a) < 5e-11 ? 0 : a)),
     };
-    process.stdout.write(`${JSON.stringify(record, null, 2)}\n`);
+    await emit(out, `${JSON.stringify(record, null, 2)}\n`);
     return;
   }
   const lines = ['wavelength_nm,reflectance,transmittance,absorptance'];
   for (let j = 0; j < wavelengthsNm.length; j++) {
     lines.push(`${wavelengthText(wavelengthsNm[j])},${fraction(reflectance[j])},${fraction(transmittance[j])},${fraction(absorptance[j])}`);
   }
-  process.stdout.write(`${lines.join('\n')}\n`);
+  await emit(out, `${lines.join('\n')}\n`);
+}
+
+async function emit(out: string | null, text: string): Promise<void> {
+  if (out) {
+    // The stack, material and SPD files were read after the first check: none may be --out.
+    assertNoInputOverwritten([], [out]);
+    await atomicWriteFile(out, Buffer.from(text, 'utf8'));
+  } else process.stdout.write(text);
 }
 
 export function register(program: Command): void {
@@ -84,6 +106,8 @@ export function register(program: Command): void {
     .option('--to <nm>', 'last wavelength, nm', '780')
     .option('--step <nm>', 'wavelength step, nm', '1')
     .option('--json', 'print a JSON object with the settings and arrays instead of CSV')
+    .option('--out <file>', "write to this file (atomically) instead of standard output; '-' is standard output")
+    .option('--force', 'replace an existing --out file')
     .addHelpText(
       'after',
       '\nValues are computed from published optical constants. Deposited films (oxides, nitrides, polymers)\n' +
