@@ -46,7 +46,7 @@ describe('series: the camera response carries from frame to frame', () => {
     expect(r.status, r.stderr).toBe(0);
     for (const [f, record] of frameRecords('w1').entries()) {
       // Each frame after the first started from its predecessor (map prior and photo formation).
-      if (f > 0) expect(record.priorFrame).toBe(`frame-${f - 1}.jpg`);
+      if (f > 0) expect(record.prior_frame).toBe(`frame-${f - 1}.jpg`);
       const response = record.fitted.response;
       expect(Math.abs(response.saturation - EVERYDAY_STYLE.saturation), `frame ${f}`).toBeLessThanOrEqual(0.05);
       expect(response.contrast, `frame ${f}`).toBeGreaterThan(0.2);
