@@ -14,6 +14,7 @@ import { colourScaleBytes, SCALE_ENTRIES } from './colourScale.js';
 import { type MapResult, PixelStatus } from './types.js';
 import { percentileSelect } from './statistics.js';
 import { escapeHtml } from '../report/escapeHtml.js';
+import { poolLabels, previewGrid, samplePreview } from './previewGrid.js';
 
 const NO_ESTIMATE: readonly [number, number, number] = [128, 128, 128];
 const TOO_DARK: readonly [number, number, number] = [0, 0, 0];
@@ -180,8 +181,16 @@ export function mapPngLayout(width: number, height: number, present: { readonly 
   return { unit, margin, top, barWidth, canvasWidth, canvasHeight, panelLeft, legendY, swatches };
 }
 
-export async function renderMapPng(result: MapResult, range: ScaleRange, pixelSizeUm: number | null, title: string): Promise<Buffer> {
-  const { width, height } = result;
+/**
+ * The map picture: the thickness in the colour scale with title, colour bar, legend and (with a
+ * pixel size) a scale bar; a photo larger than the preview limit is drawn on its preview grid
+ * (./previewGrid.ts: every step-th pixel, the long side at most 2,000 px), the scale and the PNG's
+ * pixel size following the step.
+ */
+export async function renderMapPng(result: MapResult, range: ScaleRange, pixelSizeUmFull: number | null, title: string): Promise<Buffer> {
+  const grid = previewGrid(result.width, result.height);
+  const { width, height } = grid;
+  const pixelSizeUm = pixelSizeUmFull !== null ? pixelSizeUmFull * grid.step : null;
   const present = statusesPresent(result.status);
   const { unit, margin, top, barWidth, canvasWidth, canvasHeight, panelLeft, legendY } = mapPngLayout(width, height, present);
   // The SVG rasteriser refuses pictures over 32767 pixels a side: beside a very tall photo the
@@ -200,7 +209,7 @@ export async function renderMapPng(result: MapResult, range: ScaleRange, pixelSi
     canvasWidth,
     canvasHeight,
     background: '#ffffff',
-    image: { data: mapRaster(result, range), width, height, channels: 3 },
+    image: { data: grid.pixels ? mapRaster(result, range, grid.pixels, width) : mapRaster(result, range), width, height, channels: 3 },
     imageLeft: margin,
     imageTop: top,
     overlays,
@@ -378,7 +387,15 @@ export function paintFilmOutline(out: Uint8Array, status: Uint8Array, width: num
  * statuses are given, the film area's outline (thin, dashed cyan and black; under the thin
  * regions' outlines where they meet).
  */
-export async function renderFlagsPng(rgb: Float32Array, width: number, height: number, labels: Int32Array, status?: Uint8Array, pixelSizeUm: number | null = null): Promise<Buffer> {
+export async function renderFlagsPng(rgbFull: Float32Array, widthFull: number, heightFull: number, labelsFull: Int32Array, statusFull?: Uint8Array, pixelSizeUmFull: number | null = null): Promise<Buffer> {
+  // A large photo is drawn on its preview grid (./previewGrid.ts); a thin region smaller than the
+  // grid's step still shows (its label is pooled over each block).
+  const grid = previewGrid(widthFull, heightFull);
+  const { width, height } = grid;
+  const rgb = samplePreview(rgbFull, grid, 3);
+  const labels = poolLabels(labelsFull, widthFull, heightFull, grid);
+  const status = statusFull ? samplePreview(statusFull, grid) : undefined;
+  const pixelSizeUm = pixelSizeUmFull !== null ? pixelSizeUmFull * grid.step : null;
   const out = new Uint8Array(width * height * 3);
   // rgb ∈ [0, 1]: (v·255 + 0.5) | 0 is Math.round(v·255), cheaper over tens of millions of values.
   for (let i = 0, n = width * height * 3; i < n; i++) out[i] = (rgb[i] * 255 + 0.5) | 0;

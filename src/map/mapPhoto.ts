@@ -201,10 +201,16 @@ export async function mapPhotoFile(path: string, options: MapOptions, read: { al
 }
 
 export interface OutputSelection {
+  /** `<stem>.map.png` and `<stem>.flags.png` (each unless `map` / `flags` says otherwise). */
   readonly images: boolean;
   readonly json: boolean;
+  /** `<stem>.thickness.npy`, with `.confidence.npy` and `.status.npy` unless `confidence` / `status` says otherwise. */
   readonly npy: boolean;
   readonly tiff: boolean;
+  readonly confidence?: boolean;
+  readonly status?: boolean;
+  readonly map?: boolean;
+  readonly flags?: boolean;
   /** The map picture's colour range [min, max] nm (a series' common range); default the map's own. */
   readonly rangeNm?: readonly [number, number] | null;
 }
@@ -255,8 +261,12 @@ async function writeEachOutput(
   if (what.npy) {
     const thicknessPath = join(outDir, `${stem}.thickness.npy`);
     start(thicknessPath, () => writeNpy(thicknessPath, result.thicknessNm, [height, width]));
+  }
+  if (what.confidence ?? what.npy) {
     const confidencePath = join(outDir, `${stem}.confidence.npy`);
     start(confidencePath, () => writeNpy(confidencePath, result.confidence, [height, width]));
+  }
+  if (what.status ?? what.npy) {
     const statusPath = join(outDir, `${stem}.status.npy`);
     start(statusPath, () => writeNpy(statusPath, result.status, [height, width]));
   }
@@ -270,11 +280,13 @@ async function writeEachOutput(
     const json = record ?? mapResultJson(result, options!, photoPath);
     start(jsonPath, () => atomicWriteFile(jsonPath, Buffer.from(`${JSON.stringify(json, null, 2)}\n`, 'utf8')));
   }
-  if (what.images) {
+  if (what.map ?? what.images) {
     const range = what.rangeNm ? { minNm: what.rangeNm[0], maxNm: what.rangeNm[1] } : scaleRangeOf(result);
     const mapPath = join(outDir, `${stem}.map.png`);
     const mapPng = renderMapPng(result, range, options?.pixelSizeUm ?? null, `${basename(photoPath)} — thickness`);
     start(mapPath, async () => atomicWriteFile(mapPath, await mapPng));
+  }
+  if (what.flags ?? what.images) {
     if (result.photoRgb) {
       const labels = result.thinLabels ?? findThinRegions(result.thicknessNm, result.status, width, height, options?.thinBelowNm ?? null, null).labels;
       const flagsPath = join(outDir, `${stem}.flags.png`);

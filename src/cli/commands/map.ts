@@ -5,6 +5,7 @@
  */
 import { type CameraResponse, describeResponse, isStrongResponse } from '../../colour/toneResponse.js';
 import { CAMERA_HELP, parseCameraOption } from '../cameraOption.js';
+import { MAP_OUTPUT_FILES, OUTPUTS_HELP, parseOutputsOption } from '../outputsOption.js';
 import { LIGHT_FIELD_HELP, parseLightFieldOption } from '../lightFieldOption.js';
 import type { Command } from 'commander';
 import { basename, extname, join } from 'node:path';
@@ -48,9 +49,10 @@ interface MapCliOptions extends StackCliOptions, FilmAreaCliOptions {
   threads?: string;
   allowDamaged?: boolean;
   lightField?: string;
+  outputs?: string;
 }
 
-export const OUTPUT_SUFFIXES = ['.thickness.npy', '.thickness.tif', '.confidence.npy', '.status.npy', '.map.png', '.flags.png', '.json', '.report.html'];
+export const OUTPUT_SUFFIXES: string[] = Object.values(MAP_OUTPUT_FILES);
 
 export function register(program: Command): void {
   const command = program
@@ -65,7 +67,8 @@ export function register(program: Command): void {
     .option('--known <x,y,w,h=nm>', 'calibrate on each photo itself from a rectangle of known thickness (repeatable)', collect)
     .requiredOption('--out <dir>', 'output folder (created if missing)')
     .option('--json', 'print the JSON record(s) on stdout')
-    .option('--no-report', 'do not write the HTML report')
+    .option('--outputs <list>', OUTPUTS_HELP)
+    .option('--no-report', 'do not write the HTML report (the same as leaving report out of --outputs)')
     .option('--fail-if-thin', 'exit with status 1 when any photo has a thin region')
     .option('--threads <n>', 'threads for the per-pixel pass of photos of 1 MP or more (default: the cores, at most 4)')
     .option('--allow-damaged', 'map photos the decoder reports as damaged as far as they decode (a warning; the rest has no estimate)')
@@ -98,6 +101,9 @@ async function runMap(inputs: string[], opts: MapCliOptions): Promise<number> {
   lineOfLight(opts.light);
   const camera = parseCameraOption(opts.camera);
   const lightField = parseLightFieldOption(opts.lightField);
+  const outputs = parseOutputsOption(opts.outputs);
+  if (!opts.report) outputs.delete('report');
+  const writeReport = outputs.has('report');
   const { thinBelowNm, maxThicknessNm, region, maskPath, anchors, pixelSizeUm, filmArea, expectNm } = filmAreaFromOptions(opts);
   if ((opts.known ?? []).length > 0 && opts.calibration) {
     throw new UsageError('give either --known (calibrate on the photo) or --calibration (a calibration file), not both');
@@ -199,14 +205,18 @@ async function runMap(inputs: string[], opts: MapCliOptions): Promise<number> {
       // interrupted or the disk fills up (with one photo, report.html belongs to the set).
       const setNames = OUTPUT_SUFFIXES.map((suffix) => stem + suffix).concat(photos.length === 1 ? ['report.html'] : []);
       await writeOutputSet(setNames.map((name) => join(outDir, name)), async (staging) => {
-        await writeMapOutputs(result, photo, staging, stem, { images: true, json: true, npy: true, tiff: true }, photoOptions, record);
-        if (opts.report) {
+        const selection = {
+          npy: outputs.has('npy'), tiff: outputs.has('tif'), confidence: outputs.has('confidence'), status: outputs.has('status'),
+          images: false, map: outputs.has('map'), flags: outputs.has('flags'), json: outputs.has('json'),
+        };
+        await writeMapOutputs(result, photo, staging, stem, selection, photoOptions, record);
+        if (writeReport) {
           const html = renderMapReport({ ...(await mapReportInput(result, photoOptions, photo, record)), calibration: calibration?.raw ?? null });
           await atomicWriteFile(join(staging, `${stem}.report.html`), Buffer.from(html, 'utf8'));
           if (photos.length === 1) await atomicWriteFile(join(staging, 'report.html'), Buffer.from(html, 'utf8'));
         }
       });
-      if (opts.report) reports.push({ stem, file: `${stem}.report.html` });
+      if (writeReport) reports.push({ stem, file: `${stem}.report.html` });
       records.push(record);
       // Thin regions lie in the film only; a photo without film has none to report.
       if (result.thinRegions.length > 0 && result.filmArea?.found !== false) thin++;
@@ -219,7 +229,7 @@ async function runMap(inputs: string[], opts: MapCliOptions): Promise<number> {
       process.stderr.write(`lamella: ${oneLine(error).startsWith(photo) ? '' : `${photo}: `}${oneLine(error)}\n`);
     }
   }
-  if (opts.report && photos.length > 1 && reports.length > 0) {
+  if (writeReport && photos.length > 1 && reports.length > 0) {
     await atomicWriteFile(join(outDir, 'report.html'), Buffer.from(mapIndexPage(reports), 'utf8'));
   }
   // One shape for one photo or many: an array of records (README, "--json").
