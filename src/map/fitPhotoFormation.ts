@@ -76,6 +76,8 @@ export interface PhotoFormationOptions {
    * better (see `fitPhotoFormation`). Default false: start from `start`, else cold.
    */
   readonly ownFit?: boolean;
+  /** A rough fit (the probe of `ownFit`): fewer iterations and a looser tolerance; it only has to find the right valley. */
+  readonly rough?: boolean;
   /** Fit the camera's response (tone curve and saturation) too; default false. */
   readonly fitResponse?: boolean;
 }
@@ -91,6 +93,9 @@ const WHITE_BALANCE_PRIOR_SIGMA = 0.3;
 const FLARE_PRIOR_SIGMA = 0.05;
 const FLARE_START_MAX = 0.1;
 const OUTER_ITERATIONS = 4;
+/** Iterations and relative tolerance of a rough fit (judgements: the finish on all samples settles it). */
+const ROUGH_ITERATIONS = 6;
+const ROUGH_TOLERANCE = 1e-4;
 /** Samples used by the coarse exposure scan. */
 const SCAN_SAMPLES = 500;
 const TRIM_FACTOR = 6;
@@ -120,8 +125,12 @@ export function fitPhotoFormation(options: PhotoFormationOptions): PhotoFormatio
 
 /** Every PROBE_STRIDE-th sample takes part in the cold probe of a series frame's fit. */
 const PROBE_STRIDE = 4;
-/** The previous frame's parameters are tried only when their cost is lower than the own fit's by more than this share (2 %, a judgement). */
-const START_MARGIN = 0.02;
+/**
+ * The previous frame's parameters are tried only when their cost is lower than the own fit's by
+ * more than this share (10 %, a judgement): neighbouring self-consistent answers of one photo
+ * differ by a few per cent (8 % between the two on the demo's frame 6), a missed search by more.
+ */
+const START_MARGIN = 0.1;
 /** Share of the samples (the best-fitting) the common cost sums over: a fixed share, so two parameter sets compare on equal terms. */
 const COMMON_COST_SHARE = 0.9;
 
@@ -167,7 +176,7 @@ function coldProbe(options: PhotoFormationOptions): ExposureParameters | null {
     if (fixedIndex && options.fixedIndex) fixedIndex[j] = options.fixedIndex[i] < 0 ? -1 : Math.min(Math.round(options.fixedIndex[i] / stride), lastIndex);
   }
   const table = stride > 1 ? coarserTable(options.table, stride) : options.table;
-  const subset: PhotoFormationOptions = { ...options, table, samples, samplesRgb, fixedIndex, start: null };
+  const subset: PhotoFormationOptions = { ...options, table, samples, samplesRgb, fixedIndex, start: null, rough: true };
   return fitFrom(subset, coldStart(subset, samples, samplesRgb)).parameters;
 }
 
@@ -479,8 +488,8 @@ function innerFit(
     lower: active.map((slot) => lowerFull[slot]),
     upper: active.map((slot) => upperFull[slot]),
     scale: active.map((slot) => scaleFull[slot]),
-    maxIterations: fitResponse ? MAX_ITERATIONS_WITH_RESPONSE : MAX_ITERATIONS,
-    tolerance: 1e-8,
+    maxIterations: options.rough ? ROUGH_ITERATIONS : fitResponse ? MAX_ITERATIONS_WITH_RESPONSE : MAX_ITERATIONS,
+    tolerance: options.rough ? ROUGH_TOLERANCE : 1e-8,
     // The start comes from the exposure scan (first outer iteration) or the previous inner fit:
     // no second polish from it (a third fewer model evaluations, the same parameters on the
     // demo and benchmark photos).
