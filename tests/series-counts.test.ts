@@ -102,10 +102,11 @@ describe('frame counts in series.json and the summary (test double; our own book
     expect(await framesOf()).toMatchObject({ inputs: 8, unreadable: 2, outsideSelection: 2, total: 4, withResults: 3, missing: ['f4.jpg'] });
     expect(countLine(first)).toBe('series: 3 frame(s) mapped, 0 already done, 1 failed (4 in the series; 8 in the inputs: 2 unreadable or of another size, 2 outside --start/--end/--every)');
     expect((await readFile(join(outDir, 'series.csv'), 'utf8')).trim().split('\n')).toHaveLength(1 + 3);
-    // A rerun maps f4 (now readable by the double) and reuses the other three.
+    // A rerun maps f4 (mapped now) and f6 (the frame after it in its chunk of 3 — f2, f4, f6 — had
+    // no prior before: its prior changed), and reuses f2 and f7.
     const second = await runSeries(options(double(new Set()), { select }));
     expect(await framesOf()).toMatchObject({ inputs: 8, unreadable: 2, outsideSelection: 2, total: 4, withResults: 4, missing: [] });
-    expect(countLine(second)).toBe('series: 1 frame(s) mapped, 3 already done, 0 failed (4 in the series; 8 in the inputs: 2 unreadable or of another size, 2 outside --start/--end/--every)');
+    expect(countLine(second)).toBe('series: 2 frame(s) mapped, 2 already done, 0 failed (4 in the series; 8 in the inputs: 2 unreadable or of another size, 2 outside --start/--end/--every)');
   });
 
   it('a shard run counts the other shards\' frames as without a result, and the aggregation counts them as done', async () => {

@@ -187,7 +187,11 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
       samplesRgb,
       fixedIndex,
       start,
-      ownFit: input.ownFit === true,
+      // A series frame fits on its own (fitPhotoFormation.ts) when its photo can tell the
+      // parameters: with fewer than MIN_DISTINCT_COLOURS (e.g. black film over most of the film)
+      // it cannot, and the previous frame's parameters are followed, as the order prior decides
+      // where the colours cannot.
+      ownFit: input.ownFit === true && distinct >= MIN_DISTINCT_COLOURS,
       fitResponse: responseFitted(table, distinct),
     });
     // A response held from the start (not fitted here) is the start's; none held is the identity.
