@@ -14,6 +14,12 @@
  * distinct colours cannot trade them freely against thickness; such a photo is also reported
  * (see `distinctColourCount`), since its parameters rest on those priors.
  *
+ * The alternation can settle at more than one self-consistent answer (a shallow valley of flare,
+ * white balance and tone curve): where it starts matters. A series frame (`ownFit`) therefore
+ * starts from a rough cold fit of its own (a subsample, a coarser table) and is finished on all
+ * samples from there, so it comes out the same whatever the previous frame was; `start` is only
+ * tried when it explains the samples clearly better (`commonCost`).
+ *
  * With `fitResponse` the camera's response (picture style, ../colour/toneResponse.ts: tone-curve
  * contrast and gamma, saturation about luma) is fitted in the same LM, with weak priors toward the
  * identity (contrast 0 ± 0.4, ln γ 0 ± 0.2, saturation 1 ± 0.25), so a clean photo stays near it.
