@@ -48,7 +48,7 @@ if (existsSync(here('./series.js'))) {
     const { benchSeries } = await import('./series.js');
     const r = await benchSeries();
     return [
-      `  ${r.frames} frames of ${r.width}×${r.height}; single in-process map ${r.singleMapMs.toFixed(0)} ms`,
+      `  ${r.frames} frames of ${r.width}×${r.height}; in-process map with the previous frame ${r.singleMapMs.toFixed(0)} ms, alone ${r.coldMapMs.toFixed(0)} ms (warm/cold ${(r.singleMapMs / r.coldMapMs).toFixed(2)})`,
       ...r.results.map((x) => `  ${x.workers} worker(s): ${x.framesPerSecond.toFixed(2)} frames/s (${x.seconds.toFixed(1)} s)`),
       ...r.video.map((x) => `  as an H.264 video, ${x.workers} worker(s): ${x.framesPerSecond.toFixed(2)} frames/s (${x.seconds.toFixed(1)} s)`),
       `  series overhead per frame over a single map (1 worker): ${r.overheadMsPerFrame.toFixed(0)} ms`,

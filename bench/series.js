@@ -1,7 +1,8 @@
 // Speed of `lamella series`: frames per second for 2-MP frames (1632×1224) with 1 and 2 worker
 // threads, and the series overhead per frame over mapping the same frames in-process with the
 // same priors (worker start-up and its colour table, per-frame records and maps on disk, resume
-// checks, aggregation, drainage fits); and the same frames read from an H.264 video through FFmpeg.
+// checks, aggregation, drainage fits); the cost of a frame mapped with the previous frame (warm)
+// against one alone (cold), in-process; and the same frames read from an H.264 video through FFmpeg.
 // Frames: the demo's invented drainage model (scripts/make-demo.js). Run after building:
 // `node bench/series.js [frames]` (or through bench/run.js, which calls benchSeries()).
 import { mkdir, mkdtemp, rm } from 'node:fs/promises';
@@ -28,15 +29,23 @@ export async function benchSeries({ frames = 6, width = 1632, height = 1224 } = 
       stackOptions: DEMO.stackOptions, light: 'D65', whiteBalanceLight: null, thinBelowNm: DEMO.THIN_BELOW_NM,
       maxThicknessNm: 2000, filmIndexScale: null, exposureFixed: null,
     };
-    // In-process reference: the same frames mapped in order, each with the previous map as prior,
-    // after one warm-up map (colour table built) — what one worker does, without the series around it.
+    // In-process reference: the same frames mapped in order, each with the previous frame's map,
+    // statuses and light field (what one worker does within a chunk, without the series around
+    // it), after one warm-up map (colour table built); and each frame alone (a chunk's first
+    // frame: no previous frame), for the cost of a warm frame against a cold one.
     const processor = await createFrameProcessor(config);
     const paths = Array.from({ length: frames }, (_, i) => join(dir, 'in', `f${String(i).padStart(3, '0')}.jpg`));
     await processor.map(paths[0], null);
     const t0 = performance.now();
-    let prior = null;
-    for (const path of paths) prior = (await processor.map(path, prior)).thicknessNm;
+    let previous = null;
+    for (const path of paths) {
+      const field = previous?.exposureField?.source === 'photo' ? previous.exposureField.logGainCoefficients : null;
+      previous = await processor.map(path, previous?.thicknessNm ?? null, previous?.fitted ?? null, field, previous?.status ?? null);
+    }
     const singleMapMs = (performance.now() - t0) / frames;
+    const t1 = performance.now();
+    for (const path of paths) await processor.map(path, null);
+    const coldMapMs = (performance.now() - t1) / frames;
     const results = [];
     for (const workers of [1, 2]) {
       const started = performance.now();
@@ -68,7 +77,7 @@ export async function benchSeries({ frames = 6, width = 1632, height = 1224 } = 
         }
       }
     }
-    return { frames, width, height, singleMapMs, results, video, overheadMsPerFrame, loadAverage: loadavg()[0] };
+    return { frames, width, height, singleMapMs, coldMapMs, results, video, overheadMsPerFrame, loadAverage: loadavg()[0] };
   } finally {
     await rm(dir, { recursive: true, force: true });
   }
@@ -77,6 +86,7 @@ export async function benchSeries({ frames = 6, width = 1632, height = 1224 } = 
 if (process.argv[1] === fileURLToPath(import.meta.url)) {
   const r = await benchSeries({ frames: Number(process.argv[2] ?? 6) });
   console.log(`series ${r.frames} frames of ${r.width}×${r.height}: ${r.singleMapMs.toFixed(0)} ms per frame mapped in-process (warm)`);
+  console.log(`  each frame alone (a chunk's first frame): ${r.coldMapMs.toFixed(0)} ms; warm/cold ${(r.singleMapMs / r.coldMapMs).toFixed(2)}`);
   for (const x of r.results) console.log(`  ${x.workers} worker(s): ${x.framesPerSecond.toFixed(2)} frames/s (${x.seconds.toFixed(1)} s)`);
   for (const x of r.video) console.log(`  the same frames as an H.264 video, ${x.workers} worker(s): ${x.framesPerSecond.toFixed(2)} frames/s (${x.seconds.toFixed(1)} s)`);
   console.log(`  overhead per frame over in-process mapping (1 worker, incl. worker start and its colour table): ${r.overheadMsPerFrame.toFixed(0)} ms`);

@@ -3,7 +3,8 @@
  * instead of the exposure scan. Started near the answer, the fit must land where the full fit
  * lands, and the map must not change beyond the fit's own precision. The photo is an invented
  * draining wedge rendered by our forward model (tests/map-scenes.ts; the model itself is checked
- * against outside references elsewhere), written as a 4:2:0 JPEG.
+ * against outside references elsewhere), written as a 4:2:0 JPEG. A series frame (`ownFit`) must
+ * come out the same whatever its start (issue 16).
  */
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -58,5 +59,23 @@ describe('the photo-formation fit started from a previous frame', () => {
     expect(differences[Math.floor(differences.length / 2)]).toBeLessThan(0.1);
     expect(differences[Math.floor(differences.length * 0.99)]).toBeLessThan(1);
     expect(differences[differences.length - 1]).toBeLessThan(50);
+  });
+
+  it('as a series frame (ownFit), the fit is the same from a previous frame well off or from none at all (round trip)', async () => {
+    const options = { stack: resolveStack('soap-film'), angleRad: 0, light: 'D65', thinBelowNm: 50, maxThicknessNm: 2000, ownFit: true };
+    const own = await mapPhotoFile(photo, options);
+    // A previous frame in another valley: red flare −0.006 and white balance off, the kind of start
+    // that carried one frame's answer along a chunk of the demo series (issue 16).
+    const start = {
+      exposure: own.fitted.exposure * 0.97,
+      whiteBalance: [own.fitted.whiteBalance[0] * 1.02, 1, own.fitted.whiteBalance[2] * 0.99] as [number, number, number],
+      flare: [-0.006, own.fitted.flare[1], own.fitted.flare[2] + 0.003] as [number, number, number],
+    };
+    const carried = await mapPhotoFile(photo, { ...options, fitStart: start });
+    expect(carried.fitted).toEqual(own.fitted);
+    expect(Array.from(carried.thicknessNm)).toEqual(Array.from(own.thicknessNm));
+    // And near the invented shot's own numbers (exposure 6.5, flare 0.012), as the plain fit is.
+    expect(Math.abs(own.fitted.exposure / SHOT.exposure - 1)).toBeLessThan(0.03);
+    for (let c = 0; c < 3; c++) expect(Math.abs(own.fitted.flare[c] - SHOT.flare)).toBeLessThan(0.006);
   });
 });

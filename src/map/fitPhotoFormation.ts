@@ -14,6 +14,12 @@
  * distinct colours cannot trade them freely against thickness; such a photo is also reported
  * (see `distinctColourCount`), since its parameters rest on those priors.
  *
+ * The alternation can settle at more than one self-consistent answer (a shallow valley of flare,
+ * white balance and tone curve): where it starts matters. A series frame (`ownFit`) therefore
+ * starts from a rough cold fit of its own (a subsample, a coarser table) and is finished on all
+ * samples from there, so it comes out the same whatever the previous frame was; `start` is only
+ * tried when it explains the samples clearly better (`commonCost`).
+ *
  * With `fitResponse` the camera's response (picture style, ../colour/toneResponse.ts: tone-curve
  * contrast and gamma, saturation about luma) is fitted in the same LM, with weak priors toward the
  * identity (contrast 0 ± 0.4, ln γ 0 ± 0.2, saturation 1 ± 0.25), so a clean photo stays near it.
@@ -70,6 +76,14 @@ export interface PhotoFormationOptions {
    * parameters in a series, where the light and camera rarely change between frames.
    */
   readonly start?: ExposureParameters | null;
+  /**
+   * Fit the same way whatever `start` says (a series frame): a cold fit on a subsample first,
+   * finished on all samples; `start` is used instead only when it explains the samples clearly
+   * better (see `fitPhotoFormation`). Default false: start from `start`, else cold.
+   */
+  readonly ownFit?: boolean;
+  /** A rough fit (the probe of `ownFit`): fewer iterations and a looser tolerance; it only has to find the right valley. */
+  readonly rough?: boolean;
   /** Fit the camera's response (tone curve and saturation) too; default false. */
   readonly fitResponse?: boolean;
 }
@@ -85,6 +99,9 @@ const WHITE_BALANCE_PRIOR_SIGMA = 0.3;
 const FLARE_PRIOR_SIGMA = 0.05;
 const FLARE_START_MAX = 0.1;
 const OUTER_ITERATIONS = 4;
+/** Iterations and relative tolerance of a rough fit (judgements: the finish on all samples settles it). */
+const ROUGH_ITERATIONS = 6;
+const ROUGH_TOLERANCE = 1e-4;
 /** Samples used by the coarse exposure scan. */
 const SCAN_SAMPLES = 500;
 const TRIM_FACTOR = 6;
@@ -94,18 +111,113 @@ const LOG_GAMMA_PRIOR_SIGMA = 0.2;
 const SATURATION_PRIOR_SIGMA = 0.25;
 
 export function fitPhotoFormation(options: PhotoFormationOptions): PhotoFormationFit {
+  if (!options.ownFit) return fitFrom(options, options.start ?? coldStart(options, options.samples, options.samplesRgb ?? options.samples));
+  // A series frame (see `ownFit`): the fit has more than one self-consistent answer on some
+  // photos (flare, white balance and tone curve trade along a shallow valley, and samples change
+  // thickness between outer iterations), so a fit started from the previous frame can settle where
+  // the frame's own photo would not put it, and carry that along the series. The frame's own
+  // answer is found by a cheap cold fit on a subsample (`coldProbe`) and finished on all samples.
+  // The previous frame's parameters are tried only when, as they are, they already explain this
+  // photo clearly better than the finished own answer (`commonCost`): the cold search missed.
+  const probe = coldProbe(options);
+  if (probe === null) return fitFrom(options, options.start ?? coldStart(options, options.samples, options.samplesRgb ?? options.samples));
+  const own = fitFrom(options, probe, true);
+  if (!options.start) return own;
+  const ownCost = commonCost(options, own.parameters);
+  if (!(commonCost(options, options.start) < ownCost * (1 - START_MARGIN))) return own;
+  const carried = fitFrom(options, options.start, true);
+  return commonCost(options, carried.parameters) < ownCost ? carried : own;
+}
+
+/** Every PROBE_STRIDE-th sample takes part in the cold probe of a series frame's fit. */
+const PROBE_STRIDE = 4;
+/**
+ * The previous frame's parameters are tried only when their cost is lower than the own fit's by
+ * more than this share (10 %, a judgement): neighbouring self-consistent answers of one photo
+ * differ by a few per cent (8 % between the two on the demo's frame 6), a missed search by more.
+ */
+const START_MARGIN = 0.1;
+/** Share of the samples (the best-fitting) the common cost sums over: a fixed share, so two parameter sets compare on equal terms. */
+const COMMON_COST_SHARE = 0.9;
+
+/** The cold start: the flare estimate and the exposure scan. */
+function coldStart(options: PhotoFormationOptions, samples: Float32Array, samplesRgb: Float32Array): ExposureParameters {
+  const initialFlare = estimateFlare(samplesRgb, options.table.encoding);
+  const initialWb = options.initialWhiteBalance ?? [1, 1, 1];
+  const exposure0 = scanExposure(options.table, samples, initialWb, initialFlare, options.space);
+  return { exposure: exposure0, whiteBalance: [...initialWb], flare: initialFlare, response: null };
+}
+
+/** Every PROBE_TABLE_STRIDE-th thickness of the table for the probe (4 nm steps on the usual 1 nm table: colours change little over 4 nm, and positions are interpolated). */
+const PROBE_TABLE_STRIDE = 4;
+
+/** The table at every `stride`-th thickness (a copy). */
+function coarserTable(table: ColourTable, stride: number): ColourTable {
+  const count = Math.floor((table.count - 1) / stride) + 1;
+  const rgbLinear = new Float64Array(count * 3);
+  for (let i = 0; i < count; i++) for (let c = 0; c < 3; c++) rgbLinear[i * 3 + c] = table.rgbLinear[i * stride * 3 + c];
+  return { startNm: table.startNm, stepNm: table.stepNm * stride, count, rgbLinear, encoding: table.encoding };
+}
+
+/**
+ * The cold fit on every PROBE_STRIDE-th sample and every PROBE_TABLE_STRIDE-th thickness (anchored
+ * samples keep their thickness, to the nearest coarse step); null when too few samples.
+ */
+function coldProbe(options: PhotoFormationOptions): ExposureParameters | null {
+  const n = options.samples.length / 3;
+  const m = Math.floor(n / PROBE_STRIDE);
+  if (m < 50) return null;
+  const samples = new Float32Array(m * 3);
+  const samplesRgb = new Float32Array(m * 3);
+  const rgb = options.samplesRgb ?? options.samples;
+  const fixedIndex = options.fixedIndex ? new Int32Array(m) : null;
+  const stride = options.table.count > 100 * PROBE_TABLE_STRIDE ? PROBE_TABLE_STRIDE : 1;
+  const lastIndex = Math.floor((options.table.count - 1) / stride);
+  for (let j = 0; j < m; j++) {
+    const i = j * PROBE_STRIDE;
+    for (let c = 0; c < 3; c++) {
+      samples[j * 3 + c] = options.samples[i * 3 + c];
+      samplesRgb[j * 3 + c] = rgb[i * 3 + c];
+    }
+    if (fixedIndex && options.fixedIndex) fixedIndex[j] = options.fixedIndex[i] < 0 ? -1 : Math.min(Math.round(options.fixedIndex[i] / stride), lastIndex);
+  }
+  const table = stride > 1 ? coarserTable(options.table, stride) : options.table;
+  const subset: PhotoFormationOptions = { ...options, table, samples, samplesRgb, fixedIndex, start: null, rough: true };
+  return fitFrom(subset, coldStart(subset, samples, samplesRgb)).parameters;
+}
+
+/**
+ * One cost for any parameters on the same samples: each sample's squared colour distance to its
+ * best-matching thickness (the table's global best), summed over the best-fitting
+ * COMMON_COST_SHARE of them (outliers — glints, foreign pixels — left out by a fixed share, not
+ * by a limit that moves with the parameters).
+ */
+export function commonCost(options: PhotoFormationOptions, parameters: ExposureParameters): number {
+  const { table, samples } = options;
+  const n = samples.length / 3;
+  const predicted = predictIn(options.space, table, parameters, new Float32Array(table.count * 3));
+  const assigned = new Int32Array(n);
+  assignGlobalBest(predicted, table.count, samples, assigned, options.fixedIndex ?? null);
+  const costs = new Float64Array(n);
+  for (let i = 0; i < n; i++) costs[i] = distanceAt(predicted, assigned[i], samples[i * 3], samples[i * 3 + 1], samples[i * 3 + 2]);
+  costs.sort();
+  const keep = Math.max(1, Math.floor(COMMON_COST_SHARE * n));
+  let sum = 0;
+  for (let i = 0; i < keep; i++) sum += costs[i];
+  return sum;
+}
+
+/**
+ * The alternation of sample thicknesses and the least-squares fit, from `start`. With `settle`,
+ * the alternation goes on (up to OUTER_ITERATIONS) while the last least-squares fit stopped short,
+ * even when no sample changed its thickness: a finish from a nearby start (`fitPhotoFormation`'s
+ * probe) must end where the fit settles, not where its iterations ran out.
+ */
+function fitFrom(options: PhotoFormationOptions, start: ExposureParameters, settle = false): PhotoFormationFit {
   const { table, samples, noiseSigma } = options;
   const sampleCount = samples.length / 3;
   const warnings: string[] = [];
-  let current: ExposureParameters;
-  if (options.start) {
-    current = { exposure: options.start.exposure, whiteBalance: [...options.start.whiteBalance], flare: [...options.start.flare], response: options.start.response ?? null };
-  } else {
-    const initialFlare = estimateFlare(options.samplesRgb ?? samples, table.encoding);
-    const initialWb = options.initialWhiteBalance ?? [1, 1, 1];
-    const exposure0 = scanExposure(table, samples, initialWb, initialFlare, options.space);
-    current = { exposure: exposure0, whiteBalance: [...initialWb], flare: initialFlare, response: null };
-  }
+  let current: ExposureParameters = { exposure: start.exposure, whiteBalance: [...start.whiteBalance], flare: [...start.flare], response: start.response ?? null };
   if (options.fitResponse && table.encoding === 'srgb' && !current.response) current = { ...current, response: IDENTITY_RESPONSE };
   const assigned = new Int32Array(sampleCount);
   const keep = new Uint8Array(sampleCount).fill(1);
@@ -118,19 +230,22 @@ export function fitPhotoFormation(options: PhotoFormationOptions): PhotoFormatio
   };
   let rms = NaN;
   const previous = new Int32Array(sampleCount).fill(-1);
+  let settled = true;
   for (let outer = 0; outer < OUTER_ITERATIONS; outer++) {
     predictIn(options.space, table, current, predicted);
     assignGlobalBest(predicted, table.count, samples, assigned, options.fixedIndex ?? null);
     // Stop when no sample changed its thickness by more than a few table steps.
     let moved = 0;
     for (let i = 0; i < sampleCount; i++) if (Math.abs(assigned[i] - previous[i]) > 3) moved++;
-    if (outer > 0 && moved <= sampleCount * 0.002) break;
+    // (With `settle`, an inner fit that stopped short is taken up again even so.)
+    if (outer > 0 && moved <= sampleCount * 0.002 && (!settle || settled)) break;
     previous.set(assigned);
     trimOutliers(predicted, table.count, samples, assigned, keep);
     const result = innerFit(options, current, assigned, keep);
     current = result.parameters;
     standardErrors = result.standardErrors;
     rms = result.rms;
+    settled = result.settled;
     // An inner fit that stopped short is taken up by the next outer iteration from where it
     // ended: only the last inner fit's warnings describe the parameters returned.
     warnings.length = 0;
@@ -259,6 +374,8 @@ interface InnerResult {
   standardErrors: PhotoFormationFit['standardErrors'];
   rms: number;
   warnings: string[];
+  /** The least-squares fit settled within its iterations. */
+  settled: boolean;
 }
 
 const PARAMETER_NAMES = [
@@ -377,8 +494,8 @@ function innerFit(
     lower: active.map((slot) => lowerFull[slot]),
     upper: active.map((slot) => upperFull[slot]),
     scale: active.map((slot) => scaleFull[slot]),
-    maxIterations: fitResponse ? MAX_ITERATIONS_WITH_RESPONSE : MAX_ITERATIONS,
-    tolerance: 1e-8,
+    maxIterations: options.rough ? ROUGH_ITERATIONS : fitResponse ? MAX_ITERATIONS_WITH_RESPONSE : MAX_ITERATIONS,
+    tolerance: options.rough ? ROUGH_TOLERANCE : 1e-8,
     // The start comes from the exposure scan (first outer iteration) or the previous inner fit:
     // no second polish from it (a third fewer model evaluations, the same parameters on the
     // demo and benchmark photos).
@@ -396,6 +513,7 @@ function innerFit(
     parameters: toParameters(v),
     standardErrors: { exposure: se[0], whiteBalance: [se[1], 0, se[2]], flare: [se[3], se[4], se[5]], response: [se[6], se[7], se[8]] },
     rms: Math.sqrt(Math.max(0, fit.residualSumOfSquares - priorRss) / Math.max(1, m * 3)),
+    settled: fit.converged,
     warnings: fit.warnings.map((w) =>
       w.startsWith('did not converge')
         ? `the exposure, white-balance${fitResponse ? ', flare and camera-response' : ' and flare'} fit did not settle within ${fitResponse ? MAX_ITERATIONS_WITH_RESPONSE : MAX_ITERATIONS} iterations: the map uses the best values found, which may be slightly off (see fit_quality; a calibration removes the doubt)`

@@ -131,6 +131,9 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
     priorStatus: at.priorStatus,
     exposureFixed: fixed ?? options.exposureFixed ?? null,
     fitStart: fitStart ?? options.fitStart ?? null,
+    // A start from within this photo (a light-field round, the preview's fit) is followed as it
+    // is; a series frame's own first fit does not depend on the frame before (MapOptions.ownFit).
+    ownFit: fitStart === null && options.ownFit === true,
     keepConsistent: options.keepConsistent ?? true,
     threads: options.threads ?? defaultThreads(),
     chromaWeight: chromaWeightFor(photo.format, photo.chromaSubsampling),

@@ -64,6 +64,8 @@ export interface MapPixelsInput {
   readonly threads?: number;
   /** Start of the photo-formation fit instead of its scan (a series: the previous frame's fit). */
   readonly fitStart?: ExposureParameters | null;
+  /** Fit as a series frame (MapOptions.ownFit): the photo's own answer first, `fitStart` only competing. */
+  readonly ownFit?: boolean;
   /** Second look at poor colour matches (keepConsistent.ts); default true. */
   readonly keepConsistent?: boolean;
   /** The photo holds 8-bit values (k/255): lets the pixel pass remember work per exact colour. */
@@ -185,9 +187,15 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
       samplesRgb,
       fixedIndex,
       start,
+      // A series frame fits on its own (fitPhotoFormation.ts) when its photo can tell the
+      // parameters: with fewer than MIN_DISTINCT_COLOURS (e.g. black film over most of the film)
+      // it cannot, and the previous frame's parameters are followed, as the order prior decides
+      // where the colours cannot.
+      ownFit: input.ownFit === true && distinct >= MIN_DISTINCT_COLOURS,
       fitResponse: responseFitted(table, distinct),
     });
-    return { ...fit.parameters, responseSource: responseSourceOf(table, distinct, start) };
+    // A response held from the start (not fitted here) is the start's; none held is the identity.
+    return { ...fit.parameters, responseSource: responseSourceOf(table, distinct, fit.parameters.response ? start : null) };
   };
   // Before the film area is known, a colour-balanced sample keeps a large uniform background
   // from outvoting the film; once it is known, the film's own pixels are sampled plainly.

@@ -128,6 +128,13 @@ export interface MapOptions {
    */
   readonly fitStart?: ExposureParameters | null;
   /**
+   * A series frame: fit the photo formation the same way whatever came before (a cold fit on a
+   * subsample, finished on all samples; ../map/fitPhotoFormation.ts), so a frame's result does not
+   * depend on where its chunk starts. `fitStart` then only competes: it is used when it explains
+   * this photo clearly better. Default false (`lamella map`: the full cold fit).
+   */
+  readonly ownFit?: boolean;
+  /**
    * Keep poor colour matches that agree with the smooth field of their well-matched neighbours
    * (src/map/keepConsistent.ts); default true. False: the colour test alone decides.
    */

@@ -35,6 +35,8 @@ export function mapOptionsFromConfig(config: MapFrameConfig): MapOptions {
     pixelSizeUm: config.pixelSizeUm ?? null,
     filmArea: config.filmArea ?? 'auto',
     expectNm: config.expectNm ?? null,
+    // A frame's fit does not depend on where its chunk starts (MapOptions.ownFit).
+    ownFit: true,
     // Frames are mapped in parallel by the series' workers: one thread per frame.
     threads: 1,
   };

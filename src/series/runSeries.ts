@@ -238,6 +238,11 @@ export async function runSeries(options: SeriesOptions): Promise<SeriesResult> {
     },
     calibration: options.calibration ?? null,
     frames: frames.length,
+    inputCounts: {
+      inputs: expanded.frames.length,
+      unreadable: expanded.frames.length - probed.readable.length + probed.wrongSize.size,
+      outsideSelection: probed.readable.length - probed.wrongSize.size - frames.length,
+    },
     rows: collected.rows,
     missing: collected.missing,
     fits: drainage.fits,

@@ -15,6 +15,8 @@ export interface SeriesSummaryInput {
   readonly settings: Record<string, unknown>;
   readonly calibration: Record<string, unknown> | null;
   readonly frames: number;
+  /** How the inputs' frames came down to `frames` (see SeriesSummary.frames). */
+  readonly inputCounts?: { readonly inputs: number; readonly unreadable: number; readonly outsideSelection: number };
   readonly rows: readonly SeriesRow[];
   readonly missing: readonly string[];
   readonly fits: readonly DrainageFit[];
@@ -33,7 +35,21 @@ export interface SeriesSummary {
   readonly input_files: Readonly<Record<string, string>>;
   readonly settings: Record<string, unknown>;
   readonly calibration: Record<string, unknown> | null;
-  readonly frames: { readonly total: number; readonly withResults: number; readonly missing: readonly string[]; readonly width: number | null; readonly height: number | null };
+  /**
+   * `inputs` frames were found in the inputs; `unreadable` of them could not be read or had another
+   * size, `outsideSelection` were left out by --start/--end/--every; the other `total` are the
+   * series, of which `withResults` have a current result (rows of series.csv) and `missing` none.
+   */
+  readonly frames: {
+    readonly inputs: number;
+    readonly unreadable: number;
+    readonly outsideSelection: number;
+    readonly total: number;
+    readonly withResults: number;
+    readonly missing: readonly string[];
+    readonly width: number | null;
+    readonly height: number | null;
+  };
   readonly timeRangeS: readonly [number, number] | null;
   /** Last frame with film and first frame without, when the film is gone from a frame on; else null. */
   readonly rupture: RuptureRecord | null;
@@ -79,6 +95,9 @@ export function seriesSummary(input: SeriesSummaryInput): SeriesSummary {
     settings: input.settings,
     calibration: input.calibration,
     frames: {
+      inputs: input.inputCounts?.inputs ?? input.frames,
+      unreadable: input.inputCounts?.unreadable ?? 0,
+      outsideSelection: input.inputCounts?.outsideSelection ?? 0,
       total: input.frames,
       withResults: input.rows.length,
       missing: [...input.missing],

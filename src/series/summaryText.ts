@@ -30,9 +30,30 @@ function predictionLines(o: SeriesObservations): string[] {
   });
 }
 
-export function formatSeriesSummary(result: SeriesResult): string[] {
+/**
+ * The count line: every frame of the series is exactly one of mapped now, already done (a current
+ * result from an earlier run or another shard), failed now, or without a result (e.g. another
+ * shard's, not yet mapped); frames of the inputs that are not in the series are counted apart.
+ */
+export function countLine(result: SeriesResult): string {
   const count = (o: string) => result.events.filter((e) => e.outcome === o).length;
-  const lines = [`series: ${count('mapped')} frame(s) mapped, ${count('skipped')} already done, ${result.failures.length} failed`];
+  const mapped = count('mapped');
+  const failed = count('failed');
+  const summary = result.summary;
+  if (summary === null) return `series: ${mapped} frame(s) mapped, ${count('skipped')} already done, ${failed} failed`;
+  const f = summary.frames;
+  const done = Math.max(0, f.withResults - mapped);
+  const without = Math.max(0, f.total - mapped - done - failed);
+  let line = `series: ${mapped} frame(s) mapped, ${done} already done, ${failed} failed${without > 0 ? `, ${without} without a result` : ''} (${f.total} in the series`;
+  const apart: string[] = [];
+  if (f.unreadable > 0) apart.push(`${f.unreadable} unreadable or of another size`);
+  if (f.outsideSelection > 0) apart.push(`${f.outsideSelection} outside --start/--end/--every`);
+  line += apart.length > 0 ? `; ${f.inputs} in the inputs: ${apart.join(', ')})` : ')';
+  return line;
+}
+
+export function formatSeriesSummary(result: SeriesResult): string[] {
+  const lines = [countLine(result)];
   const summary = result.summary;
   if (summary === null) return lines;
   lines.push(`series: ${summary.frames.withResults}/${summary.frames.total} frames in ${result.outputs.join(', ')}`);
