@@ -1,6 +1,6 @@
 /**
  * Honest frame counts (issue 16 item 3): every frame found in the inputs is counted exactly once —
- * in series.json (`frames`: inputs, unreadable, outsideSelection, total, withResults, missing) and
+ * in series.json (`frames`: inputs, unreadable, outside_selection, total, with_results, missing) and
  * in the summary's count line (mapped, already done, failed, without a result; the inputs' frames
  * outside the series apart). Bookkeeping of our own, checked against the frames the test makes
  * (invented: text files read through an injected header reader, mapped by a test double that
@@ -99,13 +99,13 @@ describe('frame counts in series.json and the summary (test double; our own book
     const select = { startS: 0.5, endS: 3 };
     // In the series: f2 (0.5 s), f4 (1.5 s), f6 (2.5 s), f7 (3 s); f1 and f8 outside; f4 fails.
     const first = await runSeries(options(double(new Set(['f4.jpg'])), { select }));
-    expect(await framesOf()).toMatchObject({ inputs: 8, unreadable: 2, outsideSelection: 2, total: 4, withResults: 3, missing: ['f4.jpg'] });
+    expect(await framesOf()).toMatchObject({ inputs: 8, unreadable: 2, outside_selection: 2, total: 4, with_results: 3, missing: ['f4.jpg'] });
     expect(countLine(first)).toBe('series: 3 frame(s) mapped, 0 already done, 1 failed (4 in the series; 8 in the inputs: 2 unreadable or of another size, 2 outside --start/--end/--every)');
     expect((await readFile(join(outDir, 'series.csv'), 'utf8')).trim().split('\n')).toHaveLength(1 + 3);
     // A rerun maps f4 (mapped now) and f6 (the frame after it in its chunk of 3 — f2, f4, f6 — had
     // no prior before: its prior changed), and reuses f2 and f7.
     const second = await runSeries(options(double(new Set()), { select }));
-    expect(await framesOf()).toMatchObject({ inputs: 8, unreadable: 2, outsideSelection: 2, total: 4, withResults: 4, missing: [] });
+    expect(await framesOf()).toMatchObject({ inputs: 8, unreadable: 2, outside_selection: 2, total: 4, with_results: 4, missing: [] });
     expect(countLine(second)).toBe('series: 2 frame(s) mapped, 2 already done, 0 failed (4 in the series; 8 in the inputs: 2 unreadable or of another size, 2 outside --start/--end/--every)');
   });
 
@@ -115,7 +115,7 @@ describe('frame counts in series.json and the summary (test double; our own book
     expect(countLine(shard)).toBe('series: 3 frame(s) mapped, 0 already done, 0 failed, 3 without a result (6 in the series)');
     const aggregate = await runSeries(options(double(new Set()), { shard: { index: 2, count: 2 } }));
     expect(countLine(aggregate)).toBe('series: 3 frame(s) mapped, 3 already done, 0 failed (6 in the series)');
-    expect(await framesOf()).toMatchObject({ inputs: 6, unreadable: 0, outsideSelection: 0, total: 6, withResults: 6 });
+    expect(await framesOf()).toMatchObject({ inputs: 6, unreadable: 0, outside_selection: 0, total: 6, with_results: 6 });
   });
 });
 
