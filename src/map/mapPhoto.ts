@@ -136,6 +136,7 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
     ownFit: fitStart === null && options.ownFit === true,
     keepConsistent: options.keepConsistent ?? true,
     threads: options.threads ?? defaultThreads(),
+    onPhase: options.onPhase ?? null,
     chromaWeight: chromaWeightFor(photo.format, photo.chromaSubsampling),
     eightBit: photo.bitDepth === 8,
     filmArea: options.filmArea ?? 'auto',

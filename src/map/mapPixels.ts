@@ -37,7 +37,7 @@ import { percentileSelect } from './statistics.js';
 import { summariseMap } from './summariseMap.js';
 import { tableLimits } from './tableLimits.js';
 import { type CameraResponse, describeResponse, isStrongResponse } from '../colour/toneResponse.js';
-import { type Anchor, type ExposureParameters, type FilmAreaMode, type FilmAreaSummary, type MapResult, PixelStatus } from './types.js';
+import { type Anchor, type MapPhase, type ExposureParameters, type FilmAreaMode, type FilmAreaSummary, type MapResult, PixelStatus } from './types.js';
 
 export interface MapPixelsInput {
   readonly rgb: Float32Array;
@@ -62,6 +62,8 @@ export interface MapPixelsInput {
    * of at least MIN_THREADED_PIXELS; the map is the same whatever the count.
    */
   readonly threads?: number;
+  /** Told when each stage of the map starts (a display of progress; see MapOptions.onPhase). */
+  readonly onPhase?: ((phase: MapPhase) => void) | null;
   /** Start of the photo-formation fit instead of its scan (a series: the previous frame's fit). */
   readonly fitStart?: ExposureParameters | null;
   /** Fit as a series frame (MapOptions.ownFit): the photo's own answer first, `fitStart` only competing. */
@@ -153,6 +155,8 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
     clock = now;
   };
   lap('prepare');
+  const phase = input.onPhase ?? ((): void => undefined);
+  phase('fit');
   const autoArea = input.filmArea !== 'whole';
   const asserted = anchors.length > 0 || (input.expectNm ?? null) !== null;
   const blockOf = Math.max(1, Math.ceil(Math.sqrt(pixels / MAX_GRID_CELLS)));
@@ -202,6 +206,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   let parameters: ExposureParameters = input.exposureFixed ?? fitOnFilm(input.fitStart ?? null, autoArea);
 
   lap('fit');
+  phase('orders');
   const periodIndex = input.orderPeriodNm / table.stepNm;
   const count = table.count;
   const block = Math.max(1, Math.ceil(Math.sqrt(pixels / MAX_GRID_CELLS)));
@@ -275,6 +280,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   fillUnresolved(order.position, field, cellDark, gridWidth, gridHeight, limits.darkLimitIndex, maxJump);
 
   lap('orders');
+  phase('pixels');
   // 4. Full resolution.
   const thicknessNm = (threaded ? sharedFloat32(pixels) : new Float32Array(pixels)).fill(NaN);
   const confidence = threaded ? sharedFloat32(pixels) : new Float32Array(pixels);
@@ -317,6 +323,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   const reasons = { unresolved: dropped.unresolved, discontinuous: dropped.discontinuous, poorMatch: poor - keptByNeighbours };
 
   lap('pixels');
+  phase('summaries');
   const filmArea = summariseFilmArea(autoArea ? 'auto' : 'whole', area, status, width, height, block, gridWidth, input.pixelSizeUm ?? null);
   if (area && !filmArea.found) {
     warnings.push(

@@ -5,6 +5,9 @@
 import type { Stack } from '../optics/types.js';
 import type { CameraResponse } from '../colour/toneResponse.js';
 
+/** The stages of a map, in order (MapOptions.onPhase). */
+export type MapPhase = 'fit' | 'orders' | 'pixels' | 'summaries';
+
 /** Per-pixel status codes stored alongside the thickness map. */
 export const PixelStatus = {
   ok: 0,
@@ -144,6 +147,12 @@ export interface MapOptions {
    * worker threads); default: the available cores, at most 4. The map is the same whatever the count.
    */
   readonly threads?: number;
+  /**
+   * Told when each stage of a map starts: the photo-formation fit, the order resolution, the
+   * per-pixel pass, the summaries (a photo under uneven light goes through them once per round of
+   * its light field). For a display of progress; the map does not depend on it.
+   */
+  readonly onPhase?: ((phase: MapPhase) => void) | null;
   /** `auto` (default): find the film area; `whole`: every pixel in region/mask is film. */
   readonly filmArea?: FilmAreaMode;
   /** `auto` (default): fit the exposure as a smooth field when the light is uneven (./lightField.ts); `off`: one exposure. */

@@ -54,6 +54,16 @@ interface MapCliOptions extends StackCliOptions, FilmAreaCliOptions {
 
 export const OUTPUT_SUFFIXES: string[] = Object.values(MAP_OUTPUT_FILES);
 
+/** The stages a photo goes through, as the terminal shows them. */
+const PHASE_WORDS = {
+  decode: 'reading the photo',
+  fit: 'fitting exposure, white balance and flare',
+  orders: 'resolving the interference orders',
+  pixels: 'matching every pixel',
+  summaries: 'summarising',
+  outputs: 'writing the outputs',
+} as const;
+
 export function register(program: Command): void {
   const command = program
     .command('map')
@@ -166,9 +176,16 @@ async function runMap(inputs: string[], opts: MapCliOptions): Promise<number> {
   let thin = 0;
   const records: Record<string, unknown>[] = [];
   const reports: Array<{ stem: string; file: string }> = [];
+  // On a terminal, the stage each photo is in, on one line rewritten in place (never on a pipe).
+  const showPhases = process.stderr.isTTY === true && !opts.quiet;
+  const clearPhase = (): void => void (showPhases && process.stderr.write('\r\x1b[K'));
   for (const [index, photo] of photos.entries()) {
     const stem = stems[index];
+    const showPhase = (phase: keyof typeof PHASE_WORDS): void => {
+      if (showPhases) process.stderr.write(`\r\x1b[Klamella: ${photo}${photos.length > 1 ? ` (${index + 1}/${photos.length})` : ''}: ${PHASE_WORDS[phase]}…`);
+    };
     try {
+      showPhase('decode');
       const decoded = await readPhoto(photo, { maxPixels: MAP_MAX_PIXELS, allowDamaged: opts.allowDamaged === true });
       for (const warning of decoded.warnings ?? []) warn(`${photo}: ${warning}`);
       const mask = options.maskPath ? await readMask(options.maskPath, decoded.width, decoded.height) : null;
@@ -195,7 +212,8 @@ async function runMap(inputs: string[], opts: MapCliOptions): Promise<number> {
         };
         for (const warning of onPhoto.warnings) warn(`${photo}: calibration: ${warning}`);
       }
-      const result = mapDecodedPhoto(decoded, photoOptions, mask, photo);
+      const result = mapDecodedPhoto(decoded, { ...photoOptions, onPhase: showPhases ? showPhase : null }, mask, photo);
+      showPhase('outputs');
       // Which Lamella made it, from which files (SHA-256 of the photo, mask and data files read).
       const record = {
         ...mapResultJson(result, photoOptions, photo),
@@ -220,9 +238,11 @@ async function runMap(inputs: string[], opts: MapCliOptions): Promise<number> {
       records.push(record);
       // Thin regions lie in the film only; a photo without film has none to report.
       if (result.thinRegions.length > 0 && result.filmArea?.found !== false) thin++;
+      clearPhase();
       for (const warning of result.warnings) warn(`${photo}: ${warning}`);
       if (!opts.json && !opts.quiet) process.stdout.write(`${summaryLine(photo, result)}\n`);
     } catch (error) {
+      clearPhase();
       // A calibration's light field made for another photo size holds for the whole run (exit 2).
       if (error instanceof FieldSizeMismatchError) throw error;
       failed.push(photo);
