@@ -9,17 +9,8 @@ import { existsSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import sharp from 'sharp';
-import {
-  atomicWriteFile,
-  cleanupTempFiles,
-  encodeJpeg,
-  encodePng,
-  ensureOutputDir,
-  pendingTempFiles,
-  rasteriseSvg,
-  removeTempFilesOnSignals,
-  writeImage,
-} from '../src/io/index.js';
+import { atomicWriteFile, encodeJpeg, encodePng, ensureOutputDir, rasteriseSvg, writeImage } from '../src/io/index.js';
+import { cleanupTempFiles, pendingTempFiles, removeTempFilesOnSignals } from '../src/io/tempFiles.js';
 import { registerTempFile } from '../src/io/tempFiles.js';
 import { composeImagePng } from '../src/io/composeImage.js';
 import { InputError, UsageError } from '../src/cli/errors.js';

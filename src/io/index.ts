@@ -1,7 +1,7 @@
 /** Image and grid I/O: the only module that touches the image codec. */
 export * from './photo.js';
 export { MAX_PIXELS, MAP_MAX_PIXELS } from './limits.js';
-export { readPhoto } from './readPhoto.js';
+export { readPhoto, readPhotoBytes } from './readPhoto.js';
 export { readPhotoMetadata } from './readPhotoMetadata.js';
 export { parseExifTime } from './exifTime.js';
 export { writeImage, imageFormatFromPath, type ImageFileFormat, type WriteImageOptions } from './writeImage.js';
@@ -15,5 +15,4 @@ export { decodeFloatTiff, decodeFloatTiffAny, readFloatTiff, type FloatGrid } fr
 export { readThicknessGrid, type ReadThicknessGridOptions } from './readThicknessGrid.js';
 export { atomicWriteFile } from './atomicWriteFile.js';
 export { ensureOutputDir, assertNoInputOverwritten, type EnsureOutputDirOptions } from './ensureOutputDir.js';
-export { cleanupTempFiles, pendingTempFiles, removeTempFilesOnSignals } from './tempFiles.js';
 export { composeImagePng, type ComposeRequest } from './composeImage.js';

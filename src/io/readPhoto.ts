@@ -23,10 +23,22 @@ import { iccDescription, isSrgbDescription } from './iccDescription.js';
 import type { Photo, ReadPhotoOptions } from './photo.js';
 
 export async function readPhoto(path: string, options: ReadPhotoOptions = {}): Promise<Photo> {
-  const maxPixels = checkMaxPixels(options.maxPixels);
-  const page = options.page ?? 0;
   // A page of a stack is read from the file (a stack of a thousand frames need not sit in memory).
   const bytes: Buffer | string = options.page === undefined ? await readInputFile(path) : (await checkInputFile(path), path);
+  return decodePhoto(bytes, path, options);
+}
+
+/**
+ * Decodes a photo held in memory (the bytes of a JPEG, PNG or TIFF file) as `readPhoto` decodes a
+ * file; `name` stands for the photo in messages and errors.
+ */
+export async function readPhotoBytes(bytes: Uint8Array, name: string, options: ReadPhotoOptions = {}): Promise<Photo> {
+  return decodePhoto(Buffer.isBuffer(bytes) ? bytes : Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength), name, options);
+}
+
+async function decodePhoto(bytes: Buffer | string, path: string, options: ReadPhotoOptions): Promise<Photo> {
+  const maxPixels = checkMaxPixels(options.maxPixels);
+  const page = options.page ?? 0;
   let meta: Metadata;
   try {
     // Header only (no pixels decoded), so the size can be checked and named below.

@@ -7,21 +7,16 @@ import { CAMERA_HELP, parseCameraOption } from '../cameraOption.js';
 import { LIGHT_FIELD_HELP, parseLightFieldOption } from '../lightFieldOption.js';
 import { availableParallelism } from 'node:os';
 import { Option, type Command } from 'commander';
-import { resolve } from 'node:path';
 import { InputError, UsageError, EXIT_INPUT } from '../errors.js';
-import { addStackOptions, parseNumberOption, stackFromOptions, type StackCliOptions } from '../stackOptions.js';
+import { addStackOptions, parseNumberOption, type StackCliOptions } from '../stackOptions.js';
 import { addFilmAreaOptions, filmAreaFromOptions, parseExpect, type FilmAreaCliOptions } from '../filmAreaOptions.js';
 import { parseShard } from '../../series/parseShard.js';
 import { runSeries, DEFAULT_CHUNK_FRAMES, type SeriesOptions } from '../../series/runSeries.js';
-import { loadCalibrationForRun } from '../../calibrate/calibrationFile.js';
-import { MAP_FRAME_PROCESSOR_URL, type MapFrameConfig } from '../../series/mapFrameConfig.js';
+import { seriesJobOptions } from '../../api/runSeries.js';
 import { formatProgressBar, formatProgressLine } from '../../series/progressText.js';
 import { formatSeriesSummary } from '../../series/summaryText.js';
 import type { SeriesProgress } from '../../series/types.js';
 import { addLightOptions, lightsFromOptions } from '../lightOptions.js';
-import { checkRegion } from '../../map/filmMask.js';
-import { readMask } from '../../map/mapPhoto.js';
-import { notedInputFiles } from '../../io/inputFiles.js';
 
 export interface SeriesCliOptions extends StackCliOptions, FilmAreaCliOptions {
   light: string;
@@ -101,77 +96,19 @@ export async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions
       throw new UsageError(`--shard ${(error as Error).message.replace(/^shard /, '')}`);
     }
   }
-  const { angleRad } = stackFromOptions(opts, { onWarning: warn });
-  // Lights are checked here, once, not by every frame's worker.
+  // Lights are checked here with the CLI's messages (the library checks them too).
   lightsFromOptions(opts);
-  const camera = parseCameraOption(opts.camera);
-  const lightField = parseLightFieldOption(opts.lightField);
-  const calibration = opts.calibration === undefined
-    ? null
-    : await loadCalibrationForRun(opts.calibration, { stack: opts.stack ?? '', light: opts.light, angleRad, whiteBalanceLight: opts.whiteBalance ?? null, camera, ignoreMismatch: opts.ignoreCalibrationMismatch === true });
-  const stackOptions: StackCliOptions = { stack: opts.stack, filmIndex: opts.filmIndex, angle: opts.angle, extrapolate: opts.extrapolate };
-  const whiteBalanceLight = opts.whiteBalance ?? null;
-  const maskPath = area.maskPath ? resolve(area.maskPath) : null;
-  if (maskPath) {
-    const { stat } = await import('node:fs/promises');
-    const info = await stat(maskPath).catch(() => null);
-    if (!info || !info.isFile()) throw new InputError(opts.mask ?? '', '--mask: no such image file');
-  }
-  const config: MapFrameConfig = {
-    stackOptions, light: opts.light, whiteBalanceLight, camera, thinBelowNm, maxThicknessNm,
-    filmIndexScale: calibration?.filmIndexScale ?? null, exposureFixed: calibration?.exposureFixed ?? null,
-    ...(rangeNm !== null ? { rangeNm } : {}),
-    exposureFieldFixed: calibration?.exposureField
-      ? { ...calibration.exposureField, file: opts.calibration!, ignoreSizeMismatch: opts.ignoreCalibrationMismatch === true }
-      : null,
-    lightField,
-    region, maskPath, anchors, pixelSizeUm, filmArea, expectNm,
-    ...(opts.allowDamaged ? { allowDamaged: true } : {}),
-  };
-  return {
-    inputs, outDir: opts.out, fps, intervalS, thinBelowNm, shard,
-    ...(startS !== null || endS !== null || every !== null ? { select: { startS, endS, every } } : {}),
-    ...(rangeNm !== null ? { rangeNm } : {}),
-    chunkFrames: positive(opts.chunkFrames, '--chunk-frames', true)!,
-    workers: positive(opts.workers, '--workers', true)!,
-    aggregateOnly: opts.aggregateOnly === true, previews: opts.previews === true, report: opts.report,
-    mapSettings: {
-      ...stackOptions, light: opts.light, whiteBalanceLight, thinBelowNm, maxThicknessNm,
-      // Part of the settings hash (a sensitivities CSV also by content, through inputFiles).
-      ...(camera !== 'srgb' ? { camera } : {}),
-      ...(region ? { region } : {}), ...(maskPath ? { mask: maskPath } : {}),
-      ...(anchors.length > 0 ? { anchors } : {}), ...(pixelSizeUm !== null ? { pixelSizeUm } : {}),
-      ...(opts.allowDamaged ? { allowDamaged: true } : {}),
-      // Part of the settings hash: changing either re-maps the frames.
-      filmArea, ...(expectNm !== null ? { expectNm } : {}),
-      ...(lightField !== 'auto' ? { lightField } : {}),
-    },
-    calibration: calibration?.raw ?? null,
-    // Stack, material, SPD and calibration files read above, and the mask: by content.
-    inputFiles: [...notedInputFiles(), ...(maskPath ? [{ path: maskPath, role: '--mask' }] : [])],
-    processor: { moduleUrl: MAP_FRAME_PROCESSOR_URL, config },
-    // Region, anchors and mask against the frames, once, before any frame is mapped.
-    checkFrameSize: async ({ width, height }: { width: number; height: number }) => {
-      const frames = `${width}×${height} frames`;
-      if (region) {
-        try {
-          checkRegion(region, width, height, 'frames');
-        } catch (error) {
-          throw new UsageError(error instanceof Error ? error.message : String(error));
-        }
-      }
-      for (const a of anchors) {
-        if (!(a.x >= 0 && a.x < width && a.y >= 0 && a.y < height)) throw new UsageError(`--anchor ${a.x},${a.y} lies outside the ${frames}`);
-      }
-      if (maskPath) await readMask(maskPath, width, height);
-      const field = config.exposureFieldFixed;
-      if (field && !field.ignoreSizeMismatch && (field.widthPx !== width || field.heightPx !== height)) {
-        throw new UsageError(
-          `--calibration ${field.file}: its light field was fitted on a ${field.widthPx}×${field.heightPx} photo, the frames are ${width}×${height} (calibrate on a frame of this size, or add --ignore-calibration-mismatch to stretch it over the frames)`,
-        );
-      }
-    },
-  };
+  return seriesJobOptions(inputs, {
+    stack: opts.stack, filmIndex: opts.filmIndex, angle: opts.angle, extrapolate: opts.extrapolate,
+    light: opts.light, whiteBalance: opts.whiteBalance ?? null,
+    camera: parseCameraOption(opts.camera), lightField: parseLightFieldOption(opts.lightField),
+    outDir: opts.out, fps, intervalS,
+    select: startS !== null || endS !== null || every !== null ? { startS, endS, every } : null,
+    rangeNm, thinBelowNm, maxThicknessNm, region, mask: area.maskPath, anchors, pixelSizeUm, filmArea, expectNm,
+    calibration: opts.calibration ?? null, ignoreCalibrationMismatch: opts.ignoreCalibrationMismatch === true,
+    workers: positive(opts.workers, '--workers', true)!, chunkFrames: positive(opts.chunkFrames, '--chunk-frames', true)!, shard,
+    aggregateOnly: opts.aggregateOnly === true, previews: opts.previews === true, report: opts.report, allowDamaged: opts.allowDamaged === true,
+  }, warn);
 }
 
 /**

@@ -1,0 +1,5 @@
+// The library's one-call jobs (what the CLI's commands do, results in memory).
+export { mapPhoto, type MapPhotoOptions } from './mapPhoto.js';
+export { calibrate, type CalibratePhotoOptions } from './calibrate.js';
+export { photoFromInput, type PhotoInput, type PhotoInputOptions } from './photoInput.js';
+export { runSeries, seriesJobOptions, type RunSeriesOptions, type RunSeriesHooks, type StackSettings } from './runSeries.js';
