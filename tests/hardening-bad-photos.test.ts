@@ -94,13 +94,17 @@ describe('damaged JPEGs', () => {
 });
 
 describe('previews do not limit which photos can be mapped; multi-page files say which page', () => {
-  it('a photo 33 000 rows tall (over the SVG rasteriser\'s 32 767) is mapped, its map.png written', async () => {
+  it('a photo 33 000 rows tall (over the SVG rasteriser\'s 32 767) is mapped, its map.png written as a preview of at most 2,000 rows', async () => {
     const sharp = (await import('sharp')).default;
     await sharp(join(demo, 'film_001.jpg')).resize(16, 33_000, { fit: 'fill' }).png().toFile(join(dir, 'tall33k.png'));
     const r = cli('map', 'tall33k.png', '--stack', 'soap-film', '--quiet', '--out', 'tall-out');
     expect(r.status, r.stderr).toBe(0);
     const meta = await sharp(join(dir, 'tall-out', 'tall33k.map.png')).metadata();
-    expect(meta.height).toBeGreaterThan(33_000);
+    // Every 17th row (the smallest whole step within 2,000): 1,942 rows, plus title and margin.
+    expect(meta.height).toBeGreaterThan(1942);
+    expect(meta.height).toBeLessThan(2100);
+    const npy = readFileSync(join(dir, 'tall-out', 'tall33k.thickness.npy'));
+    expect(npy.toString('latin1', 10, 10 + npy.readUInt16LE(8))).toContain("'shape': (33000, 16)");
   }, 120_000);
 
   it('a two-page TIFF: mapped from page 1, with a warning that says so', async () => {

@@ -3,3 +3,5 @@ export { mapPhoto, type MapPhotoOptions } from './mapPhoto.js';
 export { calibrate, type CalibratePhotoOptions } from './calibrate.js';
 export { photoFromInput, type PhotoInput, type PhotoInputOptions } from './photoInput.js';
 export { runSeries, seriesJobOptions, type RunSeriesOptions, type RunSeriesHooks, type StackSettings } from './runSeries.js';
+export { mapPhotos, type MapPhotosOptions, type MapPhotosHooks, type MapPhotosResult } from './mapPhotos.js';
+export { MAP_OUTPUT_FILES, MAP_OUTPUT_NAMES, type MapOutputName } from '../map/outputNames.js';

@@ -3,20 +3,9 @@
  * names and the files they stand for are in the README; an unknown or empty name is a usage error.
  */
 import { UsageError } from './errors.js';
+import { MAP_OUTPUT_NAMES, type MapOutputName } from '../map/outputNames.js';
 
-/** Output names and the file of a photo `<stem>` each stands for. */
-export const MAP_OUTPUT_FILES = {
-  npy: '.thickness.npy',
-  tif: '.thickness.tif',
-  confidence: '.confidence.npy',
-  status: '.status.npy',
-  map: '.map.png',
-  flags: '.flags.png',
-  json: '.json',
-  report: '.report.html',
-} as const;
-export type MapOutputName = keyof typeof MAP_OUTPUT_FILES;
-export const MAP_OUTPUT_NAMES = Object.keys(MAP_OUTPUT_FILES) as MapOutputName[];
+export { MAP_OUTPUT_FILES, MAP_OUTPUT_NAMES, type MapOutputName } from '../map/outputNames.js';
 
 export const OUTPUTS_HELP = `which files to write per photo, comma-separated from ${MAP_OUTPUT_NAMES.join(',')} (default: all)`;
 

@@ -1,0 +1,184 @@
+/**
+ * `mapPhotos`: the library's one call for what `lamella map` does to a batch of photos — map
+ * each, write its outputs into `outDir` as one set (replaced all together or not at all), write
+ * the reports, and go on past a photo that fails. The caller says what to print (hooks).
+ */
+import { existsSync, readdirSync, rmdirSync } from 'node:fs';
+import { basename, extname, join } from 'node:path';
+import { UsageError } from '../errors.js';
+import { calibrateDecoded } from '../calibrate/calibrate.js';
+import type { KnownRegion } from '../calibrate/knownRegions.js';
+import type { CameraResponse } from '../colour/toneResponse.js';
+import { atomicWriteFile } from '../io/atomicWriteFile.js';
+import { assertNoInputOverwritten, ensureOutputDir } from '../io/ensureOutputDir.js';
+import { notedInputFiles } from '../io/inputFiles.js';
+import { MAP_MAX_PIXELS } from '../io/limits.js';
+import { provenanceOf } from '../io/provenance.js';
+import { readPhoto } from '../io/readPhoto.js';
+import { recoverStagedSets, writeOutputSet } from '../io/writeOutputSet.js';
+import { mapIndexPage } from '../map/mapIndexPage.js';
+import { colourTableFor, FieldSizeMismatchError, lineOfLight, mapDecodedPhoto, mapResultJson, readMask, writeMapOutputs, type MappedPhoto } from '../map/mapPhoto.js';
+import { mapReportInput } from '../map/mapReportInput.js';
+import { MAP_OUTPUT_FILES, MAP_OUTPUT_NAMES, type MapOutputName } from '../map/outputNames.js';
+import type { MapOptions, MapPhase } from '../map/types.js';
+import { renderMapReport } from '../report/index.js';
+
+export interface MapPhotosOptions {
+  /** How to map (the stack resolved); `maskPath` is read once per photo. */
+  readonly map: MapOptions;
+  /** Output folder (created if missing). */
+  readonly outDir: string;
+  /** Which files to write per photo (default all). */
+  readonly outputs?: Iterable<MapOutputName>;
+  /** Calibrate on each photo itself from these regions of known thickness (the stack's name as given in `stackSpec`). */
+  readonly known?: readonly KnownRegion[];
+  readonly stackSpec?: string;
+  /** A calibration file's content, shown in the report's calibration panel. */
+  readonly calibrationRecord?: Record<string, unknown> | null;
+  /** Map photos the decoder reports as damaged as far as they decode. */
+  readonly allowDamaged?: boolean;
+}
+
+export interface MapPhotosHooks {
+  /** A photo enters a stage ('decode', the map's phases, then 'outputs'). */
+  readonly onPhase?: (photo: string, index: number, phase: 'decode' | MapPhase | 'outputs') => void;
+  /** A warning about a photo, in plain words (prefixed with the photo's name). */
+  readonly onWarning?: (message: string) => void;
+  /** A photo's outputs are written. */
+  readonly onPhoto?: (photo: string, result: MappedPhoto, record: Record<string, unknown>) => void;
+  /** A photo failed (the batch goes on). */
+  readonly onFailure?: (photo: string, error: unknown) => void;
+}
+
+export interface MapPhotosResult {
+  /** The JSON record of each photo mapped, in order. */
+  readonly records: Record<string, unknown>[];
+  readonly failed: string[];
+  /** Photos with at least one thin region in their film. */
+  readonly withThinRegions: number;
+}
+
+/**
+ * Maps photos and writes their outputs (see the module comment). Before any photo: names that
+ * would collide (equal, or equal but for case), an output that is an input, and a film or light
+ * the model cannot use are usage errors for the whole batch; a calibration's light field of
+ * another size is too, when the first photo meets it.
+ *
+ * @param photos photo file paths
+ * @param options how to map and what to write where
+ * @param hooks what to tell the caller as the batch goes
+ * @example
+ * const { records, failed } = await mapPhotos(['a.jpg', 'b.jpg'], { map: { stack: resolveStack('soap-film'), light: 'D65', angleRad: 0, thinBelowNm: 50, maxThicknessNm: 2000 }, outDir: 'maps' });
+ */
+export async function mapPhotos(photos: readonly string[], options: MapPhotosOptions, hooks: MapPhotosHooks = {}): Promise<MapPhotosResult> {
+  const map = options.map;
+  const outputs = new Set(options.outputs ?? MAP_OUTPUT_NAMES);
+  const writeReport = outputs.has('report');
+  const known = options.known ?? [];
+  const suffixes = Object.values(MAP_OUTPUT_FILES);
+  const stems = photos.map((p) => basename(p, extname(p)));
+  // Names that differ only in case (a.jpg, A.JPG) name one file on case-insensitive file systems.
+  const folded = stems.map((s) => s.toLowerCase());
+  const duplicate = stems.find((s, i) => folded.indexOf(folded[i]) !== i);
+  if (duplicate) {
+    const first = stems[folded.indexOf(duplicate.toLowerCase())];
+    const names = first === duplicate ? `the name '${duplicate}'` : `the names '${first}' and '${duplicate}' (equal but for case)`;
+    throw new UsageError(`two photos share ${names}: their outputs would collide; map them into different --out folders`);
+  }
+  // Every file the run reads (photos, mask, and the stack, material, SPD, camera and calibration
+  // files read before) against every output, by identity, before any work.
+  const plannedOutputs = stems.flatMap((stem) => suffixes.map((suffix) => join(options.outDir, stem + suffix))).concat(join(options.outDir, 'report.html'));
+  const runInputs = [...photos.map((path) => ({ path, role: 'photo' })), ...(map.maskPath ? [{ path: map.maskPath, role: '--mask' }] : [])];
+  assertNoInputOverwritten(runInputs, plannedOutputs);
+  // Build the colour table once before any photo: a film, light or angle the model cannot use
+  // (e.g. a material outside its wavelength range) is a usage error, not a failed photo.
+  if (lineOfLight(map.light) === null) colourTableFor(map);
+  const outDirExisted = existsSync(options.outDir);
+  const outDir = await ensureOutputDir(options.outDir, { inputs: runInputs, outputs: plannedOutputs });
+  // What a run killed outright (SIGKILL) left here: finish or drop its output set.
+  recoverStagedSets(outDir);
+  const warn = hooks.onWarning ?? ((): void => undefined);
+  const failed: string[] = [];
+  let withThinRegions = 0;
+  const records: Record<string, unknown>[] = [];
+  const reports: Array<{ stem: string; file: string }> = [];
+  for (const [index, photo] of photos.entries()) {
+    const stem = stems[index];
+    const phase = (name: 'decode' | MapPhase | 'outputs'): void => hooks.onPhase?.(photo, index, name);
+    try {
+      phase('decode');
+      const decoded = await readPhoto(photo, { maxPixels: MAP_MAX_PIXELS, allowDamaged: options.allowDamaged === true });
+      for (const warning of decoded.warnings ?? []) warn(`${photo}: ${warning}`);
+      const mask = map.maskPath ? await readMask(map.maskPath, decoded.width, decoded.height) : null;
+      let photoOptions = map;
+      if (known.length > 0) {
+        const onPhoto = calibrateDecoded(decoded.rgb, decoded.width, decoded.height, basename(photo), {
+          stack: map.stack,
+          stackSpec: options.stackSpec ?? map.stack.name,
+          light: map.light,
+          whiteBalanceLight: map.whiteBalanceLight ?? null,
+          camera: map.camera ?? 'srgb',
+          angleRad: map.angleRad,
+          known,
+          fit: ['exposure', 'flare', 'white-balance', 'response'],
+          lightField: map.lightField ?? 'auto',
+        });
+        const onPhotoFitted = onPhoto.fitted as { exposure: number; white_balance: [number, number, number]; flare: [number, number, number]; response: CameraResponse | null };
+        const fitted = { exposure: onPhotoFitted.exposure, whiteBalance: onPhotoFitted.white_balance, flare: onPhotoFitted.flare, response: onPhotoFitted.response };
+        const field = (onPhoto.exposure_field as { log_gain_coefficients: number[] | null }).log_gain_coefficients;
+        photoOptions = {
+          ...map,
+          exposureFixed: { ...fitted, responseSource: fitted.response ? 'calibration' : 'identity' },
+          exposureFieldFixed: field ? { logGainCoefficients: field, widthPx: decoded.width, heightPx: decoded.height, file: photo, ignoreSizeMismatch: false } : null,
+        };
+        for (const warning of onPhoto.warnings) warn(`${photo}: calibration: ${warning}`);
+      }
+      const result = mapDecodedPhoto(decoded, { ...photoOptions, onPhase: hooks.onPhase ? phase : null }, mask, photo);
+      phase('outputs');
+      // Which Lamella made it, from which files (SHA-256 of the photo, mask and data files read).
+      const record = {
+        ...mapResultJson(result, photoOptions, photo),
+        provenance: await provenanceOf([{ path: photo, role: 'photo' }, ...(map.maskPath ? [{ path: map.maskPath, role: '--mask' }] : []), ...notedInputFiles()]),
+      };
+      // The photo's new outputs replace its old ones all together or not at all, even when
+      // interrupted or the disk fills up (with one photo, report.html belongs to the set).
+      const setNames = suffixes.map((suffix) => stem + suffix).concat(photos.length === 1 ? ['report.html'] : []);
+      await writeOutputSet(setNames.map((name) => join(outDir, name)), async (staging) => {
+        const selection = {
+          npy: outputs.has('npy'), tiff: outputs.has('tif'), confidence: outputs.has('confidence'), status: outputs.has('status'),
+          images: false, map: outputs.has('map'), flags: outputs.has('flags'), json: outputs.has('json'),
+        };
+        await writeMapOutputs(result, photo, staging, stem, selection, photoOptions, record);
+        if (writeReport) {
+          const html = renderMapReport({ ...(await mapReportInput(result, photoOptions, photo, record)), calibration: options.calibrationRecord ?? null });
+          await atomicWriteFile(join(staging, `${stem}.report.html`), Buffer.from(html, 'utf8'));
+          if (photos.length === 1) await atomicWriteFile(join(staging, 'report.html'), Buffer.from(html, 'utf8'));
+        }
+      });
+      if (writeReport) reports.push({ stem, file: `${stem}.report.html` });
+      records.push(record);
+      // Thin regions lie in the film only; a photo without film has none to report.
+      if (result.thinRegions.length > 0 && result.filmArea?.found !== false) withThinRegions++;
+      hooks.onPhoto?.(photo, result, record);
+    } catch (error) {
+      // A calibration's light field made for another photo size holds for the whole run.
+      if (error instanceof FieldSizeMismatchError) throw error;
+      failed.push(photo);
+      hooks.onFailure?.(photo, error);
+    }
+  }
+  if (writeReport && photos.length > 1 && reports.length > 0) {
+    await atomicWriteFile(join(outDir, 'report.html'), Buffer.from(mapIndexPage(reports), 'utf8'));
+  }
+  // A folder this run made and filled with nothing (every photo failed) is not left behind.
+  if (records.length === 0 && !outDirExisted) removeIfEmpty(outDir);
+  return { records, failed, withThinRegions };
+}
+
+function removeIfEmpty(dir: string): void {
+  try {
+    if (readdirSync(dir).length === 0) rmdirSync(dir);
+  } catch {
+    // Left as it is: a folder that cannot be listed or removed is not worth a second error.
+  }
+}
