@@ -11,6 +11,19 @@ export interface StackSpectrum {
   readonly absorptance: Float64Array;
 }
 
+/**
+ * Reflectance, transmittance and absorptance of a film stack at one film thickness, per
+ * wavelength (the transfer-matrix method, `filmSpectra`): what `lamella spectrum` prints.
+ *
+ * @param stack the stack (`resolveStack('soap-film')`, a stack file, …)
+ * @param thicknessNm the film layer's physical thickness, nm (≥ 0)
+ * @param wavelengthsNm wavelengths in vacuum, nm
+ * @param angleRad angle of incidence in the ambient medium
+ * @param polarisation `s`, `p` or `mixed` (unpolarised: their mean)
+ * @param filmIndexScale a factor on the film's refractive index (a calibration's), default 1
+ * @example
+ * const { reflectance } = stackSpectrum(resolveStack('oxide-on-silicon'), 100, Float64Array.of(450, 550, 650), 0, 'mixed');
+ */
 export function stackSpectrum(
   stack: Stack,
   thicknessNm: number,

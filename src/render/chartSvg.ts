@@ -71,6 +71,10 @@ export function chartSwatchCentre(table: ChartTable, detailLines: number, thickn
   return { x: BAND_X + (thicknessNm - fromNm - row * perRow) * pxPerNm, y: headerHeight + row * ROW_HEIGHT + 30 + BAND_HEIGHT / 2 };
 }
 
+/**
+ * The chart of `chartTable` as an SVG picture (bands of colour along the thickness, order
+ * boundaries marked, a title and detail lines); rasterise it with `rasteriseSvg` for a PNG.
+ */
 export function chartSvg(table: ChartTable, labels: ChartLabels): string {
   const d = table.thicknessesNm;
   const n = d.length;

@@ -65,6 +65,15 @@ export function thicknessRange(fromNm: number, toNm: number, stepNm: number): Fl
   return out;
 }
 
+/**
+ * A thickness–colour chart: for thicknesses `fromNm`…`toNm` every `stepNm`, the colour a film
+ * shows under the light (CIE XYZ, CIELAB, camera linear RGB, 8-bit sRGB) and its interference
+ * order; what `lamella chart` draws and prints.
+ *
+ * @param options the stack, light, angle, observer and thickness range
+ * @example
+ * const chart = chartTable({ stack: resolveStack('oxide-on-silicon'), light: resolveLight('D65'), angleRad: 0, toNm: 500, stepNm: 100 });
+ */
 export function chartTable(options: ChartOptions): ChartTable {
   const observer = checkObserver(options.observer ?? '1931');
   const thicknessesNm = thicknessRange(

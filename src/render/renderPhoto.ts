@@ -53,6 +53,15 @@ function checkSize(thicknessNm: Float32Array, width: number, height: number): vo
   }
 }
 
+/**
+ * The photo a camera would take of a film with this thickness map (nm, row by row): the forward
+ * model `lamella map` inverts — film spectra under the light, the camera's response, exposure,
+ * flare, white balance and sensor noise, encoded at 8 or 16 bits. What `lamella render` writes.
+ *
+ * @param thicknessNm film thickness per pixel, nm (NaN: rendered black, with a warning)
+ * @example
+ * const { data } = renderPhoto(thicknessNm, 320, 240, { stack: resolveStack('soap-film'), light: resolveLight('D65'), exposure: 7, bitDepth: 8 });
+ */
 export function renderPhoto(thicknessNm: Float32Array, width: number, height: number, options: RenderOptions): RenderResult {
   checkSize(thicknessNm, width, height);
   const formation = checkPhotoFormation(options);
