@@ -6,24 +6,9 @@
  * it when the size is unknown, so no program is told a scale nobody measured.
  */
 
+import { crc32 } from 'node:zlib';
+
 const SIGNATURE = Buffer.from([137, 80, 78, 71, 13, 10, 26, 10]);
-
-let crcTable: Uint32Array | null = null;
-
-/** CRC-32 of the chunk type and data (PNG specification, Annex D: polynomial 0xEDB88320). */
-function crc32(bytes: Uint8Array): number {
-  if (!crcTable) {
-    crcTable = new Uint32Array(256);
-    for (let n = 0; n < 256; n++) {
-      let c = n;
-      for (let k = 0; k < 8; k++) c = c & 1 ? 0xedb88320 ^ (c >>> 1) : c >>> 1;
-      crcTable[n] = c >>> 0;
-    }
-  }
-  let c = 0xffffffff;
-  for (let i = 0; i < bytes.length; i++) c = crcTable[(c ^ bytes[i]) & 0xff] ^ (c >>> 8);
-  return (c ^ 0xffffffff) >>> 0;
-}
 
 /** Pixels per metre for a pixel size in µm (the pHYs value, rounded to a whole number). */
 export function pixelsPerMetre(pixelSizeUm: number): number {
@@ -40,6 +25,7 @@ function physChunk(perMetre: number): Buffer {
   chunk.writeUInt32BE(perMetre, 8);
   chunk.writeUInt32BE(perMetre, 12);
   chunk[16] = 1; // unit: metre
+  // CRC-32 of the chunk type and data (PNG specification, Annex D), by zlib's crc32.
   chunk.writeUInt32BE(crc32(chunk.subarray(4, 17)), 17);
   return chunk;
 }
