@@ -5,10 +5,8 @@
 import { resolveStack } from '../optics/index.js';
 import type { Stack } from '../optics/types.js';
 import { calibrateDecoded, calibratePhotoFile, type CalibrateOptions, type CalibrationRecord } from '../calibrate/calibrate.js';
+import { DEFAULT_CALIBRATION_FIT } from '../calibrate/fitCalibration.js';
 import { photoFromInput, type PhotoInput, type PhotoInputOptions } from './photoInput.js';
-
-/** The CLI's default `--fit`. */
-const DEFAULT_FIT: CalibrateOptions['fit'] = ['exposure', 'flare', 'white-balance', 'response'];
 
 export type CalibratePhotoOptions = Omit<CalibrateOptions, 'stack' | 'stackSpec' | 'fit' | 'angleRad'> &
   PhotoInputOptions & {
@@ -35,7 +33,7 @@ export async function calibrate(input: PhotoInput, options: CalibratePhotoOption
   const stackSpec = options.stackSpec ?? (typeof options.stack === 'string' ? options.stack : options.stack.name);
   const stack = typeof options.stack === 'string' ? resolveStack(options.stack) : options.stack;
   const { name: _name, allowDamaged: _allowDamaged, ...rest } = options;
-  const calibrateOptions: CalibrateOptions = { ...rest, stack, stackSpec, fit: options.fit ?? DEFAULT_FIT, angleRad: options.angleRad ?? 0 };
+  const calibrateOptions: CalibrateOptions = { ...rest, stack, stackSpec, fit: options.fit ?? DEFAULT_CALIBRATION_FIT, angleRad: options.angleRad ?? 0 };
   if (typeof input === 'string' && !options.allowDamaged) return calibratePhotoFile(input, calibrateOptions);
   const { photo, name } = await photoFromInput(input, options);
   return calibrateDecoded(photo.rgb, photo.width, photo.height, name, calibrateOptions);

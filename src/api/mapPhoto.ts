@@ -4,14 +4,12 @@
  */
 import { resolveStack } from '../optics/index.js';
 import type { Stack } from '../optics/types.js';
+import { DEFAULT_MAX_THICKNESS_NM, defaultThinBelowNm } from '../map/mapDefaults.js';
 import { InputError } from '../errors.js';
 import { mapDecodedPhoto, readMask, type MappedPhoto } from '../map/mapPhoto.js';
 import type { MapOptions } from '../map/types.js';
 import { photoFromInput, type PhotoInput, type PhotoInputOptions } from './photoInput.js';
 
-/** The CLI's defaults (README, "map"): thin below 50 nm for soap films, thicknesses up to 2000 nm. */
-const DEFAULT_SOAP_THIN_BELOW_NM = 50;
-const DEFAULT_MAX_THICKNESS_NM = 2000;
 
 /** MapOptions with the stack by preset name or as a Stack, and the mask as a file or in memory. */
 export type MapPhotoOptions = Omit<MapOptions, 'stack' | 'maskPath' | 'angleRad' | 'thinBelowNm' | 'maxThicknessNm'> &
@@ -59,7 +57,7 @@ export async function mapPhoto(input: PhotoInput, options: MapPhotoOptions): Pro
       ...mapOptions,
       stack,
       angleRad: options.angleRad ?? 0,
-      thinBelowNm: options.thinBelowNm !== undefined ? options.thinBelowNm : options.stack === 'soap-film' ? DEFAULT_SOAP_THIN_BELOW_NM : null,
+      thinBelowNm: options.thinBelowNm !== undefined ? options.thinBelowNm : defaultThinBelowNm(options.stack),
       maxThicknessNm: options.maxThicknessNm ?? DEFAULT_MAX_THICKNESS_NM,
       maskPath: typeof options.mask === 'string' ? options.mask : null,
     },

@@ -7,6 +7,7 @@ import { existsSync, readdirSync, rmdirSync } from 'node:fs';
 import { basename, extname, join } from 'node:path';
 import { UsageError } from '../errors.js';
 import { calibrateDecoded } from '../calibrate/calibrate.js';
+import { DEFAULT_CALIBRATION_FIT } from '../calibrate/fitCalibration.js';
 import type { KnownRegion } from '../calibrate/knownRegions.js';
 import type { CameraResponse } from '../colour/toneResponse.js';
 import { atomicWriteFile } from '../io/atomicWriteFile.js';
@@ -120,7 +121,7 @@ export async function mapPhotos(photos: readonly string[], options: MapPhotosOpt
           camera: map.camera ?? 'srgb',
           angleRad: map.angleRad,
           known,
-          fit: ['exposure', 'flare', 'white-balance', 'response'],
+          fit: DEFAULT_CALIBRATION_FIT,
           lightField: map.lightField ?? 'auto',
         });
         const onPhotoFitted = onPhoto.fitted as { exposure: number; white_balance: [number, number, number]; flare: [number, number, number]; response: CameraResponse | null };

@@ -16,6 +16,7 @@ import { loadCalibrationForRun } from '../calibrate/calibrationFile.js';
 import { checkRegion } from '../map/filmMask.js';
 import { readMask } from '../map/mapPhoto.js';
 import type { Anchor, FilmAreaMode } from '../map/types.js';
+import { DEFAULT_MAX_THICKNESS_NM, defaultThinBelowNm } from '../map/mapDefaults.js';
 import { notedInputFiles } from '../io/inputFiles.js';
 import { MAP_FRAME_PROCESSOR_URL, type MapFrameConfig } from '../series/mapFrameConfig.js';
 import { runSeries as runSeriesEngine, DEFAULT_CHUNK_FRAMES, type SeriesOptions, type SeriesPlan, type SeriesResult } from '../series/runSeries.js';
@@ -77,8 +78,6 @@ export interface RunSeriesHooks {
   readonly signal?: AbortSignal;
 }
 
-const DEFAULT_SOAP_THIN_BELOW_NM = 50;
-const DEFAULT_MAX_THICKNESS_NM = 2000;
 
 /**
  * Maps a photo series and aggregates it (see the module comment).
@@ -112,7 +111,7 @@ export async function seriesJobOptions(inputs: readonly string[], options: RunSe
   if (options.whiteBalance) resolveLight(options.whiteBalance);
   const camera = options.camera ?? 'srgb';
   const lightField = options.lightField ?? 'auto';
-  const thinBelowNm = options.thinBelowNm !== undefined ? options.thinBelowNm : options.stack === 'soap-film' ? DEFAULT_SOAP_THIN_BELOW_NM : null;
+  const thinBelowNm = options.thinBelowNm !== undefined ? options.thinBelowNm : defaultThinBelowNm(options.stack);
   const maxThicknessNm = options.maxThicknessNm ?? DEFAULT_MAX_THICKNESS_NM;
   const region = options.region ?? null;
   const anchors = options.anchors ?? [];

@@ -36,6 +36,8 @@ import type { KnownRegionColour } from './knownRegions.js';
 
 export type CalibrationParameter = 'exposure' | 'flare' | 'white-balance' | 'index' | 'angle' | 'response';
 export const CALIBRATION_PARAMETERS: readonly CalibrationParameter[] = ['exposure', 'flare', 'white-balance', 'index', 'angle', 'response'];
+/** What a calibration fits unless told otherwise (`lamella calibrate --fit`, `--known` on a map, the library's `calibrate`). */
+export const DEFAULT_CALIBRATION_FIT: readonly CalibrationParameter[] = ['exposure', 'flare', 'white-balance', 'response'];
 /** Fewest known thicknesses from which the camera's response is fitted (a judgement: dark, mid, bright and one to check). */
 export const MIN_RESPONSE_THICKNESSES = 4;
 

@@ -10,6 +10,7 @@ import type { Anchor, FilmAreaMode } from '../map/types.js';
 import { UsageError } from './errors.js';
 import { collect, parseAnchor, parseRegion } from './parseGeometry.js';
 import { parseNumberOption } from './stackOptions.js';
+import { DEFAULT_MAX_THICKNESS_NM, defaultThinBelowNm } from '../map/mapDefaults.js';
 
 export interface FilmAreaCliOptions {
   readonly stack?: string;
@@ -45,7 +46,7 @@ export function addFilmAreaOptions(command: Command, scope: 'photo' | 'frames'):
   const each = scope === 'frames' ? ' of every frame' : '';
   return command
     .option('--thin-below <nm>', `thin (rupture-risk) threshold in nm for thin regions and the thin fraction${scope === 'frames' ? ' and predicted crossing times' : ''} (default 50 for soap-film, none otherwise)`)
-    .option('--max-thickness <nm>', 'largest thickness considered, nm', '2000')
+    .option('--max-thickness <nm>', 'largest thickness considered, nm', String(DEFAULT_MAX_THICKNESS_NM))
     .addOption(new Option('--region <x,y,w,h>', `measure only this rectangle${each} (pixels)`).conflicts('mask'))
     .option('--mask <file>', `measure only where this mask image is non-zero${scope === 'frames' ? ' (same size as the frames)' : ''}`)
     .option('--anchor <x,y=nm>', `a pixel of known thickness${scope === 'frames' ? ' in every frame' : ''} (repeatable)`, collect)
@@ -97,7 +98,7 @@ export function filmAreaFromOptions(opts: FilmAreaCliOptions): FilmArea {
   const maxThicknessNm = parseNumberOption(opts.maxThickness, '--max-thickness', 'a number of nm > 0');
   if (!(maxThicknessNm >= MIN_MAX_THICKNESS_NM && maxThicknessNm <= 20000)) throw new UsageError(`--max-thickness must be a number of nm from ${MIN_MAX_THICKNESS_NM} to 20000, received ${opts.maxThickness}`);
   const thinBelowNm =
-    opts.thinBelow !== undefined ? parseNumberOption(opts.thinBelow, '--thin-below', 'a number of nm >= 0') : opts.stack === 'soap-film' ? 50 : null;
+    opts.thinBelow !== undefined ? parseNumberOption(opts.thinBelow, '--thin-below', 'a number of nm >= 0') : defaultThinBelowNm(opts.stack);
   if (thinBelowNm !== null && thinBelowNm < 0) throw new UsageError(`--thin-below must be a number of nm >= 0, received ${opts.thinBelow}`);
   const pixelSizeUm = opts.pixelSize !== undefined ? parseNumberOption(opts.pixelSize, '--pixel-size', 'a number of micrometres > 0') : null;
   if (pixelSizeUm !== null && !(pixelSizeUm > 0 && pixelSizeUm <= 1e6)) throw new UsageError(`--pixel-size must be a number of micrometres > 0 and at most 1e6 (1 m), received ${opts.pixelSize}`);

@@ -9,7 +9,7 @@ import { LIGHT_FIELD_HELP, parseLightFieldOption } from '../lightFieldOption.js'
 import type { Command } from 'commander';
 import { atomicWriteFile } from '../../io/atomicWriteFile.js';
 import { calibratePhotoFile } from '../../calibrate/calibrate.js';
-import { CALIBRATION_PARAMETERS, type CalibrationParameter } from '../../calibrate/fitCalibration.js';
+import { CALIBRATION_PARAMETERS, DEFAULT_CALIBRATION_FIT, type CalibrationParameter } from '../../calibrate/fitCalibration.js';
 import { UsageError } from '../errors.js';
 import { checkOutputFile } from '../outputFile.js';
 import { collect, parseKnown } from '../parseGeometry.js';
@@ -48,7 +48,7 @@ export function register(program: Command): void {
     .option('--camera <mode-or-file>', CAMERA_HELP)
     .option('--known <x,y,w,h=nm>', 'a rectangle of known film thickness (repeatable, at least one)', collect)
     .option('--light-field <mode>', `${LIGHT_FIELD_HELP}; fitted on the known regions when they are 4 or more spread over at least half the photo's width and height, and stored for \`map --calibration\` (same photo size)`, 'auto')
-    .option('--fit <list>', `parameters to fit, from ${CALIBRATION_PARAMETERS.join(',')} (response: the camera's tone curve and saturation, fitted from 4 or more known thicknesses)`, 'exposure,flare,white-balance,response')
+    .option('--fit <list>', `parameters to fit, from ${CALIBRATION_PARAMETERS.join(',')} (response: the camera's tone curve and saturation, fitted from 4 or more known thicknesses)`, DEFAULT_CALIBRATION_FIT.join(','))
     .requiredOption('--out <file>', 'calibration file to write (JSON)')
     .option('--force', 'overwrite an existing calibration file')
     .option('--json', 'print the calibration record on stdout')
