@@ -117,6 +117,18 @@ describe('the tarball installed into a fresh folder', () => {
     expect((JSON.parse(r.stdout) as { rows: unknown[] }).rows).toHaveLength(5);
   });
 
+  it("the README's chart example (examples/oxide-chart.mjs, word for word) prints from the installed package what it prints in the repository", () => {
+    const example = readFileSync(join(root, 'examples', 'oxide-chart.mjs'), 'utf8');
+    expect(readFileSync(join(root, 'README.md'), 'utf8')).toContain(example);
+    writeFileSync(join(app, 'oxide-chart.mjs'), example);
+    const installed = run(process.execPath, ['oxide-chart.mjs'], app);
+    expect(installed.status, installed.stderr).toBe(0);
+    const inRepo = run(process.execPath, [join(root, 'examples', 'oxide-chart.mjs')], root);
+    expect(inRepo.status, inRepo.stderr).toBe(0);
+    expect(installed.stdout.trim().split('\n')).toHaveLength(6);
+    expect(installed.stdout).toBe(inRepo.stdout);
+  });
+
   it('a library example imported from the package root: the quarter-wave film reflects 4r²/(1 + r²)² (Born & Wolf 1999, §7.6.1; from memory)', () => {
     writeFileSync(join(app, 'example.mjs'), [
       "import { resolveStack, stackSpectrum } from 'lamella';",

@@ -76,6 +76,8 @@ export interface RunSeriesHooks {
   readonly onPlan?: (plan: SeriesPlan) => void;
   /** Aborting stops the series after the frames in flight; `interrupted` is then true. */
   readonly signal?: AbortSignal;
+  /** A warning about the settings, before any frame (e.g. a material used outside its range). */
+  readonly onWarning?: (message: string) => void;
 }
 
 
@@ -94,7 +96,7 @@ export interface RunSeriesHooks {
  * });
  */
 export async function runSeries(inputs: readonly string[], options: RunSeriesOptions, hooks: RunSeriesHooks = {}): Promise<SeriesResult> {
-  const job = await seriesJobOptions(inputs, options);
+  const job = await seriesJobOptions(inputs, options, hooks.onWarning);
   return runSeriesEngine({
     ...job,
     ...(hooks.signal ? { signal: hooks.signal } : {}),

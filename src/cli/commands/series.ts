@@ -11,8 +11,8 @@ import { InputError, UsageError, EXIT_INPUT } from '../errors.js';
 import { addStackOptions, parseNumberOption, type StackCliOptions } from '../stackOptions.js';
 import { addFilmAreaOptions, filmAreaFromOptions, parseExpect, type FilmAreaCliOptions } from '../filmAreaOptions.js';
 import { parseShard } from '../../series/parseShard.js';
-import { runSeries, DEFAULT_CHUNK_FRAMES, type SeriesOptions } from '../../series/runSeries.js';
-import { seriesJobOptions } from '../../api/runSeries.js';
+import { DEFAULT_CHUNK_FRAMES } from '../../series/runSeries.js';
+import { runSeries, type RunSeriesOptions } from '../../api/runSeries.js';
 import { formatProgressBar, formatProgressLine } from '../../series/progressText.js';
 import { formatSeriesSummary } from '../../series/summaryText.js';
 import type { SeriesProgress } from '../../series/types.js';
@@ -67,7 +67,7 @@ function progressWriter(quiet: boolean): (p: SeriesProgress) => void {
 }
 
 /** Checks the options and builds the library call (everything but callbacks and the signal). */
-export async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions, warn: (m: string) => void): Promise<SeriesOptions> {
+export async function seriesOptionsFrom(opts: SeriesCliOptions): Promise<RunSeriesOptions> {
   const fps = positive(opts.fps, '--fps');
   const intervalS = positive(opts.interval, '--interval');
   if (fps !== null && intervalS !== null) throw new UsageError('give --fps or --interval, not both');
@@ -98,7 +98,7 @@ export async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions
   }
   // Lights are checked here with the CLI's messages (the library checks them too).
   lightsFromOptions(opts);
-  return seriesJobOptions(inputs, {
+  return {
     stack: opts.stack, filmIndex: opts.filmIndex, angle: opts.angle, extrapolate: opts.extrapolate,
     light: opts.light, whiteBalance: opts.whiteBalance ?? null,
     camera: parseCameraOption(opts.camera), lightField: parseLightFieldOption(opts.lightField),
@@ -108,7 +108,7 @@ export async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions
     calibration: opts.calibration ?? null, ignoreCalibrationMismatch: opts.ignoreCalibrationMismatch === true,
     workers: positive(opts.workers, '--workers', true)!, chunkFrames: positive(opts.chunkFrames, '--chunk-frames', true)!, shard,
     aggregateOnly: opts.aggregateOnly === true, previews: opts.previews === true, report: opts.report, allowDamaged: opts.allowDamaged === true,
-  }, warn);
+  };
 }
 
 /**
@@ -156,7 +156,7 @@ function cliError(error: unknown, inputs: string[]): unknown {
 
 async function run(inputs: string[], opts: SeriesCliOptions): Promise<void> {
   const warn = (m: string) => !opts.quiet && process.stderr.write(`lamella: warning: ${m}\n`);
-  const options = await seriesOptionsFrom(inputs, opts, warn);
+  const options = await seriesOptionsFrom(opts);
   const controller = new AbortController();
   let signalName: NodeJS.Signals | null = null;
   const onSignal = (name: NodeJS.Signals) => {
@@ -168,16 +168,16 @@ async function run(inputs: string[], opts: SeriesCliOptions): Promise<void> {
   const progress = progressWriter(opts.quiet === true);
   let result;
   try {
-    result = await runSeries({
-      ...options,
+    result = await runSeries(inputs, options, {
       signal: controller.signal,
+      onWarning: warn,
       onPlan: (plan) => {
         // On a re-run, say how many frames are mapped again and why.
         if (!opts.quiet && plan.stored > 0 && plan.remap.count > 0) {
           process.stderr.write(`lamella: ${plan.remap.count} of ${plan.frames} frame(s) to map: ${plan.remap.why}\n`);
         }
       },
-      onFrame: (event, p) => {
+      onProgress: (p, event) => {
         if (event.outcome === 'failed') process.stderr.write(`${process.stderr.isTTY && !opts.quiet ? '\n' : ''}lamella: ${event.message}\n`);
         progress(p);
       },
