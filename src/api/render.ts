@@ -44,7 +44,6 @@ export type RenderJobOptions = Omit<RenderOptions, 'stack' | 'light' | 'whiteBal
  * await writeImage('wafer.png', photo);
  */
 export async function render(input: string | ThicknessMapInput, options: RenderJobOptions): Promise<RenderResult> {
-  const grid = typeof input === 'string' ? await readThicknessGrid(input, { pngScaleNm: options.pngScaleNm }) : { data: input.thicknessNm, width: input.width, height: input.height };
   const stack = typeof options.stack === 'string' ? resolveStack(options.stack) : options.stack;
   const light = typeof options.light === 'string' ? resolveLight(options.light) : options.light;
   const whiteBalanceLight = typeof options.whiteBalanceLight === 'string' ? resolveLight(options.whiteBalanceLight) : options.whiteBalanceLight;
@@ -54,5 +53,7 @@ export async function render(input: string | ThicknessMapInput, options: RenderJ
         ? undefined
         : cameraFromSpec(options.camera, light, whiteBalanceLight, options.observer)
       : options.camera;
+  // The thickness file is read last: a bad camera or light file is named before a large read.
+  const grid = typeof input === 'string' ? await readThicknessGrid(input, { pngScaleNm: options.pngScaleNm }) : { data: input.thicknessNm, width: input.width, height: input.height };
   return renderPhoto(grid.data, grid.width, grid.height, { ...options, stack, light, whiteBalanceLight, camera });
 }
