@@ -14,7 +14,7 @@
  * partly hides its own shortfall, so the range found is a lower bound of the real one.
  */
 import { choleskySolve } from '../fit/normalEquations.js';
-import { createSrgbDecoder } from '../colour/srgbEncoderTable.js';
+import { decodeSrgb } from '../colour/srgb.js';
 import { PixelStatus } from './types.js';
 import { selectKth } from './statistics.js';
 import { modelColourAt, type PhotoAndModel } from './fitQuality.js';
@@ -57,11 +57,8 @@ const MIN_SAMPLES = 200;
 const MIN_MODEL_LUMINANCE = 0.04;
 const TERMS = 7;
 
-/** sRGB decoding, tabulated (exact at 8- and 16-bit codes, ../colour/srgbEncoderTable.ts); clamps to 0..1. */
-const decodeFast = createSrgbDecoder();
-
 function linearOf(value: number, encoded: boolean): number {
-  return encoded ? decodeFast(value) : value;
+  return encoded ? decodeSrgb(value < 0 ? 0 : value > 1 ? 1 : value) : value;
 }
 
 function luminance(r: number, g: number, b: number, encoded: boolean): number {
