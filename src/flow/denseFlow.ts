@@ -18,6 +18,9 @@
  * without a thickness in the first frame, whose displaced position has none in the second, or
  * whose window has too few values get NaN.
  *
+ * A forward–backward check (the flow back from the second grid, composed with the first) removes
+ * vectors that do not return to their start: occluded or unmatched film, and false matches.
+ *
  * All work is on Float32Array grids; scratch buffers are allocated per level, never per pixel.
  */
 import { convolveSeparable, gaussianKernel, blurWithHoles } from './gaussianBlur.js';
@@ -35,6 +38,13 @@ export interface DenseFlowOptions {
   readonly iterations?: number;
   /** Estimate an additive thickness change per window (thinning); default true. */
   readonly thinning?: boolean;
+  /**
+   * Forward–backward check: also compute the flow from the second grid to the first and mark as
+   * unknown every vector whose round trip misses its start by more than
+   * `consistencyPx` + 5 % of its length (occlusions, film leaving the view, false matches;
+   * Sundaram, Brox & Keutzer 2010). Default 0.5 px; null turns the check off.
+   */
+  readonly consistencyPx?: number | null;
   /** Floor of the thickness residual's standard deviation, nm; default 1. */
   readonly noiseFloorNm?: number;
   /** Stop early (checked once per level). */
@@ -56,6 +66,8 @@ export interface DenseFlowResult {
   readonly confidence: Float32Array;
   /** Pyramid levels used. */
   readonly levels: number;
+  /** Vectors the forward–backward check removed. */
+  readonly inconsistent: number;
 }
 
 /** The standard error at which the confidence is one half, px. */
@@ -254,6 +266,53 @@ function refineLevel(
 
 /** Dense flow from `first` to `second` (same size, NaN = no thickness): see the module comment. */
 export function denseFlow(first: Grid, second: Grid, options: DenseFlowOptions = {}): DenseFlowResult {
+  const consistencyPx = options.consistencyPx === undefined ? 0.5 : options.consistencyPx;
+  if (consistencyPx !== null && !(consistencyPx > 0)) throw new RangeError(`consistencyPx must be a number > 0 or null, received ${consistencyPx}`);
+  const forward = oneWay(first, second, options);
+  if (consistencyPx === null) return forward;
+  const backward = oneWay(second, first, options);
+  const { width: w, height: h, uPx, vPx } = forward;
+  const bu = backward.uPx;
+  const bv = backward.vPx;
+  let inconsistent = 0;
+  for (let y = 0; y < h; y++) {
+    for (let x = 0; x < w; x++) {
+      const i = y * w + x;
+      const u = uPx[i];
+      const v = vPx[i];
+      if (!Number.isFinite(u)) continue;
+      const X = x + u;
+      const Y = y + v;
+      let ok = X >= 0 && Y >= 0 && X <= w - 1 && Y <= h - 1;
+      if (ok) {
+        const xa = Math.min(w - 2, Math.max(0, Math.floor(X)));
+        const ya = Math.min(h - 2, Math.max(0, Math.floor(Y)));
+        const xb = Math.min(w - 1, xa + 1);
+        const yb = Math.min(h - 1, ya + 1);
+        const fx = X - xa;
+        const fy = Y - ya;
+        const w00 = (1 - fx) * (1 - fy);
+        const w01 = fx * (1 - fy);
+        const w10 = (1 - fx) * fy;
+        const w11 = fx * fy;
+        const ub = bu[ya * w + xa] * w00 + bu[ya * w + xb] * w01 + bu[yb * w + xa] * w10 + bu[yb * w + xb] * w11;
+        const vb = bv[ya * w + xa] * w00 + bv[ya * w + xb] * w01 + bv[yb * w + xa] * w10 + bv[yb * w + xb] * w11;
+        ok = Number.isFinite(ub) && Number.isFinite(vb) && Math.hypot(u + ub, v + vb) <= consistencyPx + 0.05 * Math.hypot(u, v);
+      }
+      if (!ok) {
+        uPx[i] = NaN;
+        vPx[i] = NaN;
+        forward.changeNm[i] = NaN;
+        forward.standardErrorPx[i] = NaN;
+        forward.confidence[i] = 0;
+        inconsistent++;
+      }
+    }
+  }
+  return { ...forward, inconsistent };
+}
+
+function oneWay(first: Grid, second: Grid, options: DenseFlowOptions): DenseFlowResult {
   checkGrid(first, 'first');
   checkGrid(second, 'second');
   if (first.width !== second.width || first.height !== second.height) {
@@ -308,5 +367,5 @@ export function denseFlow(first: Grid, second: Grid, options: DenseFlowOptions =
       confidence[i] = 0;
     }
   }
-  return { width, height, uPx: u, vPx: v, changeNm, standardErrorPx, confidence, levels: p1.length };
+  return { width, height, uPx: u, vPx: v, changeNm, standardErrorPx, confidence, levels: p1.length, inconsistent: 0 };
 }
