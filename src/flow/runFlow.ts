@@ -31,7 +31,7 @@ import { readSeriesForFlow, type SeriesForFlow, type SeriesFrameForFlow } from '
 
 export const FLOW_SCHEMA_VERSION = 1;
 /** Bumped when the method changes what it computes: older pair records are then recomputed. */
-const METHOD_VERSION = 'lk-pyramid-thinning-1';
+const METHOD_VERSION = 'lk-pyramid-thinning-fb-1';
 
 export interface FlowOptions {
   /** Output folder (created if missing; a rerun into it resumes). */
