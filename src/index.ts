@@ -1,6 +1,6 @@
 /**
  * Lamella's library entry point: the stable API. One call per job — `mapPhoto`/`mapPhotos` (and
- * `writeMapOutputs`), `calibrate`, `runSeries`, `chart`, `spectrum`, `render` — and the building
+ * `writeMapOutputs`), `calibrate`, `runSeries`, `flowFromSeries`, `chart`, `spectrum`, `render` — and the building
  * blocks they take or return (stacks, materials, lights, cameras, photos, thickness grids, colour
  * conversions). Everything else is internal and not reachable from the package (`exports` in
  * package.json): the names below are the whole public surface, chosen one by one.
@@ -10,7 +10,8 @@
 export { mapPhoto, type MapPhotoOptions } from './api/mapPhoto.js';
 export { mapPhotos, type MapPhotosOptions, type MapPhotosHooks, type MapPhotosResult } from './api/mapPhotos.js';
 export { calibrate, type CalibratePhotoOptions } from './api/calibrate.js';
-export { runSeries, type RunSeriesOptions, type RunSeriesHooks, type StackSettings } from './api/runSeries.js';
+export { runSeries, type RunSeriesOptions, type RunSeriesHooks, type RunSeriesResult, type StackSettings } from './api/runSeries.js';
+export { flowFromSeries, type FlowOptions, type FlowCallbacks, type FlowResult, type FlowProgress, type FlowPairRecord, type FlowSummary, type PatchRow } from './api/flowFromSeries.js';
 export { chart, type ChartJobOptions, type ChartResult, type ChartFormat } from './api/chart.js';
 export { spectrum, type SpectrumJobOptions, type SpectrumResult } from './api/spectrum.js';
 export { render, type RenderJobOptions, type ThicknessMapInput } from './api/render.js';

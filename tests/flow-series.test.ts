@@ -32,11 +32,11 @@ afterAll(async () => {
   else console.log(dir);
 });
 
-async function mapScene(scene: FilmScene, frames: number): Promise<string> {
+async function mapScene(scene: FilmScene, frames: number, extra: string[] = ['--no-report']): Promise<string> {
   const photos = join(dir, `${scene.name}-photos`);
   await renderScene(scene, photos, frames);
   const out = join(dir, `${scene.name}-series`);
-  const r = spawnSync(process.execPath, [bin, 'series', photos, '--stack', 'soap-film', '--light', 'D65', '--fps', String(FPS), '--workers', '1', '--thin-below', '100', ...SERIES_AREA, '--quiet', '--no-report', '--out', out], { encoding: 'utf8' });
+  const r = spawnSync(process.execPath, [bin, 'series', photos, '--stack', 'soap-film', '--light', 'D65', '--fps', String(FPS), '--workers', '1', '--thin-below', '100', ...SERIES_AREA, '--quiet', ...extra, '--out', out], { encoding: 'utf8' });
   expect(r.status, r.stderr).toBe(0);
   return out;
 }
@@ -98,13 +98,19 @@ describe('lamella flow on rendered draining films', () => {
     }, 60_000);
   }
 
-  it('tracks a rising thin patch: rise velocity within 5 %, in patches.csv', async () => {
+  it('series --flow tracks a rising thin patch (rise velocity within 5 %, in patches.csv) and the report shows the flow', async () => {
     const risePxPerFrame = 2.5;
     const scene = risingPatchScene(W, H, risePxPerFrame);
-    const out = await mapScene(scene, 6);
+    const out = await mapScene(scene, 6, ['--flow']);
     const flowDir = join(out, 'flow');
-    const result = await runFlow(out, { outDir: flowDir });
-    expect(result.pairs).toHaveLength(5);
+    const flowJson = JSON.parse(await readFile(join(flowDir, 'flow.json'), 'utf8'));
+    expect(flowJson.format).toBe('lamella-flow');
+    expect(flowJson.pairs).toHaveLength(5);
+    const report = await readFile(join(out, 'report.html'), 'utf8');
+    expect(report).toContain('<section class="card" id="flow">');
+    expect(report).toContain('aria-label="Speed against time"');
+    // Arrows in the frame slider: the five frames with a next frame show their flow overlay.
+    expect(report.match(/alt="Flow from patch_00\d\.png to the next frame/g)).toHaveLength(5);
     const csv = (await readFile(join(flowDir, 'patches.csv'), 'utf8')).trim().split('\n');
     expect(csv[0]).toBe('patch,frame,time_s,area_px,area_um2,centroid_x_px,centroid_y_px,min_thickness_nm,rise_velocity_px_per_s');
     const rows = csv.slice(1).map((line) => line.split(','));

@@ -2,7 +2,7 @@
 export { mapPhoto, type MapPhotoOptions } from './mapPhoto.js';
 export { calibrate, type CalibratePhotoOptions } from './calibrate.js';
 export { photoFromInput, type PhotoInput, type PhotoInputOptions } from './photoInput.js';
-export { runSeries, seriesJobOptions, type RunSeriesOptions, type RunSeriesHooks, type StackSettings } from './runSeries.js';
+export { runSeries, seriesJobOptions, type RunSeriesOptions, type RunSeriesHooks, type RunSeriesResult, type StackSettings } from './runSeries.js';
 export { mapPhotos, type MapPhotosOptions, type MapPhotosHooks, type MapPhotosResult } from './mapPhotos.js';
 export { chart, type ChartJobOptions, type ChartResult, type ChartFormat } from './chart.js';
 export { spectrum, type SpectrumJobOptions, type SpectrumResult } from './spectrum.js';

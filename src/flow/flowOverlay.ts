@@ -2,7 +2,8 @@
  * The flow overlay PNG: the first frame's thickness in Lamella's colour scale (../map/colourScale.ts,
  * no value = dark grey), arrows on a regular grid showing the displacement (each the mean of the
  * known vectors in its grid cell, drawn only when at least half of the cell has one), scaled so the
- * 95th-percentile arrow spans about one grid step; the scale is written in the corner. Drawn as SVG
+ * 95th-percentile arrow spans about one grid step (but one step never stands for less than
+ * `minFullScalePerS`, 1 px per frame, so a still film's noise stays short); the scale is written below. Drawn as SVG
  * and rasterised (../io/rasteriseSvg.ts).
  */
 import { colourScaleBytes, SCALE_ENTRIES } from '../map/colourScale.js';
@@ -20,6 +21,8 @@ export interface OverlayInput {
   readonly rangeNm: readonly [number, number];
   /** Unit of the velocities, e.g. "px/s" or "µm/s". */
   readonly unit: string;
+  /** The least speed an arrow of one grid step stands for (e.g. 1 px per frame), so that a still film's noise stays small. */
+  readonly minFullScalePerS?: number;
 }
 
 function thicknessRgb(t: Float32Array, width: number, height: number, [lo, hi]: readonly [number, number]): Uint8Array {
@@ -69,7 +72,8 @@ export async function flowOverlayPng(input: OverlayInput): Promise<Buffer> {
   }
   const speeds = arrows.map(([, , u, v]) => Math.hypot(u, v)).sort((a, b) => a - b);
   const p95 = speeds.length > 0 ? speeds[Math.min(speeds.length - 1, Math.floor(0.95 * speeds.length))] : 0;
-  const lengthPerSpeed = p95 > 0 ? step / p95 : 0;
+  const fullScale = Math.max(p95, input.minFullScalePerS ?? 0);
+  const lengthPerSpeed = fullScale > 0 ? step / fullScale : 0;
   const parts: string[] = [];
   for (const [x, y, u, v] of arrows) {
     const dx = u * lengthPerSpeed * zoom;
@@ -98,7 +102,7 @@ export async function flowOverlayPng(input: OverlayInput): Promise<Buffer> {
   }
   const W = width * zoom;
   const H = height * zoom;
-  const label = p95 > 0 ? `arrow of one grid step (${step} px) = ${p95.toPrecision(3)} ${input.unit}` : 'no motion measured';
+  const label = fullScale > 0 ? `arrow of one grid step (${step} px) = ${fullScale.toPrecision(3)} ${input.unit}` : 'no motion measured';
   const svg = `<svg xmlns="http://www.w3.org/2000/svg" xmlns:xlink="http://www.w3.org/1999/xlink" width="${W}" height="${H + 18}" viewBox="0 0 ${W} ${H + 18}">`
     + `<rect width="${W}" height="${H + 18}" fill="#fff"/>`
     + `<image x="0" y="0" width="${W}" height="${H}" preserveAspectRatio="none" style="image-rendering:pixelated" xlink:href="data:image/png;base64,${base.toString('base64')}"/>`

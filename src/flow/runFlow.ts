@@ -31,7 +31,7 @@ import { readSeriesForFlow, type SeriesForFlow, type SeriesFrameForFlow } from '
 
 export const FLOW_SCHEMA_VERSION = 1;
 /** Bumped when the method changes what it computes: older pair records are then recomputed. */
-const METHOD_VERSION = 'lk-pyramid-thinning-fb-1';
+const METHOD_VERSION = 'lk-pyramid-thinning-fb-2';
 
 export interface FlowOptions {
   /** Output folder (created if missing; a rerun into it resumes). */
@@ -223,7 +223,7 @@ async function computePair(
   await atomicWriteFile(paths.npy, encodeNpy(interleaved, [height, width, 2]));
   await atomicWriteFile(paths.confidence, encodeNpy(flow.confidence, [height, width]));
   if (r.overlays) {
-    await atomicWriteFile(paths.png, await flowOverlayPng({ thicknessNm: first.data, width, height, vx, vy, rangeNm, unit: r.pixelSizeUm === null ? 'px/s' : 'µm/s' }));
+    await atomicWriteFile(paths.png, await flowOverlayPng({ thicknessNm: first.data, width, height, vx, vy, rangeNm, unit: r.pixelSizeUm === null ? 'px/s' : 'µm/s', minFullScalePerS: lengthPerPx / dtS }));
   }
   const record = {
     format: 'lamella-flow-pair', schema_version: FLOW_SCHEMA_VERSION, lamella_version: LAMELLA_VERSION,

@@ -12,7 +12,8 @@ import { addStackOptions, parseNumberOption, type StackCliOptions } from '../sta
 import { addFilmAreaOptions, filmAreaFromOptions, parseExpect, type FilmAreaCliOptions } from '../filmAreaOptions.js';
 import { parseShard } from '../../series/parseShard.js';
 import { DEFAULT_CHUNK_FRAMES } from '../../series/runSeries.js';
-import { runSeries, type RunSeriesOptions } from '../../api/runSeries.js';
+import { runSeries, type RunSeriesOptions, type RunSeriesResult } from '../../api/runSeries.js';
+import { formatFlowSummary } from './flow.js';
 import { formatProgressBar, formatProgressLine } from '../../series/progressText.js';
 import { formatSeriesSummary } from '../../series/summaryText.js';
 import type { SeriesProgress } from '../../series/types.js';
@@ -41,6 +42,7 @@ export interface SeriesCliOptions extends StackCliOptions, FilmAreaCliOptions {
   report: boolean;
   out: string;
   allowDamaged?: boolean;
+  flow?: boolean;
 }
 
 const YEAR_S = 31_536_000;
@@ -108,6 +110,7 @@ export async function seriesOptionsFrom(opts: SeriesCliOptions): Promise<RunSeri
     calibration: opts.calibration ?? null, ignoreCalibrationMismatch: opts.ignoreCalibrationMismatch === true,
     workers: positive(opts.workers, '--workers', true)!, chunkFrames: positive(opts.chunkFrames, '--chunk-frames', true)!, shard,
     aggregateOnly: opts.aggregateOnly === true, previews: opts.previews === true, report: opts.report, allowDamaged: opts.allowDamaged === true,
+    ...(opts.flow ? { flow: true } : {}),
   };
 }
 
@@ -166,7 +169,7 @@ async function run(inputs: string[], opts: SeriesCliOptions): Promise<void> {
   process.once('SIGINT', onSignal);
   process.once('SIGTERM', onSignal);
   const progress = progressWriter(opts.quiet === true);
-  let result;
+  let result: RunSeriesResult;
   try {
     result = await runSeries(inputs, options, {
       signal: controller.signal,
@@ -180,6 +183,9 @@ async function run(inputs: string[], opts: SeriesCliOptions): Promise<void> {
       onProgress: (p, event) => {
         if (event.outcome === 'failed') process.stderr.write(`${process.stderr.isTTY && !opts.quiet ? '\n' : ''}lamella: ${event.message}\n`);
         progress(p);
+      },
+      onFlowProgress: (p) => {
+        if (!opts.quiet) process.stderr.write(`flow: ${p.done}/${p.total} pair(s), ${p.pair} ${p.outcome === 'skipped' ? 'already done' : 'done'}\n`);
       },
     });
   } catch (error) {
@@ -196,6 +202,7 @@ async function run(inputs: string[], opts: SeriesCliOptions): Promise<void> {
   for (const w of result.warnings) warn(optionNames(w));
   for (const f of result.failures) if (!failedNow.has(f)) process.stderr.write(`lamella: ${f}\n`);
   if (!opts.quiet) process.stdout.write(`${formatSeriesSummary(result).join('\n')}\n`);
+  if (!opts.quiet && result.flow) process.stdout.write(`${formatFlowSummary(result.flow).join('\n')}\n`);
   if (result.failures.length > 0) process.exitCode = EXIT_INPUT;
 }
 
@@ -222,6 +229,7 @@ export function register(program: Command): void {
     .option('--aggregate-only', 'map nothing; aggregate the per-frame results already in OUT (after shard runs)')
     .option('--previews', 'also write <frame>.map.png and <frame>.flags.png per frame (all maps in one colour range: the series\' own, or --range)')
     .option('--range <min-max>', 'colour range of the previews and the report\'s frame slider, nm (e.g. 0-1200); default the series\' own (lowest 5th to highest 95th percentile)')
+    .option('--flow', 'also compute the film\'s flow (as `lamella flow OUT --out OUT/flow`) once the frames are mapped, and show it in the report')
     .option('--allow-damaged', 'map frames the decoder reports as damaged as far as they decode (a warning; the rest has no estimate)')
     .option('--quiet', 'no progress display, warnings or summary (failed frames are still reported)')
     .addOption(new Option('--no-report', 'do not write report.html'))
