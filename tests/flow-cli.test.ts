@@ -14,6 +14,15 @@ import { fileURLToPath } from 'node:url';
 import { encodeNpy } from '../src/io/encodeNpy.js';
 import { decodeNpy } from '../src/io/decodeNpy.js';
 import { texture } from './flow-scenes.js';
+import { readFileSync } from 'node:fs';
+import { Ajv2020 } from 'ajv/dist/2020.js';
+
+const root = new URL('..', import.meta.url).pathname;
+const ajv = new Ajv2020({ allErrors: true, strict: true, allowUnionTypes: true });
+function schemaErrors(name: string, data: unknown): string[] {
+  const validate = ajv.getSchema(`https://lamella.invalid/schemas/${name}.schema.json`) ?? ajv.compile(JSON.parse(readFileSync(join(root, 'schemas', `${name}.schema.json`), 'utf8')) as object);
+  return validate(data) ? [] : (validate.errors ?? []).map((e) => `${e.instancePath} ${e.message ?? ''}`);
+}
 
 const bin = fileURLToPath(new URL('../bin/lamella.js', import.meta.url));
 const W = 96;
@@ -103,6 +112,10 @@ describe('lamella flow: outputs, resume, shards', () => {
     expect(Number(row[4])).toBeCloseTo(Math.hypot(15, 10), 0);
     expect(Number(row[7])).toBeCloseTo(10, 0); // up is positive: −10 px/s along the rows
     expect(Number(row[11])).toBeCloseTo(-10, 0); // −2 nm per frame at 5 frames/s
+    // The records follow their JSON Schemas (draft 2020-12, validated by Ajv).
+    expect(schemaErrors('flow', JSON.parse(await readFile(join(out, 'flow.json'), 'utf8')))).toEqual([]);
+    expect(schemaErrors('flow-pair', JSON.parse(await readFile(join(out, 'f1.flow.json'), 'utf8')))).toEqual([]);
+    expect(schemaErrors('flow-pair', { ...JSON.parse(await readFile(join(out, 'f1.flow.json'), 'utf8')), unit: 'mm/s' })).not.toEqual([]);
     const um = join(dir, 'units-flow-um');
     expect(lamella('flow', s, '--out', um, '--quiet', '--pixel-size', '2').status).toBe(0);
     const d2 = decodeNpy(await readFile(join(um, 'f1.flow.npy'))).data;

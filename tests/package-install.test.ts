@@ -77,7 +77,7 @@ describe('npm pack: what the tarball holds', () => {
     expect(files).toContain('bin/lamella.js');
     expect(files).toContain('dist/index.js');
     expect(files).toContain('dist/index.d.ts');
-    for (const schema of ['map-record', 'series-frame', 'series', 'calibration', 'spectrum', 'chart']) expect(files).toContain(`schemas/${schema}.schema.json`);
+    for (const schema of ['map-record', 'series-frame', 'series', 'calibration', 'spectrum', 'chart', 'flow', 'flow-pair']) expect(files).toContain(`schemas/${schema}.schema.json`);
     // Read at run time (src/colour/observers.ts, lights.ts, src/optics/materialLibrary.ts) with their licence notes.
     for (const data of ['shared/cie/cmf_cie1931_2deg.csv', 'shared/cie/illuminant_D65.csv', 'shared/cie/SOURCES.md', 'shared/materials/water_daimon2007_20C.json', 'shared/materials/SOURCES.md', 'shared/README.md']) {
       expect(files).toContain(data);

@@ -226,7 +226,7 @@ async function computePair(
     await atomicWriteFile(paths.png, await flowOverlayPng({ thicknessNm: first.data, width, height, vx, vy, rangeNm, unit: r.pixelSizeUm === null ? 'px/s' : 'µm/s', minFullScalePerS: lengthPerPx / dtS }));
   }
   const record = {
-    format: 'lamella-flow-pair', schema_version: FLOW_SCHEMA_VERSION, lamella_version: LAMELLA_VERSION,
+    format: 'lamella-flow-pair', version: 1, schema_version: FLOW_SCHEMA_VERSION, lamella_version: LAMELLA_VERSION,
     frame: a.name, next_frame: b.name, stem: a.stem, time_s: a.timeS, dt_s: dtS,
     unit: r.pixelSizeUm === null ? 'px/s' : 'µm/s', pixel_size_um: r.pixelSizeUm, min_confidence: r.minConfidence,
     settings_hash: hash, pyramid_levels: flow.levels, summary: summaryJson(summary),
@@ -350,7 +350,7 @@ export async function runFlow(seriesDir: string, options: FlowOptions, callbacks
   const patches = await trackSeriesPatches(outDir, frames, r, width, height, new Set(pairs.map((p) => p.frame)), callbacks.signal);
   const outputs = FLOW_AGGREGATES.map((name) => join(outDir, name));
   const record = {
-    format: 'lamella-flow', schema_version: FLOW_SCHEMA_VERSION, lamella_version: LAMELLA_VERSION,
+    format: 'lamella-flow', version: 1, schema_version: FLOW_SCHEMA_VERSION, lamella_version: LAMELLA_VERSION,
     series: resolve(seriesDir), method: METHOD_VERSION,
     settings: {
       unit, pixel_size_um: r.pixelSizeUm, thin_below_nm: r.thinBelowNm, min_confidence: r.minConfidence,
