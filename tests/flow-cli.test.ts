@@ -14,6 +14,7 @@ import { fileURLToPath } from 'node:url';
 import { encodeNpy } from '../src/io/encodeNpy.js';
 import { decodeNpy } from '../src/io/decodeNpy.js';
 import { texture } from './flow-scenes.js';
+import { flowFromSeries } from '../src/api/flowFromSeries.js';
 import { readFileSync } from 'node:fs';
 import { Ajv2020 } from 'ajv/dist/2020.js';
 
@@ -148,5 +149,22 @@ describe('lamella flow: outputs, resume, shards', () => {
     expect(lamella('flow', s, '--out', parts, '--aggregate-only', '--quiet').status).toBe(0);
     expect(await readFile(join(parts, 'flow.csv'), 'utf8')).toBe(await readFile(join(whole, 'flow.csv'), 'utf8'));
     expect(await readFile(join(parts, 'patches.csv'), 'utf8')).toBe(await readFile(join(whole, 'patches.csv'), 'utf8'));
+  }, 60_000);
+
+  it('stopped by its AbortSignal after the first pair: finished pairs kept, no aggregates; a rerun resumes', async () => {
+    const s = await seriesFolder('abort', 4, 1, 1, 2);
+    const out = join(dir, 'abort-flow');
+    const controller = new AbortController();
+    const stopped = await flowFromSeries(s, { outDir: out }, { signal: controller.signal, onProgress: () => controller.abort() });
+    expect(stopped.interrupted).toBe(true);
+    expect(stopped.computed).toBe(1);
+    const names = await readdir(out);
+    expect(names).toContain('f1.flow.json');
+    expect(names).not.toContain('f2.flow.json');
+    expect(names).not.toContain('flow.csv');
+    const resumed = await flowFromSeries(s, { outDir: out });
+    expect(resumed.interrupted).toBe(false);
+    expect([resumed.skipped, resumed.computed]).toEqual([1, 2]);
+    expect(resumed.pairs).toHaveLength(3);
   }, 60_000);
 });

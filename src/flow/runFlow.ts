@@ -347,7 +347,14 @@ export async function runFlow(seriesDir: string, options: FlowOptions, callbacks
     else missingPairs.push(frames[k].name);
   }
   if (missingPairs.length > 0) warnings.push(`${missingPairs.length} of ${pairCount} frame pair(s) have no flow yet (e.g. from ${missingPairs[0]}); run the other shards or rerun to complete`);
-  const patches = await trackSeriesPatches(outDir, frames, r, width, height, new Set(pairs.map((p) => p.frame)), callbacks.signal);
+  let patches: PatchRow[];
+  try {
+    patches = await trackSeriesPatches(outDir, frames, r, width, height, new Set(pairs.map((p) => p.frame)), callbacks.signal);
+  } catch (error) {
+    if (!callbacks.signal?.aborted) throw error;
+    return { outDir, unit, pairs: [], missingPairs: [], computed, skipped, patches: [], outputs: [], warnings, interrupted: true };
+  }
+  if (callbacks.signal?.aborted) return { outDir, unit, pairs: [], missingPairs: [], computed, skipped, patches: [], outputs: [], warnings, interrupted: true };
   const outputs = FLOW_AGGREGATES.map((name) => join(outDir, name));
   const record = {
     format: 'lamella-flow', version: 1, schema_version: FLOW_SCHEMA_VERSION, lamella_version: LAMELLA_VERSION,
