@@ -168,3 +168,31 @@ describe('lamella flow: outputs, resume, shards', () => {
     expect(resumed.pairs).toHaveLength(3);
   }, 60_000);
 });
+
+// A film with no pattern to follow (every thickness the same, thinning evenly) gives no confident
+// vector: the command must say in plain words that its speeds rest on nothing, not print them as
+// a measurement; a textured film of the same size gets no such warning (common practice: a flow
+// is only as good as the texture it follows).
+describe('lamella flow: when the film has nothing to follow', () => {
+  it('a featureless film: the warning names the small share of the film with a flow; a textured one has none', async () => {
+    const out = join(dir, 'featureless');
+    await mkdir(join(out, 'frames'), { recursive: true });
+    const rows = ['frame,time_s,mean_nm'];
+    for (let k = 0; k < 3; k++) {
+      const stem = `f${k + 1}`;
+      await writeFile(join(out, 'frames', `${stem}.thickness.npy`), encodeNpy(new Float32Array(W * H).fill(600 - 2 * k), [H, W]));
+      await writeFile(join(out, 'frames', `${stem}.json`), JSON.stringify({ format: 'lamella-series-frame', frame: `${stem}.png`, stem, settings_hash: `h${k}` }));
+      rows.push(`${stem}.png,${(k / 2).toFixed(3)},600`);
+    }
+    await writeFile(join(out, 'series.csv'), `${rows.join('\n')}\n`);
+    await writeFile(join(out, 'series.json'), JSON.stringify({ format: 'lamella-series', version: 1, schema_version: 1, settings: { thin_below_nm: 50 }, frames: { width: W, height: H } }));
+    const flat = lamella('flow', out, '--out', join(dir, 'featureless-flow'));
+    expect(flat.status, flat.stderr).toBe(0);
+    expect(flat.stderr).toMatch(/warning: the flow is known on only 0(\.0+)? % of the film \(median over 2 pair\(s\)\).*do not rely on them/);
+    const textured = await seriesFolder('textured-warn', 3, 2, 1, 2);
+    const moving = lamella('flow', textured, '--out', join(dir, 'textured-warn-flow'));
+    expect(moving.status, moving.stderr).toBe(0);
+    expect(moving.stderr).not.toMatch(/known on only/);
+    expect(moving.stdout).toMatch(/known on \d+\.\d % of the film \(median\)/);
+  }, 60_000);
+});

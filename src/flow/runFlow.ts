@@ -271,6 +271,9 @@ function percentileRange(data: Float32Array): [number, number] {
 }
 
 /** Runs the flow of the series in `seriesDir`; see the module comment. */
+/** Below this median share of the film with a confident vector, the flow is reported as unreliable (a judgement). */
+const LOW_COVERAGE = 0.05;
+
 export async function runFlow(seriesDir: string, options: FlowOptions, callbacks: FlowCallbacks = {}): Promise<FlowResult> {
   const series = await readSeriesForFlow(seriesDir);
   const r = resolveOptions(options, series);
@@ -355,6 +358,14 @@ export async function runFlow(seriesDir: string, options: FlowOptions, callbacks
     return { outDir, unit, pairs: [], missingPairs: [], computed, skipped, patches: [], outputs: [], warnings, interrupted: true };
   }
   if (callbacks.signal?.aborted) return { outDir, unit, pairs: [], missingPairs: [], computed, skipped, patches: [], outputs: [], warnings, interrupted: true };
+  // A flow known on a sliver of the film is not a measurement of the film's flow: say so.
+  const coverages = pairs.map((p) => p.summary.coverage).sort((a, b) => a - b);
+  const medianCoverage = coverages.length > 0 ? coverages[Math.floor(coverages.length / 2)] : null;
+  if (medianCoverage !== null && medianCoverage < LOW_COVERAGE) {
+    warnings.push(
+      `the flow is known on only ${(100 * medianCoverage).toFixed(medianCoverage < 0.001 ? 3 : 1)} % of the film (median over ${coverages.length} pair(s)): the thickness pattern has too little texture to follow, or changes between frames more than motion plus a smooth thinning explains (frames too far apart in time?). The speeds in flow.csv rest on few pixels: do not rely on them; take frames closer in time or check the thickness maps`,
+    );
+  }
   const outputs = FLOW_AGGREGATES.map((name) => join(outDir, name));
   const record = {
     format: 'lamella-flow', version: 1, schema_version: FLOW_SCHEMA_VERSION, lamella_version: LAMELLA_VERSION,

@@ -59,7 +59,9 @@ export function formatFlowSummary(result: FlowResult): string[] {
   const speeds = result.pairs.map((p) => p.summary.meanSpeedPerS).filter((v): v is number => v !== null);
   if (speeds.length > 0) {
     const mean = speeds.reduce((a, b) => a + b, 0) / speeds.length;
-    lines.push(`flow: mean speed ${mean.toPrecision(3)} ${result.unit} over ${speeds.length} pair(s) (min ${Math.min(...speeds).toPrecision(3)}, max ${Math.max(...speeds).toPrecision(3)})`);
+    const coverages = result.pairs.map((p) => p.summary.coverage).sort((a, b) => a - b);
+    const coverage = coverages[Math.floor(coverages.length / 2)];
+    lines.push(`flow: mean speed ${mean.toPrecision(3)} ${result.unit} over ${speeds.length} pair(s) (min ${Math.min(...speeds).toPrecision(3)}, max ${Math.max(...speeds).toPrecision(3)}); known on ${(100 * coverage).toFixed(1)} % of the film (median)`);
   }
   const patches = new Set(result.patches.map((p) => p.patch)).size;
   lines.push(`flow: ${patches} thin patch(es) tracked`);
