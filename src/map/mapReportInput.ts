@@ -63,6 +63,7 @@ export async function mapReportInput(
     filmArea: { ...filmArea, excludedPx: { ...filmArea.excludedPx } },
     fitQuality: result.fitQuality ? { ...result.fitQuality } : null,
     light: reportLightOf(result),
+    inspection: (record.inspection as Record<string, unknown> | undefined) ?? null,
     ...(notes.length > 0 ? { downsampleNote: notes.join('; ') } : {}),
   };
 }

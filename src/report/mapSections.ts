@@ -10,6 +10,7 @@ import { encodeFloat32Base64 } from './encodeFloat32Base64.js';
 import { escapeHtml } from './escapeHtml.js';
 import { NO_FILM_TEXT, renderFilmAreaCard } from './filmAreaSection.js';
 import { renderLightCard } from './lightSection.js';
+import { renderInspectionCard } from './inspectionSection.js';
 import { formatFixed, formatNm, formatPercent } from './formatNumber.js';
 import { imageDataUri } from './imageDataUri.js';
 import { niceDomain } from './niceTicks.js';
@@ -76,6 +77,7 @@ export function renderMapSections(input: MapReportInput, name = 'input', options
     ...(input.stats.thin_fraction !== undefined ? [tile('Thin fraction', formatPercent(input.stats.thin_fraction), (input.stats.thin_fraction ?? 0) > 0)] : []),
     tile('Thin regions', String(input.thinRegions.length), input.thinRegions.length > 0),
     ...(area !== null ? [tile('Film area', formatPercent(area.fraction), false, 'of the photo')] : []),
+    ...(input.inspection?.verdict ? [inspectionTile(input.inspection)] : []),
     ...(fitQuality !== null ? [tile('Model fit', fitQuality.verdict, fitQuality.verdict === 'poor', `median ΔE2000 ${formatFixed(fitQuality.median_delta_e2000, 2)}`)] : []),
   ];
 
@@ -124,8 +126,8 @@ ${options.parameterTables ? renderParameterSections(input.settings, input.calibr
 </div>`;
 
   return {
-    sections: [`<div class="tiles">${tiles.join('')}</div>`, view, renderFilmAreaCard(area, fitQuality, W * H), renderLightCard(input.light), charts, regions, tables],
-    nav: [['map-view', 'Map'], ['film-area', 'Film area'], ...(input.light ? [['light', 'Light'] as [string, string]] : []), ['histogram', 'Histogram'], ['profile', 'Profile'], ['thin-regions', 'Thin regions'],
+    sections: [`<div class="tiles">${tiles.join('')}</div>`, view, renderInspectionCard(input.inspection), renderFilmAreaCard(area, fitQuality, W * H), renderLightCard(input.light), charts, regions, tables],
+    nav: [['map-view', 'Map'], ...(input.inspection ? [['inspection', 'Inspection'] as [string, string]] : []), ['film-area', 'Film area'], ...(input.light ? [['light', 'Light'] as [string, string]] : []), ['histogram', 'Histogram'], ['profile', 'Profile'], ['thin-regions', 'Thin regions'],
       ['statistics', 'Statistics'], ...(options.parameterTables ? [['settings', 'Settings'] as [string, string]] : [])],
     data: {
       'lamella-map-data': {
@@ -156,4 +158,11 @@ export function renderParameterSections(settings: Record<string, unknown>, calib
 export function tile(label: string, value: string, alert = false, note = ''): string {
   return `<div class="tile${alert ? ' alert' : ''}"><div class="label">${escapeHtml(label)}</div><div class="value">${escapeHtml(value)}</div>`
     + `${note ? `<div class="tile-note">${escapeHtml(note)}</div>` : ''}</div>`;
+}
+
+/** The verdict tile: PASS or FAIL with the share in spec. */
+function inspectionTile(inspection: Record<string, unknown>): string {
+  const verdict = inspection.verdict as { pass: boolean; rule: string };
+  const spec = inspection.spec as { in_spec_fraction: number; text: string } | null;
+  return tile('Spec', verdict.pass ? 'PASS' : 'FAIL', !verdict.pass, spec ? `${formatPercent(spec.in_spec_fraction)} in ${spec.text} · ${verdict.rule}` : verdict.rule);
 }

@@ -21,8 +21,10 @@ import { lineOfLight } from '../../map/mapPhoto.js';
 import { addLightOptions, lightsFromOptions } from '../lightOptions.js';
 import type { MapOptions, MapResult } from '../../map/types.js';
 import { loadCalibrationForRun } from '../../calibrate/calibrationFile.js';
+import { addInspectOptions, inspectFromOptions, type InspectCliOptions } from '../inspectOptions.js';
+import { inspectionSummaryText, type Inspection } from '../../inspect/inspectMap.js';
 
-interface MapCliOptions extends StackCliOptions, FilmAreaCliOptions {
+interface MapCliOptions extends StackCliOptions, FilmAreaCliOptions, InspectCliOptions {
   light: string;
   whiteBalance?: string;
   camera?: string;
@@ -56,7 +58,7 @@ export function register(program: Command): void {
     .command('map')
     .description('map film thickness from colour photos; writes .npy/.tif maps, confidence, previews, JSON and an HTML report per photo')
     .argument('<photo...>', "photos (JPEG, PNG, TIFF; 8 or 16 bit) or glob patterns such as 'shots/*.jpg' (quoted)");
-  addFilmAreaOptions(addLightOptions(addStackOptions(command), { required: false }), 'photo')
+  addInspectOptions(addFilmAreaOptions(addLightOptions(addStackOptions(command), { required: false }), 'photo'), 'photo')
     .option('--camera <mode-or-file>', CAMERA_HELP)
     .option('--light-field <mode>', LIGHT_FIELD_HELP, 'auto')
     .option('--calibration <file>', 'photo-formation parameters (and light field) from `lamella calibrate` instead of fitting them')
@@ -101,6 +103,7 @@ async function runMap(inputs: string[], opts: MapCliOptions): Promise<number> {
   const outputs = parseOutputsOption(opts.outputs);
   if (!opts.report) outputs.delete('report');
   const { thinBelowNm, maxThicknessNm, region, maskPath, anchors, pixelSizeUm, filmArea, expectNm } = filmAreaFromOptions(opts);
+  const inspect = inspectFromOptions(opts);
   if ((opts.known ?? []).length > 0 && opts.calibration) {
     throw new UsageError('give either --known (calibrate on the photo) or --calibration (a calibration file), not both');
   }
@@ -139,7 +142,7 @@ async function runMap(inputs: string[], opts: MapCliOptions): Promise<number> {
   // On a terminal, the stage each photo is in, on one line rewritten in place (never on a pipe).
   const showPhases = process.stderr.isTTY === true && !opts.quiet;
   const clearPhase = (): void => void (showPhases && process.stderr.write('\r\x1b[K'));
-  const { records, failed, withThinRegions: thin } = await mapPhotos(
+  const { records, failed, withThinRegions: thin, outOfSpec } = await mapPhotos(
     photos,
     {
       map: options,
@@ -149,6 +152,7 @@ async function runMap(inputs: string[], opts: MapCliOptions): Promise<number> {
       stackSpec: opts.stack ?? '',
       calibrationRecord: calibration?.raw ?? null,
       allowDamaged: opts.allowDamaged === true,
+      inspect,
     },
     {
       onPhase: showPhases
@@ -158,10 +162,10 @@ async function runMap(inputs: string[], opts: MapCliOptions): Promise<number> {
         clearPhase();
         warn(message);
       },
-      onPhoto: (photo, result) => {
+      onPhoto: (photo, result, _record, inspection) => {
         clearPhase();
         for (const warning of result.warnings) warn(`${photo}: ${warning}`);
-        if (!opts.json && !opts.quiet) process.stdout.write(`${summaryLine(photo, result)}\n`);
+        if (!opts.json && !opts.quiet) process.stdout.write(`${summaryLine(photo, result, inspection)}\n`);
       },
       onFailure: (photo, error) => {
         clearPhase();
@@ -178,10 +182,11 @@ async function runMap(inputs: string[], opts: MapCliOptions): Promise<number> {
     return EXIT_INPUT;
   }
   if (opts.failIfThin && thin > 0) return EXIT_FINDING;
+  if (opts.failIfOutOfSpec && outOfSpec > 0) return EXIT_FINDING;
   return 0;
 }
 
-export function summaryLine(photo: string, result: Pick<MapResult, 'stats' | 'thinRegions' | 'fitted' | 'filmArea' | 'exposureField'>): string {
+export function summaryLine(photo: string, result: Pick<MapResult, 'stats' | 'thinRegions' | 'fitted' | 'filmArea' | 'exposureField'>, inspection: Inspection | null = null): string {
   // The warning itself comes from the mapper; the line only says there is nothing to summarise.
   if (result.filmArea && !result.filmArea.found) return `${photo}: no film found in this photo (no statistics, no thin regions)`;
   const s = result.stats;
@@ -193,7 +198,8 @@ export function summaryLine(photo: string, result: Pick<MapResult, 'stats' | 'th
   const film = result.filmArea && result.filmArea.mode === 'auto' ? `, film ${f(result.filmArea.fraction * 100)} % of the photo` : '';
   const response = result.fitted.response;
   const style = response && isStrongResponse(response) ? `, picture style ${result.fitted.responseSource === 'calibration' ? 'from the calibration' : 'fitted'} (${describeResponse(response)})` : '';
-  return `${photo}: median ${f(s.median_nm)} nm (p05 ${f(s.p05_nm)}, p95 ${f(s.p95_nm)})${film}, coverage ${f(s.coverage * 100)} %${thin}, ${result.thinRegions.length} thin region(s), exposure ×${result.fitted.exposure.toFixed(2)}${field}${style}`;
+  const inspected = inspection ? inspectionSummaryText(inspection) : '';
+  return `${photo}: median ${f(s.median_nm)} nm (p05 ${f(s.p05_nm)}, p95 ${f(s.p95_nm)})${film}, coverage ${f(s.coverage * 100)} %${thin}, ${result.thinRegions.length} thin region(s), exposure ×${result.fitted.exposure.toFixed(2)}${field}${style}${inspected ? `; ${inspected}` : ''}`;
 }
 
 function parseThreads(value: string): number {
