@@ -1,8 +1,8 @@
 /**
  * Thickness at points (`--points FILE.csv`, `--points polar:N`) and along lines (`--profile
  * X0,Y0,X1,Y1`). A point's thickness is the mean over the measured pixels of a small disc around
- * it, with their sample standard deviation; a line is sampled at steps of one pixel, each sample
- * the value of the pixel it falls in (the map's own values, not interpolated).
+ * it, with their sample standard deviation; a line is sampled at steps of one pixel (at most),
+ * each sample the value of the pixel it falls in (the map's own values, not interpolated).
  */
 import { UsageError } from '../errors.js';
 import { PixelStatus } from '../map/types.js';
@@ -170,7 +170,9 @@ export interface ProfileLine {
 }
 
 export interface ProfileSample {
+  /** Distance along the line from its start, px. */
   readonly distancePx: number;
+  /** The pixel sampled (the one the point at that distance falls in). */
   readonly xPx: number;
   readonly yPx: number;
   readonly thicknessNm: number | null;
@@ -204,9 +206,11 @@ export function sampleProfile(frame: Frame & { readonly confidence: Float32Array
     const t = k / steps;
     const x = line.x0 + t * (line.x1 - line.x0);
     const y = line.y0 + t * (line.y1 - line.y0);
-    const i = Math.round(y) * width + Math.round(x);
+    const px = Math.round(x);
+    const py = Math.round(y);
+    const i = py * width + px;
     const s = frame.status[i];
-    out.push({ distancePx: t * length, xPx: x, yPx: y, thicknessNm: s === PixelStatus.ok ? frame.thicknessNm[i] : null, confidence: frame.confidence[i], status: s });
+    out.push({ distancePx: t * length, xPx: px, yPx: py, thicknessNm: s === PixelStatus.ok ? frame.thicknessNm[i] : null, confidence: frame.confidence[i], status: s });
   }
   return out;
 }
