@@ -5,3 +5,4 @@ export { photoFromInput, type PhotoInput, type PhotoInputOptions } from './photo
 export { runSeries, seriesJobOptions, type RunSeriesOptions, type RunSeriesHooks, type StackSettings } from './runSeries.js';
 export { mapPhotos, type MapPhotosOptions, type MapPhotosHooks, type MapPhotosResult } from './mapPhotos.js';
 export { MAP_OUTPUT_FILES, MAP_OUTPUT_NAMES, type MapOutputName } from '../map/outputNames.js';
+export { compareMaps, type CompareMapsOptions, type CompareMapsResult } from './compareMaps.js';
