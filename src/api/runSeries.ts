@@ -22,6 +22,8 @@ import { MAP_FRAME_PROCESSOR_URL, type MapFrameConfig } from '../series/mapFrame
 import { runSeries as runSeriesEngine, DEFAULT_CHUNK_FRAMES, type SeriesOptions, type SeriesPlan, type SeriesResult } from '../series/runSeries.js';
 import type { Shard } from '../series/parseShard.js';
 import type { FrameEvent, SeriesProgress } from '../series/types.js';
+import { checkInspectOptions, type InspectOptions } from '../inspect/inspectMap.js';
+import { passRuleText, specSearchRangeNm } from '../inspect/spec.js';
 
 /** The film stack as the CLI's `--stack`, `--film-index`, `--angle` (degrees) and `--extrapolate` give it. */
 export type StackSettings = StackCliOptions;
@@ -67,6 +69,12 @@ export interface RunSeriesOptions extends StackSettings {
   /** Write report.html (default true). */
   readonly report?: boolean;
   readonly allowDamaged?: boolean;
+  /**
+   * Each frame's coating inspection (src/inspect): spec share and verdict in series.csv and
+   * series.json, uniformity in the frame records. A spec without `expectNm` also keeps the order
+   * search near it (as `mapPhotos`). Points and profiles are for `map` only.
+   */
+  readonly inspect?: Pick<InspectOptions, 'spec' | 'passIf' | 'edgeExclusionMm' | 'part'> | null;
 }
 
 export interface RunSeriesHooks {
@@ -117,7 +125,9 @@ export async function seriesJobOptions(inputs: readonly string[], options: RunSe
   const anchors = options.anchors ?? [];
   const pixelSizeUm = options.pixelSizeUm ?? null;
   const filmArea = options.filmArea ?? 'auto';
-  const expectNm = options.expectNm ?? null;
+  const inspect = options.inspect ?? null;
+  if (inspect) checkInspectOptions(inspect, options.pixelSizeUm ?? null);
+  const expectNm = options.expectNm ?? (inspect?.spec ? specSearchRangeNm(inspect.spec, maxThicknessNm) : null);
   const rangeNm = options.rangeNm ?? null;
   const calibration = options.calibration
     ? await loadCalibrationForRun(options.calibration, { stack: options.stack ?? '', light: options.light, angleRad, whiteBalanceLight: options.whiteBalance ?? null, camera, ignoreMismatch: options.ignoreCalibrationMismatch === true })
@@ -139,6 +149,7 @@ export async function seriesJobOptions(inputs: readonly string[], options: RunSe
     lightField,
     region, maskPath, anchors, pixelSizeUm, filmArea, expectNm,
     ...(options.allowDamaged ? { allowDamaged: true } : {}),
+    ...(inspect ? { inspect } : {}),
   };
   const select = options.select ?? null;
   return {
@@ -158,6 +169,11 @@ export async function seriesJobOptions(inputs: readonly string[], options: RunSe
       // Part of the settings hash: changing either re-maps the frames.
       filmArea, ...(expectNm !== null ? { expectNm } : {}),
       ...(lightField !== 'auto' ? { lightField } : {}),
+      // Part of the settings hash: a new spec or rule re-judges (and may re-map) the frames.
+      ...(inspect ? { inspect: {
+        spec: inspect.spec?.text ?? null, passIf: inspect.spec ? passRuleText(inspect.passIf ?? { kind: 'in-spec', minShare: 0.99 }) : null,
+        edgeExclusionMm: inspect.edgeExclusionMm ?? null, part: inspect.part ? `${inspect.part.kind} ${inspect.part.sizeMm} mm` : null,
+      } } : {}),
     },
     calibration: calibration?.raw ?? null,
     // Stack, material, SPD and calibration files read above, and the mask: by content.

@@ -41,6 +41,8 @@ export type MappedPhoto = MapResult & Partial<Pick<MapPixelsResult, 'ambiguousRe
   /** The decoded photo's encoded RGB (for the flags image and the report). */
   readonly photoRgb?: Float32Array;
   readonly extra?: Record<string, unknown>;
+  /** The coating inspection's JSON block (src/inspect), when one was asked for (a series frame's record). */
+  readonly inspection?: Record<string, unknown> | null;
 };
 
 const tableCache = new Map<string, BuiltColourTable>();

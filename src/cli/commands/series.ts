@@ -7,18 +7,19 @@ import { CAMERA_HELP, parseCameraOption } from '../cameraOption.js';
 import { LIGHT_FIELD_HELP, parseLightFieldOption } from '../lightFieldOption.js';
 import { availableParallelism } from 'node:os';
 import { Option, type Command } from 'commander';
-import { InputError, UsageError, EXIT_INPUT } from '../errors.js';
+import { InputError, UsageError, EXIT_FINDING, EXIT_INPUT } from '../errors.js';
 import { addStackOptions, parseNumberOption, type StackCliOptions } from '../stackOptions.js';
 import { addFilmAreaOptions, filmAreaFromOptions, parseExpect, type FilmAreaCliOptions } from '../filmAreaOptions.js';
 import { parseShard } from '../../series/parseShard.js';
 import { runSeries, DEFAULT_CHUNK_FRAMES, type SeriesOptions } from '../../series/runSeries.js';
 import { seriesJobOptions } from '../../api/runSeries.js';
+import { addInspectOptions, inspectFromOptions, type InspectCliOptions } from '../inspectOptions.js';
 import { formatProgressBar, formatProgressLine } from '../../series/progressText.js';
 import { formatSeriesSummary } from '../../series/summaryText.js';
 import type { SeriesProgress } from '../../series/types.js';
 import { addLightOptions, lightsFromOptions } from '../lightOptions.js';
 
-export interface SeriesCliOptions extends StackCliOptions, FilmAreaCliOptions {
+export interface SeriesCliOptions extends StackCliOptions, FilmAreaCliOptions, InspectCliOptions {
   light: string;
   whiteBalance?: string;
   camera?: string;
@@ -85,6 +86,7 @@ export async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions
   // The same film-area options, defaults and limits as `lamella map`.
   const area = filmAreaFromOptions(opts);
   const { thinBelowNm, maxThicknessNm, region, anchors, pixelSizeUm, filmArea, expectNm } = area;
+  const inspect = inspectFromOptions(opts);
   let shard = null;
   if (opts.shardCount !== undefined && opts.shard !== 'auto') throw new UsageError('--shard-count goes with --shard auto (a Kubernetes indexed Job)');
   if (opts.shard === 'auto') {
@@ -108,6 +110,7 @@ export async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions
     calibration: opts.calibration ?? null, ignoreCalibrationMismatch: opts.ignoreCalibrationMismatch === true,
     workers: positive(opts.workers, '--workers', true)!, chunkFrames: positive(opts.chunkFrames, '--chunk-frames', true)!, shard,
     aggregateOnly: opts.aggregateOnly === true, previews: opts.previews === true, report: opts.report, allowDamaged: opts.allowDamaged === true,
+    inspect,
   }, warn);
 }
 
@@ -197,6 +200,7 @@ async function run(inputs: string[], opts: SeriesCliOptions): Promise<void> {
   for (const f of result.failures) if (!failedNow.has(f)) process.stderr.write(`lamella: ${f}\n`);
   if (!opts.quiet) process.stdout.write(`${formatSeriesSummary(result).join('\n')}\n`);
   if (result.failures.length > 0) process.exitCode = EXIT_INPUT;
+  else if (opts.failIfOutOfSpec && (result.summary?.inspection?.framesFailed ?? 0) > 0) process.exitCode = EXIT_FINDING;
 }
 
 export function register(program: Command): void {
@@ -214,7 +218,7 @@ export function register(program: Command): void {
     .option('--calibration <file>', 'photo-formation parameters from `lamella calibrate` instead of fitting them on every frame')
     .option('--light-field <mode>', LIGHT_FIELD_HELP, 'auto')
     .option('--ignore-calibration-mismatch', 'use a calibration made for another stack or light');
-  addFilmAreaOptions(command, 'frames')
+  addInspectOptions(addFilmAreaOptions(command, 'frames'), 'frames')
     .option('--workers <n>', 'worker threads', String(availableParallelism()))
     .option('--shard <K/N|auto>', 'map only the K-th of N contiguous parts of the series (1-based), then aggregate what OUT holds; auto = from the scheduler: a Slurm job array (SLURM_ARRAY_TASK_ID, _COUNT) or a Kubernetes indexed Job (JOB_COMPLETION_INDEX with --shard-count)')
     .option('--shard-count <n>', 'with --shard auto in a Kubernetes indexed Job: the number of shards (the Job\'s completions)')
