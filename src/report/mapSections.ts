@@ -52,7 +52,7 @@ export function renderMapSections(input: MapReportInput, name = 'input', options
   const W = grid.originalWidth;
   const H = grid.originalHeight;
   const cross = `<line class="cross-h" x1="0" x2="${W}" y1="0" y2="0" visibility="hidden"/><line class="cross-v" x1="0" x2="0" y1="0" y2="${H}" visibility="hidden"/>`;
-  const profileLine = `<line class="profile-line" x1="${column + 0.5}" x2="${column + 0.5}" y1="0" y2="${H}"/>`;
+  const profileLine = `<line class="profile-line" x1="${column + 0.5}" x2="${column + 0.5}" y1="0.5" y2="${H - 0.5}"/>`;
   const marks = (inner: string) => `<svg class="marks" viewBox="0 0 ${W} ${H}" preserveAspectRatio="none" aria-hidden="true">${inner}</svg>`;
   // keep a tall (portrait) photo within about one screen height
   const fit = ` style="max-width: calc(78vh * ${(W / H).toFixed(4)})"`;
@@ -91,7 +91,7 @@ export function renderMapSections(input: MapReportInput, name = 'input', options
     + '<span>x <b id="readout-x">—</b> y <b id="readout-y">—</b> px</span>'
     + `<span>thickness <b id="readout-thickness">—</b></span><span title="${escapeHtml(CONFIDENCE_MEANING)}">confidence <b id="readout-confidence">—</b></span>`
     + '<span id="readout-cell" class="muted"></span><span id="readout-status" class="muted"></span><span id="readout-flag" class="flag"></span></div>'
-    + '<p class="note">Point at the photo or the map to read the thickness (to 0.1 nm) and confidence stored for that pixel (coordinates in the original photo); click to move the profile to that column; point along the profile chart to follow that column on the images.</p>'
+    + '<p class="note">Point at the photo or the map to read the thickness (to 0.1 nm) and confidence stored for that pixel (coordinates in the original photo); click to move the profile to that column, or drag to draw the profile along any line; point along the profile chart to follow the line on the images.</p>'
     + `<p class="note"><b>Confidence</b> (0 to 1): ${escapeHtml(CONFIDENCE_MEANING)}</p>`
     + renderColourBar({ minNm: input.colourBar.minNm, maxNm: input.colourBar.maxNm, stops }, thin, 1000)
     + notes.map((n) => `<p class="note downsample-note">${escapeHtml(n)}</p>`).join('')
@@ -106,14 +106,14 @@ export function renderMapSections(input: MapReportInput, name = 'input', options
   const range = finiteRange(grid.thicknessNm);
   const yDomain = niceDomain(Math.min(range?.[0] ?? 0, thin ?? Infinity), Math.max(range?.[1] ?? 1, thin ?? -Infinity), 5);
   const profile = renderLineChart({
-    title: 'Thickness profile along a column', xLabel: 'Row in the photo, top to bottom (px)', yLabel: 'Thickness (nm)', id: 'profile-chart',
-    xDomain: [0, H], yDomain, widthPx: 580, heightPx: 300,
+    title: 'Thickness profile along a line', xLabel: 'Distance along the line from its start (px)', yLabel: 'Thickness (nm)', id: 'profile-chart',
+    xDomain: [0, Math.ceil(Math.hypot(W, H))], yDomain, widthPx: 580, heightPx: 300,
     series: [{ label: 'thickness along the column', points: columnProfile(grid, column), colour: '#0e6b70' }],
     horizontalLines: thin === null ? [] : [{ value: thin, label: `thin threshold ${formatFixed(thin, 1)} nm`, colour: thresholdColour }],
   });
   const charts = `<div class="two-col">
 <section class="card" id="histogram"><h2>Histogram</h2>${histogram}</section>
-<section class="card" id="profile"><h2>Profile <span class="sub">column x = <span id="profile-column">${column}</span> px</span></h2>${profile}</section>
+<section class="card" id="profile"><h2>Profile <span class="sub" id="profile-what"><span id="profile-kind">column x = </span><span id="profile-column">${column}</span><span id="profile-unit"> px</span></span></h2>${profile}<p class="note"><button type="button" id="profile-csv">Download the profile as CSV</button> distance, x, y, thickness and confidence of each sample (the embedded grid's values).</p></section>
 </div>`;
 
   const regions = `<section class="card" id="thin-regions"><h2>Thin regions <span class="sub">${input.thinRegions.length} · ${escapeHtml(thinText)}</span></h2>`
