@@ -192,7 +192,7 @@ export async function mapPhotos(photos: readonly string[], options: MapPhotosOpt
           await atomicWriteFile(join(staging, `${stem}.profile-${k + 1}.csv`), Buffer.from(profileCsv(samples, inspection!.scale.pixelSizeUm), 'utf8'));
         }
         if (writeReport) {
-          const html = renderMapReport({ ...(await mapReportInput(result, photoOptions, photo, record)), calibration: options.calibrationRecord ?? null });
+          const html = renderMapReport({ ...(await mapReportInput(result, photoOptions, photo, record, inspection?.outOfSpec ?? null)), calibration: options.calibrationRecord ?? null });
           await atomicWriteFile(join(staging, `${stem}.report.html`), Buffer.from(html, 'utf8'));
           if (photos.length === 1) await atomicWriteFile(join(staging, 'report.html'), Buffer.from(html, 'utf8'));
         }

@@ -285,7 +285,7 @@ ${legend.join('\n')}
  * painted into the map raster (`pixels`: the full-size pixel of each raster pixel, or null when
  * the raster is the full map) in dashes of white and black (OUT_OF_SPEC_DASH), one pixel wide.
  */
-function withMaskOutline(raster: Uint8Array, mask: Uint8Array | null, pixels: Int32Array | null | undefined, width: number, height: number): Uint8Array {
+export function withMaskOutline(raster: Uint8Array, mask: Uint8Array | null, pixels: Int32Array | null | undefined, width: number, height: number): Uint8Array {
   if (!mask) return raster;
   const at = (x: number, y: number): number => mask[pixels ? pixels[y * width + x] : y * width + x];
   for (let y = 0; y < height; y++) {

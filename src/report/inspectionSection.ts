@@ -42,7 +42,7 @@ export function renderInspectionCard(inspection: Block | null | undefined): stri
     return `<tr><th><code>${escapeHtml(formulas[key])}</code></th><td>${v === null ? '—' : `${formatFixed(v * 100, 2)} %`}</td></tr>`;
   });
   return `<section class="card" id="inspection"><h2>Inspection${verdict ? ` <span class="sub">${verdict.pass ? 'PASS' : 'FAIL'}</span>` : ''}</h2>
-<div class="two-col"><div><table class="values">${rows.join('')}</table>${spec ? '<p class="note">Out-of-spec areas are outlined on the map picture (dashed white and black line).</p>' : ''}</div>
+<div class="two-col"><div><table class="values">${rows.join('')}</table>${spec ? '<p class="note">Out-of-spec areas are outlined on the thickness map (dashed white and black line).</p>' : ''}</div>
 <div><h3>Uniformity over the inspected area</h3><table class="values">${urows.join('')}</table>
 <p class="note">Each figure is named by its formula (common practice): max, min, mean, median and the 5th/95th percentiles of the measured thickness; std is the sample standard deviation (1σ).</p></div></div></section>`;
 }
