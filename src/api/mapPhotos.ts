@@ -185,6 +185,7 @@ export async function mapPhotos(photos: readonly string[], options: MapPhotosOpt
           npy: outputs.has('npy'), tiff: outputs.has('tif'), confidence: outputs.has('confidence'), status: outputs.has('status'),
           images: false, map: outputs.has('map'), flags: outputs.has('flags'), json: outputs.has('json'),
           outline: inspection?.outOfSpec ?? null,
+          outlineLabel: inspection?.spec ? `dashed: out of ${inspection.spec.spec.text}` : null,
         };
         await writeMapOutputs(result, photo, staging, stem, selection, photoOptions, record);
         if (inspection?.points) await atomicWriteFile(join(staging, `${stem}.points.csv`), Buffer.from(pointsCsv(inspection.points), 'utf8'));

@@ -219,6 +219,8 @@ export interface OutputSelection {
   readonly flags?: boolean;
   /** Pixels whose outline the map picture draws (e.g. out of spec, src/inspect); default none. */
   readonly outline?: Uint8Array | null;
+  /** What the outline marks, added to the map picture's title (e.g. `dashed: out of 100±5 nm`). */
+  readonly outlineLabel?: string | null;
   /** The map picture's colour range [min, max] nm (a series' common range); default the map's own. */
   readonly rangeNm?: readonly [number, number] | null;
 }
@@ -291,7 +293,7 @@ async function writeEachOutput(
   if (what.map ?? what.images) {
     const range = what.rangeNm ? { minNm: what.rangeNm[0], maxNm: what.rangeNm[1] } : scaleRangeOf(result);
     const mapPath = join(outDir, `${stem}.map.png`);
-    const mapPng = renderMapPng(result, range, options?.pixelSizeUm ?? null, `${basename(photoPath)} — thickness`, what.outline ?? null);
+    const mapPng = renderMapPng(result, range, options?.pixelSizeUm ?? null, `${basename(photoPath)} — thickness${what.outline && what.outlineLabel ? `; ${what.outlineLabel}` : ''}`, what.outline ?? null);
     start(mapPath, async () => atomicWriteFile(mapPath, await mapPng));
   }
   if (what.flags ?? what.images) {

@@ -188,7 +188,9 @@ async function runMap(inputs: string[], opts: MapCliOptions): Promise<number> {
 
 export function summaryLine(photo: string, result: Pick<MapResult, 'stats' | 'thinRegions' | 'fitted' | 'filmArea' | 'exposureField'>, inspection: Inspection | null = null): string {
   // The warning itself comes from the mapper; the line only says there is nothing to summarise.
-  if (result.filmArea && !result.filmArea.found) return `${photo}: no film found in this photo (no statistics, no thin regions)`;
+  if (result.filmArea && !result.filmArea.found) {
+    return `${photo}: no film found in this photo (no statistics, no thin regions)${inspection?.verdict ? `; spec ${inspection.spec?.spec.text}: FAIL (no film area to inspect)` : ''}`;
+  }
   const s = result.stats;
   const f = (v: number | null, d = 1): string => (v === null ? '–' : v.toFixed(d));
   const thin = s.thin_fraction === null ? '' : `, thin ${f(s.thin_fraction * 100)} %`;
