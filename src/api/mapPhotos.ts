@@ -207,7 +207,10 @@ export async function mapPhotos(photos: readonly string[], options: MapPhotosOpt
       // A calibration's light field made for another photo size holds for the whole run.
       if (error instanceof FieldSizeMismatchError) throw error;
       // A point or line outside the photo is a mistake in the options, not in this photo.
-      if (error instanceof OutsidePhotoError) throw error;
+      if (error instanceof OutsidePhotoError) {
+        if (records.length === 0 && !outDirExisted) removeIfEmpty(outDir);
+        throw error;
+      }
       failed.push(photo);
       hooks.onFailure?.(photo, error);
     }
