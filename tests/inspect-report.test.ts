@@ -5,7 +5,7 @@
  * (tests/report-fixtures.ts, thickness = 100 + x + 1000·y), so every expected value is computed
  * here from that formula, independently of the report code.
  */
-import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
@@ -24,7 +24,10 @@ describe.skipIf(!hasChromium)(`report profile tool in headless Chromium${hasChro
     mkdirSync(outDir, { recursive: true });
     browser = await chromium.launch({ executablePath: chromiumPath, args: ['--headless', '--no-sandbox', '--disable-gpu', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'] });
   });
-  afterAll(async () => { await browser?.close(); });
+  afterAll(async () => {
+    await browser?.close();
+    rmSync(outDir, { recursive: true, force: true });
+  });
 
   it('a drag draws the line; the CSV holds the thickness of each sampled pixel', async () => {
     const W = 64;
