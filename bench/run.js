@@ -4,6 +4,8 @@
 //   map     — `lamella map` end to end against sharp's decode, peak memory, 1–12 MP scaling, and the
 //             12 MP photo under uneven light against it evenly lit (bench/map.js)
 //   series  — `lamella series` frames per second with 1 and 2 workers (bench/series.js, if present)
+//   floor   — CPU time of map and series against the floor of issue 18: decode + a 32³ table
+//             read per pixel + one float32 .npy, with each target and whether it is met (bench/floor.js)
 // Times are wall clock on this machine in this run; ratios against the codec are measured in the
 // same run so that they travel better between machines than the times do.
 import { existsSync } from 'node:fs';
@@ -11,6 +13,7 @@ import { fileURLToPath } from 'node:url';
 import { benchOptics } from './optics.js';
 import { benchColour } from './colour.js';
 import { benchMap, formatMap } from './map.js';
+import { benchFloor, formatFloor } from './floor.js';
 
 const here = (name) => fileURLToPath(new URL(name, import.meta.url));
 const started = performance.now();
@@ -55,6 +58,10 @@ if (existsSync(here('./series.js'))) {
     ].join('\n');
   });
 }
+
+await section('floor: CPU time against decode + 32³ table + one .npy (issue 18 targets)', async () =>
+  formatFloor(await benchFloor()).split('\n').map((line) => `  ${line}`).join('\n'),
+);
 
 console.log(`\nLamella benchmarks — ${new Date().toISOString()}, Node ${process.version}, total ${((performance.now() - started) / 1000).toFixed(0)} s\n`);
 console.log(sections.join('\n\n'));

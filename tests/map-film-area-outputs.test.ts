@@ -13,6 +13,7 @@ import { describe, expect, it } from 'vitest';
 import { filmAreaFromOptions, parseExpect, parseFilmAreaMode } from '../src/cli/filmAreaOptions.js';
 import { summaryLine } from '../src/cli/commands/map.js';
 import { seriesOptionsFrom, type SeriesCliOptions } from '../src/cli/commands/series.js';
+import { seriesJobOptions } from '../src/api/runSeries.js';
 import { UsageError } from '../src/cli/errors.js';
 import {
   FILM_OUTLINE_DASH, THIN_OUTLINE, filmEdge, mapPngLayout, renderFlagsPng, renderMapPng, scaleRangeOf,
@@ -345,9 +346,9 @@ describe('CLI: summary line, --film-area and --expect', () => {
 
   it('series: --film-area and --expect reach each frame\'s MapOptions and change the settings hash', async () => {
     const base: SeriesCliOptions = { stack: 'soap-film', light: 'D65', workers: '1', chunkFrames: '10', maxThickness: '2000', report: false, out: 'unused' };
-    const auto = await seriesOptionsFrom(['a.png'], base, () => undefined);
-    const whole = await seriesOptionsFrom(['a.png'], { ...base, filmArea: 'whole' }, () => undefined);
-    const expected = await seriesOptionsFrom(['a.png'], { ...base, expect: '300-600' }, () => undefined);
+    const auto = await seriesJobOptions(['a.png'], await seriesOptionsFrom(base));
+    const whole = await seriesJobOptions(['a.png'], await seriesOptionsFrom({ ...base, filmArea: 'whole' }));
+    const expected = await seriesJobOptions(['a.png'], await seriesOptionsFrom({ ...base, expect: '300-600' }));
     const configOf = (o: typeof auto) => (o.processor as { config: Parameters<typeof mapOptionsFromConfig>[0] }).config;
     expect(mapOptionsFromConfig(configOf(auto))).toMatchObject({ filmArea: 'auto', expectNm: null });
     expect(mapOptionsFromConfig(configOf(whole))).toMatchObject({ filmArea: 'whole' });
@@ -355,6 +356,6 @@ describe('CLI: summary line, --film-area and --expect', () => {
     // runSeries hashes `mapSettings` (src/series/runSeries.ts): all three must differ.
     const hashes = new Set([auto, whole, expected].map((o) => settingsHash(o.mapSettings)));
     expect(hashes.size).toBe(3);
-    await expect(seriesOptionsFrom(['a.png'], { ...base, filmArea: 'half' }, () => undefined)).rejects.toThrow(/--film-area/);
+    await expect(seriesOptionsFrom({ ...base, filmArea: 'half' })).rejects.toThrow(/--film-area/);
   });
 });

@@ -19,7 +19,7 @@
  */
 import { spawnSync } from 'node:child_process';
 import { createHash } from 'node:crypto';
-import { existsSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
+import { copyFileSync, existsSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -77,7 +77,7 @@ describe('npm pack: what the tarball holds', () => {
     expect(files).toContain('bin/lamella.js');
     expect(files).toContain('dist/index.js');
     expect(files).toContain('dist/index.d.ts');
-    for (const schema of ['map-record', 'series-frame', 'series', 'calibration', 'spectrum', 'chart']) expect(files).toContain(`schemas/${schema}.schema.json`);
+    for (const schema of ['map-record', 'series-frame', 'series', 'calibration', 'spectrum', 'chart', 'flow', 'flow-pair']) expect(files).toContain(`schemas/${schema}.schema.json`);
     // Read at run time (src/colour/observers.ts, lights.ts, src/optics/materialLibrary.ts) with their licence notes.
     for (const data of ['shared/cie/cmf_cie1931_2deg.csv', 'shared/cie/illuminant_D65.csv', 'shared/cie/SOURCES.md', 'shared/materials/water_daimon2007_20C.json', 'shared/materials/SOURCES.md', 'shared/README.md']) {
       expect(files).toContain(data);
@@ -116,6 +116,32 @@ describe('the tarball installed into a fresh folder', () => {
     expect(r.status, r.stderr).toBe(0);
     expect((JSON.parse(r.stdout) as { rows: unknown[] }).rows).toHaveLength(5);
   });
+
+  // The examples read the demo frames by a path relative to themselves (../fixtures/demo), so
+  // they run unchanged from an examples/ folder beside a copy of those frames.
+  it("the README's library examples (examples/*.mjs, word for word) run against the installed package", () => {
+    const readme = readFileSync(join(root, 'README.md'), 'utf8');
+    mkdirSync(join(app, 'examples'), { recursive: true });
+    mkdirSync(join(app, 'fixtures', 'demo'), { recursive: true });
+    for (const k of [1, 2, 3, 4, 5, 6, 8]) copyFileSync(join(root, 'fixtures', 'demo', `film_00${k}.jpg`), join(app, 'fixtures', 'demo', `film_00${k}.jpg`));
+    for (const name of ['map-in-memory.mjs', 'oxide-chart.mjs', 'series-with-progress.mjs']) {
+      const example = readFileSync(join(root, 'examples', name), 'utf8');
+      expect(readme).toContain(example);
+      writeFileSync(join(app, 'examples', name), example);
+    }
+    // The chart and the in-memory map print exactly what they print in the repository.
+    for (const name of ['oxide-chart.mjs', 'map-in-memory.mjs']) {
+      const installed = run(process.execPath, [join('examples', name)], app);
+      expect(installed.status, installed.stderr).toBe(0);
+      const inRepo = run(process.execPath, [join(root, 'examples', name)], root);
+      expect(inRepo.status, inRepo.stderr).toBe(0);
+      expect(installed.stdout).toBe(inRepo.stdout);
+    }
+    const series = run(process.execPath, [join('examples', 'series-with-progress.mjs')], app);
+    expect(series.status, series.stderr).toBe(0);
+    expect(series.stdout).toMatch(/frame 6\/6 \(0 failed\)/);
+    expect(series.stdout).toMatch(/interrupted: false; outputs: .*series\.json/);
+  }, 120_000);
 
   it('a library example imported from the package root: the quarter-wave film reflects 4r²/(1 + r²)² (Born & Wolf 1999, §7.6.1; from memory)', () => {
     writeFileSync(join(app, 'example.mjs'), [

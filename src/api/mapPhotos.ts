@@ -5,7 +5,9 @@
  */
 import { existsSync, readdirSync, rmdirSync } from 'node:fs';
 import { basename, extname, join } from 'node:path';
-import { UsageError } from '../errors.js';
+import { InputError, UsageError } from '../errors.js';
+import { loadCalibrationForRun } from '../calibrate/calibrationFile.js';
+import { expandInputPaths, isGlobPattern } from '../series/expandInputs.js';
 import { calibrateDecoded } from '../calibrate/calibrate.js';
 import { DEFAULT_CALIBRATION_FIT } from '../calibrate/fitCalibration.js';
 import type { KnownRegion } from '../calibrate/knownRegions.js';
@@ -37,7 +39,14 @@ export interface MapPhotosOptions {
   /** Calibrate on each photo itself from these regions of known thickness (the stack's name as given in `stackSpec`). */
   readonly known?: readonly KnownRegion[];
   readonly stackSpec?: string;
-  /** A calibration file's content, shown in the report's calibration panel. */
+  /**
+   * A calibration file from `calibrate`: its photo formation (and light field) is used instead of
+   * fitting each photo. It must have been made for this stack, light, white balance, angle and
+   * camera, unless `ignoreCalibrationMismatch`.
+   */
+  readonly calibrationFile?: string | null;
+  readonly ignoreCalibrationMismatch?: boolean;
+  /** A calibration file's content, shown in the report's calibration panel (set from `calibrationFile` when that is given). */
   readonly calibrationRecord?: Record<string, unknown> | null;
   /** Map photos the decoder reports as damaged as far as they decode. */
   readonly allowDamaged?: boolean;
@@ -50,6 +59,8 @@ export interface MapPhotosOptions {
 }
 
 export interface MapPhotosHooks {
+  /** The batch is known (glob patterns expanded), before any photo is read. */
+  readonly onStart?: (photos: readonly string[]) => void;
   /** A photo enters a stage ('decode', the map's phases, then 'outputs'). */
   readonly onPhase?: (photo: string, index: number, phase: 'decode' | MapPhase | 'outputs') => void;
   /** A warning about a photo, in plain words (prefixed with the photo's name). */
@@ -61,6 +72,8 @@ export interface MapPhotosHooks {
 }
 
 export interface MapPhotosResult {
+  /** The photos of the batch, glob patterns expanded. */
+  readonly photos: readonly string[];
   /** The JSON record of each photo mapped, in order. */
   readonly records: Record<string, unknown>[];
   readonly failed: string[];
@@ -76,17 +89,28 @@ export interface MapPhotosResult {
  * the model cannot use are usage errors for the whole batch; a calibration's light field of
  * another size is too, when the first photo meets it.
  *
- * @param photos photo file paths
+ * @param inputs photo file paths or glob patterns (`'shots/*.jpg'`, expanded in natural order of the names)
  * @param options how to map and what to write where
  * @param hooks what to tell the caller as the batch goes
  * @example
  * const { records, failed } = await mapPhotos(['a.jpg', 'b.jpg'], { map: { stack: resolveStack('soap-film'), light: 'D65', angleRad: 0, thinBelowNm: 50, maxThicknessNm: 2000 }, outDir: 'maps' });
  */
-export async function mapPhotos(photos: readonly string[], options: MapPhotosOptions, hooks: MapPhotosHooks = {}): Promise<MapPhotosResult> {
+export async function mapPhotos(inputs: readonly string[], options: MapPhotosOptions, hooks: MapPhotosHooks = {}): Promise<MapPhotosResult> {
+  const warn = hooks.onWarning ?? ((): void => undefined);
+  const photos = await expandPhotoPatterns(inputs, warn);
+  hooks.onStart?.(photos);
+  if ((options.known ?? []).length > 0 && options.calibrationFile) {
+    throw new UsageError('give either --known (calibrate on the photo) or --calibration (a calibration file), not both');
+  }
+  const calibrated = options.calibrationFile ? await withCalibration(options.map, options.calibrationFile, options) : null;
+  const calibratedMap = calibrated?.map ?? options.map;
   const inspect = options.inspect ?? null;
   const inspecting = inspectionRequested(inspect);
-  if (inspect) checkInspectOptions(inspect, options.map.pixelSizeUm ?? null);
-  const map: MapOptions = inspect?.spec && !options.map.expectNm ? { ...options.map, expectNm: specSearchRangeNm(inspect.spec, options.map.maxThicknessNm) } : options.map;
+  if (inspect) checkInspectOptions(inspect, calibratedMap.pixelSizeUm ?? null);
+  // A spec without --expect keeps the order search near it (src/inspect/spec.ts).
+  const specRange = inspect?.spec && !calibratedMap.expectNm ? specSearchRangeNm(inspect.spec, calibratedMap.maxThicknessNm) : null;
+  const map: MapOptions = specRange ? { ...calibratedMap, expectNm: specRange } : calibratedMap;
+  const calibrationRecord = calibrated?.record ?? options.calibrationRecord ?? null;
   const outputs = new Set(options.outputs ?? MAP_OUTPUT_NAMES);
   const writeReport = outputs.has('report');
   const known = options.known ?? [];
@@ -116,7 +140,6 @@ export async function mapPhotos(photos: readonly string[], options: MapPhotosOpt
   const outDir = await ensureOutputDir(options.outDir, { inputs: runInputs, outputs: plannedOutputs });
   // What a run killed outright (SIGKILL) left here: finish or drop its output set.
   recoverStagedSets(outDir);
-  const warn = hooks.onWarning ?? ((): void => undefined);
   const failed: string[] = [];
   let withThinRegions = 0;
   let outOfSpec = 0;
@@ -153,7 +176,7 @@ export async function mapPhotos(photos: readonly string[], options: MapPhotosOpt
         for (const warning of onPhoto.warnings) warn(`${photo}: calibration: ${warning}`);
       }
       let result = mapDecodedPhoto(decoded, { ...photoOptions, onPhase: hooks.onPhase ? phase : null }, mask, photo);
-      if (map !== options.map && map.expectNm) {
+      if (specRange && map.expectNm) {
         // The search range came from --spec, not from an --expect the user gave: say so.
         const given = `--expect ${map.expectNm[0]}-${map.expectNm[1]} nm`;
         const said = `${map.expectNm[0]}-${map.expectNm[1]} nm (the search range of --spec ${inspect!.spec!.text})`;
@@ -193,7 +216,7 @@ export async function mapPhotos(photos: readonly string[], options: MapPhotosOpt
           await atomicWriteFile(join(staging, `${stem}.profile-${k + 1}.csv`), Buffer.from(profileCsv(samples, inspection!.scale.pixelSizeUm), 'utf8'));
         }
         if (writeReport) {
-          const html = renderMapReport({ ...(await mapReportInput(result, photoOptions, photo, record, inspection?.outOfSpec ?? null)), calibration: options.calibrationRecord ?? null });
+          const html = renderMapReport({ ...(await mapReportInput(result, photoOptions, photo, record, inspection?.outOfSpec ?? null)), calibration: calibrationRecord });
           await atomicWriteFile(join(staging, `${stem}.report.html`), Buffer.from(html, 'utf8'));
           if (photos.length === 1) await atomicWriteFile(join(staging, 'report.html'), Buffer.from(html, 'utf8'));
         }
@@ -226,7 +249,48 @@ export async function mapPhotos(photos: readonly string[], options: MapPhotosOpt
   }
   // A folder this run made and filled with nothing (every photo failed) is not left behind.
   if (records.length === 0 && !outDirExisted) removeIfEmpty(outDir);
-  return { records, failed, withThinRegions, outOfSpec };
+  return { photos, records, failed, withThinRegions, outOfSpec };
+}
+
+/**
+ * Glob patterns expanded as `runSeries` expands them; anything else is a photo path (a missing
+ * file or a folder then fails as that photo, and the other photos go on).
+ */
+async function expandPhotoPatterns(inputs: readonly string[], warn: (message: string) => void): Promise<string[]> {
+  const photos: string[] = [];
+  for (const input of inputs) {
+    if (!isGlobPattern(input) || existsSync(input)) {
+      photos.push(input);
+      continue;
+    }
+    const expanded = await expandInputPaths([input], process.cwd(), { absolute: false });
+    for (const warning of expanded.warnings) warn(warning);
+    photos.push(...expanded.paths.filter((path) => !photos.includes(path)));
+  }
+  if (photos.length === 0) throw new InputError(inputs.join(' '), 'no photos to map (the patterns given match no file)');
+  return photos;
+}
+
+/** The map options with a calibration file's photo formation, after checking it fits the run. */
+async function withCalibration(map: MapOptions, file: string, options: MapPhotosOptions): Promise<{ map: MapOptions; record: Record<string, unknown> }> {
+  const ignoreMismatch = options.ignoreCalibrationMismatch === true;
+  const calibration = await loadCalibrationForRun(file, {
+    stack: options.stackSpec ?? map.stack.name,
+    light: map.light,
+    angleRad: map.angleRad,
+    whiteBalanceLight: map.whiteBalanceLight ?? null,
+    camera: map.camera ?? 'srgb',
+    ignoreMismatch,
+  });
+  return {
+    map: {
+      ...map,
+      filmIndexScale: calibration.filmIndexScale ?? undefined,
+      exposureFixed: calibration.exposureFixed ?? null,
+      exposureFieldFixed: calibration.exposureField ? { ...calibration.exposureField, file, ignoreSizeMismatch: ignoreMismatch } : null,
+    },
+    record: calibration.raw,
+  };
 }
 
 function removeIfEmpty(dir: string): void {

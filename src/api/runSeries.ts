@@ -6,7 +6,7 @@
  * are kept, a rerun resumes).
  */
 import { availableParallelism } from 'node:os';
-import { resolve } from 'node:path';
+import { join, resolve } from 'node:path';
 import { stat } from 'node:fs/promises';
 import { InputError, UsageError } from '../errors.js';
 import { stackFromOptions, type StackCliOptions } from '../optics/stackSettings.js';
@@ -20,6 +20,8 @@ import { DEFAULT_MAX_THICKNESS_NM, defaultThinBelowNm } from '../map/mapDefaults
 import { notedInputFiles } from '../io/inputFiles.js';
 import { MAP_FRAME_PROCESSOR_URL, type MapFrameConfig } from '../series/mapFrameConfig.js';
 import { runSeries as runSeriesEngine, DEFAULT_CHUNK_FRAMES, type SeriesOptions, type SeriesPlan, type SeriesResult } from '../series/runSeries.js';
+import { runFlow, type FlowOptions, type FlowProgress, type FlowResult } from '../flow/runFlow.js';
+import { SERIES_FLOW_DIR } from '../series/seriesReportInput.js';
 import type { Shard } from '../series/parseShard.js';
 import type { FrameEvent, SeriesProgress } from '../series/types.js';
 import { checkInspectOptions, type InspectOptions } from '../inspect/inspectMap.js';
@@ -75,6 +77,12 @@ export interface RunSeriesOptions extends StackSettings {
    * search near it (as `mapPhotos`). Points and profiles are for `map` only.
    */
   readonly inspect?: Pick<InspectOptions, 'spec' | 'passIf' | 'edgeExclusionMm' | 'part'> | null;
+  /**
+   * Also compute the film's flow once the frames are mapped (what `lamella flow OUT --out OUT/flow`
+   * does; true, or its settings) and show it in the report. Not on a shard run: run it with
+   * `aggregateOnly` once all shards are done.
+   */
+  readonly flow?: boolean | Omit<FlowOptions, 'outDir' | 'shard' | 'aggregateOnly'>;
 }
 
 export interface RunSeriesHooks {
@@ -84,7 +92,14 @@ export interface RunSeriesHooks {
   readonly onPlan?: (plan: SeriesPlan) => void;
   /** Aborting stops the series after the frames in flight; `interrupted` is then true. */
   readonly signal?: AbortSignal;
+  /** A warning about the settings, before any frame (e.g. a material used outside its range). */
+  readonly onWarning?: (message: string) => void;
+  /** With `flow`: after each frame pair of the flow. */
+  readonly onFlowProgress?: (progress: FlowProgress) => void;
 }
+
+/** A series' result, with its flow when asked for (null when not computed). */
+export type RunSeriesResult = SeriesResult & { readonly flow: FlowResult | null };
 
 
 /**
@@ -101,14 +116,51 @@ export interface RunSeriesHooks {
  *   onProgress: (p) => console.log(`${p.done}/${p.total}`),
  * });
  */
-export async function runSeries(inputs: readonly string[], options: RunSeriesOptions, hooks: RunSeriesHooks = {}): Promise<SeriesResult> {
-  const job = await seriesJobOptions(inputs, options);
-  return runSeriesEngine({
+export async function runSeries(inputs: readonly string[], options: RunSeriesOptions, hooks: RunSeriesHooks = {}): Promise<RunSeriesResult> {
+  const job = await seriesJobOptions(inputs, options, hooks.onWarning);
+  const result = await runSeriesEngine({
     ...job,
     ...(hooks.signal ? { signal: hooks.signal } : {}),
     ...(hooks.onPlan ? { onPlan: hooks.onPlan } : {}),
     ...(hooks.onProgress ? { onFrame: (event: FrameEvent, progress: SeriesProgress) => hooks.onProgress!(progress, event) } : {}),
   });
+  if (!options.flow) return { ...result, flow: null };
+  return flowAfterSeries(job, result, options.flow === true ? {} : options.flow, hooks);
+}
+
+/**
+ * The flow step of `series --flow`: once the series is mapped (not interrupted, not a shard), the
+ * flow into OUT/flow, then the aggregation again so that the report shows it. A series with fewer
+ * than two mapped frames gets a warning, not an error.
+ */
+export async function flowAfterSeries(
+  job: SeriesOptions, result: SeriesResult, flowOptions: Omit<FlowOptions, 'outDir' | 'shard' | 'aggregateOnly'>,
+  hooks: { readonly signal?: AbortSignal; readonly onFlowProgress?: (progress: FlowProgress) => void } = {},
+): Promise<RunSeriesResult> {
+  if (result.interrupted || hooks.signal?.aborted) return { ...result, flow: null };
+  if (job.shard) {
+    return { ...result, flow: null, warnings: [...result.warnings, 'flow: not computed by a shard run; once all shards are done, aggregate with the flow (aggregate-only with flow), or run `lamella flow OUT --out OUT/flow`'] };
+  }
+  const outDir = resolve(job.cwd ?? process.cwd(), job.outDir);
+  let flow: FlowResult;
+  try {
+    flow = await runFlow(outDir, { ...flowOptions, outDir: join(outDir, SERIES_FLOW_DIR) }, {
+      ...(hooks.signal ? { signal: hooks.signal } : {}), ...(hooks.onFlowProgress ? { onProgress: hooks.onFlowProgress } : {}),
+    });
+  } catch (error) {
+    if (error instanceof InputError && /the flow needs at least two/.test(error.message)) {
+      return { ...result, flow: null, warnings: [...result.warnings, `flow: ${error.message.slice(error.file.length + 2)}`] };
+    }
+    throw error;
+  }
+  const warnings = [...result.warnings, ...flow.warnings.map((w) => `flow: ${w}`)];
+  if (flow.interrupted) return { ...result, interrupted: true, flow, warnings };
+  // The report is written by the aggregation: aggregate again (nothing is mapped) to show the flow.
+  if (job.report !== false) {
+    const again = await runSeriesEngine({ ...job, aggregateOnly: true, ...(hooks.signal ? { signal: hooks.signal } : {}) });
+    if (again.interrupted) return { ...result, interrupted: true, flow, warnings };
+  }
+  return { ...result, flow, warnings };
 }
 
 /** The engine's options for a series (everything but the callbacks and the signal). */

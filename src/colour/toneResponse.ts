@@ -164,20 +164,7 @@ export function createResponseInverse(response: CameraResponse | null | undefine
     };
   }
   const { contrast, gamma, saturation } = response;
-  // Tabulate T⁻¹ on a uniform grid of T by bisection (T is strictly increasing).
-  const table = new Float64Array(INVERSE_SIZE + 2);
-  for (let j = 0; j <= INVERSE_SIZE; j++) {
-    const target = j / INVERSE_SIZE;
-    let lo = 0;
-    let hi = 1;
-    for (let step = 0; step < 40; step++) {
-      const mid = 0.5 * (lo + hi);
-      if (toneAt(mid, contrast, gamma) < target) lo = mid;
-      else hi = mid;
-    }
-    table[j] = 0.5 * (lo + hi);
-  }
-  table[INVERSE_SIZE + 1] = table[INVERSE_SIZE];
+  const table = inverseToneTable(contrast, gamma);
   const invertTone = (value: number): number => {
     const v = value > 0 ? (value < 1 ? value : 1) * INVERSE_SIZE : 0;
     const i = v | 0;
@@ -195,6 +182,38 @@ export function createResponseInverse(response: CameraResponse | null | undefine
       out[offset + 2] = invertTone(y + inverseSaturation * (b - y));
     },
   };
+}
+
+/** The last few inverse tables (a series' frames and a photo's light-field rounds share one). */
+const inverseTables: Array<{ contrast: number; gamma: number; table: Float64Array }> = [];
+/** Forward samples of T per inverse table point: T⁻¹ is read between them by linear interpolation. */
+const FORWARD_PER_INVERSE = 4;
+
+/**
+ * T⁻¹ tabulated on a uniform grid of T (INVERSE_SIZE + 1 points and a guard): T is sampled on a
+ * uniform grid of e four times finer, and each grid value of T is placed between the two samples
+ * that bracket it (T is strictly increasing, so one sweep does it).
+ */
+function inverseToneTable(contrast: number, gamma: number): Float64Array {
+  const cached = inverseTables.find((entry) => entry.contrast === contrast && entry.gamma === gamma);
+  if (cached) return cached.table;
+  const samples = INVERSE_SIZE * FORWARD_PER_INVERSE;
+  const forward = new Float64Array(samples + 1);
+  for (let k = 0; k <= samples; k++) forward[k] = toneAt(k / samples, contrast, gamma);
+  const table = new Float64Array(INVERSE_SIZE + 2);
+  let k = 0;
+  for (let j = 0; j <= INVERSE_SIZE; j++) {
+    const target = j / INVERSE_SIZE;
+    while (k < samples - 1 && forward[k + 1] < target) k++;
+    const lo = forward[k];
+    const hi = forward[k + 1];
+    const f = hi > lo ? Math.min(1, Math.max(0, (target - lo) / (hi - lo))) : 0;
+    table[j] = (k + f) / samples;
+  }
+  table[INVERSE_SIZE + 1] = table[INVERSE_SIZE];
+  inverseTables.unshift({ contrast, gamma, table });
+  if (inverseTables.length > 4) inverseTables.pop();
+  return table;
 }
 
 /** Plain words for a response, e.g. "contrast +0.35, mid-tone gamma 0.92, saturation ×1.24". */

@@ -41,19 +41,25 @@ export function tempPathFor(path: string): string {
   return join(dirname(path), `.${short}.${process.pid}.${randomBytes(4).toString('hex')}.tmp`);
 }
 
-export async function atomicWriteFile(path: string, bytes: Uint8Array): Promise<void> {
+/**
+ * Writes `bytes` to `path` atomically (see the module comment). `bytes` may be one buffer or
+ * pieces written one after the other (a header and a view of an array: no copy of the array).
+ */
+export async function atomicWriteFile(path: string, bytes: Uint8Array | readonly Uint8Array[]): Promise<void> {
   if (typeof path !== 'string' || path.length === 0) {
     throw new TypeError(`path must be a non-empty string, received ${JSON.stringify(path)}`);
   }
-  if (!(bytes instanceof Uint8Array)) {
-    throw new TypeError(`bytes must be a Uint8Array or Buffer, received ${Object.prototype.toString.call(bytes)}`);
+  const pieces = bytes instanceof Uint8Array ? [bytes] : bytes;
+  if (!Array.isArray(pieces) || !pieces.every((piece) => piece instanceof Uint8Array)) {
+    throw new TypeError(`bytes must be a Uint8Array or Buffer (or an array of them), received ${Object.prototype.toString.call(bytes)}`);
   }
   const temp = tempPathFor(path);
   registerTempFile(temp);
   try {
     const handle = await open(temp, 'wx');
     try {
-      await handle.writeFile(bytes);
+      // Each writeFile on the handle continues at its position and loops until all is written.
+      for (const piece of pieces) await handle.writeFile(piece);
       await handle.sync();
     } finally {
       await handle.close();

@@ -59,6 +59,16 @@ function checkGrid(data: Float32Array, width: number, height: number): void {
 }
 
 export function encodeFloatTiff(data: Float32Array, width: number, height: number, options: FloatTiffOptions = {}): Buffer {
+  const [header, body] = floatTiffParts(data, width, height, options);
+  return Buffer.concat([header, body]);
+}
+
+/**
+ * The TIFF file as two pieces to write one after the other: header, IFD, resolution and
+ * description (padded to the strip's offset), then the samples — a view of `data`, not a copy,
+ * on little-endian hosts.
+ */
+export function floatTiffParts(data: Float32Array, width: number, height: number, options: FloatTiffOptions = {}): [Buffer, Uint8Array] {
   checkGrid(data, width, height);
   const pixelSizeUm = options.pixelSizeUm ?? null;
   const resolution: [number, number] = pixelSizeUm === null ? [1, 1] : pixelsPerCentimetre(pixelSizeUm);
@@ -88,7 +98,7 @@ export function encodeFloatTiff(data: Float32Array, width: number, height: numbe
   const rationalOffset = ifdOffset + ifdSize; // two RATIONALs, 8 bytes each
   const descriptionOffset = rationalOffset + 16;
   const dataOffset = Math.ceil((descriptionOffset + (description?.length ?? 0)) / 16) * 16;
-  const out = Buffer.alloc(dataOffset + data.byteLength);
+  const out = Buffer.alloc(dataOffset);
   out.write('II', 0, 'latin1');
   out.writeUInt16LE(42, 2);
   out.writeUInt32LE(ifdOffset, 4);
@@ -111,11 +121,13 @@ export function encodeFloatTiff(data: Float32Array, width: number, height: numbe
     out.writeUInt32LE(resolution[1], at + 4);
   }
   if (description) description.copy(out, descriptionOffset);
-  const view = new DataView(out.buffer, out.byteOffset + dataOffset, data.byteLength);
+  if (new Uint8Array(Uint16Array.of(1).buffer)[0] === 1) return [out, new Uint8Array(data.buffer, data.byteOffset, data.byteLength)];
+  const body = Buffer.alloc(data.byteLength);
+  const view = new DataView(body.buffer, body.byteOffset, data.byteLength);
   for (let i = 0; i < data.length; i++) view.setFloat32(i * 4, data[i], true);
-  return out;
+  return [out, body];
 }
 
 export async function writeFloatTiff(path: string, data: Float32Array, width: number, height: number, options: FloatTiffOptions = {}): Promise<void> {
-  await atomicWriteFile(path, encodeFloatTiff(data, width, height, options));
+  await atomicWriteFile(path, floatTiffParts(data, width, height, options));
 }

@@ -11,6 +11,15 @@ function shapeLiteral(shape: readonly number[]): string {
 
 /** Encodes `data` (C order) with the given shape into `.npy` v1.0 bytes, little-endian. */
 export function encodeNpy(data: NpyData, shape: readonly number[]): Buffer {
+  const [header, body] = npyParts(data, shape);
+  return Buffer.concat([header, body]);
+}
+
+/**
+ * The `.npy` file as two pieces to write one after the other: the header, and the array's own
+ * bytes — a view of `data`, not a copy, on little-endian hosts (all that Node runs on in practice).
+ */
+export function npyParts(data: NpyData, shape: readonly number[]): [Buffer, Uint8Array] {
   const descr = descrFor(data);
   const count = checkShape(shape);
   if (count !== data.length) {
@@ -22,19 +31,16 @@ export function encodeNpy(data: NpyData, shape: readonly number[]): Buffer {
   const padding = (NPY_ALIGN - (unpadded % NPY_ALIGN)) % NPY_ALIGN;
   header = `${header}${' '.repeat(padding)}\n`;
   if (header.length > 0xffff) throw new RangeError(`npy header too long for format 1.0 (${header.length} bytes)`);
-  const out = Buffer.alloc(preamble + header.length + data.byteLength);
-  out.set(NPY_MAGIC, 0);
-  out[6] = 1; // major version
-  out[7] = 0; // minor version
-  out.writeUInt16LE(header.length, 8);
-  out.write(header, preamble, 'latin1');
-  const body = new Uint8Array(data.buffer, data.byteOffset, data.byteLength);
-  if (isLittleEndianHost()) {
-    out.set(body, preamble + header.length);
-  } else {
-    writeLittleEndian(out, preamble + header.length, data);
-  }
-  return out;
+  const head = Buffer.alloc(preamble + header.length);
+  head.set(NPY_MAGIC, 0);
+  head[6] = 1; // major version
+  head[7] = 0; // minor version
+  head.writeUInt16LE(header.length, 8);
+  head.write(header, preamble, 'latin1');
+  if (isLittleEndianHost()) return [head, new Uint8Array(data.buffer, data.byteOffset, data.byteLength)];
+  const body = Buffer.alloc(data.byteLength);
+  writeLittleEndian(body, 0, data);
+  return [head, body];
 }
 
 function isLittleEndianHost(): boolean {
@@ -56,5 +62,5 @@ function writeLittleEndian(out: Buffer, offset: number, data: NpyData): void {
 
 /** Writes a `.npy` file atomically. */
 export async function writeNpy(path: string, data: NpyData, shape: readonly number[]): Promise<void> {
-  await atomicWriteFile(path, encodeNpy(data, shape));
+  await atomicWriteFile(path, npyParts(data, shape));
 }

@@ -31,6 +31,7 @@
  * on photos with enough distinct colours (mapPixels.ts, MIN_RESPONSE_COLOURS); without
  * `fitResponse` the start's response (a series' previous frame) is held, else the identity.
  */
+import { selectKth } from './statistics.js';
 import { fitLeastSquares } from '../fit/fitLeastSquares.js';
 import { decodeSrgb } from '../colour/srgb.js';
 import { type ColourTable, predictEncodedTable } from './colourTable.js';
@@ -362,8 +363,7 @@ function trimOutliers(
   for (let i = 0; i < n; i++) {
     costs[i] = distanceAt(predicted, assigned[i], samples[i * 3], samples[i * 3 + 1], samples[i * 3 + 2]);
   }
-  const sorted = Float64Array.from(costs).sort();
-  const median = sorted[Math.floor(n / 2)];
+  const median = selectKth(Float64Array.from(costs), Math.floor(n / 2));
   const limit = Math.max(TRIM_FACTOR * median, 1e-6);
   for (let i = 0; i < n; i++) keep[i] = costs[i] <= limit ? 1 : 0;
   void count;

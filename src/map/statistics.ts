@@ -9,7 +9,9 @@
  *   (pixels with an estimate + too-dark pixels): too-dark pixels ("thinner than the dark limit
  *   or no film") count as thin; pixels with no estimate for other reasons are left out.
  * Percentiles use linear interpolation between order statistics (Hyndman & Fan 1996, type 7,
- * as NumPy's default).
+ * as NumPy's default). The order statistics are exact, found in two passes over the map without
+ * copying it: a histogram of the top 16 bits of each value's sort key, then, within the few top
+ * bins that hold a wanted rank, a histogram of the low 16 bits.
  */
 import { type MapStatistics, PixelStatus } from './types.js';
 
@@ -23,22 +25,28 @@ export function computeMapStatistics(
   let dark = 0;
   let thin = 0;
   let n = 0;
+  let sum = 0;
+  let min = Infinity;
+  let max = -Infinity;
+  // Pass 1: counts, sum, extremes, and a histogram of the top 16 bits of each estimate's sort key.
+  const bits = new Uint32Array(thicknessNm.buffer, thicknessNm.byteOffset, thicknessNm.length);
+  const high = new Uint32Array(KEY_BINS);
   for (let i = 0; i < status.length; i++) {
     const s = status[i];
     if (s === PixelStatus.excluded || s === PixelStatus.notFilm || s === PixelStatus.undecided) continue;
     film++;
-    if (s === PixelStatus.dark) dark++;
-    else if (s === PixelStatus.ok) n++;
-  }
-  const values = new Float32Array(n);
-  let m = 0;
-  let sum = 0;
-  for (let i = 0; i < status.length; i++) {
-    if (status[i] !== PixelStatus.ok) continue;
+    if (s === PixelStatus.dark) {
+      dark++;
+      continue;
+    }
+    if (s !== PixelStatus.ok) continue;
+    n++;
     const v = thicknessNm[i];
-    values[m++] = v;
     sum += v;
+    if (v < min) min = v;
+    if (v > max) max = v;
     if (thinBelowNm !== null && v < thinBelowNm) thin++;
+    high[sortKey(bits[i]) >>> 16]++;
   }
   const coverage = film > 0 ? n / film : 0;
   const thinFraction = thinBelowNm === null || n + dark === 0 ? null : (thin + dark) / (n + dark);
@@ -49,22 +57,30 @@ export function computeMapStatistics(
     };
   }
   const mean = sum / n;
-  let squares = 0;
-  let min = Infinity;
-  let max = -Infinity;
-  for (let i = 0; i < n; i++) {
-    const v = values[i];
-    squares += (v - mean) ** 2;
-    if (v < min) min = v;
-    if (v > max) max = v;
+  const percents = [5, 50, 95];
+  const ranks: number[] = [];
+  for (const percent of percents) {
+    const lo = Math.floor(((n - 1) * percent) / 100);
+    ranks.push(lo, Math.min(n - 1, lo + 1));
   }
-  const median = percentileSelect(values, 50);
-  const p05 = percentileSelect(values, 5);
-  const p95 = percentileSelect(values, 95);
+  // Pass 2: the squared deviations, and a histogram of the low 16 bits within each top bin that
+  // holds a wanted rank: the exact order statistics without copying or sorting the estimates.
+  const wanted = orderStatistics(thicknessNm, bits, status, high, ranks, mean);
+  const at = (rank: number): number => wanted.values[ranks.indexOf(rank)];
+  const percentile = (percent: number): number => {
+    const h = ((n - 1) * percent) / 100;
+    const lo = Math.floor(h);
+    const a = at(lo);
+    if (lo + 1 >= n || h === lo) return a;
+    return a + (h - lo) * (at(lo + 1) - a);
+  };
+  const median = percentile(50);
+  const p05 = percentile(5);
+  const p95 = percentile(95);
   return {
     mean_nm: mean,
     median_nm: median,
-    std_nm: n > 1 ? Math.sqrt(squares / (n - 1)) : 0,
+    std_nm: n > 1 ? Math.sqrt(wanted.squares / (n - 1)) : 0,
     min_nm: min,
     max_nm: max,
     p05_nm: p05,
@@ -75,6 +91,67 @@ export function computeMapStatistics(
     thin_regions: thinRegionCount,
     film_area_px: film,
   };
+}
+
+const KEY_BINS = 1 << 16;
+
+/** A float32's bits as an unsigned key in the order of the values (negatives flipped). */
+function sortKey(bits: number): number {
+  return (bits & 0x80000000) !== 0 ? ~bits >>> 0 : (bits | 0x80000000) >>> 0;
+}
+
+/** The float32 whose sort key this is. */
+function fromSortKey(key: number): number {
+  const bits = (key & 0x80000000) !== 0 ? key & 0x7fffffff : ~key >>> 0;
+  return new Float32Array(Uint32Array.of(bits).buffer)[0];
+}
+
+/**
+ * The values of the given ranks (0-based, ascending order) among the pixels with an estimate,
+ * from the top-16-bit histogram `high`, and the sum of squared deviations from `mean` (in the
+ * pixels' order, as a straight two-pass variance sums them).
+ */
+function orderStatistics(
+  thicknessNm: Float32Array,
+  bits: Uint32Array,
+  status: Uint8Array,
+  high: Uint32Array,
+  ranks: readonly number[],
+  mean: number,
+): { values: number[]; squares: number } {
+  const binOf = new Int32Array(ranks.length);
+  const below = new Float64Array(ranks.length);
+  const slotOfBin = new Int32Array(KEY_BINS).fill(-1);
+  const slotBins: number[] = [];
+  for (let r = 0; r < ranks.length; r++) {
+    let cumulative = 0;
+    let bin = 0;
+    while (cumulative + high[bin] <= ranks[r]) cumulative += high[bin++];
+    binOf[r] = bin;
+    below[r] = cumulative;
+    if (slotOfBin[bin] < 0) {
+      slotOfBin[bin] = slotBins.length;
+      slotBins.push(bin);
+    }
+  }
+  const low = new Uint32Array(slotBins.length * KEY_BINS);
+  let squares = 0;
+  for (let i = 0; i < status.length; i++) {
+    if (status[i] !== PixelStatus.ok) continue;
+    const d = thicknessNm[i] - mean;
+    squares += d * d;
+    const key = sortKey(bits[i]);
+    const slot = slotOfBin[key >>> 16];
+    if (slot >= 0) low[slot * KEY_BINS + (key & 0xffff)]++;
+  }
+  const values = ranks.map((rank, r) => {
+    const base = slotOfBin[binOf[r]] * KEY_BINS;
+    let cumulative = below[r];
+    let k = 0;
+    while (cumulative + low[base + k] <= rank) cumulative += low[base + k++];
+    return fromSortKey(((binOf[r] << 16) | k) >>> 0);
+  });
+  return { values, squares };
 }
 
 /** Percentile (0–100) of ascending-sorted values, Hyndman & Fan type 7. */

@@ -27,7 +27,9 @@ export function findThinRegions(
   if (thinBelowNm === null) return { regions, labels };
   const isThin = (i: number): boolean =>
     status[i] === PixelStatus.dark || (status[i] === PixelStatus.ok && thicknessNm[i] < thinBelowNm);
-  const stack = new Int32Array(cells);
+  // The flood fill's stack grows with the largest region seen (doubling), not with the photo:
+  // a second photo-sized array would cost 48 MB on a 12-MP photo.
+  let stack = new Int32Array(Math.min(cells, 1 << 16));
   let nextId = 1;
   for (let seed = 0; seed < cells; seed++) {
     if (labels[seed] !== 0 || !isThin(seed)) continue;
@@ -64,6 +66,11 @@ export function findThinRegions(
           const n = ny * width + nx;
           if (labels[n] === 0 && isThin(n)) {
             labels[n] = id;
+            if (top === stack.length) {
+              const grown = new Int32Array(Math.min(cells, stack.length * 2));
+              grown.set(stack);
+              stack = grown;
+            }
             stack[top++] = n;
           }
         }

@@ -1,6 +1,8 @@
 /**
  * The frame slider of a series report: one thumbnail (or a placeholder) per frame, a range input
  * and a play button, and the selected frame's figures; the page script switches between them.
+ * Where the series has a flow (`lamella flow`), a frame's picture is its flow overlay: arrows of
+ * the motion to the next frame over its thickness map.
  */
 import { escapeHtml } from './escapeHtml.js';
 import { imageDataUri } from './imageDataUri.js';
@@ -11,6 +13,9 @@ export function renderFrameViewer(frames: SeriesFrameRow[]): string {
   const last = frames.length - 1;
   const thumbs = frames.map((f, i) => {
     const hidden = i === last ? '' : ' hidden';
+    if (f.flowPng !== undefined) {
+      return `<img data-frame-index="${i}"${hidden} src="${imageDataUri(f.flowPng, `frames[${i}].flowPng`)}" alt="Flow from ${escapeHtml(f.frame)} to the next frame, arrows over its thickness map"/>`;
+    }
     if (f.mapPng === undefined) {
       return `<div class="empty" data-frame-index="${i}"${hidden}>No thumbnail for ${escapeHtml(f.frame)}</div>`;
     }

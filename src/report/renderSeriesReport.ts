@@ -9,6 +9,7 @@ import { checkFiniteOrNull, checkRecord, checkString, checkStringArray, describe
 import { escapeHtml } from './escapeHtml.js';
 import { formatFixed, formatNm } from './formatNumber.js';
 import { renderFrameViewer } from './frameViewer.js';
+import { renderFlowSection } from './flowSection.js';
 import { renderMapSections, renderParameterSections, tile } from './mapSections.js';
 import { renderPage } from './pageShell.js';
 import { checkMapReportInput } from './renderMapReport.js';
@@ -131,13 +132,14 @@ export function renderSeriesReport(input: SeriesReportInput): string {
       + `${renderDrainageChart(frames, input.fits, input.thinBelowNm, rupture)}`
       + (thinChart ?? '<p class="note">No thin fraction: no thin threshold was set.</p>') + '</section>',
     renderFrameViewer(frames),
+    ...(input.flow ? [renderFlowSection(input.flow)] : []),
     `<section class="card" id="fits"><h2>Drainage fits</h2>${renderFitsTable(input.fits)}`
       + '<p class="note">Crossings beyond the last frame are extrapolations of the fitted model, not observations'
       + `${rupture ? `; the fits use the frames up to ${escapeHtml(rupture.lastFrame)} (the last with film), and no crossing is predicted past the rupture` : ''}.</p></section>`,
     `<section class="card" id="frame-table"><h2>All frames</h2><details${frames.length <= 30 ? ' open' : ''}><summary>${frames.length} frames</summary>`
       + `${renderFramesTable(frames)}</details></section>`,
   ];
-  const nav: Array<[string, string]> = [...(rupture ? [['rupture', 'Rupture'] as [string, string]] : []), ['drainage', 'Drainage'], ['frames', 'Frames'], ['fits', 'Fits'], ['frame-table', 'All frames']];
+  const nav: Array<[string, string]> = [...(rupture ? [['rupture', 'Rupture'] as [string, string]] : []), ['drainage', 'Drainage'], ['frames', 'Frames'], ...(input.flow ? [['flow', 'Flow'] as [string, string]] : []), ['fits', 'Fits'], ['frame-table', 'All frames']];
   let data: Record<string, unknown> = {};
   if (input.lastMap) {
     const map = renderMapSections(input.lastMap, 'input.lastMap', { parameterTables: false });

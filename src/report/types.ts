@@ -118,6 +118,17 @@ export interface SeriesFrameRow {
   filmFound?: boolean;
   /** Small thumbnail map for the slider, optional. */
   mapPng?: Buffer;
+  /** Optional: the flow overlay from this frame to the next (arrows over its thickness map, `lamella flow`); shown in the slider instead of the thumbnail. */
+  flowPng?: Buffer;
+}
+
+/** The flow of a series (`lamella flow` into OUT/flow): per frame pair, its summary. */
+export interface SeriesFlowView {
+  /** Velocity unit, "px/s" or "µm/s". */
+  unit: string;
+  pairs: Array<{ frame: string; nextFrame: string; timeS: number; dtS: number; meanSpeed: number | null; p95Speed: number | null; meanUp: number | null; coverage: number }>;
+  /** Thin patches tracked (patches.csv). */
+  patches: number;
 }
 
 /** When the film of a series ruptured: the last frame with film and the first without. */
@@ -163,6 +174,8 @@ export interface SeriesReportInput {
   lastMap?: MapReportInput;
   /** Optional: what the frames observed and the reliable predictions (`series.json` `observations`); they lead the page. */
   observations?: ReportSeriesObservations | null;
+  /** Optional: the series' flow (a flow view: arrows in the frame slider, speed against time). */
+  flow?: SeriesFlowView | null;
 }
 
 /** As `series.json` `observations` (src/series/observations.ts). */

@@ -7,7 +7,7 @@
  */
 import { readFile, stat } from 'node:fs/promises';
 import { join } from 'node:path';
-import type { DrainageFitSummary, SeriesFrameRow, SeriesReportInput, SeriesRupture } from '../report/types.js';
+import type { DrainageFitSummary, SeriesFlowView, SeriesFrameRow, SeriesReportInput, SeriesRupture } from '../report/types.js';
 import { DRAINAGE_MODELS } from './fits/drainageModels.js';
 import type { DrainageFit } from './fits/fitDrainage.js';
 import { framesDir } from './frameFiles.js';
@@ -61,15 +61,55 @@ async function thumbnail(outDir: string, frame: string, stems: Map<string, strin
   }
 }
 
+/** Where `lamella series --flow` (and `lamella flow OUT --out OUT/flow`) writes the flow; the report shows it from there. */
+export const SERIES_FLOW_DIR = 'flow';
+
+/**
+ * The flow view from OUT/flow/flow.json (format `lamella-flow`), with the overlay of each pair
+ * whose first frame is a frame of the series; null when there is none or it cannot be read.
+ */
+async function readFlowView(outDir: string, frameNames: ReadonlySet<string>, withOverlays: boolean): Promise<{ view: SeriesFlowView; overlays: Map<string, Buffer> } | null> {
+  let json: Record<string, unknown>;
+  try {
+    json = JSON.parse(await readFile(join(outDir, SERIES_FLOW_DIR, 'flow.json'), 'utf8')) as Record<string, unknown>;
+  } catch {
+    return null;
+  }
+  if (json.format !== 'lamella-flow' || !Array.isArray(json.pairs)) return null;
+  const num = (v: unknown): number | null => (typeof v === 'number' && Number.isFinite(v) ? v : null);
+  const settings = (json.settings ?? {}) as Record<string, unknown>;
+  const pairs: SeriesFlowView['pairs'] = [];
+  const overlays = new Map<string, Buffer>();
+  for (const p of json.pairs as Array<Record<string, unknown>>) {
+    if (typeof p.frame !== 'string' || !frameNames.has(p.frame) || num(p.time_s) === null || num(p.dt_s) === null) continue;
+    const s = (p.summary ?? {}) as Record<string, unknown>;
+    pairs.push({
+      frame: p.frame, nextFrame: String(p.next_frame), timeS: num(p.time_s)!, dtS: num(p.dt_s)!,
+      meanSpeed: num(s.mean_speed_per_s), p95Speed: num(s.p95_speed_per_s), meanUp: num(s.mean_up_per_s), coverage: num(s.coverage) ?? 0,
+    });
+    if (withOverlays && typeof p.stem === 'string' && !/[\/]/.test(p.stem)) {
+      const path = join(outDir, SERIES_FLOW_DIR, `${p.stem}.flow.png`);
+      try {
+        if ((await stat(path)).size <= MAX_THUMB_BYTES * 2) overlays.set(p.frame, await readFile(path));
+      } catch {
+        // No overlay (written with --no-overlays): the slider keeps the thumbnail.
+      }
+    }
+  }
+  return { view: { unit: settings.unit === 'µm/s' ? 'µm/s' : 'px/s', pairs, patches: num(json.patches) ?? 0 }, overlays };
+}
+
 export async function seriesReportInput(
   summary: SeriesSummary,
   rows: readonly SeriesRow[],
   options: { title: string; generatedAt: string; outDir: string; stems: Map<string, string> },
 ): Promise<SeriesReportInput> {
   const withThumbs = rows.length <= MAX_THUMB_FRAMES;
+  const flow = await readFlowView(options.outDir, new Set(rows.map((r) => r.frame)), withThumbs);
   const frames: SeriesFrameRow[] = [];
   for (const r of rows) {
     const mapPng = withThumbs ? await thumbnail(options.outDir, r.frame, options.stems) : undefined;
+    const flowPng = flow?.overlays.get(r.frame);
     frames.push({
       frame: r.frame,
       timeS: r.timeS,
@@ -82,6 +122,7 @@ export async function seriesReportInput(
       ...(r.filmAreaPx !== undefined ? { filmAreaPx: r.filmAreaPx } : {}),
       ...(r.filmFound === false ? { filmFound: false } : {}),
       ...(mapPng ? { mapPng } : {}),
+      ...(flowPng ? { flowPng } : {}),
     });
   }
   const rupture = summary.rupture;
@@ -100,6 +141,7 @@ export async function seriesReportInput(
     warnings: [...summary.warnings],
     rupture: rupture ? reportRupture(rupture) : null,
     observations: summary.observations,
+    ...(flow ? { flow: flow.view } : {}),
   };
 }
 

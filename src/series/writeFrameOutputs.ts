@@ -9,7 +9,7 @@ import { join } from 'node:path';
 import { threadId } from 'node:worker_threads';
 import type { MapResult } from '../map/types.js';
 import { LAMELLA_VERSION } from '../version.js';
-import { encodeNpy } from '../io/encodeNpy.js';
+import { npyParts } from '../io/encodeNpy.js';
 import { describeWriteError } from '../io/atomicWriteFile.js';
 import { framesDir, partialDirName } from './frameFiles.js';
 import { frameRecordToJson } from './frameRecordJson.js';
@@ -51,9 +51,9 @@ export async function writeFrameOutputs(
   await rm(staging, { recursive: true, force: true });
   await mkdir(staging, { recursive: true });
   try {
-    await writeFile(join(staging, `${frame.stem}.thickness.npy`), encodeNpy(result.thicknessNm, [result.height, result.width]));
-    await writeFile(join(staging, `${frame.stem}.status.npy`), encodeNpy(result.status, [result.height, result.width]));
-    await writeFile(join(staging, `${frame.stem}.confidence.npy`), encodeNpy(result.confidence, [result.height, result.width]));
+    await writeFile(join(staging, `${frame.stem}.thickness.npy`), npyParts(result.thicknessNm, [result.height, result.width]));
+    await writeFile(join(staging, `${frame.stem}.status.npy`), npyParts(result.status, [result.height, result.width]));
+    await writeFile(join(staging, `${frame.stem}.confidence.npy`), npyParts(result.confidence, [result.height, result.width]));
     const drawn = previews ? ((await previews(result, frame.path, staging, frame.stem)) as { rangeNm?: [number, number] } | undefined) : undefined;
     const recordName = `${frame.stem}.json`;
     const full = drawn?.rangeNm ? { ...record, previewRangeNm: drawn.rangeNm } : record;

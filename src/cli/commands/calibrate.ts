@@ -8,7 +8,7 @@ import { CAMERA_HELP, parseCameraOption } from '../cameraOption.js';
 import { LIGHT_FIELD_HELP, parseLightFieldOption } from '../lightFieldOption.js';
 import type { Command } from 'commander';
 import { atomicWriteFile } from '../../io/atomicWriteFile.js';
-import { calibratePhotoFile } from '../../calibrate/calibrate.js';
+import { calibrate } from '../../api/calibrate.js';
 import { CALIBRATION_PARAMETERS, DEFAULT_CALIBRATION_FIT, type CalibrationParameter } from '../../calibrate/fitCalibration.js';
 import { UsageError } from '../errors.js';
 import { checkOutputFile } from '../outputFile.js';
@@ -60,7 +60,7 @@ export function register(program: Command): void {
       const known = (opts.known ?? []).map(parseKnown);
       if (known.length === 0) throw new UsageError('--known is required at least once: X,Y,W,H=NM (a rectangle of known thickness)');
       await checkOutputFile(opts.out, { force: opts.force === true, inputs: [photo], example: 'cal.json' });
-      const record = await calibratePhotoFile(photo, {
+      const record = await calibrate(photo, {
         stack,
         stackSpec: opts.stack ?? '',
         light: opts.light,

@@ -6,12 +6,10 @@
 import { describeResponse, isStrongResponse } from '../../colour/toneResponse.js';
 import { CAMERA_HELP, parseCameraOption } from '../cameraOption.js';
 import { OUTPUTS_HELP, parseOutputsOption } from '../outputsOption.js';
-import { mapPhotos } from '../../api/mapPhotos.js';
+import { mapPhotos, type MapPhotosOptions } from '../../api/mapPhotos.js';
 import { LIGHT_FIELD_HELP, parseLightFieldOption } from '../lightFieldOption.js';
 import type { Command } from 'commander';
-import { existsSync } from 'node:fs';
-import { expandInputPaths, isGlobPattern } from '../../series/expandInputs.js';
-import { EXIT_FINDING, EXIT_INPUT, InputError, oneLine } from '../errors.js';
+import { EXIT_FINDING, EXIT_INPUT, oneLine } from '../errors.js';
 import { addStackOptions, stackFromOptions, type StackCliOptions } from '../stackOptions.js';
 import { addFilmAreaOptions, filmAreaFromOptions, type FilmAreaCliOptions } from '../filmAreaOptions.js';
 import { collect, parseKnown } from '../parseGeometry.js';
@@ -20,7 +18,6 @@ import { parseDecimal } from '../parseDecimal.js';
 import { lineOfLight } from '../../map/mapPhoto.js';
 import { addLightOptions, lightsFromOptions } from '../lightOptions.js';
 import type { MapOptions, MapResult } from '../../map/types.js';
-import { loadCalibrationForRun } from '../../calibrate/calibrationFile.js';
 import { addInspectOptions, inspectFromOptions, type InspectCliOptions } from '../inspectOptions.js';
 import { inspectionSummaryText, type Inspection } from '../../inspect/inspectMap.js';
 
@@ -77,102 +74,62 @@ export function register(program: Command): void {
     });
 }
 
-async function runMap(inputs: string[], opts: MapCliOptions): Promise<number> {
-  const warn = (message: string): void => {
-    if (!opts.quiet) process.stderr.write(`lamella: warning: ${message}\n`);
-  };
-  // Glob patterns are expanded as `lamella series` expands them; anything else is a photo path
-  // (a missing file or a folder then fails as that photo, and the other photos go on).
-  const photos: string[] = [];
-  for (const input of inputs) {
-    if (!isGlobPattern(input) || existsSync(input)) {
-      photos.push(input);
-      continue;
-    }
-    const expanded = await expandInputPaths([input], process.cwd(), { absolute: false });
-    for (const warning of expanded.warnings) warn(warning);
-    photos.push(...expanded.paths.filter((path) => !photos.includes(path)));
-  }
-  if (photos.length === 0) throw new InputError(inputs.join(' '), 'no photos to map (the patterns given match no file)');
+/** Checks the options and builds the library call (what to map, and what to write where). */
+export function mapJobFromOptions(opts: MapCliOptions, warn: (message: string) => void): MapPhotosOptions {
   const { stack, angleRad } = stackFromOptions(opts, { onWarning: warn });
   // Check the lights before any photo is read: a bad name is a usage error, not a failed photo.
   lightsFromOptions(opts);
   lineOfLight(opts.light);
-  const camera = parseCameraOption(opts.camera);
-  const lightField = parseLightFieldOption(opts.lightField);
   const outputs = parseOutputsOption(opts.outputs);
   if (!opts.report) outputs.delete('report');
   const { thinBelowNm, maxThicknessNm, region, maskPath, anchors, pixelSizeUm, filmArea, expectNm } = filmAreaFromOptions(opts);
   const inspect = inspectFromOptions(opts);
-  if ((opts.known ?? []).length > 0 && opts.calibration) {
-    throw new UsageError('give either --known (calibrate on the photo) or --calibration (a calibration file), not both');
-  }
-  const calibration = opts.calibration
-    ? await loadCalibrationForRun(opts.calibration, {
-        stack: opts.stack ?? '',
-        light: opts.light,
-        angleRad,
-        whiteBalanceLight: opts.whiteBalance ?? null,
-        camera,
-        ignoreMismatch: opts.ignoreCalibrationMismatch === true,
-      })
-    : null;
-  const options: MapOptions = {
-    stack,
-    angleRad,
-    light: opts.light,
-    whiteBalanceLight: opts.whiteBalance ?? null,
-    camera,
-    filmIndexScale: calibration?.filmIndexScale ?? undefined,
-    thinBelowNm,
-    region,
-    maskPath,
-    anchors,
-    maxThicknessNm,
-    pixelSizeUm,
-    exposureFixed: calibration?.exposureFixed ?? null,
-    exposureFieldFixed: calibration?.exposureField
-      ? { ...calibration.exposureField, file: opts.calibration!, ignoreSizeMismatch: opts.ignoreCalibrationMismatch === true }
-      : null,
-    lightField,
-    filmArea,
-    expectNm,
+  const map: MapOptions = {
+    stack, angleRad, light: opts.light, whiteBalanceLight: opts.whiteBalance ?? null, camera: parseCameraOption(opts.camera),
+    thinBelowNm, region, maskPath, anchors, maxThicknessNm, pixelSizeUm, lightField: parseLightFieldOption(opts.lightField), filmArea, expectNm,
     ...(opts.threads !== undefined ? { threads: parseThreads(opts.threads) } : {}),
   };
+  return {
+    map,
+    outDir: opts.out,
+    outputs,
+    known: (opts.known ?? []).map(parseKnown),
+    stackSpec: opts.stack ?? '',
+    calibrationFile: opts.calibration ?? null,
+    ignoreCalibrationMismatch: opts.ignoreCalibrationMismatch === true,
+    allowDamaged: opts.allowDamaged === true,
+    inspect,
+  };
+}
+
+async function runMap(inputs: string[], opts: MapCliOptions): Promise<number> {
+  const warn = (message: string): void => {
+    if (!opts.quiet) process.stderr.write(`lamella: warning: ${message}\n`);
+  };
+  const job = mapJobFromOptions(opts, warn);
   // On a terminal, the stage each photo is in, on one line rewritten in place (never on a pipe).
   const showPhases = process.stderr.isTTY === true && !opts.quiet;
   const clearPhase = (): void => void (showPhases && process.stderr.write('\r\x1b[K'));
-  const { records, failed, withThinRegions: thin, outOfSpec } = await mapPhotos(
-    photos,
-    {
-      map: options,
-      outDir: opts.out,
-      outputs,
-      known: (opts.known ?? []).map(parseKnown),
-      stackSpec: opts.stack ?? '',
-      calibrationRecord: calibration?.raw ?? null,
-      allowDamaged: opts.allowDamaged === true,
-      inspect,
+  let count = inputs.length;
+  const { photos, records, failed, withThinRegions: thin, outOfSpec } = await mapPhotos(inputs, job, {
+    onPhase: showPhases
+      ? (photo, index, phase) => process.stderr.write(`\r\x1b[Klamella: ${photo}${count > 1 ? ` (${index + 1}/${count})` : ''}: ${PHASE_WORDS[phase]}…`)
+      : undefined,
+    onWarning: (message) => {
+      clearPhase();
+      warn(message);
     },
-    {
-      onPhase: showPhases
-        ? (photo, index, phase) => process.stderr.write(`\r\x1b[Klamella: ${photo}${photos.length > 1 ? ` (${index + 1}/${photos.length})` : ''}: ${PHASE_WORDS[phase]}…`)
-        : undefined,
-      onWarning: (message) => {
-        clearPhase();
-        warn(message);
-      },
-      onPhoto: (photo, result, _record, inspection) => {
-        clearPhase();
-        for (const warning of result.warnings) warn(`${photo}: ${warning}`);
-        if (!opts.json && !opts.quiet) process.stdout.write(`${summaryLine(photo, result, inspection)}\n`);
-      },
-      onFailure: (photo, error) => {
-        clearPhase();
-        process.stderr.write(`lamella: ${oneLine(error).startsWith(photo) ? '' : `${photo}: `}${oneLine(error)}\n`);
-      },
+    onPhoto: (photo, result, _record, inspection) => {
+      clearPhase();
+      for (const warning of result.warnings) warn(`${photo}: ${warning}`);
+      if (!opts.json && !opts.quiet) process.stdout.write(`${summaryLine(photo, result, inspection)}\n`);
     },
-  );
+    onFailure: (photo, error) => {
+      clearPhase();
+      process.stderr.write(`lamella: ${oneLine(error).startsWith(photo) ? '' : `${photo}: `}${oneLine(error)}\n`);
+    },
+    onStart: (batch) => void (count = batch.length),
+  });
   // One shape for one photo or many: an array of records (README, "--json").
   if (opts.json) process.stdout.write(`${JSON.stringify(records, null, 2)}\n`);
   if (failed.length > 0) {

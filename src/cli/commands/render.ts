@@ -10,15 +10,12 @@ import type { Command } from 'commander';
 import { Option } from 'commander';
 import type { ObserverName } from '../../colour/observers.js';
 import { CsvFormatError } from '../../colour/readNumericCsv.js';
-import { readCameraSensitivities } from '../../colour/readCameraSensitivities.js';
-import { buildCamera } from '../../colour/camera.js';
 import { assertNoInputOverwritten } from '../../io/ensureOutputDir.js';
-import { readThicknessGrid } from '../../io/readThicknessGrid.js';
 import { imageFormatFromPath, writeImage } from '../../io/writeImage.js';
 import { checkOutputFile } from '../outputFile.js';
 import { DataFileError } from '../../optics/dataFileError.js';
 import type { Polarisation } from '../../optics/types.js';
-import { renderPhoto } from '../../render/renderPhoto.js';
+import { render } from '../../api/render.js';
 import { InputError, UsageError } from '../errors.js';
 import { addStackOptions, parseNumberOption, stackFromOptions, type StackCliOptions } from '../stackOptions.js';
 import { addLightOptions, lightsFromOptions } from '../lightOptions.js';
@@ -69,29 +66,18 @@ async function run(file: string, opts: RenderCliOptions): Promise<void> {
   if (pngScaleNm !== undefined && pngScaleNm <= 0) throw new UsageError(`--png-scale must be nm per count > 0, received ${pngScaleNm}`);
 
   const { light, whiteBalance: whiteBalanceLight } = lightsFromOptions(opts);
-  let camera;
-  if (opts.camera === 'linear') {
-    camera = buildCamera({ light, whiteBalance: whiteBalanceLight, observer: opts.observer, linear: true });
-  } else if (opts.camera && opts.camera !== 'srgb') {
-    try {
-      camera = buildCamera({ light, whiteBalance: whiteBalanceLight, observer: opts.observer, sensitivities: readCameraSensitivities(opts.camera) });
-    } catch (error) {
-      if (error instanceof CsvFormatError) throw new InputError(error.file, error.message.slice(error.file.length).replace(/^[,:]\s*/, ''));
-      throw error;
-    }
-  }
   const { stack, angleRad } = stackFromOptions(opts, { onWarning: (message) => process.stderr.write(`lamella: warning: ${message}\n`) });
-  // The stack, material, SPD and camera files were read after the first check: none may be --out.
+  // The stack, material and SPD files were read after the first check: none may be --out.
   assertNoInputOverwritten([], [opts.out]);
-  const grid = await readThicknessGrid(file, { pngScaleNm });
   let result;
   try {
-    result = renderPhoto(grid.data, grid.width, grid.height, {
-      stack, light, angleRad, polarisation: opts.polarisation, observer: opts.observer, whiteBalanceLight, camera,
-      exposure, flare, noiseSigma, seed, bitDepth,
+    result = await render(file, {
+      stack, light, angleRad, polarisation: opts.polarisation, observer: opts.observer, whiteBalanceLight, camera: opts.camera,
+      exposure, flare, noiseSigma, seed, bitDepth, pngScaleNm,
     });
   } catch (error) {
     if (error instanceof DataFileError) throw new InputError(error.file, error.detail);
+    if (error instanceof CsvFormatError) throw new InputError(error.file, error.message.slice(error.file.length).replace(/^[,:]\s*/, ''));
     throw error;
   }
   for (const warning of result.warnings) process.stderr.write(`lamella: warning: ${file}: ${warning}\n`);

@@ -11,8 +11,9 @@ import { InputError, UsageError, EXIT_FINDING, EXIT_INPUT } from '../errors.js';
 import { addStackOptions, parseNumberOption, type StackCliOptions } from '../stackOptions.js';
 import { addFilmAreaOptions, filmAreaFromOptions, parseExpect, type FilmAreaCliOptions } from '../filmAreaOptions.js';
 import { parseShard } from '../../series/parseShard.js';
-import { runSeries, DEFAULT_CHUNK_FRAMES, type SeriesOptions } from '../../series/runSeries.js';
-import { seriesJobOptions } from '../../api/runSeries.js';
+import { DEFAULT_CHUNK_FRAMES } from '../../series/runSeries.js';
+import { runSeries, type RunSeriesOptions, type RunSeriesResult } from '../../api/runSeries.js';
+import { formatFlowSummary } from './flow.js';
 import { addInspectOptions, inspectFromOptions, type InspectCliOptions } from '../inspectOptions.js';
 import { formatProgressBar, formatProgressLine } from '../../series/progressText.js';
 import { formatSeriesSummary } from '../../series/summaryText.js';
@@ -42,6 +43,7 @@ export interface SeriesCliOptions extends StackCliOptions, FilmAreaCliOptions, I
   report: boolean;
   out: string;
   allowDamaged?: boolean;
+  flow?: boolean;
 }
 
 const YEAR_S = 31_536_000;
@@ -68,7 +70,7 @@ function progressWriter(quiet: boolean): (p: SeriesProgress) => void {
 }
 
 /** Checks the options and builds the library call (everything but callbacks and the signal). */
-export async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions, warn: (m: string) => void): Promise<SeriesOptions> {
+export async function seriesOptionsFrom(opts: SeriesCliOptions): Promise<RunSeriesOptions> {
   const fps = positive(opts.fps, '--fps');
   const intervalS = positive(opts.interval, '--interval');
   if (fps !== null && intervalS !== null) throw new UsageError('give --fps or --interval, not both');
@@ -100,7 +102,7 @@ export async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions
   }
   // Lights are checked here with the CLI's messages (the library checks them too).
   lightsFromOptions(opts);
-  return seriesJobOptions(inputs, {
+  return {
     stack: opts.stack, filmIndex: opts.filmIndex, angle: opts.angle, extrapolate: opts.extrapolate,
     light: opts.light, whiteBalance: opts.whiteBalance ?? null,
     camera: parseCameraOption(opts.camera), lightField: parseLightFieldOption(opts.lightField),
@@ -111,7 +113,8 @@ export async function seriesOptionsFrom(inputs: string[], opts: SeriesCliOptions
     workers: positive(opts.workers, '--workers', true)!, chunkFrames: positive(opts.chunkFrames, '--chunk-frames', true)!, shard,
     aggregateOnly: opts.aggregateOnly === true, previews: opts.previews === true, report: opts.report, allowDamaged: opts.allowDamaged === true,
     inspect,
-  }, warn);
+    ...(opts.flow ? { flow: true } : {}),
+  };
 }
 
 /**
@@ -159,7 +162,7 @@ function cliError(error: unknown, inputs: string[]): unknown {
 
 async function run(inputs: string[], opts: SeriesCliOptions): Promise<void> {
   const warn = (m: string) => !opts.quiet && process.stderr.write(`lamella: warning: ${m}\n`);
-  const options = await seriesOptionsFrom(inputs, opts, warn);
+  const options = await seriesOptionsFrom(opts);
   const controller = new AbortController();
   let signalName: NodeJS.Signals | null = null;
   const onSignal = (name: NodeJS.Signals) => {
@@ -169,20 +172,23 @@ async function run(inputs: string[], opts: SeriesCliOptions): Promise<void> {
   process.once('SIGINT', onSignal);
   process.once('SIGTERM', onSignal);
   const progress = progressWriter(opts.quiet === true);
-  let result;
+  let result: RunSeriesResult;
   try {
-    result = await runSeries({
-      ...options,
+    result = await runSeries(inputs, options, {
       signal: controller.signal,
+      onWarning: warn,
       onPlan: (plan) => {
         // On a re-run, say how many frames are mapped again and why.
         if (!opts.quiet && plan.stored > 0 && plan.remap.count > 0) {
           process.stderr.write(`lamella: ${plan.remap.count} of ${plan.frames} frame(s) to map: ${plan.remap.why}\n`);
         }
       },
-      onFrame: (event, p) => {
+      onProgress: (p, event) => {
         if (event.outcome === 'failed') process.stderr.write(`${process.stderr.isTTY && !opts.quiet ? '\n' : ''}lamella: ${event.message}\n`);
         progress(p);
+      },
+      onFlowProgress: (p) => {
+        if (!opts.quiet) process.stderr.write(`flow: ${p.done}/${p.total} pair(s), ${p.pair} ${p.outcome === 'skipped' ? 'already done' : 'done'}\n`);
       },
     });
   } catch (error) {
@@ -199,6 +205,7 @@ async function run(inputs: string[], opts: SeriesCliOptions): Promise<void> {
   for (const w of result.warnings) warn(optionNames(w));
   for (const f of result.failures) if (!failedNow.has(f)) process.stderr.write(`lamella: ${f}\n`);
   if (!opts.quiet) process.stdout.write(`${formatSeriesSummary(result).join('\n')}\n`);
+  if (!opts.quiet && result.flow) process.stdout.write(`${formatFlowSummary(result.flow).join('\n')}\n`);
   if (result.failures.length > 0) process.exitCode = EXIT_INPUT;
   else if (opts.failIfOutOfSpec && (result.summary?.inspection?.framesFailed ?? 0) > 0) process.exitCode = EXIT_FINDING;
 }
@@ -226,6 +233,7 @@ export function register(program: Command): void {
     .option('--aggregate-only', 'map nothing; aggregate the per-frame results already in OUT (after shard runs)')
     .option('--previews', 'also write <frame>.map.png and <frame>.flags.png per frame (all maps in one colour range: the series\' own, or --range)')
     .option('--range <min-max>', 'colour range of the previews and the report\'s frame slider, nm (e.g. 0-1200); default the series\' own (lowest 5th to highest 95th percentile)')
+    .option('--flow', 'also compute the film\'s flow (as `lamella flow OUT --out OUT/flow`) once the frames are mapped, and show it in the report')
     .option('--allow-damaged', 'map frames the decoder reports as damaged as far as they decode (a warning; the rest has no estimate)')
     .option('--quiet', 'no progress display, warnings or summary (failed frames are still reported)')
     .addOption(new Option('--no-report', 'do not write report.html'))
