@@ -9,6 +9,9 @@
 // Jobs: one call each, as the CLI's commands (results in memory; the library never prints).
 export { mapPhoto, type MapPhotoOptions } from './api/mapPhoto.js';
 export { mapPhotos, type MapPhotosOptions, type MapPhotosHooks, type MapPhotosResult } from './api/mapPhotos.js';
+export { compareMaps, type CompareMapsOptions, type CompareMapsResult } from './api/compareMaps.js';
+export { parseSpec, parsePassRule, type ThicknessSpec, type PassRule } from './inspect/spec.js';
+export type { InspectOptions } from './inspect/inspectMap.js';
 export { calibrate, type CalibratePhotoOptions } from './api/calibrate.js';
 export { runSeries, type RunSeriesOptions, type RunSeriesHooks, type RunSeriesResult, type StackSettings } from './api/runSeries.js';
 export { flowFromSeries, type FlowOptions, type FlowCallbacks, type FlowResult, type FlowProgress, type FlowPairRecord, type FlowSummary, type PatchRow } from './api/flowFromSeries.js';

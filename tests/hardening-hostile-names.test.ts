@@ -14,7 +14,7 @@ import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { csvText } from '../src/io/csvCell.js';
 import { formatSeriesCsv } from '../src/series/seriesCsv.js';
-import { mapIndexPage } from '../src/map/mapIndexPage.js';
+import { folderIndexPage, readFolderRecords } from '../src/inspect/folderSummary.js';
 
 const bin = new URL('../bin/lamella.js', import.meta.url).pathname;
 const demo = new URL('../fixtures/demo/', import.meta.url).pathname;
@@ -25,18 +25,21 @@ const cli = (cwd: string, ...args: string[]) => spawnSync(process.execPath, [bin
 
 describe('index page links', () => {
   it('are ./-relative and percent-encoded: no scheme, fragment or query can come from a name', () => {
-    const html = mapIndexPage([
-      { stem: 'javascript:alert(5)', file: 'javascript:alert(5).report.html' },
-      { stem: 'run#3', file: 'run#3.report.html' },
-      { stem: 'a?b c"<x>', file: 'a?b c"<x>.report.html' },
-    ]);
-    const hrefs = [...html.matchAll(/href="([^"]*)"/g)].map((m) => m[1]);
-    expect(hrefs).toEqual(['./javascript%3Aalert(5).report.html', './run%233.report.html', './a%3Fb%20c%22%3Cx%3E.report.html']);
+    // The index is rebuilt from the map records in the folder (src/inspect/folderSummary.ts).
+    const folder = join(dir, 'index-links');
+    mkdirSync(folder, { recursive: true });
+    for (const stem of ['javascript:alert(5)', 'run#3', 'a?b c"<x>']) {
+      writeFileSync(join(folder, `${stem}.json`), JSON.stringify({ lamella_map_record: 1, photo: `${stem}.jpg`, statistics: {}, film_area: { found: true }, warnings: [] }));
+      writeFileSync(join(folder, `${stem}.report.html`), '<!doctype html>');
+    }
+    const html = folderIndexPage(folder, readFolderRecords(folder));
+    const hrefs = [...html.matchAll(/href="([^"]*)"/g)].map((m) => m[1]).filter((h) => h.endsWith('.report.html'));
+    expect(hrefs).toEqual(['./a%3Fb%20c%22%3Cx%3E.report.html', './javascript%3Aalert(5).report.html', './run%233.report.html']);
     // Resolved against the page, each link stays the file it names (WHATWG URL parser).
     const page = 'file:///out/report.html';
-    expect(decodeURIComponent(new URL(hrefs[0], page).pathname)).toBe('/out/javascript:alert(5).report.html');
-    expect(new URL(hrefs[1], page).hash).toBe('');
-    expect(new URL(hrefs[2], page).search).toBe('');
+    expect(decodeURIComponent(new URL(hrefs[1], page).pathname)).toBe('/out/javascript:alert(5).report.html');
+    expect(new URL(hrefs[2], page).hash).toBe('');
+    expect(new URL(hrefs[0], page).search).toBe('');
   });
 
   it('a real multi-photo run with such names writes working links', () => {

@@ -83,8 +83,8 @@ describe.skipIf(!canMount)('a full disk (tmpfs of 512 KiB)', () => {
     expect(run.stderr).toHaveLength(2);
     expect(run.stderr[0]).toMatch(/^lamella: .*full\/out\/large\.[a-z.]+: cannot write output file \(no space left on the device, ENOSPC\)$/);
     expect(run.stderr[1]).toBe('lamella: 1 of 3 photo(s) failed: large.png');
-    // small1 and small2 whole; nothing of large; no temp files.
-    expect(run.files).toEqual([...SIX.map((s) => `small1${s}`), ...SIX.map((s) => `small2${s}`)].sort());
+    // small1 and small2 whole; nothing of large; no temp files; the folder's summary.csv (issue 19) of the two.
+    expect(run.files).toEqual([...SIX.map((s) => `small1${s}`), ...SIX.map((s) => `small2${s}`), 'summary.csv'].sort());
   });
 
   it('series: frames that do not fit are reported, no .partial- folder or temp file is left', () => {

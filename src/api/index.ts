@@ -8,4 +8,5 @@ export { chart, type ChartJobOptions, type ChartResult, type ChartFormat } from 
 export { spectrum, type SpectrumJobOptions, type SpectrumResult } from './spectrum.js';
 export { render, type RenderJobOptions, type ThicknessMapInput } from './render.js';
 export { MAP_OUTPUT_FILES, MAP_OUTPUT_NAMES, type MapOutputName } from '../map/outputNames.js';
+export { compareMaps, type CompareMapsOptions, type CompareMapsResult } from './compareMaps.js';
 export { flowFromSeries, type FlowOptions, type FlowCallbacks, type FlowResult, type FlowProgress, type FlowPairRecord, type FlowSummary, type PatchRow } from './flowFromSeries.js';

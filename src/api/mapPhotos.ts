@@ -19,12 +19,15 @@ import { MAP_MAX_PIXELS } from '../io/limits.js';
 import { provenanceOf } from '../io/provenance.js';
 import { readPhoto } from '../io/readPhoto.js';
 import { recoverStagedSets, writeOutputSet } from '../io/writeOutputSet.js';
-import { mapIndexPage } from '../map/mapIndexPage.js';
 import { colourTableFor, FieldSizeMismatchError, lineOfLight, mapDecodedPhoto, mapResultJson, readMask, writeMapOutputs, type MappedPhoto } from '../map/mapPhoto.js';
 import { mapReportInput } from '../map/mapReportInput.js';
 import { MAP_OUTPUT_FILES, MAP_OUTPUT_NAMES, type MapOutputName } from '../map/outputNames.js';
 import type { MapOptions, MapPhase } from '../map/types.js';
 import { renderMapReport } from '../report/index.js';
+import { folderIndexPage, readFolderRecords, summaryCsv } from '../inspect/folderSummary.js';
+import { checkInspectOptions, inspectionJson, inspectionRequested, inspectMap, pointsCsv, profileCsv, type Inspection, type InspectOptions } from '../inspect/inspectMap.js';
+import { OutsidePhotoError } from '../inspect/samplePoints.js';
+import { specSearchRangeNm } from '../inspect/spec.js';
 
 export interface MapPhotosOptions {
   /** How to map (the stack resolved); `maskPath` is read once per photo. */
@@ -47,6 +50,12 @@ export interface MapPhotosOptions {
   readonly calibrationRecord?: Record<string, unknown> | null;
   /** Map photos the decoder reports as damaged as far as they decode. */
   readonly allowDamaged?: boolean;
+  /**
+   * Coating inspection (src/inspect): spec and pass/fail, edge exclusion, scale from the part,
+   * points and profiles. A spec without `map.expectNm` also restricts the order search to the
+   * spec widened by its width on each side (src/inspect/spec.ts, specSearchRangeNm).
+   */
+  readonly inspect?: InspectOptions | null;
 }
 
 export interface MapPhotosHooks {
@@ -57,7 +66,7 @@ export interface MapPhotosHooks {
   /** A warning about a photo, in plain words (prefixed with the photo's name). */
   readonly onWarning?: (message: string) => void;
   /** A photo's outputs are written. */
-  readonly onPhoto?: (photo: string, result: MappedPhoto, record: Record<string, unknown>) => void;
+  readonly onPhoto?: (photo: string, result: MappedPhoto, record: Record<string, unknown>, inspection: Inspection | null) => void;
   /** A photo failed (the batch goes on). */
   readonly onFailure?: (photo: string, error: unknown) => void;
 }
@@ -70,6 +79,8 @@ export interface MapPhotosResult {
   readonly failed: string[];
   /** Photos with at least one thin region in their film. */
   readonly withThinRegions: number;
+  /** Photos whose inspection verdict is fail (0 without a spec). */
+  readonly outOfSpec: number;
 }
 
 /**
@@ -92,12 +103,22 @@ export async function mapPhotos(inputs: readonly string[], options: MapPhotosOpt
     throw new UsageError('give either --known (calibrate on the photo) or --calibration (a calibration file), not both');
   }
   const calibrated = options.calibrationFile ? await withCalibration(options.map, options.calibrationFile, options) : null;
-  const map = calibrated?.map ?? options.map;
+  const calibratedMap = calibrated?.map ?? options.map;
+  const inspect = options.inspect ?? null;
+  const inspecting = inspectionRequested(inspect);
+  if (inspect) checkInspectOptions(inspect, calibratedMap.pixelSizeUm ?? null);
+  // A spec without --expect keeps the order search near it (src/inspect/spec.ts).
+  const specRange = inspect?.spec && !calibratedMap.expectNm ? specSearchRangeNm(inspect.spec, calibratedMap.maxThicknessNm) : null;
+  const map: MapOptions = specRange ? { ...calibratedMap, expectNm: specRange } : calibratedMap;
   const calibrationRecord = calibrated?.record ?? options.calibrationRecord ?? null;
   const outputs = new Set(options.outputs ?? MAP_OUTPUT_NAMES);
   const writeReport = outputs.has('report');
   const known = options.known ?? [];
-  const suffixes = Object.values(MAP_OUTPUT_FILES);
+  const inspectSuffixes = [
+    ...(inspect?.points ? ['.points.csv'] : []),
+    ...(inspect?.profiles ?? []).map((_, k) => `.profile-${k + 1}.csv`),
+  ];
+  const suffixes = [...Object.values(MAP_OUTPUT_FILES), ...inspectSuffixes];
   const stems = photos.map((p) => basename(p, extname(p)));
   // Names that differ only in case (a.jpg, A.JPG) name one file on case-insensitive file systems.
   const folded = stems.map((s) => s.toLowerCase());
@@ -109,7 +130,7 @@ export async function mapPhotos(inputs: readonly string[], options: MapPhotosOpt
   }
   // Every file the run reads (photos, mask, and the stack, material, SPD, camera and calibration
   // files read before) against every output, by identity, before any work.
-  const plannedOutputs = stems.flatMap((stem) => suffixes.map((suffix) => join(options.outDir, stem + suffix))).concat(join(options.outDir, 'report.html'));
+  const plannedOutputs = stems.flatMap((stem) => suffixes.map((suffix) => join(options.outDir, stem + suffix))).concat(join(options.outDir, 'report.html'), join(options.outDir, 'summary.csv'));
   const runInputs = [...photos.map((path) => ({ path, role: 'photo' })), ...(map.maskPath ? [{ path: map.maskPath, role: '--mask' }] : [])];
   assertNoInputOverwritten(runInputs, plannedOutputs);
   // Build the colour table once before any photo: a film, light or angle the model cannot use
@@ -121,8 +142,8 @@ export async function mapPhotos(inputs: readonly string[], options: MapPhotosOpt
   recoverStagedSets(outDir);
   const failed: string[] = [];
   let withThinRegions = 0;
+  let outOfSpec = 0;
   const records: Record<string, unknown>[] = [];
-  const reports: Array<{ stem: string; file: string }> = [];
   for (const [index, photo] of photos.entries()) {
     const stem = stems[index];
     const phase = (name: 'decode' | MapPhase | 'outputs'): void => hooks.onPhase?.(photo, index, name);
@@ -154,11 +175,29 @@ export async function mapPhotos(inputs: readonly string[], options: MapPhotosOpt
         };
         for (const warning of onPhoto.warnings) warn(`${photo}: calibration: ${warning}`);
       }
-      const result = mapDecodedPhoto(decoded, { ...photoOptions, onPhase: hooks.onPhase ? phase : null }, mask, photo);
+      let result = mapDecodedPhoto(decoded, { ...photoOptions, onPhase: hooks.onPhase ? phase : null }, mask, photo);
+      if (specRange && map.expectNm) {
+        // The search range came from --spec, not from an --expect the user gave: say so.
+        const given = `--expect ${map.expectNm[0]}-${map.expectNm[1]} nm`;
+        const said = `${map.expectNm[0]}-${map.expectNm[1]} nm (the search range of --spec ${inspect!.spec!.text})`;
+        result = { ...result, warnings: result.warnings.map((w) => w.split(given).join(said)) };
+      }
+      const inspection = inspecting && inspect ? inspectMap(result, inspect, photoOptions.pixelSizeUm ?? null) : null;
+      if (inspection && inspection.scale.pixelSizeUm !== null && photoOptions.pixelSizeUm == null) {
+        // The scale found from the part holds for this photo's areas, scale bar and TIFF.
+        const px = inspection.scale.pixelSizeUm;
+        photoOptions = { ...photoOptions, pixelSizeUm: px };
+        result = {
+          ...result,
+          thinRegions: result.thinRegions.map((r) => ({ ...r, areaUm2: r.areaPx * px * px })),
+          ...(result.filmArea ? { filmArea: { ...result.filmArea, areaUm2: result.filmArea.areaPx * px * px } } : {}),
+        };
+      }
       phase('outputs');
       // Which Lamella made it, from which files (SHA-256 of the photo, mask and data files read).
       const record = {
         ...mapResultJson(result, photoOptions, photo),
+        ...(inspection ? { inspection: inspectionJson(inspection) } : {}),
         provenance: await provenanceOf([{ path: photo, role: 'photo' }, ...(map.maskPath ? [{ path: map.maskPath, role: '--mask' }] : []), ...notedInputFiles()]),
       };
       // The photo's new outputs replace its old ones all together or not at all, even when
@@ -168,32 +207,49 @@ export async function mapPhotos(inputs: readonly string[], options: MapPhotosOpt
         const selection = {
           npy: outputs.has('npy'), tiff: outputs.has('tif'), confidence: outputs.has('confidence'), status: outputs.has('status'),
           images: false, map: outputs.has('map'), flags: outputs.has('flags'), json: outputs.has('json'),
+          outline: inspection?.outOfSpec ?? null,
+          outlineLabel: inspection?.spec ? `dashed: out of ${inspection.spec.spec.text}` : null,
         };
         await writeMapOutputs(result, photo, staging, stem, selection, photoOptions, record);
+        if (inspection?.points) await atomicWriteFile(join(staging, `${stem}.points.csv`), Buffer.from(pointsCsv(inspection.points), 'utf8'));
+        for (const [k, samples] of inspection?.profiles.entries() ?? []) {
+          await atomicWriteFile(join(staging, `${stem}.profile-${k + 1}.csv`), Buffer.from(profileCsv(samples, inspection!.scale.pixelSizeUm), 'utf8'));
+        }
         if (writeReport) {
-          const html = renderMapReport({ ...(await mapReportInput(result, photoOptions, photo, record)), calibration: calibrationRecord });
+          const html = renderMapReport({ ...(await mapReportInput(result, photoOptions, photo, record, inspection?.outOfSpec ?? null)), calibration: calibrationRecord });
           await atomicWriteFile(join(staging, `${stem}.report.html`), Buffer.from(html, 'utf8'));
           if (photos.length === 1) await atomicWriteFile(join(staging, 'report.html'), Buffer.from(html, 'utf8'));
         }
       });
-      if (writeReport) reports.push({ stem, file: `${stem}.report.html` });
       records.push(record);
       // Thin regions lie in the film only; a photo without film has none to report.
       if (result.thinRegions.length > 0 && result.filmArea?.found !== false) withThinRegions++;
-      hooks.onPhoto?.(photo, result, record);
+      if (inspection?.verdict && !inspection.verdict.pass) outOfSpec++;
+      hooks.onPhoto?.(photo, result, record, inspection);
     } catch (error) {
       // A calibration's light field made for another photo size holds for the whole run.
       if (error instanceof FieldSizeMismatchError) throw error;
+      // A point or line outside the photo is a mistake in the options, not in this photo.
+      if (error instanceof OutsidePhotoError) {
+        if (records.length === 0 && !outDirExisted) removeIfEmpty(outDir);
+        throw error;
+      }
       failed.push(photo);
       hooks.onFailure?.(photo, error);
     }
   }
-  if (writeReport && photos.length > 1 && reports.length > 0) {
-    await atomicWriteFile(join(outDir, 'report.html'), Buffer.from(mapIndexPage(reports), 'utf8'));
+  // The folder's summary and index, rebuilt from every map record in it (this run's and earlier
+  // runs'), whenever the run mapped several photos or the folder holds several maps.
+  if (records.length > 0) {
+    const inFolder = readFolderRecords(outDir);
+    if (photos.length > 1 || inFolder.length > 1) {
+      await atomicWriteFile(join(outDir, 'summary.csv'), Buffer.from(summaryCsv(inFolder), 'utf8'));
+      if (writeReport) await atomicWriteFile(join(outDir, 'report.html'), Buffer.from(folderIndexPage(outDir, inFolder), 'utf8'));
+    }
   }
   // A folder this run made and filled with nothing (every photo failed) is not left behind.
   if (records.length === 0 && !outDirExisted) removeIfEmpty(outDir);
-  return { photos, records, failed, withThinRegions };
+  return { photos, records, failed, withThinRegions, outOfSpec };
 }
 
 /**

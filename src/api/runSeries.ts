@@ -24,6 +24,8 @@ import { runFlow, type FlowOptions, type FlowProgress, type FlowResult } from '.
 import { SERIES_FLOW_DIR } from '../series/seriesReportInput.js';
 import type { Shard } from '../series/parseShard.js';
 import type { FrameEvent, SeriesProgress } from '../series/types.js';
+import { checkInspectOptions, type InspectOptions } from '../inspect/inspectMap.js';
+import { passRuleText, specSearchRangeNm } from '../inspect/spec.js';
 
 /** The film stack as the CLI's `--stack`, `--film-index`, `--angle` (degrees) and `--extrapolate` give it. */
 export type StackSettings = StackCliOptions;
@@ -69,6 +71,12 @@ export interface RunSeriesOptions extends StackSettings {
   /** Write report.html (default true). */
   readonly report?: boolean;
   readonly allowDamaged?: boolean;
+  /**
+   * Each frame's coating inspection (src/inspect): spec share and verdict in series.csv and
+   * series.json, uniformity in the frame records. A spec without `expectNm` also keeps the order
+   * search near it (as `mapPhotos`). Points and profiles are for `map` only.
+   */
+  readonly inspect?: Pick<InspectOptions, 'spec' | 'passIf' | 'edgeExclusionMm' | 'part'> | null;
   /**
    * Also compute the film's flow once the frames are mapped (what `lamella flow OUT --out OUT/flow`
    * does; true, or its settings) and show it in the report. Not on a shard run: run it with
@@ -169,7 +177,9 @@ export async function seriesJobOptions(inputs: readonly string[], options: RunSe
   const anchors = options.anchors ?? [];
   const pixelSizeUm = options.pixelSizeUm ?? null;
   const filmArea = options.filmArea ?? 'auto';
-  const expectNm = options.expectNm ?? null;
+  const inspect = options.inspect ?? null;
+  if (inspect) checkInspectOptions(inspect, options.pixelSizeUm ?? null);
+  const expectNm = options.expectNm ?? (inspect?.spec ? specSearchRangeNm(inspect.spec, maxThicknessNm) : null);
   const rangeNm = options.rangeNm ?? null;
   const calibration = options.calibration
     ? await loadCalibrationForRun(options.calibration, { stack: options.stack ?? '', light: options.light, angleRad, whiteBalanceLight: options.whiteBalance ?? null, camera, ignoreMismatch: options.ignoreCalibrationMismatch === true })
@@ -191,6 +201,7 @@ export async function seriesJobOptions(inputs: readonly string[], options: RunSe
     lightField,
     region, maskPath, anchors, pixelSizeUm, filmArea, expectNm,
     ...(options.allowDamaged ? { allowDamaged: true } : {}),
+    ...(inspect ? { inspect } : {}),
   };
   const select = options.select ?? null;
   return {
@@ -210,6 +221,11 @@ export async function seriesJobOptions(inputs: readonly string[], options: RunSe
       // Part of the settings hash: changing either re-maps the frames.
       filmArea, ...(expectNm !== null ? { expectNm } : {}),
       ...(lightField !== 'auto' ? { lightField } : {}),
+      // Part of the settings hash: a new spec or rule re-judges (and may re-map) the frames.
+      ...(inspect ? { inspect: {
+        spec: inspect.spec?.text ?? null, passIf: inspect.spec ? passRuleText(inspect.passIf ?? { kind: 'in-spec', minShare: 0.99 }) : null,
+        edgeExclusionMm: inspect.edgeExclusionMm ?? null, part: inspect.part ? `${inspect.part.kind} ${inspect.part.sizeMm} mm` : null,
+      } } : {}),
     },
     calibration: calibration?.raw ?? null,
     // Stack, material, SPD and calibration files read above, and the mask: by content.

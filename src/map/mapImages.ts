@@ -187,7 +187,7 @@ export function mapPngLayout(width: number, height: number, present: { readonly 
  * (./previewGrid.ts: every step-th pixel, the long side at most 2,000 px), the scale and the PNG's
  * pixel size following the step.
  */
-export async function renderMapPng(result: MapResult, range: ScaleRange, pixelSizeUmFull: number | null, title: string): Promise<Buffer> {
+export async function renderMapPng(result: MapResult, range: ScaleRange, pixelSizeUmFull: number | null, title: string, outlineMask: Uint8Array | null = null): Promise<Buffer> {
   const grid = previewGrid(result.width, result.height);
   const { width, height } = grid;
   const pixelSizeUm = pixelSizeUmFull !== null ? pixelSizeUmFull * grid.step : null;
@@ -209,7 +209,7 @@ export async function renderMapPng(result: MapResult, range: ScaleRange, pixelSi
     canvasWidth,
     canvasHeight,
     background: '#ffffff',
-    image: { data: grid.pixels ? mapRaster(result, range, grid.pixels, width) : mapRaster(result, range), width, height, channels: 3 },
+    image: { data: withMaskOutline(grid.pixels ? mapRaster(result, range, grid.pixels, width) : mapRaster(result, range), outlineMask, grid.pixels, width, height), width, height, channels: 3 },
     imageLeft: margin,
     imageTop: top,
     overlays,
@@ -279,6 +279,32 @@ ${ticks.join('\n')}
 ${legend.join('\n')}
 </svg>`;
 }
+
+/**
+ * The outline of the pixels set in `mask` (full size; e.g. the out-of-spec area, src/inspect)
+ * painted into the map raster (`pixels`: the full-size pixel of each raster pixel, or null when
+ * the raster is the full map) in dashes of white and black (OUT_OF_SPEC_DASH), one pixel wide.
+ */
+export function withMaskOutline(raster: Uint8Array, mask: Uint8Array | null, pixels: Int32Array | null | undefined, width: number, height: number): Uint8Array {
+  if (!mask) return raster;
+  const at = (x: number, y: number): number => mask[pixels ? pixels[y * width + x] : y * width + x];
+  for (let y = 0; y < height; y++) {
+    for (let x = 0; x < width; x++) {
+      if (!at(x, y)) continue;
+      const edge = (x > 0 && !at(x - 1, y)) || (x < width - 1 && !at(x + 1, y)) || (y > 0 && !at(x, y - 1)) || (y < height - 1 && !at(x, y + 1));
+      if (!edge) continue;
+      const c = OUT_OF_SPEC_DASH[(((x + y) / 4) | 0) & 1];
+      const o = (y * width + x) * 3;
+      raster[o] = c;
+      raster[o + 1] = c;
+      raster[o + 2] = c;
+    }
+  }
+  return raster;
+}
+
+/** The out-of-spec outline on the map picture: dashes of white and black. */
+export const OUT_OF_SPEC_DASH: readonly [number, number] = [255, 0];
 
 /** Whether any pixel is "not film" or "undecided" (their legend entries appear only then). */
 export function statusesPresent(status: Uint8Array): { notFilm: boolean; undecided: boolean } {

@@ -41,6 +41,8 @@ export type MappedPhoto = MapResult & Partial<Pick<MapPixelsResult, 'ambiguousRe
   /** The decoded photo's encoded RGB (for the flags image and the report). */
   readonly photoRgb?: Float32Array;
   readonly extra?: Record<string, unknown>;
+  /** The coating inspection's JSON block (src/inspect), when one was asked for (a series frame's record). */
+  readonly inspection?: Record<string, unknown> | null;
 };
 
 const tableCache = new Map<string, BuiltColourTable>();
@@ -215,6 +217,10 @@ export interface OutputSelection {
   readonly status?: boolean;
   readonly map?: boolean;
   readonly flags?: boolean;
+  /** Pixels whose outline the map picture draws (e.g. out of spec, src/inspect); default none. */
+  readonly outline?: Uint8Array | null;
+  /** What the outline marks, added to the map picture's title (e.g. `dashed: out of 100±5 nm`). */
+  readonly outlineLabel?: string | null;
   /** The map picture's colour range [min, max] nm (a series' common range); default the map's own. */
   readonly rangeNm?: readonly [number, number] | null;
 }
@@ -287,7 +293,7 @@ async function writeEachOutput(
   if (what.map ?? what.images) {
     const range = what.rangeNm ? { minNm: what.rangeNm[0], maxNm: what.rangeNm[1] } : scaleRangeOf(result);
     const mapPath = join(outDir, `${stem}.map.png`);
-    const mapPng = renderMapPng(result, range, options?.pixelSizeUm ?? null, `${basename(photoPath)} — thickness`);
+    const mapPng = renderMapPng(result, range, options?.pixelSizeUm ?? null, `${basename(photoPath)} — thickness${what.outline && what.outlineLabel ? `; ${what.outlineLabel}` : ''}`, what.outline ?? null);
     start(mapPath, async () => atomicWriteFile(mapPath, await mapPng));
   }
   if (what.flags ?? what.images) {

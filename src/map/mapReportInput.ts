@@ -9,7 +9,7 @@ import { encodePng } from '../io/encodeImage.js';
 import { makeReportGrid } from '../report/makeReportGrid.js';
 import type { MapReportInput, ReportLight } from '../report/types.js';
 import { colourScaleStops } from './colourScale.js';
-import { mapRaster, paintFilmOutline, type ScaleRange, scaleRangeOf } from './mapImages.js';
+import { mapRaster, paintFilmOutline, type ScaleRange, scaleRangeOf, withMaskOutline } from './mapImages.js';
 import type { MappedPhoto } from './mapPhoto.js';
 import { filmAreaOf, mapResultJson } from './mapResultJson.js';
 import type { MapOptions } from './types.js';
@@ -22,11 +22,13 @@ export async function mapReportInput(
   options: MapOptions,
   photoPath: string,
   record: Record<string, unknown> = mapResultJson(result, options, photoPath),
+  /** Pixels whose outline the map picture draws (out of spec, src/inspect), or null. */
+  outline: Uint8Array | null = null,
 ): Promise<MapReportInput> {
   const { width, height } = result;
   const range = scaleRangeOf(result);
   const step = Math.max(1, Math.ceil(Math.max(width, height) / MAX_PICTURE_SIDE));
-  const small = sampledPictures(result, range, step);
+  const small = sampledPictures(result, range, step, outline);
   // The encoders run in the codec's threads while the grid is cut here.
   const pictures = Promise.all([
     encodePng({ data: small.photo, width: small.width, height: small.height, channels: 3 }),
@@ -63,6 +65,7 @@ export async function mapReportInput(
     filmArea: { ...filmArea, excludedPx: { ...filmArea.excludedPx } },
     fitQuality: result.fitQuality ? { ...result.fitQuality } : null,
     light: reportLightOf(result),
+    inspection: (record.inspection as Record<string, unknown> | undefined) ?? null,
     ...(notes.length > 0 ? { downsampleNote: notes.join('; ') } : {}),
   };
 }
@@ -92,7 +95,7 @@ function reportLightOf(result: MappedPhoto): ReportLight {
  * (as the embedded grid), computed only at the sampled pixels; the photo with the film area's
  * outline (dashed cyan and black, as on the flags image).
  */
-function sampledPictures(result: MappedPhoto, range: ScaleRange, step: number): { photo: Uint8Array; map: Uint8Array; width: number; height: number } {
+function sampledPictures(result: MappedPhoto, range: ScaleRange, step: number, outline: Uint8Array | null): { photo: Uint8Array; map: Uint8Array; width: number; height: number } {
   const { width, height } = result;
   const w = Math.ceil(width / step);
   const h = Math.ceil(height / step);
@@ -111,5 +114,5 @@ function sampledPictures(result: MappedPhoto, range: ScaleRange, step: number): 
   for (let k = 0; k < picked.length; k++) status[k] = result.status[picked[k]];
   const lineWidth = Math.max(1, Math.round(Math.min(w, h) / 400));
   paintFilmOutline(photo, status, w, h, lineWidth, Math.max(6, lineWidth * 6));
-  return { photo, map: mapRaster(result, range, picked, w), width: w, height: h };
+  return { photo, map: withMaskOutline(mapRaster(result, range, picked, w), outline, picked, w, h), width: w, height: h };
 }

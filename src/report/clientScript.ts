@@ -72,7 +72,32 @@ function initMap(data) {
   }
   var profileChart = document.getElementById('profile-chart');
   var profileMap = plotMapping(profileChart);
-  var profileX = Number(data.profileColumn);
+  // The profile line in original pixel indices (default: the column, top to bottom).
+  var line = { x0: Number(data.profileColumn), y0: 0, x1: Number(data.profileColumn), y1: g.originalHeight - 1 };
+  function lineLength() { return Math.hypot(line.x1 - line.x0, line.y1 - line.y0); }
+  function pointAtDistance(d) {
+    var L = lineLength();
+    var t = L > 0 ? d / L : 0;
+    return { x: Math.round(line.x0 + t * (line.x1 - line.x0)), y: Math.round(line.y0 + t * (line.y1 - line.y0)) };
+  }
+  function distanceOf(p) {
+    var L = lineLength();
+    if (L <= 0) return 0;
+    var d = ((p.x - line.x0) * (line.x1 - line.x0) + (p.y - line.y0) * (line.y1 - line.y0)) / L;
+    return Math.max(0, Math.min(L, d));
+  }
+  function profileSamples() {
+    var L = lineLength();
+    var n = Math.max(1, Math.ceil(L / g.step));
+    var out = [];
+    for (var k = 0; k <= n; k++) {
+      var d = k / n * L;
+      var p = pointAtDistance(d);
+      var c = cellOf(p);
+      out.push({ d: d, x: p.x, y: p.y, t: thickness[c.index], q: confidence[c.index] });
+    }
+    return out;
+  }
   var rowMarker = null;
   if (profileMap) {
     rowMarker = svgEl('line', { 'class': 'frame-marker', y1: profileMap.top, y2: profileMap.top + profileMap.height, visibility: 'hidden' });
@@ -83,7 +108,7 @@ function initMap(data) {
     moveCrosshairs(p);
     if (rowMarker) {
       if (p) {
-        var rx = profileMap.x(p.y).toFixed(1);
+        var rx = profileMap.x(distanceOf(p)).toFixed(1);
         rowMarker.setAttribute('x1', rx); rowMarker.setAttribute('x2', rx); rowMarker.setAttribute('visibility', 'visible');
       } else rowMarker.setAttribute('visibility', 'hidden');
     }
@@ -102,45 +127,84 @@ function initMap(data) {
     var flag = document.getElementById('readout-flag');
     if (flag) flag.textContent = (thin !== null && isFinite(t) && t < thin) ? 'below thin threshold' : '';
   }
+  // Click: the profile along that column; drag: along the line drawn (at least 3 px long).
+  var dragStart = null, dragged = false;
   stages.forEach(function (stage) {
-    stage.addEventListener('pointermove', function (ev) { show(pixelFromEvent(ev, stage)); });
+    // The picture is not dragged away as an image: the drag draws the line.
+    stage.addEventListener('dragstart', function (ev) { ev.preventDefault(); });
+    stage.addEventListener('pointerdown', function (ev) { dragStart = pixelFromEvent(ev, stage); dragged = false; if (ev.button === 0) ev.preventDefault(); });
+    stage.addEventListener('pointermove', function (ev) {
+      var p = pixelFromEvent(ev, stage);
+      show(p);
+      if (dragStart && p && ev.buttons & 1 && Math.hypot(p.x - dragStart.x, p.y - dragStart.y) >= 3) {
+        dragged = true;
+        drawLine({ x0: dragStart.x, y0: dragStart.y, x1: p.x, y1: p.y });
+      }
+    });
+    stage.addEventListener('pointerup', function (ev) {
+      var p = pixelFromEvent(ev, stage);
+      if (dragStart && dragged && p) setProfileLine({ x0: dragStart.x, y0: dragStart.y, x1: p.x, y1: p.y });
+      dragStart = null;
+    });
     stage.addEventListener('pointerleave', function () { show(null); });
     stage.addEventListener('click', function (ev) {
+      if (dragged) { dragged = false; return; }
       var p = pixelFromEvent(ev, stage);
       if (p) setProfileColumn(p.x);
     });
+  });
+  var csvButton = document.getElementById('profile-csv');
+  if (csvButton) csvButton.addEventListener('click', function () {
+    var rows = ['distance_px,x_px,y_px,thickness_nm,confidence'];
+    profileSamples().forEach(function (s) {
+      rows.push([s.d.toFixed(3), s.x, s.y, isFinite(s.t) ? s.t.toFixed(2) : '', isFinite(s.q) ? s.q.toFixed(3) : ''].join(','));
+    });
+    var blob = new Blob([rows.join('\n') + '\n'], { type: 'text/csv' });
+    var a = document.createElement('a');
+    a.href = URL.createObjectURL(blob);
+    a.download = 'profile-' + line.x0 + '-' + line.y0 + '-' + line.x1 + '-' + line.y1 + '.csv';
+    document.body.appendChild(a);
+    a.click();
+    setTimeout(function () { URL.revokeObjectURL(a.href); a.remove(); }, 0);
   });
   if (profileChart && profileMap) {
     profileChart.addEventListener('pointermove', function (ev) {
       var r = profileChart.getBoundingClientRect();
       var vb = profileChart.viewBox.baseVal;
       var sx = (ev.clientX - r.left) / r.width * vb.width;
-      var row = Math.round(profileMap.x0 + (sx - profileMap.left) / profileMap.width * (profileMap.x1 - profileMap.x0));
-      show(row >= 0 && row < g.originalHeight ? { x: profileX, y: row } : null);
+      var d = profileMap.x0 + (sx - profileMap.left) / profileMap.width * (profileMap.x1 - profileMap.x0);
+      show(d >= -0.5 && d <= lineLength() + 0.5 ? pointAtDistance(Math.max(0, Math.min(lineLength(), d))) : null);
     });
     profileChart.addEventListener('pointerleave', function () { show(null); });
   }
-  function setProfileColumn(xPx) {
-    profileX = xPx;
+  function drawLine(l) {
+    stages.forEach(function (stage) {
+      var el = stage.querySelector('.profile-line');
+      if (el) { el.setAttribute('x1', l.x0 + 0.5); el.setAttribute('y1', l.y0 + 0.5); el.setAttribute('x2', l.x1 + 0.5); el.setAttribute('y2', l.y1 + 0.5); }
+    });
+  }
+  function setProfileLine(l) {
+    line = l;
+    drawLine(l);
     var chart = document.getElementById('profile-chart');
     var m = plotMapping(chart);
-    if (!m) return;
-    var cx = Math.min(g.width - 1, Math.floor(xPx / g.step));
-    var d = '', pen = false;
-    for (var cy = 0; cy < g.height; cy++) {
-      var v = thickness[cy * g.width + cx];
-      if (!isFinite(v)) { pen = false; continue; }
-      var yv = Math.max(m.y0, Math.min(m.y1, v));
-      d += (pen ? 'L' : 'M') + m.x(cy * g.step + (g.step - 1) / 2).toFixed(1) + ' ' + m.y(yv).toFixed(1);
-      pen = true;
+    if (m) {
+      var d = '', pen = false;
+      profileSamples().forEach(function (s) {
+        if (!isFinite(s.t)) { pen = false; return; }
+        var yv = Math.max(m.y0, Math.min(m.y1, s.t));
+        d += (pen ? 'L' : 'M') + m.x(Math.min(m.x1, s.d)).toFixed(1) + ' ' + m.y(yv).toFixed(1);
+        pen = true;
+      });
+      var path = chart.querySelector('.series-line');
+      if (path) path.setAttribute('d', d || 'M0 0');
     }
-    var path = chart.querySelector('.series-line');
-    if (path) path.setAttribute('d', d || 'M0 0');
-    stages.forEach(function (stage) {
-      var line = stage.querySelector('.profile-line');
-      if (line) { line.setAttribute('x1', xPx + 0.5); line.setAttribute('x2', xPx + 0.5); }
-    });
-    setText('profile-column', String(xPx));
+    var column = l.x0 === l.x1 && l.y0 === 0 && l.y1 === g.originalHeight - 1;
+    setText('profile-kind', column ? 'column x = ' : 'line ');
+    setText('profile-column', column ? String(l.x0) : '(' + l.x0 + ', ' + l.y0 + ') to (' + l.x1 + ', ' + l.y1 + ')');
+  }
+  function setProfileColumn(xPx) {
+    setProfileLine({ x0: xPx, y0: 0, x1: xPx, y1: g.originalHeight - 1 });
   }
   Array.prototype.forEach.call(document.querySelectorAll('tr[data-region]'), function (row) {
     var id = row.getAttribute('data-region');

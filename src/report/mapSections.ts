@@ -10,6 +10,7 @@ import { encodeFloat32Base64 } from './encodeFloat32Base64.js';
 import { escapeHtml } from './escapeHtml.js';
 import { NO_FILM_TEXT, renderFilmAreaCard } from './filmAreaSection.js';
 import { renderLightCard } from './lightSection.js';
+import { renderInspectionCard } from './inspectionSection.js';
 import { formatFixed, formatNm, formatPercent } from './formatNumber.js';
 import { imageDataUri } from './imageDataUri.js';
 import { niceDomain } from './niceTicks.js';
@@ -51,7 +52,7 @@ export function renderMapSections(input: MapReportInput, name = 'input', options
   const W = grid.originalWidth;
   const H = grid.originalHeight;
   const cross = `<line class="cross-h" x1="0" x2="${W}" y1="0" y2="0" visibility="hidden"/><line class="cross-v" x1="0" x2="0" y1="0" y2="${H}" visibility="hidden"/>`;
-  const profileLine = `<line class="profile-line" x1="${column + 0.5}" x2="${column + 0.5}" y1="0" y2="${H}"/>`;
+  const profileLine = `<line class="profile-line" x1="${column + 0.5}" x2="${column + 0.5}" y1="0.5" y2="${H - 0.5}"/>`;
   const marks = (inner: string) => `<svg class="marks" viewBox="0 0 ${W} ${H}" preserveAspectRatio="none" aria-hidden="true">${inner}</svg>`;
   // keep a tall (portrait) photo within about one screen height
   const fit = ` style="max-width: calc(78vh * ${(W / H).toFixed(4)})"`;
@@ -76,6 +77,7 @@ export function renderMapSections(input: MapReportInput, name = 'input', options
     ...(input.stats.thin_fraction !== undefined ? [tile('Thin fraction', formatPercent(input.stats.thin_fraction), (input.stats.thin_fraction ?? 0) > 0)] : []),
     tile('Thin regions', String(input.thinRegions.length), input.thinRegions.length > 0),
     ...(area !== null ? [tile('Film area', formatPercent(area.fraction), false, 'of the photo')] : []),
+    ...(input.inspection?.verdict ? [inspectionTile(input.inspection)] : []),
     ...(fitQuality !== null ? [tile('Model fit', fitQuality.verdict, fitQuality.verdict === 'poor', `median ΔE2000 ${formatFixed(fitQuality.median_delta_e2000, 2)}`)] : []),
   ];
 
@@ -89,7 +91,7 @@ export function renderMapSections(input: MapReportInput, name = 'input', options
     + '<span>x <b id="readout-x">—</b> y <b id="readout-y">—</b> px</span>'
     + `<span>thickness <b id="readout-thickness">—</b></span><span title="${escapeHtml(CONFIDENCE_MEANING)}">confidence <b id="readout-confidence">—</b></span>`
     + '<span id="readout-cell" class="muted"></span><span id="readout-status" class="muted"></span><span id="readout-flag" class="flag"></span></div>'
-    + '<p class="note">Point at the photo or the map to read the thickness (to 0.1 nm) and confidence stored for that pixel (coordinates in the original photo); click to move the profile to that column; point along the profile chart to follow that column on the images.</p>'
+    + '<p class="note">Point at the photo or the map to read the thickness (to 0.1 nm) and confidence stored for that pixel (coordinates in the original photo); click to move the profile to that column, or drag to draw the profile along any line; point along the profile chart to follow the line on the images.</p>'
     + `<p class="note"><b>Confidence</b> (0 to 1): ${escapeHtml(CONFIDENCE_MEANING)}</p>`
     + renderColourBar({ minNm: input.colourBar.minNm, maxNm: input.colourBar.maxNm, stops }, thin, 1000)
     + notes.map((n) => `<p class="note downsample-note">${escapeHtml(n)}</p>`).join('')
@@ -104,14 +106,14 @@ export function renderMapSections(input: MapReportInput, name = 'input', options
   const range = finiteRange(grid.thicknessNm);
   const yDomain = niceDomain(Math.min(range?.[0] ?? 0, thin ?? Infinity), Math.max(range?.[1] ?? 1, thin ?? -Infinity), 5);
   const profile = renderLineChart({
-    title: 'Thickness profile along a column', xLabel: 'Row in the photo, top to bottom (px)', yLabel: 'Thickness (nm)', id: 'profile-chart',
-    xDomain: [0, H], yDomain, widthPx: 580, heightPx: 300,
+    title: 'Thickness profile along a line', xLabel: 'Distance along the line from its start (px)', yLabel: 'Thickness (nm)', id: 'profile-chart',
+    xDomain: [0, Math.ceil(Math.hypot(W, H))], yDomain, widthPx: 580, heightPx: 300,
     series: [{ label: 'thickness along the column', points: columnProfile(grid, column), colour: '#0e6b70' }],
     horizontalLines: thin === null ? [] : [{ value: thin, label: `thin threshold ${formatFixed(thin, 1)} nm`, colour: thresholdColour }],
   });
   const charts = `<div class="two-col">
 <section class="card" id="histogram"><h2>Histogram</h2>${histogram}</section>
-<section class="card" id="profile"><h2>Profile <span class="sub">column x = <span id="profile-column">${column}</span> px</span></h2>${profile}</section>
+<section class="card" id="profile"><h2>Profile <span class="sub" id="profile-what"><span id="profile-kind">column x = </span><span id="profile-column">${column}</span><span id="profile-unit"> px</span></span></h2>${profile}<p class="note"><button type="button" id="profile-csv">Download the profile as CSV</button> distance, x, y, thickness and confidence of each sample (the embedded grid's values).</p></section>
 </div>`;
 
   const regions = `<section class="card" id="thin-regions"><h2>Thin regions <span class="sub">${input.thinRegions.length} · ${escapeHtml(thinText)}</span></h2>`
@@ -124,8 +126,8 @@ ${options.parameterTables ? renderParameterSections(input.settings, input.calibr
 </div>`;
 
   return {
-    sections: [`<div class="tiles">${tiles.join('')}</div>`, view, renderFilmAreaCard(area, fitQuality, W * H), renderLightCard(input.light), charts, regions, tables],
-    nav: [['map-view', 'Map'], ['film-area', 'Film area'], ...(input.light ? [['light', 'Light'] as [string, string]] : []), ['histogram', 'Histogram'], ['profile', 'Profile'], ['thin-regions', 'Thin regions'],
+    sections: [`<div class="tiles">${tiles.join('')}</div>`, view, renderInspectionCard(input.inspection), renderFilmAreaCard(area, fitQuality, W * H), renderLightCard(input.light), charts, regions, tables],
+    nav: [['map-view', 'Map'], ...(input.inspection ? [['inspection', 'Inspection'] as [string, string]] : []), ['film-area', 'Film area'], ...(input.light ? [['light', 'Light'] as [string, string]] : []), ['histogram', 'Histogram'], ['profile', 'Profile'], ['thin-regions', 'Thin regions'],
       ['statistics', 'Statistics'], ...(options.parameterTables ? [['settings', 'Settings'] as [string, string]] : [])],
     data: {
       'lamella-map-data': {
@@ -156,4 +158,11 @@ export function renderParameterSections(settings: Record<string, unknown>, calib
 export function tile(label: string, value: string, alert = false, note = ''): string {
   return `<div class="tile${alert ? ' alert' : ''}"><div class="label">${escapeHtml(label)}</div><div class="value">${escapeHtml(value)}</div>`
     + `${note ? `<div class="tile-note">${escapeHtml(note)}</div>` : ''}</div>`;
+}
+
+/** The verdict tile: PASS or FAIL with the share in spec. */
+function inspectionTile(inspection: Record<string, unknown>): string {
+  const verdict = inspection.verdict as { pass: boolean; rule: string };
+  const spec = inspection.spec as { in_spec_fraction: number; text: string } | null;
+  return tile('Spec', verdict.pass ? 'PASS' : 'FAIL', !verdict.pass, spec ? `${formatPercent(spec.in_spec_fraction)} in ${spec.text} · ${verdict.rule}` : verdict.rule);
 }

@@ -63,6 +63,8 @@ export interface MapReportInput {
   fitQuality?: ReportFitQuality | null;
   /** Optional: the light field and the light's evenness (the JSON `exposure_field`, `light_evenness`). */
   light?: ReportLight | null;
+  /** Optional: the map record's JSON `inspection` block (spec, verdict, uniformity; src/inspect). */
+  inspection?: Record<string, unknown> | null;
 }
 
 /** The light on the film: the exposure field sampled on a coarse grid over the photo, and the evenness left. */

@@ -5,6 +5,7 @@
  */
 import type { StackCliOptions } from '../optics/stackSettings.js';
 import type { ExposureParameters, FilmAreaMode, FixedExposureField } from '../map/types.js';
+import type { InspectOptions } from '../inspect/inspectMap.js';
 
 export interface MapFrameConfig {
   readonly stackOptions: StackCliOptions;
@@ -32,6 +33,8 @@ export interface MapFrameConfig {
   /** `--film-area` and `--expect`, as for `lamella map` (MapOptions.filmArea, expectNm). */
   readonly filmArea?: FilmAreaMode;
   readonly expectNm?: readonly [number, number] | null;
+  /** `--spec`, `--pass-if`, `--edge-exclusion`, `--part-*`: each frame's inspection (src/inspect; no points or profiles). */
+  readonly inspect?: Pick<InspectOptions, 'spec' | 'passIf' | 'edgeExclusionMm' | 'part'> | null;
 }
 
 /** Module URL of the real processor, for `ProcessorSource.moduleUrl`. */

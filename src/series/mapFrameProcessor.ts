@@ -12,6 +12,7 @@ import type { MapOptions } from '../map/types.js';
 import type { MapFrameConfig } from './mapFrameConfig.js';
 import type { FrameProcessor, StoredFrame } from './types.js';
 import { scaleRangeOf } from '../map/mapImages.js';
+import { inspectionJson, inspectMap } from '../inspect/inspectMap.js';
 
 export function mapOptionsFromConfig(config: MapFrameConfig): MapOptions {
   // The film index scale goes to the mapper only (it scales the film index when building its
@@ -72,6 +73,9 @@ export async function createFrameProcessor(config: MapFrameConfig): Promise<Fram
     if (!mask || mask.width !== width || mask.height !== height) mask = { width, height, pixels: readMask(base.maskPath, width, height) };
     return mask.pixels;
   };
+  // Each frame's inspection (spec share and verdict, uniformity) travels in its record (JSON form).
+  const inspected = (result: MappedPhoto): MappedPhoto =>
+    config.inspect ? { ...result, inspection: inspectionJson(inspectMap(result, config.inspect, base.pixelSizeUm ?? null)) } : result;
   return {
     mapPhoto: async (photo, name, prior, previousFit, previousField, priorStatus) => {
       const size = photo.width * photo.height;
@@ -80,14 +84,14 @@ export async function createFrameProcessor(config: MapFrameConfig): Promise<Fram
       }
       const pixels = maskFor(photo.width, photo.height);
       const options = { ...base, prior, fitStart: previousFit ?? null, fieldStart: previousField ?? null, priorStatus: priorStatus ?? null };
-      return mapDecodedPhoto(photo, options, pixels ? await pixels : null, name);
+      return inspected(mapDecodedPhoto(photo, options, pixels ? await pixels : null, name));
     },
-    map: (framePath, prior, previousFit, previousField, priorStatus) =>
-      mapPhotoFile(
+    map: async (framePath, prior, previousFit, previousField, priorStatus) =>
+      inspected(await mapPhotoFile(
         framePath,
         { ...base, prior, fitStart: previousFit ?? null, fieldStart: previousField ?? null, priorStatus: priorStatus ?? null },
         { allowDamaged: config.allowDamaged === true },
-      ),
+      )),
     writePreviews: async (result, framePath, dir, stem) => {
       const range = config.rangeNm ?? null;
       await writeMapOutputs(result, framePath, dir, stem, { images: true, json: false, npy: false, tiff: false, rangeNm: range }, base);

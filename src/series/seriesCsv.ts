@@ -29,8 +29,12 @@ function fixed(value: number | null, decimals: number): string {
   return value === null || !Number.isFinite(value) ? '' : value.toFixed(decimals);
 }
 
+/** Appended when the series has a spec (`--spec`): each frame's share in spec and its verdict. */
+export const SERIES_SPEC_COLUMNS = ['in_spec_fraction', 'verdict'] as const;
+
 export function formatSeriesCsv(rows: readonly SeriesRow[]): string {
-  const lines = [SERIES_CSV_COLUMNS.join(',')];
+  const judged = rows.some((r) => r.specPass !== undefined);
+  const lines = [[...SERIES_CSV_COLUMNS, ...(judged ? SERIES_SPEC_COLUMNS : [])].join(',')];
   for (const r of rows) {
     lines.push(
       [
@@ -46,6 +50,7 @@ export function formatSeriesCsv(rows: readonly SeriesRow[]): string {
         fixed(r.coverage, 4),
         r.filmAreaPx === null || r.filmAreaPx === undefined ? '' : String(Math.round(r.filmAreaPx)),
         fixed(r.exposure, 4),
+        ...(judged ? [fixed(r.inSpecFraction ?? null, 4), r.specPass === undefined || r.specPass === null ? '' : r.specPass ? 'pass' : 'fail'] : []),
       ].join(','),
     );
   }

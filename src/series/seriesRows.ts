@@ -33,6 +33,9 @@ export interface SeriesRow {
   readonly filmAreaPx?: number | null;
   /** False when the frame's map found no film; absent or true: film. */
   readonly filmFound?: boolean;
+  /** With `--spec`: the share of the inspected film area in spec, and the verdict (absent without a spec). */
+  readonly inSpecFraction?: number | null;
+  readonly specPass?: boolean | null;
 }
 
 export interface CollectedRows {
@@ -63,7 +66,11 @@ export async function collectSeriesRows(outDir: string, frames: readonly FrameJo
     }
     const s = record.stats;
     const found = record.filmArea?.found !== false;
-    const common = { frame: frames[i].name, timeS: timesS[i], exposure: num(record.fitted?.exposure), darkLimitNm: num(record.darkLimitNm) };
+    const inspection = (record.inspection ?? null) as { spec?: { in_spec_fraction?: unknown } | null; verdict?: { pass?: unknown } | null } | null;
+    const judged = inspection?.verdict
+      ? { inSpecFraction: num(inspection.spec?.in_spec_fraction), specPass: inspection.verdict.pass === true }
+      : {};
+    const common = { frame: frames[i].name, timeS: timesS[i], exposure: num(record.fitted?.exposure), darkLimitNm: num(record.darkLimitNm), ...judged };
     if (!found) {
       // No film: no statistics, and no exposure either (a photo-formation fit to no film means nothing).
       rows.push({

@@ -56,6 +56,13 @@ export interface SeriesSummary {
   /** What the frames show first (the first thin region, the recent thinning rate), and reliable crossings only (./observations.ts). */
   readonly observations: SeriesObservations;
   readonly drainageFits: readonly DrainageFit[];
+  /** With `--spec`: how many frames pass, and each frame's share in spec and verdict; absent without. */
+  readonly inspection?: {
+    readonly framesJudged: number;
+    readonly framesPassed: number;
+    readonly framesFailed: number;
+    readonly perFrame: ReadonlyArray<{ readonly frame: string; readonly inSpecFraction: number | null; readonly pass: boolean | null }>;
+  };
   readonly caution: string;
   readonly warnings: readonly string[];
 }
@@ -108,7 +115,19 @@ export function seriesSummary(input: SeriesSummaryInput): SeriesSummary {
     rupture: input.rupture,
     observations: observeSeries(input.rows, input.fits, input.rupture),
     drainageFits: [...input.fits],
+    ...(input.rows.some((r) => r.specPass !== undefined) ? { inspection: specSummary(input.rows) } : {}),
     caution: SERIES_CAUTION,
     warnings: [...input.warnings],
+  };
+}
+
+function specSummary(rows: readonly SeriesRow[]): NonNullable<SeriesSummary['inspection']> {
+  const judged = rows.filter((r) => r.specPass !== undefined && r.specPass !== null);
+  const passed = judged.filter((r) => r.specPass === true).length;
+  return {
+    framesJudged: judged.length,
+    framesPassed: passed,
+    framesFailed: judged.length - passed,
+    perFrame: rows.map((r) => ({ frame: r.frame, inSpecFraction: r.inSpecFraction ?? null, pass: r.specPass ?? null })),
   };
 }

@@ -57,6 +57,11 @@ export function formatSeriesSummary(result: SeriesResult): string[] {
   const summary = result.summary;
   if (summary === null) return lines;
   lines.push(`series: ${summary.frames.withResults}/${summary.frames.total} frames in ${result.outputs.join(', ')}`);
+  const judged = summary.inspection;
+  if (judged) {
+    const spec = (summary.settings.inspect as { spec?: string; passIf?: string } | undefined) ?? {};
+    lines.push(`series: spec ${spec.spec ?? ''}: ${judged.framesPassed} of ${judged.framesJudged} frame(s) pass${spec.passIf ? ` (${spec.passIf})` : ''}${judged.framesFailed > 0 ? `, ${judged.framesFailed} fail` : ''}`);
+  }
   const rupture = summary.rupture;
   // Observations first, then predictions, then each law's own numbers.
   lines.push(...observationLines(summary.observations));

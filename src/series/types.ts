@@ -129,6 +129,8 @@ export interface FrameRecord {
   readonly lightEvenness?: MapResult['lightEvenness'];
   /** How well the model explains the frame's colours (absent in older records). */
   readonly fitQuality?: MapResult['fitQuality'];
+  /** The frame's coating inspection (JSON form of src/inspect/inspectMap.ts) with `--spec` and the like. */
+  readonly inspection?: Record<string, unknown> | null;
   /** The colour range [min, max] nm its map preview was drawn in (with --previews). */
   readonly previewRangeNm?: readonly [number, number];
 }

@@ -35,6 +35,7 @@ export function frameRecordOf(frame: FrameJob, result: MapResult, hash: string, 
     exposureField: result.exposureField ?? null,
     lightEvenness: result.lightEvenness ?? null,
     fitQuality: result.fitQuality ?? null,
+    ...('inspection' in result && result.inspection ? { inspection: result.inspection as Record<string, unknown> } : {}),
   };
 }
 

@@ -12,6 +12,7 @@ export const commandModules: ReadonlyArray<() => Promise<{ register: Register }>
   () => import('./map.js'),
   () => import('./calibrate.js'),
   () => import('./series.js'),
+  () => import('./compare.js'),
   () => import('./flow.js'),
   () => import('./chart.js'),
   () => import('./render.js'),

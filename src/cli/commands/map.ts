@@ -18,8 +18,10 @@ import { parseDecimal } from '../parseDecimal.js';
 import { lineOfLight } from '../../map/mapPhoto.js';
 import { addLightOptions, lightsFromOptions } from '../lightOptions.js';
 import type { MapOptions, MapResult } from '../../map/types.js';
+import { addInspectOptions, inspectFromOptions, type InspectCliOptions } from '../inspectOptions.js';
+import { inspectionSummaryText, type Inspection } from '../../inspect/inspectMap.js';
 
-interface MapCliOptions extends StackCliOptions, FilmAreaCliOptions {
+interface MapCliOptions extends StackCliOptions, FilmAreaCliOptions, InspectCliOptions {
   light: string;
   whiteBalance?: string;
   camera?: string;
@@ -53,7 +55,7 @@ export function register(program: Command): void {
     .command('map')
     .description('map film thickness from colour photos; writes .npy/.tif maps, confidence, previews, JSON and an HTML report per photo')
     .argument('<photo...>', "photos (JPEG, PNG, TIFF; 8 or 16 bit) or glob patterns such as 'shots/*.jpg' (quoted)");
-  addFilmAreaOptions(addLightOptions(addStackOptions(command), { required: false }), 'photo')
+  addInspectOptions(addFilmAreaOptions(addLightOptions(addStackOptions(command), { required: false }), 'photo'), 'photo')
     .option('--camera <mode-or-file>', CAMERA_HELP)
     .option('--light-field <mode>', LIGHT_FIELD_HELP, 'auto')
     .option('--calibration <file>', 'photo-formation parameters (and light field) from `lamella calibrate` instead of fitting them')
@@ -81,6 +83,7 @@ export function mapJobFromOptions(opts: MapCliOptions, warn: (message: string) =
   const outputs = parseOutputsOption(opts.outputs);
   if (!opts.report) outputs.delete('report');
   const { thinBelowNm, maxThicknessNm, region, maskPath, anchors, pixelSizeUm, filmArea, expectNm } = filmAreaFromOptions(opts);
+  const inspect = inspectFromOptions(opts);
   const map: MapOptions = {
     stack, angleRad, light: opts.light, whiteBalanceLight: opts.whiteBalance ?? null, camera: parseCameraOption(opts.camera),
     thinBelowNm, region, maskPath, anchors, maxThicknessNm, pixelSizeUm, lightField: parseLightFieldOption(opts.lightField), filmArea, expectNm,
@@ -95,6 +98,7 @@ export function mapJobFromOptions(opts: MapCliOptions, warn: (message: string) =
     calibrationFile: opts.calibration ?? null,
     ignoreCalibrationMismatch: opts.ignoreCalibrationMismatch === true,
     allowDamaged: opts.allowDamaged === true,
+    inspect,
   };
 }
 
@@ -107,7 +111,7 @@ async function runMap(inputs: string[], opts: MapCliOptions): Promise<number> {
   const showPhases = process.stderr.isTTY === true && !opts.quiet;
   const clearPhase = (): void => void (showPhases && process.stderr.write('\r\x1b[K'));
   let count = inputs.length;
-  const { photos, records, failed, withThinRegions: thin } = await mapPhotos(inputs, job, {
+  const { photos, records, failed, withThinRegions: thin, outOfSpec } = await mapPhotos(inputs, job, {
     onPhase: showPhases
       ? (photo, index, phase) => process.stderr.write(`\r\x1b[Klamella: ${photo}${count > 1 ? ` (${index + 1}/${count})` : ''}: ${PHASE_WORDS[phase]}…`)
       : undefined,
@@ -115,10 +119,10 @@ async function runMap(inputs: string[], opts: MapCliOptions): Promise<number> {
       clearPhase();
       warn(message);
     },
-    onPhoto: (photo, result) => {
+    onPhoto: (photo, result, _record, inspection) => {
       clearPhase();
       for (const warning of result.warnings) warn(`${photo}: ${warning}`);
-      if (!opts.json && !opts.quiet) process.stdout.write(`${summaryLine(photo, result)}\n`);
+      if (!opts.json && !opts.quiet) process.stdout.write(`${summaryLine(photo, result, inspection)}\n`);
     },
     onFailure: (photo, error) => {
       clearPhase();
@@ -135,12 +139,15 @@ async function runMap(inputs: string[], opts: MapCliOptions): Promise<number> {
     return EXIT_INPUT;
   }
   if (opts.failIfThin && thin > 0) return EXIT_FINDING;
+  if (opts.failIfOutOfSpec && outOfSpec > 0) return EXIT_FINDING;
   return 0;
 }
 
-export function summaryLine(photo: string, result: Pick<MapResult, 'stats' | 'thinRegions' | 'fitted' | 'filmArea' | 'exposureField'>): string {
+export function summaryLine(photo: string, result: Pick<MapResult, 'stats' | 'thinRegions' | 'fitted' | 'filmArea' | 'exposureField'>, inspection: Inspection | null = null): string {
   // The warning itself comes from the mapper; the line only says there is nothing to summarise.
-  if (result.filmArea && !result.filmArea.found) return `${photo}: no film found in this photo (no statistics, no thin regions)`;
+  if (result.filmArea && !result.filmArea.found) {
+    return `${photo}: no film found in this photo (no statistics, no thin regions)${inspection?.verdict ? `; spec ${inspection.spec?.spec.text}: FAIL (no film area to inspect)` : ''}`;
+  }
   const s = result.stats;
   const f = (v: number | null, d = 1): string => (v === null ? '–' : v.toFixed(d));
   const thin = s.thin_fraction === null ? '' : `, thin ${f(s.thin_fraction * 100)} %`;
@@ -150,7 +157,8 @@ export function summaryLine(photo: string, result: Pick<MapResult, 'stats' | 'th
   const film = result.filmArea && result.filmArea.mode === 'auto' ? `, film ${f(result.filmArea.fraction * 100)} % of the photo` : '';
   const response = result.fitted.response;
   const style = response && isStrongResponse(response) ? `, picture style ${result.fitted.responseSource === 'calibration' ? 'from the calibration' : 'fitted'} (${describeResponse(response)})` : '';
-  return `${photo}: median ${f(s.median_nm)} nm (p05 ${f(s.p05_nm)}, p95 ${f(s.p95_nm)})${film}, coverage ${f(s.coverage * 100)} %${thin}, ${result.thinRegions.length} thin region(s), exposure ×${result.fitted.exposure.toFixed(2)}${field}${style}`;
+  const inspected = inspection ? inspectionSummaryText(inspection) : '';
+  return `${photo}: median ${f(s.median_nm)} nm (p05 ${f(s.p05_nm)}, p95 ${f(s.p95_nm)})${film}, coverage ${f(s.coverage * 100)} %${thin}, ${result.thinRegions.length} thin region(s), exposure ×${result.fitted.exposure.toFixed(2)}${field}${style}${inspected ? `; ${inspected}` : ''}`;
 }
 
 function parseThreads(value: string): number {

@@ -7,19 +7,20 @@ import { CAMERA_HELP, parseCameraOption } from '../cameraOption.js';
 import { LIGHT_FIELD_HELP, parseLightFieldOption } from '../lightFieldOption.js';
 import { availableParallelism } from 'node:os';
 import { Option, type Command } from 'commander';
-import { InputError, UsageError, EXIT_INPUT } from '../errors.js';
+import { InputError, UsageError, EXIT_FINDING, EXIT_INPUT } from '../errors.js';
 import { addStackOptions, parseNumberOption, type StackCliOptions } from '../stackOptions.js';
 import { addFilmAreaOptions, filmAreaFromOptions, parseExpect, type FilmAreaCliOptions } from '../filmAreaOptions.js';
 import { parseShard } from '../../series/parseShard.js';
 import { DEFAULT_CHUNK_FRAMES } from '../../series/runSeries.js';
 import { runSeries, type RunSeriesOptions, type RunSeriesResult } from '../../api/runSeries.js';
 import { formatFlowSummary } from './flow.js';
+import { addInspectOptions, inspectFromOptions, type InspectCliOptions } from '../inspectOptions.js';
 import { formatProgressBar, formatProgressLine } from '../../series/progressText.js';
 import { formatSeriesSummary } from '../../series/summaryText.js';
 import type { SeriesProgress } from '../../series/types.js';
 import { addLightOptions, lightsFromOptions } from '../lightOptions.js';
 
-export interface SeriesCliOptions extends StackCliOptions, FilmAreaCliOptions {
+export interface SeriesCliOptions extends StackCliOptions, FilmAreaCliOptions, InspectCliOptions {
   light: string;
   whiteBalance?: string;
   camera?: string;
@@ -87,6 +88,7 @@ export async function seriesOptionsFrom(opts: SeriesCliOptions): Promise<RunSeri
   // The same film-area options, defaults and limits as `lamella map`.
   const area = filmAreaFromOptions(opts);
   const { thinBelowNm, maxThicknessNm, region, anchors, pixelSizeUm, filmArea, expectNm } = area;
+  const inspect = inspectFromOptions(opts);
   let shard = null;
   if (opts.shardCount !== undefined && opts.shard !== 'auto') throw new UsageError('--shard-count goes with --shard auto (a Kubernetes indexed Job)');
   if (opts.shard === 'auto') {
@@ -110,6 +112,7 @@ export async function seriesOptionsFrom(opts: SeriesCliOptions): Promise<RunSeri
     calibration: opts.calibration ?? null, ignoreCalibrationMismatch: opts.ignoreCalibrationMismatch === true,
     workers: positive(opts.workers, '--workers', true)!, chunkFrames: positive(opts.chunkFrames, '--chunk-frames', true)!, shard,
     aggregateOnly: opts.aggregateOnly === true, previews: opts.previews === true, report: opts.report, allowDamaged: opts.allowDamaged === true,
+    inspect,
     ...(opts.flow ? { flow: true } : {}),
   };
 }
@@ -204,6 +207,7 @@ async function run(inputs: string[], opts: SeriesCliOptions): Promise<void> {
   if (!opts.quiet) process.stdout.write(`${formatSeriesSummary(result).join('\n')}\n`);
   if (!opts.quiet && result.flow) process.stdout.write(`${formatFlowSummary(result.flow).join('\n')}\n`);
   if (result.failures.length > 0) process.exitCode = EXIT_INPUT;
+  else if (opts.failIfOutOfSpec && (result.summary?.inspection?.framesFailed ?? 0) > 0) process.exitCode = EXIT_FINDING;
 }
 
 export function register(program: Command): void {
@@ -221,7 +225,7 @@ export function register(program: Command): void {
     .option('--calibration <file>', 'photo-formation parameters from `lamella calibrate` instead of fitting them on every frame')
     .option('--light-field <mode>', LIGHT_FIELD_HELP, 'auto')
     .option('--ignore-calibration-mismatch', 'use a calibration made for another stack or light');
-  addFilmAreaOptions(command, 'frames')
+  addInspectOptions(addFilmAreaOptions(command, 'frames'), 'frames')
     .option('--workers <n>', 'worker threads', String(availableParallelism()))
     .option('--shard <K/N|auto>', 'map only the K-th of N contiguous parts of the series (1-based), then aggregate what OUT holds; auto = from the scheduler: a Slurm job array (SLURM_ARRAY_TASK_ID, _COUNT) or a Kubernetes indexed Job (JOB_COMPLETION_INDEX with --shard-count)')
     .option('--shard-count <n>', 'with --shard auto in a Kubernetes indexed Job: the number of shards (the Job\'s completions)')
