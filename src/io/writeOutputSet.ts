@@ -80,7 +80,9 @@ export async function writeOutputSet<T>(paths: readonly string[], write: (stagin
   registerTempFile(staging);
   try {
     try {
-      mkdirSync(staging);
+      // The folder itself again if it is gone: a concurrent run into the same new folder whose
+      // photos all failed removes it when it finds it empty (mapPhotos leaves no empty --out).
+      mkdirSync(staging, { recursive: true });
     } catch (error) {
       throw new InputError(finalDir, `cannot write outputs (${(error as NodeJS.ErrnoException).code ?? String(error)})`);
     }
