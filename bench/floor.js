@@ -6,7 +6,7 @@
 //   map npy,json — the same with `--outputs npy,json`;
 //   series — `lamella series` over 320×240 and 2-MP frames with 1 worker (CPU per frame: the run's
 //           CPU less a one-frame run's, over the extra frames) and the 2-MP run's wall time with
-//           1 and 2 workers (throughput ratio).
+//           1 and 2 workers (throughput ratio), in chunks of half the frames so that each worker has one.
 // Each is one child process run under GNU time (user + system CPU seconds, all threads, and the
 // peak resident memory), so node's start-up and module loading count in every figure alike.
 // Photos: the demo's invented draining soap film (scripts/make-demo.js), JPEG quality 90, 4:2:0.
@@ -73,7 +73,8 @@ export async function benchFloor({ width = 4000, height = 3000, smallFrames = 12
     const series = {};
     for (const [key, frames, w, h] of [['small', smallFrames, 320, 240], ['big', bigFrames, 1632, 1224]]) {
       const folder = await seriesFrames(dir, key, frames, w, h);
-      const base = ['series', '--stack', 'soap-film', '--fps', '2', '--quiet', '--no-report'];
+      // Chunks of half the frames, so that two workers have a chunk each (a chunk is the unit of work).
+      const base = ['series', '--stack', 'soap-film', '--fps', '2', '--quiet', '--no-report', '--chunk-frames', String(Math.ceil(frames / 2))];
       const one = timed([CLI, ...base, join(folder, 'f000.jpg'), '--out', join(dir, `${key}-1f`), '--workers', '1'], `series ${key} 1 frame`);
       const all = timed([CLI, ...base, folder, '--out', join(dir, `${key}-w1`), '--workers', '1'], `series ${key}`);
       const perFrameS = (all.cpuS - one.cpuS) / (frames - 1);
