@@ -5,10 +5,10 @@
  * settings hash). Frames without a thickness map are left out (and listed). Errors name the file:
  * a folder that is not a series output, or one with fewer than two mapped frames.
  */
-import { readFile, readdir, access } from 'node:fs/promises';
+import { readFile, readdir } from 'node:fs/promises';
 import { join } from 'node:path';
 import { InputError } from '../errors.js';
-import { framesDir, frameNpyPath } from '../series/frameFiles.js';
+import { exists, framesDir, frameNpyPath } from '../series/frameFiles.js';
 
 export interface SeriesFrameForFlow {
   readonly name: string;
@@ -67,15 +67,6 @@ export function parseCsv(text: string): string[][] {
 /** A text cell as Lamella wrote it (../io/csvCell.ts): the apostrophe before a formula-like start removed. */
 function uncell(text: string): string {
   return /^'[=+\-@\t\r]/.test(text) ? text.slice(1) : text;
-}
-
-async function exists(path: string): Promise<boolean> {
-  try {
-    await access(path);
-    return true;
-  } catch {
-    return false;
-  }
 }
 
 export async function readSeriesForFlow(dir: string): Promise<SeriesForFlow> {

@@ -26,7 +26,8 @@ export function frameNpyPath(outDir: string, stem: string, what: 'thickness' | '
   return join(framesDir(outDir), `${stem}.${what}.npy`);
 }
 
-async function exists(path: string): Promise<boolean> {
+/** Whether a path can be reached (a file or folder). */
+export async function exists(path: string): Promise<boolean> {
   try {
     await access(path);
     return true;

@@ -3,6 +3,7 @@
  * series (from its thickness maps), thin patches tracked over the frames; resumable and shardable.
  * A thin layer over `flowFromSeries` (../../api/flowFromSeries.ts).
  */
+import { abortOnSignals } from '../abortOnSignals.js';
 import type { Command } from 'commander';
 import { flowFromSeries } from '../../api/flowFromSeries.js';
 import type { FlowOptions, FlowResult } from '../../flow/runFlow.js';
@@ -70,23 +71,16 @@ export function formatFlowSummary(result: FlowResult): string[] {
 
 async function run(seriesDir: string, opts: FlowCliOptions): Promise<void> {
   const options = flowOptionsFrom(opts);
-  const controller = new AbortController();
-  let signalName: NodeJS.Signals | null = null;
-  const onSignal = (name: NodeJS.Signals) => {
-    signalName = name;
-    controller.abort();
-  };
-  process.once('SIGINT', onSignal);
-  process.once('SIGTERM', onSignal);
+  const interrupt = abortOnSignals();
   const result = await flowFromSeries(seriesDir, options, {
-    signal: controller.signal,
+    signal: interrupt.signal,
     onProgress: (p) => {
       if (!opts.quiet) process.stderr.write(`flow: ${p.done}/${p.total} pair(s), ${p.pair} ${p.outcome === 'skipped' ? 'already done' : 'done'}\n`);
     },
   });
-  if (result.interrupted || signalName !== null) {
-    process.stderr.write(`lamella: flow interrupted by ${signalName ?? 'a signal'}; finished pairs are kept, rerun the same command to resume\n`);
-    process.exitCode = signalName === 'SIGTERM' ? 143 : 130;
+  if (result.interrupted || interrupt.received() !== null) {
+    process.stderr.write(`lamella: flow interrupted by ${interrupt.received() ?? 'a signal'}; finished pairs are kept, rerun the same command to resume\n`);
+    process.exitCode = interrupt.exitStatus();
     return;
   }
   if (!opts.quiet) {

@@ -3,6 +3,7 @@
  * resume and shards, then aggregates `series.csv`, `series.json` (drainage fits) and `report.html`.
  * Exit status 3 when any frame failed, 130/143 when interrupted by SIGINT/SIGTERM.
  */
+import { abortOnSignals } from '../abortOnSignals.js';
 import { CAMERA_HELP, parseCameraOption } from '../cameraOption.js';
 import { LIGHT_FIELD_HELP, parseLightFieldOption } from '../lightFieldOption.js';
 import { availableParallelism } from 'node:os';
@@ -163,19 +164,12 @@ function cliError(error: unknown, inputs: string[]): unknown {
 async function run(inputs: string[], opts: SeriesCliOptions): Promise<void> {
   const warn = (m: string) => !opts.quiet && process.stderr.write(`lamella: warning: ${m}\n`);
   const options = await seriesOptionsFrom(opts);
-  const controller = new AbortController();
-  let signalName: NodeJS.Signals | null = null;
-  const onSignal = (name: NodeJS.Signals) => {
-    signalName = name;
-    controller.abort();
-  };
-  process.once('SIGINT', onSignal);
-  process.once('SIGTERM', onSignal);
+  const interrupt = abortOnSignals();
   const progress = progressWriter(opts.quiet === true);
   let result: RunSeriesResult;
   try {
     result = await runSeries(inputs, options, {
-      signal: controller.signal,
+      signal: interrupt.signal,
       onWarning: warn,
       onPlan: (plan) => {
         // On a re-run, say how many frames are mapped again and why.
@@ -194,11 +188,10 @@ async function run(inputs: string[], opts: SeriesCliOptions): Promise<void> {
   } catch (error) {
     throw cliError(error, inputs);
   }
-  // The handlers stay until the process ends: a signal after the run (while the image codec's
-  // threads wind down) must not reach the fallback handler, whose immediate exit could cut them.
-  if (result.interrupted || signalName !== null) {
-    process.stderr.write(`\nlamella: series interrupted by ${signalName ?? 'a signal'}; finished frames are kept, rerun the same command to resume\n`);
-    process.exitCode = signalName === 'SIGTERM' ? 143 : 130;
+  // (The signal handlers stay until the process ends: see ../abortOnSignals.ts.)
+  if (result.interrupted || interrupt.received() !== null) {
+    process.stderr.write(`\nlamella: series interrupted by ${interrupt.received() ?? 'a signal'}; finished frames are kept, rerun the same command to resume\n`);
+    process.exitCode = interrupt.exitStatus();
     return;
   }
   const failedNow = new Set(result.events.filter((e) => e.outcome === 'failed').map((e) => e.message));
