@@ -213,7 +213,11 @@ const cases: Case[] = [
 
 describe('bad input: exit status, one line naming the file or option, no stack trace', () => {
   it.concurrent.for(cases)('$name → exit $status', async (c, { expect }) => {
-    const r = await lamellaAsync(c.args);
+    // Each case writes to its own folder: cases run at once, and a map whose every photo
+    // failed removes the output folder it made, which would pull the folder from under another.
+    const own = `-${cases.indexOf(c)}`;
+    const args = c.args.map((a) => (a === 'out-map' || a === 'o' || a === 'out-huge' ? a + own : a));
+    const r = await lamellaAsync(args);
     expect(r.status, r.stderr).toBe(c.status);
     const lines = r.stderr.split('\n').filter((l) => l !== '' && !l.startsWith('lamella: warning:'));
     expect(lines.length, r.stderr).toBe(c.batch ? 2 : 1);
