@@ -1,4 +1,5 @@
 import convert from 'color-convert';
+import { decodeSrgbCoded } from '../src/colour/srgbDecode8.js';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import {
@@ -102,6 +103,17 @@ describe('sRGB transfer function (IEC 61966-2-1:1999 §5.2)', () => {
     expect(linearToSrgb8(1.7)).toBe(255);
   });
   it('hexOfSrgb8() writes #rrggbb', () => expect(hexOfSrgb8(255, 8, 170)).toBe('#ff08aa'));
+  it('decodeSrgbCoded() is decodeSrgb bit for bit: at every 8-bit code as a float32 photo holds it, and between codes', () => {
+    for (let code = 0; code < 256; code++) {
+      const value = Math.fround(code / 255);
+      expect(decodeSrgbCoded(value)).toBe(decodeSrgb(value));
+    }
+    fc.assert(fc.property(fc.double({ min: 0, max: 1, noNaN: true }), (v) => decodeSrgbCoded(v) === decodeSrgb(v)));
+    // A value near a code but not on it is decoded by the formula, not read from the table.
+    const near = Math.fround(128 / 255) + 1e-9;
+    expect(decodeSrgbCoded(near)).toBe(decodeSrgb(near));
+    expect(decodeSrgbCoded(near)).not.toBe(decodeSrgb(Math.fround(128 / 255)));
+  });
 });
 
 describe('CIELAB (CIE 15:2004 §8.2.1) round trips and landmarks', () => {

@@ -119,3 +119,75 @@ describe('fitLeastSquares({ restartFromInitial: false }): the single descent for
     ).toThrow(/restartFromInitial must be a boolean, received string/);
   });
 });
+
+/** ∂f/∂b of the models above, written out by hand (calculus; each is also checked against central differences below). */
+const DERIVATIVES: Record<string, (b: readonly number[], x: number) => number[]> = {
+  Misra1a: (b, x) => [1 - Math.exp(-b[1] * x), b[0] * x * Math.exp(-b[1] * x)],
+  BoxBOD: (b, x) => [1 - Math.exp(-b[1] * x), b[0] * x * Math.exp(-b[1] * x)],
+  DanWood: (b, x) => [x ** b[1], b[0] * x ** b[1] * Math.log(x)],
+  Chwirut2: (b, x) => {
+    const d = b[1] + b[2] * x;
+    const f = Math.exp(-b[0] * x) / d;
+    return [-x * f, -f / d, (-x * f) / d];
+  },
+  Eckerle4: (b, x) => {
+    const z = (x - b[2]) / b[1];
+    const e = Math.exp(-0.5 * z * z);
+    return [e / b[1], ((b[0] * e) / (b[1] * b[1])) * (z * z - 1), ((b[0] / b[1]) * e * z) / b[1]];
+  },
+};
+
+describe('fitLeastSquares({ jacobian }): the model\'s own derivatives instead of finite differences', () => {
+  // Same datasets and certified values (NIST StRD, as above). With a Jacobian the wrapped library
+  // is skipped and our Marquardt loop does all the work.
+  for (const [name, derivative] of Object.entries(DERIVATIVES)) {
+    const testCase = CASES.find((c) => c.name === name)!;
+    const { meta, x, y } = load(name);
+    const jacobian = (b: readonly number[], out: Float64Array): void => {
+      x.forEach((xi, i) => derivative(b, xi).forEach((d, k) => (out[i * b.length + k] = d)));
+    };
+    it(`${name}: the hand derivatives equal central differences at the certified values`, () => {
+      const b = meta.certified;
+      for (const xi of [x[0], x[Math.floor(x.length / 2)], x[x.length - 1]]) {
+        derivative(b, xi).forEach((d, k) => {
+          const h = 1e-6 * Math.abs(b[k]);
+          const up = b.map((v, j) => (j === k ? v + h : v));
+          const down = b.map((v, j) => (j === k ? v - h : v));
+          const numeric = (testCase.model(up)(xi) - testCase.model(down)(xi)) / (2 * h);
+          expect(Math.abs(d - numeric)).toBeLessThan(1e-6 * Math.max(1, Math.abs(numeric)));
+        });
+      }
+    });
+    it(`${name} from start2: certified parameters to ${testCase.parameterTolerance}, RSS to 1e-9, standard deviations to ${testCase.sdTolerance}`, () => {
+      const result = fitLeastSquares({ x, y, model: testCase.model, jacobian, initial: meta.start2 });
+      expect(result.converged).toBe(true);
+      expect(relativeError(result.residualSumOfSquares, meta.residual_sum_of_squares)).toBeLessThan(1e-9);
+      meta.certified.forEach((value, k) => {
+        expect(relativeError(result.parameters[k], value), `b${k + 1}`).toBeLessThan(testCase.parameterTolerance);
+        expect(relativeError(result.standardErrors[k], meta.certified_sd[k]), `sd b${k + 1}`).toBeLessThan(testCase.sdTolerance);
+      });
+    });
+  }
+  it('with a Jacobian the model is evaluated far fewer times (no finite differences)', () => {
+    const testCase = CASES.find((c) => c.name === 'Chwirut2')!;
+    const { meta, x, y } = load('Chwirut2');
+    let calls = 0;
+    const counted = (b: readonly number[]): ((x: number) => number) => {
+      calls++;
+      return testCase.model(b);
+    };
+    fitLeastSquares({ x, y, model: counted, initial: meta.start2 });
+    const withDifferences = calls;
+    calls = 0;
+    const jacobian = (b: readonly number[], out: Float64Array): void => {
+      x.forEach((xi, i) => DERIVATIVES.Chwirut2(b, xi).forEach((d, k) => (out[i * 3 + k] = d)));
+    };
+    fitLeastSquares({ x, y, model: counted, jacobian, initial: meta.start2 });
+    expect(calls).toBeLessThan(withDifferences / 4);
+  });
+  it('refuses a jacobian that is not a function', () => {
+    expect(() =>
+      fitLeastSquares({ x: [1, 2, 3], y: [1, 2, 3], model: (b) => (x) => b[0] * x, initial: [1], jacobian: 'no' as unknown as () => void }),
+    ).toThrow(/problem\.jacobian must be a function, received string/);
+  });
+});

@@ -14,6 +14,7 @@ export interface CheckedProblem {
   maxIterations: number;
   tolerance: number;
   restartFromInitial: boolean;
+  jacobian: LeastSquaresProblem['jacobian'] | null;
 }
 
 function finiteArray(name: string, values: ArrayLike<number>, length?: number): Float64Array {
@@ -66,5 +67,8 @@ export function checkProblem(problem: LeastSquaresProblem): CheckedProblem {
     throw new TypeError(`restartFromInitial must be a boolean, received ${typeof problem.restartFromInitial}`);
   }
   const restartFromInitial = problem.restartFromInitial ?? true;
-  return { x, y, sqrtWeights, model: problem.model, initial, lower, upper, scale, maxIterations, tolerance, restartFromInitial };
+  if (problem.jacobian !== undefined && typeof problem.jacobian !== 'function') {
+    throw new TypeError(`problem.jacobian must be a function, received ${typeof problem.jacobian}`);
+  }
+  return { x, y, sqrtWeights, model: problem.model, initial, lower, upper, scale, maxIterations, tolerance, restartFromInitial, jacobian: problem.jacobian ?? null };
 }

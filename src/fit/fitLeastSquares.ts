@@ -11,7 +11,9 @@
  *  2. `levenbergMarquardt` from ml-levenberg-marquardt runs in blocks of 10 iterations (every option
  *     passed explicitly; central differences with a per-parameter step) until a block lowers the
  *     sum of squares by less than `tolerance` (relative). The library alone stops only on an
- *     absolute error threshold.
+ *     absolute error threshold. A problem that gives its own Jacobian skips this phase (the
+ *     library takes finite differences only): phase 3 then does all the work, with the model's
+ *     derivatives, at one evaluation and one Jacobian per iteration.
  *  3. Our own Marquardt-scaled loop (./polishLevenbergMarquardt.ts) finishes the descent and
  *     decides convergence. The same loop is also run from the initial point (a restart), and the
  *     lower sum of squares wins: see the comment in the code for why (`restartFromInitial: false`
@@ -56,7 +58,8 @@ export function fitLeastSquares(problem: LeastSquaresProblem): LeastSquaresResul
   };
   let rss = normalised.residuals(q, work);
   let iterations = 0;
-  while (iterations < maxIterations && rss > 0) {
+  // With the model's own derivatives, the library (finite differences only) is skipped.
+  while (checked.jacobian === null && iterations < maxIterations && rss > 0) {
     let out;
     try {
       out = levenbergMarquardt({ x: index, y: target }, parameterised, {
@@ -90,7 +93,7 @@ export function fitLeastSquares(problem: LeastSquaresProblem): LeastSquaresResul
   // from NIST's first start of Rat43 and second start of MGH09 it wanders to a worse minimum.
   // The lower of the two results is kept.
   const viaLibrary = polishLevenbergMarquardt(normalised, q, maxIterations, tolerance);
-  const direct = checked.restartFromInitial
+  const direct = checked.restartFromInitial && checked.jacobian === null
     ? polishLevenbergMarquardt(normalised, checked.initial.map((v, k) => v / scale[k]), maxIterations, tolerance)
     : null;
   const polished = direct !== null && direct.rss < viaLibrary.rss ? direct : viaLibrary;

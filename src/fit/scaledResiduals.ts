@@ -6,6 +6,7 @@
  * with step h = ε^(1/3)·max(|qₖ|, 1), which balances truncation (O(h²)) against rounding
  * (O(ε/h)) — Nocedal & Wright, Numerical Optimization, 2nd ed. 2006, section 8.1.
  * Near a bound the difference becomes one-sided so the model is never evaluated outside it.
+ * When the problem gives its own derivatives (`jacobian`), those are used instead.
  */
 import type { CheckedProblem } from './checkProblem.js';
 
@@ -27,6 +28,7 @@ const STEP = Math.cbrt(Number.EPSILON);
 
 export function scaledResiduals(problem: CheckedProblem, normalisation = 1): ScaledResiduals {
   const { x, y, sqrtWeights, model, scale } = problem;
+  const analytic = problem.jacobian;
   const n = x.length;
   const p = scale.length;
   const lowerQ = problem.lower.map((v, k) => v / scale[k]);
@@ -61,6 +63,15 @@ export function scaledResiduals(problem: CheckedProblem, normalisation = 1): Sca
       return rss;
     },
     jacobian(q, jacobian) {
+      if (analytic) {
+        // The caller's derivatives: J_ik = c·√w_i·∂f_i/∂p_k·scale_k (p = q·scale).
+        analytic(toParams(q), jacobian);
+        for (let i = 0; i < n; i++) {
+          const row = normalisation * sqrtWeights[i];
+          for (let k = 0; k < p; k++) jacobian[i * p + k] *= row * scale[k];
+        }
+        return;
+      }
       const shifted = q.slice();
       for (let k = 0; k < p; k++) {
         const h = STEP * Math.max(Math.abs(q[k]), 1);

@@ -26,6 +26,13 @@ export interface LeastSquaresProblem {
   restartFromInitial?: boolean;
   /** Names of the parameters in words, for warnings (default "parameter k"). */
   parameterNames?: readonly string[];
+  /**
+   * The model's derivatives, when the caller can give them: fills `out` (n × p, row-major) with
+   * ∂f(xᵢ; params)/∂params_k. With it the solver uses no finite differences (each iteration costs
+   * one model evaluation and one Jacobian instead of 2p + 1 evaluations) and runs its own
+   * Marquardt loop only (./polishLevenbergMarquardt.ts): the wrapped library cannot take a Jacobian.
+   */
+  jacobian?: (params: readonly number[], out: Float64Array) => void;
 }
 
 export interface LeastSquaresResult {

@@ -39,6 +39,8 @@ import { type MatchSpace, toMatchSpace } from './matchSpace.js';
 import { distanceAt } from './candidateCube.js';
 import { refinePosition, walkDownhill } from './matchColour.js';
 import type { ExposureParameters } from './types.js';
+import { type NearestHit, buildNearestEntryIndex, nearestEntry } from './nearestEntry.js';
+import { type EntryDerivatives, PARAMETER_COUNT, predictionDerivatives } from './predictionDerivatives.js';
 import { CONTRAST_RANGE, GAMMA_RANGE, IDENTITY_RESPONSE, SATURATION_RANGE } from '../colour/toneResponse.js';
 
 export interface PhotoFormationFit {
@@ -288,6 +290,7 @@ function scanExposure(
   const stride = Math.max(1, Math.floor(n / SCAN_SAMPLES));
   const predicted = new Float32Array(table.count * 3);
   const costs = new Float64Array(Math.ceil(n / stride));
+  const hit: NearestHit = { index: 0, distance: 0 };
   let bestExposure = 1;
   let bestCost = Infinity;
   // Geometric grid 0.1…63 in steps of ×1.26 (28 values), then a finer pass around the best.
@@ -296,16 +299,11 @@ function scanExposure(
   const evaluate = (exposure: number): void => {
     predictIn(space, table, { exposure, whiteBalance, flare }, predicted);
     let m = 0;
+    // The best of every third entry, found through a grid index (the same value as a scan).
+    const index = buildNearestEntryIndex(predicted, table.count, 3);
     for (let i = 0; i < n; i += stride) {
-      const r = samples[i * 3];
-      const g = samples[i * 3 + 1];
-      const b = samples[i * 3 + 2];
-      let best = Infinity;
-      for (let t = 0; t < table.count; t += 3) {
-        const d = distanceAt(predicted, t, r, g, b);
-        if (d < best) best = d;
-      }
-      costs[m++] = best;
+      nearestEntry(index, samples[i * 3], samples[i * 3 + 1], samples[i * 3 + 2], hit);
+      costs[m++] = hit.distance;
     }
     const sorted = costs.subarray(0, m).sort();
     let sum = 0;
@@ -330,24 +328,16 @@ function assignGlobalBest(
   fixedIndex: Int32Array | null,
 ): void {
   const n = assigned.length;
+  // The nearest entry, lowest index among equals, as a scan over the table would give.
+  const index = buildNearestEntryIndex(predicted, count);
+  const hit: NearestHit = { index: 0, distance: 0 };
   for (let i = 0; i < n; i++) {
     if (fixedIndex && fixedIndex[i] >= 0) {
       assigned[i] = fixedIndex[i];
       continue;
     }
-    const r = samples[i * 3];
-    const g = samples[i * 3 + 1];
-    const b = samples[i * 3 + 2];
-    let best = Infinity;
-    let bestIndex = 0;
-    for (let t = 0; t < count; t++) {
-      const d = distanceAt(predicted, t, r, g, b);
-      if (d < best) {
-        best = d;
-        bestIndex = t;
-      }
-    }
-    assigned[i] = bestIndex;
+    nearestEntry(index, samples[i * 3], samples[i * 3 + 1], samples[i * 3 + 2], hit);
+    assigned[i] = hit.index < 0 ? 0 : hit.index;
   }
 }
 
@@ -458,6 +448,8 @@ function innerFit(
   const predicted = new Float32Array(table.count * 3);
   const modelValues = new Float64Array(rows);
   const costScratch = new Float64Array(1);
+  /** Each kept sample's table position at the last evaluation (for the Jacobian). */
+  const positions = new Float64Array(m);
   let cachedKey = '';
   const evaluate = (p: readonly number[]): Float64Array => {
     const key = p.join(',');
@@ -473,6 +465,7 @@ function innerFit(
       const fixed = fixedIndex !== null && fixedIndex !== undefined && fixedIndex[i] >= 0;
       const index = fixed ? assigned[i] : walkDownhill(predicted, table.count, r, g, b, assigned[i]);
       const position = fixed ? index : refinePosition(predicted, table.count, r, g, b, index, costScratch, 0);
+      positions[j] = position;
       interpolateColour(predicted, table.count, position, modelValues, j * 3);
     }
     modelValues[m * 3] = fitWhiteBalance ? priorWeight * (v[1] - 1) : 0;
@@ -483,6 +476,25 @@ function innerFit(
     modelValues[m * 3 + 7] = fitResponse ? saturationPriorWeight * (v[8] - 1) : 0;
     return modelValues;
   };
+  const priorWeights = { wb: fitWhiteBalance ? priorWeight : 0, flare: fitFlare ? flarePriorWeight : 0, contrast: contrastPriorWeight, gamma: gammaPriorWeight, saturation: saturationPriorWeight };
+  const derivativeCache = { entries: new Float64Array(table.count * 3 * PARAMETER_COUNT), done: new Uint8Array(table.count) };
+  const jacobian = (p: readonly number[], out: Float64Array): void => {
+    evaluate(p);
+    const v = expand(p);
+    fillJacobian(out, {
+      derivatives: predictionDerivatives(table, toParameters(v), options.space ?? null),
+      predicted,
+      count: table.count,
+      positions,
+      kept,
+      fixedIndex: fixedIndex ?? null,
+      active,
+      fullParameters: v,
+      priorWeights,
+      fitResponse,
+      cache: derivativeCache,
+    });
+  };
   const fit = fitLeastSquares({
     x,
     y,
@@ -490,6 +502,7 @@ function innerFit(
       const values = evaluate(p);
       return (row) => values[row];
     },
+    jacobian,
     initial: active.map((slot) => full[slot]),
     lower: active.map((slot) => lowerFull[slot]),
     upper: active.map((slot) => upperFull[slot]),
@@ -520,6 +533,90 @@ function innerFit(
         : w,
     ),
   };
+}
+
+interface JacobianInput {
+  readonly derivatives: EntryDerivatives;
+  /** The predicted table (matching space) the positions were found on. */
+  readonly predicted: Float32Array;
+  readonly count: number;
+  readonly positions: Float64Array;
+  readonly kept: readonly number[];
+  readonly fixedIndex: Int32Array | null;
+  /** Full-vector slot of each fitted parameter. */
+  readonly active: readonly number[];
+  readonly fullParameters: readonly number[];
+  readonly priorWeights: { wb: number; flare: number; contrast: number; gamma: number; saturation: number };
+  readonly fitResponse: boolean;
+  /** Per table entry: its derivatives (count × 3 × PARAMETER_COUNT) and whether computed yet. */
+  readonly cache: { entries: Float64Array; done: Uint8Array };
+}
+
+/**
+ * The innerFit model's Jacobian (rows: three per kept sample, then the prior rows; columns: the
+ * active parameters). A sample's model colour is the table interpolated at the thickness that
+ * best matches it, a thickness that itself moves with the parameters; its derivative is taken as
+ * in variable projection with Kaufman's simplification (Kaufman 1975, BIT 15, 49–57): the
+ * derivative at fixed thickness, with its component along the table's tangent there removed
+ * (the thickness follows that component). Samples of known thickness (anchors) keep it whole.
+ */
+function fillJacobian(out: Float64Array, input: JacobianInput): void {
+  const { derivatives, predicted, count, positions, kept, fixedIndex, active, fullParameters, priorWeights } = input;
+  const P = PARAMETER_COUNT;
+  const columns = active.length;
+  const at = new Float64Array(3 * P);
+  // Samples share table entries: each entry's derivatives are computed once.
+  const { entries, done } = input.cache;
+  done.fill(0);
+  const entry = (index: number): number => {
+    const offset = index * 3 * P;
+    if (!done[index]) {
+      derivatives(index, entries.subarray(offset, offset + 3 * P));
+      done[index] = 1;
+    }
+    return offset;
+  };
+  out.fill(0);
+  for (let j = 0; j < kept.length; j++) {
+    const position = positions[j];
+    let i = Math.floor(position);
+    if (i < 0) i = 0;
+    if (i > count - 2) i = count - 2;
+    const f = position - i;
+    const a = entry(i);
+    const b = entry(i + 1);
+    for (let k = 0; k < 3 * P; k++) at[k] = entries[a + k] + f * (entries[b + k] - entries[a + k]);
+    const fixed = fixedIndex !== null && fixedIndex[kept[j]] >= 0;
+    if (!fixed && position > 0 && position < count - 1) {
+      const t0 = predicted[(i + 1) * 3] - predicted[i * 3];
+      const t1 = predicted[(i + 1) * 3 + 1] - predicted[i * 3 + 1];
+      const t2 = predicted[(i + 1) * 3 + 2] - predicted[i * 3 + 2];
+      const tt = t0 * t0 + t1 * t1 + t2 * t2;
+      if (tt > 0) {
+        for (let k = 0; k < P; k++) {
+          const along = (t0 * at[k] + t1 * at[P + k] + t2 * at[2 * P + k]) / tt;
+          at[k] -= along * t0;
+          at[P + k] -= along * t1;
+          at[2 * P + k] -= along * t2;
+        }
+      }
+    }
+    for (let c = 0; c < 3; c++) for (let a = 0; a < columns; a++) out[(j * 3 + c) * columns + a] = at[c * P + active[a]];
+  }
+  // Prior rows (see innerFit's model): weight·(gain − 1), weight·flare, weight·contrast,
+  // weight·ln γ, weight·(saturation − 1).
+  const base = kept.length * 3;
+  const priorSlope = [0, priorWeights.wb, priorWeights.wb, priorWeights.flare, priorWeights.flare, priorWeights.flare, 0, 0, 0];
+  if (input.fitResponse) {
+    priorSlope[6] = priorWeights.contrast;
+    priorSlope[7] = priorWeights.gamma / fullParameters[7];
+    priorSlope[8] = priorWeights.saturation;
+  }
+  const priorRow = [-1, 0, 1, 2, 3, 4, 5, 6, 7];
+  for (let a = 0; a < columns; a++) {
+    const slot = active[a];
+    if (priorRow[slot] >= 0) out[(base + priorRow[slot]) * columns + a] = priorSlope[slot];
+  }
 }
 
 /** Linear interpolation of the predicted encoded colour at a fractional table position. */

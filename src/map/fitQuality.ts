@@ -7,7 +7,8 @@
  * photos of films give medians of 0.5–1.5 and 95th percentiles of 2–5; a camera picture style,
  * uneven light, a wrong light or stack give several times more.
  */
-import { decodeSrgb, LINEAR_SRGB_TO_XYZ, SRGB_WHITE_XYZ } from '../colour/srgb.js';
+import { LINEAR_SRGB_TO_XYZ, SRGB_WHITE_XYZ } from '../colour/srgb.js';
+import { decodeSrgbCoded } from '../colour/srgbDecode8.js';
 import { deltaE2000 } from '../colour/deltaE.js';
 import { LAB_EPSILON, LAB_KAPPA } from '../colour/lab.js';
 import { percentileSelect } from './statistics.js';
@@ -99,9 +100,9 @@ export function poorFitWarning(quality: FitQuality): string {
 
 /** Encoded sRGB (or linear) → CIELAB relative to the D65 white (Y_white = 1). */
 function encodedToLab(r: number, g: number, b: number, encoded: boolean, out: Float64Array): void {
-  const lr = encoded ? decodeSrgb(clamp(r)) : clamp(r);
-  const lg = encoded ? decodeSrgb(clamp(g)) : clamp(g);
-  const lb = encoded ? decodeSrgb(clamp(b)) : clamp(b);
+  const lr = encoded ? decodeSrgbCoded(clamp(r)) : clamp(r);
+  const lg = encoded ? decodeSrgbCoded(clamp(g)) : clamp(g);
+  const lb = encoded ? decodeSrgbCoded(clamp(b)) : clamp(b);
   const m = LINEAR_SRGB_TO_XYZ;
   const x = m[0] * lr + m[1] * lg + m[2] * lb;
   const y = m[3] * lr + m[4] * lg + m[5] * lb;

@@ -14,7 +14,7 @@
  * partly hides its own shortfall, so the range found is a lower bound of the real one.
  */
 import { choleskySolve } from '../fit/normalEquations.js';
-import { decodeSrgb } from '../colour/srgb.js';
+import { decodeSrgbCoded } from '../colour/srgbDecode8.js';
 import { PixelStatus } from './types.js';
 import { selectKth } from './statistics.js';
 import { modelColourAt, type PhotoAndModel } from './fitQuality.js';
@@ -58,7 +58,7 @@ const MIN_MODEL_LUMINANCE = 0.04;
 const TERMS = 7;
 
 function linearOf(value: number, encoded: boolean): number {
-  return encoded ? decodeSrgb(value < 0 ? 0 : value > 1 ? 1 : value) : value;
+  return encoded ? decodeSrgbCoded(value < 0 ? 0 : value > 1 ? 1 : value) : value;
 }
 
 function luminance(r: number, g: number, b: number, encoded: boolean): number {

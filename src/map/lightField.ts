@@ -241,8 +241,12 @@ export interface LightFieldJob<R extends MapResult, P extends MapResult = R> {
   readonly rgb: Float32Array;
   readonly width: number;
   readonly height: number;
-  /** Maps the (evened) pixels; `fitStart` starts the photo-formation fit (the preview's fit); `fixed` replaces it. */
-  readonly mapWith: (pixels: Float32Array, fitStart?: ExposureParameters | null, fixed?: ExposureParameters | null) => R;
+  /**
+   * Maps the (evened) pixels; `fitStart` starts the photo-formation fit; `fixed` replaces it;
+   * `fittedOn` is the preview's map of the same (evened) photo, whose photo-formation fit the map
+   * takes as its own instead of fitting again (the preview's samples are as many and as good).
+   */
+  readonly mapWith: (pixels: Float32Array, fitStart?: ExposureParameters | null, fixed?: ExposureParameters | null, fittedOn?: P | null) => R;
   readonly mode: LightFieldMode;
   /** A previous frame's field to start from, or a calibration's to apply. */
   readonly start?: LightFieldStart | null;
@@ -283,9 +287,11 @@ export function mapWithLightField<R extends MapResult, P extends MapResult = R>(
     if (!small.coefficients && small.first.filmArea?.found === false && preview.mapCentreWith) {
       small = fromCentre(preview.rgb, preview.width, preview.height, preview.mapWith, preview.mapCentreWith, startFlare) ?? small;
     }
-    if (!small.coefficients) return { result: mapWith(rgb), field: null };
-    // The preview's fit starts the full map's (the same light, once evened).
-    const result = mapWith(evenOutLight(rgb, width, height, small.coefficients, small.best.fitted.flare, small.clamp, small.best.fitted.response ?? null), small.best.fitted);
+    // The full map takes the preview's photo-formation fit (the same photo, or the same photo
+    // evened by the same field) when the preview found film.
+    const fittedOn = (map: P): P | null => (map.filmArea?.found === false ? null : map);
+    if (!small.coefficients) return { result: mapWith(rgb, null, null, fittedOn(small.first)), field: null };
+    const result = mapWith(evenOutLight(rgb, width, height, small.coefficients, small.best.fitted.flare, small.clamp, small.best.fitted.response ?? null), small.best.fitted, null, fittedOn(small.best));
     return { result, field: fieldOver(result, small.coefficients, width, height, small.rounds, 'photo', true) };
   }
   let run = alternate(rgb, width, height, mapWith, startCoefficients, startFlare, null, startResponse);

@@ -119,7 +119,7 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
   // (buildColourTable.ts), and the same monotone encoding on both sides leaves the model exact.
   const rgb = built.camera.encoding === 'linear' ? encodeLinearPhoto(photo.rgb) : photo.rgb;
   const film = buildFilmMask(photo.width, photo.height, options.region, mask, photo.alpha);
-  const mapAt = (pixels: Float32Array, at: FrameGeometry, fitStart: ExposureParameters | null = null, fixed: ExposureParameters | null = null) => mapPixels({
+  const mapAt = (pixels: Float32Array, at: FrameGeometry, fitStart: ExposureParameters | null = null, fixed: ExposureParameters | null = null, fittedOn: MapPixelsResult | null = null) => mapPixels({
     rgb: pixels,
     width: at.width,
     height: at.height,
@@ -133,6 +133,7 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
     priorStatus: at.priorStatus,
     exposureFixed: fixed ?? options.exposureFixed ?? null,
     fitStart: fitStart ?? options.fitStart ?? null,
+    adoptedFit: fittedOn?.fit ? { fit: fittedOn.fit, parameters: fittedOn.fitted } : null,
     // A start from within this photo (a light-field round, the preview's fit) is followed as it
     // is; a series frame's own first fit does not depend on the frame before (MapOptions.ownFit).
     ownFit: fitStart === null && options.ownFit === true,
@@ -156,11 +157,11 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
   // Uneven light: the exposure is fitted as a smooth field by alternation (./lightField.ts), on a
   // subsampled preview when the photo is large.
   const preview = previewOf(rgb, full);
-  const { result, field } = mapWithLightField({
+  const { result, field } = mapWithLightField<MapPixelsResult, MapPixelsResult>({
     rgb,
     width: photo.width,
     height: photo.height,
-    mapWith: (pixels, fitStart, fixed) => mapAt(pixels, full, fitStart ?? null, fixed ?? null),
+    mapWith: (pixels, fitStart, fixed, fittedOn) => mapAt(pixels, full, fitStart ?? null, fixed ?? null, fittedOn ?? null),
     mode: options.lightField ?? 'auto',
     start: lightFieldStartOf(options, photo.width, photo.height),
     preview: preview

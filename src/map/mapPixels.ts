@@ -66,6 +66,12 @@ export interface MapPixelsInput {
   readonly onPhase?: ((phase: MapPhase) => void) | null;
   /** Start of the photo-formation fit instead of its scan (a series: the previous frame's fit). */
   readonly fitStart?: ExposureParameters | null;
+  /**
+   * A photo-formation fit made already on a subsampled preview of this photo (./lightField.ts): taken
+   * as this map's fit, with no fit of its own (a fit uses a fixed number of samples, which the
+   * preview holds as well). Ignored with `exposureFixed`.
+   */
+  readonly adoptedFit?: { readonly fit: PhotoFormationFit; readonly parameters: ExposureParameters } | null;
   /** Fit as a series frame (MapOptions.ownFit): the photo's own answer first, `fitStart` only competing. */
   readonly ownFit?: boolean;
   /** Second look at poor colour matches (keepConsistent.ts); default true. */
@@ -168,7 +174,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   let fitSampleCount = 0;
   const fitOnFilm = (start: ExposureParameters | null, balanced: boolean): ExposureParameters => {
     const plain = sampleFitPixels(rgb, status, pixels, FIT_SAMPLES, balanced);
-    const distinct = distinctColourCount(sampleFitPixels(rgb, status, pixels, FIT_SAMPLES, false));
+    const distinct = distinctColourCount(balanced ? sampleFitPixels(rgb, status, pixels, FIT_SAMPLES, false) : plain);
     // Anchors take part in the fit: their pixels are samples of known thickness.
     const anchored = anchorSamples(rgb, status, width, height, anchors, table, plain.length / 3, distinct);
     const samplesRgb = anchored ? concatFloat32(plain, anchored.colours) : plain;
@@ -203,7 +209,12 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   };
   // Before the film area is known, a colour-balanced sample keeps a large uniform background
   // from outvoting the film; once it is known, the film's own pixels are sampled plainly.
-  let parameters: ExposureParameters = input.exposureFixed ?? fitOnFilm(input.fitStart ?? null, autoArea);
+  const adopted = input.exposureFixed ? null : input.adoptedFit ?? null;
+  if (adopted) {
+    fit = adopted.fit;
+    fitSampleCount = adopted.fit.samplesUsed;
+  }
+  let parameters: ExposureParameters = input.exposureFixed ?? adopted?.parameters ?? fitOnFilm(input.fitStart ?? null, autoArea);
 
   lap('fit');
   phase('orders');
@@ -224,7 +235,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
     const excluded = applyFilmArea(area, status, width, height, block, gridWidth, false);
     // What was fitted included pixels that are not film: fit again on the film alone (a plain
     // sample) and class the cells again.
-    if (!input.exposureFixed && area.found && excluded > REFIT_EXCLUDED_SHARE * pixels) {
+    if (!input.exposureFixed && !adopted && area.found && excluded > REFIT_EXCLUDED_SHARE * pixels) {
       resetDerivedStatus(status, rgb);
       applyFilmArea(area, status, width, height, block, gridWidth, false);
       // Without anchors from the scan (or the series' start) again: the first fit may sit in a

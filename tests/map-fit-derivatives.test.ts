@@ -1,0 +1,152 @@
+/**
+ * The photo-formation fit's two shortcuts, each against its definition:
+ * - predictionDerivatives(): the chain-rule derivatives of a predicted table colour equal central
+ *   differences (Nocedal & Wright, Numerical Optimization, 2nd ed. 2006, §8.1) of the exact model,
+ *   written here from the library's exact pieces (sRGB encode of IEC 61966-2-1:1999, the tone
+ *   curve and saturation of ../src/colour/toneResponse.ts, JFIF Y′CbCr of ITU-T T.871);
+ * - nearestEntry(): the same entry and distance as a scan over the whole table (lowest index among
+ *   equal distances), including tables with many equal (clipped) colours and colours far from all.
+ */
+import { describe, expect, it } from 'vitest';
+import { buildColourTable } from '../src/map/buildColourTable.js';
+import { predictEncodedTable } from '../src/map/colourTable.js';
+import { predictionDerivatives, PARAMETER_COUNT } from '../src/map/predictionDerivatives.js';
+import { buildNearestEntryIndex, nearestEntry } from '../src/map/nearestEntry.js';
+import { matchSpace, toMatchSpace } from '../src/map/matchSpace.js';
+import { balanceTable } from '../src/colour/exposureModel.js';
+import { encodeSrgb } from '../src/colour/srgb.js';
+import { applyResponse } from '../src/colour/toneResponse.js';
+import { distanceAt } from '../src/map/candidateCube.js';
+import { resolveStack } from '../src/optics/index.js';
+import type { ExposureParameters } from '../src/map/types.js';
+
+const soap = buildColourTable({ stack: resolveStack('soap-film'), angleRad: 0, light: 'D65', maxThicknessNm: 2000 }).table;
+
+/** Full parameter vector (exposure, red and blue gains, three flares, contrast, gamma, saturation) → parameters. */
+function parametersOf(v: readonly number[], withResponse: boolean): ExposureParameters {
+  return {
+    exposure: v[0],
+    whiteBalance: [v[1], 1, v[2]],
+    flare: [v[3], v[4], v[5]],
+    response: withResponse ? { contrast: v[6], gamma: v[7], saturation: v[8] } : null,
+  };
+}
+
+/** The exact model for one entry (no tables): clamp, encode, response, matching space. */
+function exactColour(index: number, v: readonly number[], encoding: 'srgb' | 'linear', withResponse: boolean, chromaWeight: number): number[] {
+  const p = parametersOf(v, withResponse);
+  const linear = Float64Array.from(soap.rgbLinear.subarray(index * 3, index * 3 + 3));
+  const balanced = balanceTable(linear, p, encoding);
+  const encoded = new Float32Array(3);
+  for (let c = 0; c < 3; c++) {
+    const value = Math.min(1, Math.max(0, balanced[c] + p.flare[c]));
+    encoded[c] = encoding === 'srgb' ? encodeSrgb(value) : value;
+  }
+  const out = Float64Array.from(encoded);
+  if (encoding === 'srgb') applyResponse(out, 1, p.response);
+  const space = matchSpace(chromaWeight);
+  if (!space) return Array.from(out);
+  return Array.from(toMatchSpace(space, Float32Array.from(out), new Float32Array(3)));
+}
+
+describe('predictionDerivatives(): chain-rule derivatives of a predicted colour', () => {
+  const cases = [
+    { name: 'sRGB, picture style, JPEG 4:2:0 matching space', encoding: 'srgb', response: true, chroma: 0.7, v: [1.3, 1.08, 0.93, 0.01, 0.015, 0.02, 0.2, 1.1, 1.2] },
+    { name: 'sRGB, identity response (where a response fit starts)', encoding: 'srgb', response: true, chroma: 1, v: [1.1, 0.95, 1.05, 0.005, 0.01, 0.0, 0, 1, 1] },
+    { name: 'sRGB, no response', encoding: 'srgb', response: false, chroma: 1, v: [0.9, 1.02, 0.97, 0.02, 0.0, 0.01, 0, 1, 1] },
+    { name: 'linear camera', encoding: 'linear', response: false, chroma: 1, v: [1.2, 1.1, 0.9, 0.01, 0.01, 0.01, 0, 1, 1] },
+  ] as const;
+  for (const c of cases) {
+    it(`${c.name}: equal to central differences of the exact model`, () => {
+      const table = { ...soap, encoding: c.encoding };
+      const derivative = predictionDerivatives(table, parametersOf(c.v, c.response), matchSpace(c.chroma));
+      const out = new Float64Array(3 * PARAMETER_COUNT);
+      const columns = c.response ? PARAMETER_COUNT : 6;
+      let compared = 0;
+      for (const index of [3, 40, 120, 260, 410, 655, 900, 1400, 1990]) {
+        // A colour held exactly at a clamp (0 or 1) sits on a kink, where no derivative exists.
+        const plain = exactColour(index, c.v, c.encoding, c.response, 1);
+        if (plain.some((x) => x <= 0 || x >= 1)) continue;
+        derivative(index, out);
+        for (let k = 0; k < columns; k++) {
+          const h = 1e-6 * Math.max(1, Math.abs(c.v[k]));
+          const up = exactColour(index, c.v.map((x, j) => (j === k ? x + h : x)), c.encoding, c.response, c.chroma);
+          const down = exactColour(index, c.v.map((x, j) => (j === k ? x - h : x)), c.encoding, c.response, c.chroma);
+          for (let ch = 0; ch < 3; ch++) {
+            const numeric = (up[ch] - down[ch]) / (2 * h);
+            // float32 colours: differences carry ~1e-7/h of rounding.
+            expect(Math.abs(out[ch * PARAMETER_COUNT + k] - numeric), `entry ${index}, parameter ${k}, channel ${ch}`).toBeLessThan(0.03 + 1e-3 * Math.abs(numeric));
+            compared++;
+          }
+        }
+        if (!c.response) for (let k = 6; k < PARAMETER_COUNT; k++) for (let ch = 0; ch < 3; ch++) expect(out[ch * PARAMETER_COUNT + k]).toBe(0);
+      }
+      expect(compared).toBeGreaterThan(60);
+    });
+  }
+
+  it('a channel clipped before the encode passes no derivative', () => {
+    const v = [40, 1, 1, 0, 0, 0, 0, 1, 1];
+    const derivative = predictionDerivatives(soap, parametersOf(v, false), null);
+    const out = new Float64Array(3 * PARAMETER_COUNT);
+    derivative(700, out);
+    const predicted = predictEncodedTable(soap, parametersOf(v, false));
+    for (let ch = 0; ch < 3; ch++) if (predicted[700 * 3 + ch] === 1) for (let k = 0; k < 6; k++) expect(out[ch * PARAMETER_COUNT + k]).toBe(0);
+    expect(Array.from(predicted.subarray(2100, 2103))).toContain(1);
+  });
+});
+
+describe('nearestEntry(): the nearest table entry, as a scan finds it', () => {
+  /** A small deterministic generator (a linear congruential one; the test needs no quality). */
+  function random(seed: number): () => number {
+    let state = seed;
+    return () => {
+      state = (state * 1664525 + 1013904223) >>> 0;
+      return state / 2 ** 32;
+    };
+  }
+  function scan(predicted: Float32Array, count: number, stride: number, r: number, g: number, b: number): [number, number] {
+    let best = Infinity;
+    let bestIndex = -1;
+    for (let t = 0; t < count; t += stride) {
+      const d = distanceAt(predicted, t, r, g, b);
+      if (d < best) {
+        best = d;
+        bestIndex = t;
+      }
+    }
+    return [bestIndex, best];
+  }
+  const exposures = [0.3, 1, 7.5, 60];
+  for (const exposure of exposures) {
+    for (const stride of [1, 3]) {
+      it(`exposure ${exposure}, every ${stride === 1 ? '' : `${stride}rd `}entry: same index and distance for 3,000 colours`, () => {
+        const predicted = predictEncodedTable(soap, { exposure, whiteBalance: [1, 1, 1], flare: [0.01, 0.01, 0.01] });
+        const index = buildNearestEntryIndex(predicted, soap.count, stride);
+        const next = random(Math.round(exposure * 1000) + stride);
+        const hit = { index: 0, distance: 0 };
+        for (let q = 0; q < 3000; q++) {
+          // A third near table colours (the usual query), a third the table's own colours (ties), a third anywhere.
+          const kind = q % 3;
+          const t = Math.floor(next() * soap.count);
+          const r = kind === 2 ? next() : predicted[t * 3] + (kind === 0 ? (next() - 0.5) * 0.04 : 0);
+          const g = kind === 2 ? next() : predicted[t * 3 + 1] + (kind === 0 ? (next() - 0.5) * 0.04 : 0);
+          const b = kind === 2 ? next() : predicted[t * 3 + 2] + (kind === 0 ? (next() - 0.5) * 0.04 : 0);
+          nearestEntry(index, r, g, b, hit);
+          const [expectedIndex, expectedDistance] = scan(predicted, soap.count, stride, r, g, b);
+          expect(hit.index, `query ${q}`).toBe(expectedIndex);
+          expect(hit.distance).toBe(expectedDistance);
+        }
+      });
+    }
+  }
+  it('a table of many equal (clipped) colours gives the lowest index among them', () => {
+    const predicted = predictEncodedTable(soap, { exposure: 60, whiteBalance: [1, 1, 1], flare: [0, 0, 0] });
+    const white = [];
+    for (let t = 0; t < soap.count; t++) if (predicted[t * 3] === 1 && predicted[t * 3 + 1] === 1 && predicted[t * 3 + 2] === 1) white.push(t);
+    expect(white.length).toBeGreaterThan(10);
+    const hit = { index: 0, distance: 0 };
+    nearestEntry(buildNearestEntryIndex(predicted, soap.count), 1, 1, 1, hit);
+    expect(hit).toEqual({ index: white[0], distance: 0 });
+  });
+});
