@@ -109,7 +109,12 @@ const LOG_GRID = Float64Array.from({ length: TONE_TABLE_SIZE + 1 }, (_, j) => Ma
 let tableContrast = 0;
 let tableGamma = 1;
 
+let tableFilled = false;
+
 function fillToneTable(contrast: number, gamma: number): void {
+  // The same curve again (a photo's rows, one after another): the table holds it already.
+  if (tableFilled && contrast === tableContrast && gamma === tableGamma) return;
+  tableFilled = true;
   tableContrast = contrast;
   tableGamma = gamma;
   toneTable[0] = 0;

@@ -17,7 +17,7 @@
  */
 import { createSrgbDecoder, createSrgbEncoder } from '../colour/srgbEncoderTable.js';
 import { relativeGainAt } from './lightEvenness.js';
-import { applyResponse, type CameraResponse, createResponseInverse } from '../colour/toneResponse.js';
+import { applyResponse, type CameraResponse, createResponseInverse, type ResponseInverse } from '../colour/toneResponse.js';
 import type { ExposureField, ExposureParameters, MapResult } from './types.js';
 
 export type { ExposureField } from './types.js';
@@ -102,34 +102,52 @@ export function evenOutLight(
     colTerm[x] = c[1] * u + c[3] * u * u;
   }
   const r4 = c[6] ?? 0;
+  const inverse = new Float64Array(width);
+  const lo = clamp ? clamp[0] : -Infinity;
+  const hi = clamp ? clamp[1] : Infinity;
+  // Each loop is its own small function (a long function with nested loops is compiled loop by
+  // loop and falls back to the interpreter between them).
+  for (let y = 0; y < height; y++) {
+    const v = (y + 0.5 - height / 2) / half;
+    inverseGainRow(us, colTerm, c[0] + c[2] * v + c[5] * v * v, c[4] * v, v, r4, lo, hi, inverse);
+    const offset = y * width * 3;
+    if (inverseResponse.identity) divideRow(rgb, out, offset, width, inverse, flare);
+    else {
+      invertRow(inverseResponse, rgb, out, offset, width);
+      divideRow(out, out, offset, width, inverse, flare);
+      applyResponse(out.subarray(offset, offset + width * 3), width, response);
+    }
+  }
+  return out;
+}
+
+/** exp(−log gain) along one row, the log gain held within [lo, hi]. */
+function inverseGainRow(us: Float64Array, colTerm: Float64Array, rowTerm: number, uvTerm: number, v: number, r4: number, lo: number, hi: number, out: Float64Array): void {
+  for (let x = 0; x < us.length; x++) {
+    const u = us[x];
+    const r2 = u * u + v * v;
+    let logGain = rowTerm + colTerm[x] + uvTerm * u + r4 * r2 * r2;
+    logGain = logGain < lo ? lo : logGain > hi ? hi : logGain;
+    out[x] = Math.exp(-logGain);
+  }
+}
+
+/** One row divided by its gains in linear light, flare kept: encode((decode(v) − f)·inverse + f). */
+function divideRow(from: Float32Array, to: Float32Array, offset: number, width: number, inverse: Float64Array, flare: readonly number[]): void {
   const f0 = flare[0];
   const f1 = flare[1];
   const f2 = flare[2];
-  for (let y = 0; y < height; y++) {
-    const v = (y + 0.5 - height / 2) / half;
-    const rowTerm = c[0] + c[2] * v + c[5] * v * v;
-    const uvTerm = c[4] * v;
-    for (let x = 0; x < width; x++) {
-      const u = us[x];
-      const r2 = u * u + v * v;
-      let logGain = rowTerm + colTerm[x] + uvTerm * u + r4 * r2 * r2;
-      if (clamp) logGain = logGain < clamp[0] ? clamp[0] : logGain > clamp[1] ? clamp[1] : logGain;
-      const inverse = Math.exp(-logGain);
-      const i = (y * width + x) * 3;
-      if (inverseResponse.identity) {
-        out[i] = encodeFast((decodeFast(rgb[i]) - f0) * inverse + f0);
-        out[i + 1] = encodeFast((decodeFast(rgb[i + 1]) - f1) * inverse + f1);
-        out[i + 2] = encodeFast((decodeFast(rgb[i + 2]) - f2) * inverse + f2);
-      } else {
-        inverseResponse.invert(rgb[i], rgb[i + 1], rgb[i + 2], out, i);
-        out[i] = encodeFast((decodeFast(out[i]) - f0) * inverse + f0);
-        out[i + 1] = encodeFast((decodeFast(out[i + 1]) - f1) * inverse + f1);
-        out[i + 2] = encodeFast((decodeFast(out[i + 2]) - f2) * inverse + f2);
-      }
-    }
-    if (!inverseResponse.identity) applyResponse(out.subarray(y * width * 3, (y + 1) * width * 3), width, response);
+  for (let x = 0, i = offset; x < width; x++, i += 3) {
+    const k = inverse[x];
+    to[i] = encodeFast((decodeFast(from[i]) - f0) * k + f0);
+    to[i + 1] = encodeFast((decodeFast(from[i + 1]) - f1) * k + f1);
+    to[i + 2] = encodeFast((decodeFast(from[i + 2]) - f2) * k + f2);
   }
-  return out;
+}
+
+/** One row taken back through the camera response's inverse. */
+function invertRow(inverseResponse: ResponseInverse, from: Float32Array, to: Float32Array, offset: number, width: number): void {
+  for (let x = 0, i = offset; x < width; x++, i += 3) inverseResponse.invert(from[i], from[i + 1], from[i + 2], to, i);
 }
 
 /** Tabulated sRGB transfer functions (../colour/srgbEncoderTable.ts; they clamp to 0..1). */

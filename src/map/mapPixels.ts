@@ -72,6 +72,11 @@ export interface MapPixelsInput {
    * preview holds as well). Ignored with `exposureFixed`.
    */
   readonly adoptedFit?: { readonly fit: PhotoFormationFit; readonly parameters: ExposureParameters } | null;
+  /**
+   * Most cells of the order-resolution grid (default MAX_GRID_CELLS); a photo with more pixels is
+   * resolved on blocks of pixels. A light-field preview uses fewer (mapPhoto.ts).
+   */
+  readonly maxGridCells?: number;
   /** Fit as a series frame (MapOptions.ownFit): the photo's own answer first, `fitStart` only competing. */
   readonly ownFit?: boolean;
   /** Second look at poor colour matches (keepConsistent.ts); default true. */
@@ -165,7 +170,8 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   phase('fit');
   const autoArea = input.filmArea !== 'whole';
   const asserted = anchors.length > 0 || (input.expectNm ?? null) !== null;
-  const blockOf = Math.max(1, Math.ceil(Math.sqrt(pixels / MAX_GRID_CELLS)));
+  const maxGridCells = input.maxGridCells ?? MAX_GRID_CELLS;
+  const blockOf = Math.max(1, Math.ceil(Math.sqrt(pixels / maxGridCells)));
   const anchorCellsOf = anchors
     .filter((a) => a.x >= 0 && a.y >= 0 && a.x < width && a.y < height)
     .map((a) => Math.floor(a.y / blockOf) * Math.ceil(width / blockOf) + Math.floor(a.x / blockOf));
@@ -220,7 +226,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   phase('orders');
   const periodIndex = input.orderPeriodNm / table.stepNm;
   const count = table.count;
-  const block = Math.max(1, Math.ceil(Math.sqrt(pixels / MAX_GRID_CELLS)));
+  const block = blockOf;
   const gridWidth = Math.ceil(width / block);
   const gridHeight = Math.ceil(height / block);
   const cube = createCandidateCube(CUBE_LEVELS, PER_CELL);
