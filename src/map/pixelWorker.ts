@@ -8,7 +8,7 @@
 import { parentPort, workerData, type MessagePort } from 'node:worker_threads';
 import { createCandidateCube } from './candidateCube.js';
 import { createMatchScratch } from './matchColour.js';
-import { createAlternativeMemo, matchPixelRows, scorePixelRows, type PixelPassInput, type ScoreInput } from './pixelPass.js';
+import { createColourMemo, matchPixelRows, scorePixelRows, type PixelPassInput, type ScoreInput } from './pixelPass.js';
 import { CONTROL, nextChunk, type BandTask } from './pixelThreads.js';
 
 const { control: controlBuffer, replies } = workerData as { control: SharedArrayBuffer; replies: MessagePort };
@@ -27,7 +27,7 @@ parentPort?.on('message', (task: BandTask) => {
       const input: PixelPassInput = {
         ...rest,
         cube: createCandidateCube(cubeLevels, perCell),
-        memo: eightBit ? createAlternativeMemo(rest.count) : null,
+        memo: eightBit ? createColourMemo(rest.count) : null,
       };
       const scratch = createMatchScratch(perCell);
       let unresolved = 0;
