@@ -217,6 +217,11 @@ interface Pass {
   /** Of the last `solve`: the refined position and its RGB cost. */
   position: number;
   rgbCost: number;
+  /** The last colour looked up in the memo and its entry (NaN: none yet). */
+  lastR: number;
+  lastG: number;
+  lastB: number;
+  lastEntry: number;
 }
 
 /**
@@ -225,7 +230,7 @@ interface Pass {
  */
 export function matchPixelRows(input: PixelPassInput, out: PixelPassOutput, scratch: MatchScratch, y0: number, y1: number): PixelPassCounts {
   const counts: PixelPassCounts = { unresolved: 0, discontinuous: 0 };
-  const pass: Pass = { input, out, scratch, memo: input.memo, position: 0, rgbCost: 0 };
+  const pass: Pass = { input, out, scratch, memo: input.memo, position: 0, rgbCost: 0, lastR: NaN, lastG: NaN, lastB: NaN, lastEntry: -1 };
   const { block, width, gridWidth, gridHeight } = input;
   const columns = block === 1 ? null : axis(width, block, gridWidth);
   const rows = block === 1 ? null : axis(input.height, block, gridHeight);
@@ -288,10 +293,19 @@ function matchPixel(pass: Pass, i: number, reference: number): number {
   else if (start >= count) start = count - 1;
   const memo = pass.memo;
   if (memo) {
+    // Neighbouring pixels often share a colour (about 2 in 3 in a 12-MP JPEG): its entry is kept.
+    if (r === pass.lastR && g === pass.lastG && b === pass.lastB) return matchRemembered(pass, memo, pass.lastEntry, i, r, g, b, start, reference);
     const r8 = levelOf(memo, r);
     const g8 = r8 < 0 ? -1 : levelOf(memo, g);
     const b8 = g8 < 0 ? -1 : levelOf(memo, b);
-    if (b8 >= 0) return matchRemembered(pass, memo, entryOf(memo, r8, g8, b8), i, r, g, b, start, reference);
+    if (b8 >= 0) {
+      const e = entryOf(memo, r8, g8, b8);
+      pass.lastR = r;
+      pass.lastG = g;
+      pass.lastB = b;
+      pass.lastEntry = e;
+      return matchRemembered(pass, memo, e, i, r, g, b, start, reference);
+    }
   }
   const position = solve(pass, r, g, b, walkDownhill(pass.input.predictedRgb, count, r, g, b, start));
   const input = pass.input;
@@ -454,35 +468,91 @@ export interface ScoreInput {
  * of a χ² with 3 degrees of freedom, relative to its median; common practice for outliers): it
  * is marked ambiguous but keeps its estimate for keepConsistentPixels(). Returns the number of
  * poor matches.
+ *
+ * The confidence depends on the pixel's noise bin (its luma), cost and margin only, so the pixels
+ * of one colour and basin share it: a small direct-mapped cache (SCORE_CACHE entries keyed by
+ * the bin and the exact Float32 bits of cost and margin, ≈ 80 KiB per call) answers repeats
+ * with the same number.
  */
 export function scorePixelRows(input: ScoreInput, out: PixelPassOutput, y0: number, y1: number): number {
-  const { rgb, width, status, noise, medianCost, modelSlack } = input;
-  const sigmaByLuma = noise.sigmaByLuma;
-  const floorCost = medianCost / 2.37;
-  const poorMedian = 9 * medianCost;
+  const { rgb, width, status } = input;
+  const bins = scoreBins(input);
+  const cache = createScoreCache();
+  const costBits = new Int32Array(out.cost.buffer, out.cost.byteOffset, out.cost.length);
+  const marginBits = new Int32Array(out.alternativeCost.buffer, out.alternativeCost.byteOffset, out.alternativeCost.length);
   let poor = 0;
   for (let i = y0 * width, end = y1 * width; i < end; i++) {
     if (status[i] !== PixelStatus.ok) continue;
-    const cost = out.cost[i];
     const luma = 0.2126 * rgb[i * 3] + 0.7152 * rgb[i * 3 + 1] + 0.0722 * rgb[i * 3 + 2];
     let bin = Math.floor(luma * NOISE_BINS);
     bin = bin < 0 ? 0 : bin > NOISE_BINS - 1 ? NOISE_BINS - 1 : bin;
-    const sigma = sigmaByLuma[bin];
-    const noiseCost = 3 * sigma * sigma;
-    const pixelNoiseCost = noiseCost > floorCost ? noiseCost : floorCost;
-    const limit = 10 * pixelNoiseCost + modelSlack;
     // A poor match loses its status but keeps its estimate and confidence for a second look
     // (keepConsistent.ts), which drops or keeps it.
-    if (cost > (limit > poorMedian ? limit : poorMedian)) {
+    if (out.cost[i] > bins.poorLimit[bin]) {
       status[i] = PixelStatus.ambiguous;
       poor++;
     }
-    const alternative = out.alternativeCost[i];
-    const fitTerm = Math.exp(-cost / (4 * pixelNoiseCost + modelSlack));
-    // 1 − e^(−u) rounds to exactly 1 in double precision for u > 37 (e^(−37) < 2^(−53)).
-    const u = alternative === Infinity ? Infinity : (alternative - cost) / pixelNoiseCost;
-    const marginTerm = u > 37 ? 1 : 1 - Math.exp(-(u > 0 ? u : 0));
-    out.cost[i] = fitTerm * marginTerm;
+    const slot = cacheSlot(bin, costBits[i], marginBits[i]);
+    if (cache.bin[slot] === bin && cache.cost[slot] === costBits[i] && cache.margin[slot] === marginBits[i]) {
+      out.cost[i] = cache.confidence[slot];
+      continue;
+    }
+    cache.bin[slot] = bin;
+    cache.cost[slot] = costBits[i];
+    cache.margin[slot] = marginBits[i];
+    const confidence = confidenceOf(bins, bin, out.cost[i], out.alternativeCost[i]);
+    cache.confidence[slot] = confidence;
+    out.cost[i] = confidence;
   }
   return poor;
+}
+
+/** Per noise bin: the noise cost (floored), the poor-match limit and the fit term's scale. */
+interface ScoreBins {
+  readonly noiseCost: Float64Array;
+  readonly poorLimit: Float64Array;
+  readonly fitScale: Float64Array;
+}
+
+function scoreBins(input: ScoreInput): ScoreBins {
+  const { noise, medianCost, modelSlack } = input;
+  const floorCost = medianCost / 2.37;
+  const poorMedian = 9 * medianCost;
+  const bins: ScoreBins = { noiseCost: new Float64Array(NOISE_BINS), poorLimit: new Float64Array(NOISE_BINS), fitScale: new Float64Array(NOISE_BINS) };
+  for (let bin = 0; bin < NOISE_BINS; bin++) {
+    const sigma = noise.sigmaByLuma[bin];
+    const noiseCost = 3 * sigma * sigma;
+    const pixelNoiseCost = noiseCost > floorCost ? noiseCost : floorCost;
+    const limit = 10 * pixelNoiseCost + modelSlack;
+    bins.noiseCost[bin] = pixelNoiseCost;
+    bins.poorLimit[bin] = limit > poorMedian ? limit : poorMedian;
+    bins.fitScale[bin] = 4 * pixelNoiseCost + modelSlack;
+  }
+  return bins;
+}
+
+function confidenceOf(bins: ScoreBins, bin: number, cost: number, alternative: number): number {
+  const fitTerm = Math.exp(-cost / bins.fitScale[bin]);
+  // 1 − e^(−u) rounds to exactly 1 in double precision for u > 37 (e^(−37) < 2^(−53)).
+  const u = alternative === Infinity ? Infinity : (alternative - cost) / bins.noiseCost[bin];
+  const marginTerm = u > 37 ? 1 : 1 - Math.exp(-(u > 0 ? u : 0));
+  return fitTerm * marginTerm;
+}
+
+const SCORE_CACHE_BITS = 12;
+
+interface ScoreCache {
+  readonly bin: Int32Array;
+  readonly cost: Int32Array;
+  readonly margin: Int32Array;
+  readonly confidence: Float64Array;
+}
+
+function createScoreCache(): ScoreCache {
+  const size = 1 << SCORE_CACHE_BITS;
+  return { bin: new Int32Array(size).fill(-1), cost: new Int32Array(size), margin: new Int32Array(size), confidence: new Float64Array(size) };
+}
+
+function cacheSlot(bin: number, costBits: number, marginBits: number): number {
+  return Math.imul(costBits ^ Math.imul(marginBits ^ bin, 0x85ebca6b), 0x9e3779b1) >>> (32 - SCORE_CACHE_BITS);
 }
