@@ -294,21 +294,30 @@ function matchPixel(pass: Pass, i: number, reference: number): number {
   const memo = pass.memo;
   if (memo) {
     // Neighbouring pixels often share a colour (about 2 in 3 in a 12-MP JPEG): its entry is kept.
-    if (r === pass.lastR && g === pass.lastG && b === pass.lastB) return matchRemembered(pass, memo, pass.lastEntry, i, r, g, b, start, reference);
-    const r8 = levelOf(memo, r);
-    const g8 = r8 < 0 ? -1 : levelOf(memo, g);
-    const b8 = g8 < 0 ? -1 : levelOf(memo, b);
-    if (b8 >= 0) {
-      const e = entryOf(memo, r8, g8, b8);
-      pass.lastR = r;
-      pass.lastG = g;
-      pass.lastB = b;
-      pass.lastEntry = e;
-      return matchRemembered(pass, memo, e, i, r, g, b, start, reference);
-    }
+    const e = r === pass.lastR && g === pass.lastG && b === pass.lastB ? pass.lastEntry : lookUp(pass, memo, r, g, b);
+    if (e >= 0) return matchRemembered(pass, memo, e, i, r, g, b, start, reference);
   }
-  const position = solve(pass, r, g, b, walkDownhill(pass.input.predictedRgb, count, r, g, b, start));
+  return matchAfresh(pass, i, r, g, b, start, reference);
+}
+
+/** The memo entry of colour (r, g, b), kept as the last colour looked up; −1 when it is not an exact 8-bit colour. */
+function lookUp(pass: Pass, memo: ColourMemo, r: number, g: number, b: number): number {
+  const r8 = levelOf(memo, r);
+  const g8 = r8 < 0 ? -1 : levelOf(memo, g);
+  const b8 = g8 < 0 ? -1 : levelOf(memo, b);
+  if (b8 < 0) return -1;
+  const e = entryOf(memo, r8, g8, b8);
+  pass.lastR = r;
+  pass.lastG = g;
+  pass.lastB = b;
+  pass.lastEntry = e;
+  return e;
+}
+
+/** matchPixel without the memo: walk, refine, check, other-order search and matching-space cost. */
+function matchAfresh(pass: Pass, i: number, r: number, g: number, b: number, start: number, reference: number): number {
   const input = pass.input;
+  const position = solve(pass, r, g, b, walkDownhill(input.predictedRgb, input.count, r, g, b, start));
   if (Math.abs(position - reference) > input.pixelJump) return DISCONTINUOUS;
   if (position >= input.washoutIndex) return TOO_THICK;
   const rgbCost = pass.rgbCost;
