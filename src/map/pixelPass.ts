@@ -4,18 +4,25 @@
  * then scored.
  *
  * matchPixelRows(): per pixel, the reference position is read (bilinear between cell centres,
- * with per-column and per-row weights computed once), the colour is walked downhill from it to
- * the basin's minimum and refined to a sub-step position (matchColour.ts); the pixel keeps that
- * candidate when it continues the field, else it gets no estimate. Its colour cost (in the
- * matching space) and the cost of the best other order are kept for scoring.
+ * with per-column and per-row weights computed once, a row at a time), the colour is walked
+ * downhill from it to the basin's minimum and refined to a sub-step position (matchColour.ts);
+ * the pixel keeps that candidate when it continues the field, else it gets no estimate. Its
+ * colour cost (in the matching space) and the cost of the best other order are kept for scoring.
  *
  * scorePixelRows(): turns cost and margin into a confidence once the photo's median cost is
  * known, and marks poor matches (keepConsistent.ts then keeps or drops them).
  *
  * Both work on a band of rows [y0, y1) so that bands can be processed independently; neither
- * allocates per pixel. For 8-bit photos the other-order search (two downhill walks from the
- * colour cube's candidates, which depend on the colour alone) is remembered per exact colour
- * (AlternativeMemo), so each distinct colour pays for it once.
+ * allocates per pixel. A 12-MP photo holds only some 100,000 distinct 8-bit colours, so for
+ * 8-bit photos each distinct colour is answered once (ColourMemo): the basin its walk reached
+ * (the interval of starts known to lead to the same minimum), the refined position and
+ * thickness, both costs, the margin and the other-order walks; a pixel whose start falls in
+ * the basin only checks the jump and the washout limit and copies the numbers. Scoring reuses
+ * the confidence of an earlier pixel with the same noise bin, cost and margin. The memo and the
+ * cache change no number: the map is byte-identical to the pass without them
+ * (tests/map-colour-memo.test.ts), whatever the number of threads (each thread keeps its own).
+ * The work is split into small functions: V8 optimises them far better than one long
+ * multi-loop function.
  */
 import type { CandidateCube } from './candidateCube.js';
 import { buildCell, cellOf, distanceAt } from './candidateCube.js';
