@@ -89,8 +89,9 @@ export interface PixelPassCounts {
  *
  * Memory follows the photo's colour gamut: colours are looked up in pages of 8×8×8 colours, each
  * page (2 KiB, an Int32 entry number per colour) allocated when first used, and each colour met
- * gets an entry of 5 × Int32 + 5 × Float64 = 60 bytes; both pools grow by doubling. A 12-MP
- * photo with ≈ 100,000 distinct colours in ≈ 5,000 pages uses ≈ 10 MiB + 6 MiB.
+ * gets an entry of 5 × Int32 + 5 × Float64 = 60 bytes; both pools grow by doubling, so up to
+ * twice that is allocated. The 12-MP demo photo (97,255 distinct colours in 4,735 pages) uses
+ * 9.2 MiB of pages and 5.6 MiB of entries, 24 MiB allocated, per thread.
  */
 export interface ColourMemo {
   /** Page number per (r>>3, g>>3, b>>3); −1 = not allocated. */
