@@ -130,7 +130,7 @@ export function createColourMemo(count: number): ColourMemo | null {
 /** The 8-bit level of `value` when it is exactly this photo's value of that level, else −1. */
 function levelOf(memo: ColourMemo, value: number): number {
   const k = Math.round(value * 255);
-  if (k < 0 || k > 255) return -1;
+  if (!(k >= 0 && k <= 255)) return -1; // NaN too
   if (memo.level[k] === value) return k;
   return learnLevel(memo, value, k);
 }
