@@ -23,7 +23,7 @@ import { estimateNoise } from './estimateNoise.js';
 import { distinctColourCount, fitPhotoFormation, type PhotoFormationFit } from './fitPhotoFormation.js';
 import { matchSpace, toMatchSpace } from './matchSpace.js';
 import { createMatchScratch, matchColour } from './matchColour.js';
-import { createAlternativeMemo, matchPixelRows, scorePixelRows } from './pixelPass.js';
+import { createColourMemo, matchPixelRows, scorePixelRows } from './pixelPass.js';
 import { keepConsistentPixels } from './keepConsistent.js';
 import { CellClass, CellVerdict, type FilmAreaCells, findFilmArea } from './filmArea.js';
 import { sampleFitPixels } from './fitSamples.js';
@@ -318,7 +318,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
     startNm: table.startNm,
     stepNm: table.stepNm,
   };
-  const pass = { ...common, cube: space ? createCandidateCube(CUBE_LEVELS, PER_CELL) : cells.cube, memo: input.eightBit ? createAlternativeMemo(count) : null };
+  const pass = { ...common, cube: space ? createCandidateCube(CUBE_LEVELS, PER_CELL) : cells.cube, memo: input.eightBit ? createColourMemo(count) : null };
   const passOut = { thicknessNm, cost: confidence, alternativeCost: threaded ? sharedFloat32(pixels) : new Float32Array(pixels) };
   const matchRows = (y0: number, y1: number) => matchPixelRows(pass, passOut, scratch, y0, y1);
   const dropped = threaded

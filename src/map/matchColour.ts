@@ -21,9 +21,13 @@ export function createMatchScratch(perCell: number): MatchScratch {
   };
 }
 
-const MAX_WALK = 64;
+/** Most steps of one downhill walk (a walk that uses them all may stop short of a minimum). */
+export const MAX_WALK = 64;
 
-/** Finds the local minimum reached by walking downhill from `start`. */
+/**
+ * Finds the local minimum reached by walking downhill from `start`. The walk moves one way only
+ * (the sample it left is higher than where it is), one index per step.
+ */
 export function walkDownhill(
   predicted: Float32Array,
   count: number,

@@ -4,7 +4,8 @@
  * chunk from a shared counter until none is left. The call stays synchronous, so `mapPixels` keeps its plain signature: tasks are
  * posted to the helpers and the caller blocks in `Atomics.wait` on a small shared control block
  * until each helper has written its summed counts (the pattern of synchronous calls into a worker).
- * Every pixel is computed exactly as on one thread, so the map is identical whatever the count.
+ * Every pixel is computed exactly as on one thread (each thread keeps its own colour memo, which
+ * changes no number), so the map is identical whatever the count.
  *
  * The large arrays (photo, status, outputs) must live in SharedArrayBuffers (`sharedCopy` makes
  * one when they do not); small ones are copied with each task. Helpers are started on first use

@@ -2,13 +2,14 @@
  * Worker-thread entry of the mapper's pixel pass (see ./pixelThreads.ts). Receives tasks whose
  * large arrays live in SharedArrayBuffers, runs `matchPixelRows` or `scorePixelRows` on chunks of
  * rows taken from the shared queue until none is left, writes the counts into the shared control block and wakes the waiting main thread. Each
- * match task builds its own colour cube and colour memo (both are deterministic functions of
- * the predicted table, so every thread finds the same answer for the same pixel).
+ * match task builds its own colour cube (a deterministic function of the predicted table) and
+ * colour memo (what it holds depends on the rows this thread took, but it changes no number), so
+ * every thread finds the same answer for the same pixel.
  */
 import { parentPort, workerData, type MessagePort } from 'node:worker_threads';
 import { createCandidateCube } from './candidateCube.js';
 import { createMatchScratch } from './matchColour.js';
-import { createAlternativeMemo, matchPixelRows, scorePixelRows, type PixelPassInput, type ScoreInput } from './pixelPass.js';
+import { createColourMemo, matchPixelRows, scorePixelRows, type PixelPassInput, type ScoreInput } from './pixelPass.js';
 import { CONTROL, nextChunk, type BandTask } from './pixelThreads.js';
 
 const { control: controlBuffer, replies } = workerData as { control: SharedArrayBuffer; replies: MessagePort };
@@ -27,7 +28,7 @@ parentPort?.on('message', (task: BandTask) => {
       const input: PixelPassInput = {
         ...rest,
         cube: createCandidateCube(cubeLevels, perCell),
-        memo: eightBit ? createAlternativeMemo(rest.count) : null,
+        memo: eightBit ? createColourMemo(rest.count) : null,
       };
       const scratch = createMatchScratch(perCell);
       let unresolved = 0;
