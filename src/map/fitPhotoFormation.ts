@@ -89,6 +89,20 @@ export interface PhotoFormationOptions {
   readonly rough?: boolean;
   /** Fit the camera's response (tone curve and saturation) too; default false. */
   readonly fitResponse?: boolean;
+  /**
+   * Told each inner least-squares problem before it is solved: its model (row values at the
+   * active parameters), its Jacobian and its start (a check of the Jacobian for tests and
+   * diagnostics; the map never sets it).
+   */
+  readonly onInnerProblem?: (problem: InnerProblem) => void;
+}
+
+/** One inner fit's least-squares problem (see PhotoFormationOptions.onInnerProblem). */
+export interface InnerProblem {
+  readonly evaluate: (parameters: readonly number[]) => Float64Array;
+  readonly jacobian: (parameters: readonly number[], out: Float64Array) => void;
+  readonly initial: readonly number[];
+  readonly rows: number;
 }
 
 /** Predicted table in the matching space. */
@@ -450,6 +464,8 @@ function innerFit(
   const costScratch = new Float64Array(1);
   /** Each kept sample's table position at the last evaluation (for the Jacobian). */
   const positions = new Float64Array(m);
+  /** Each kept sample's table minimum at the last evaluation (−1: a sample of known thickness). */
+  const minima = new Int32Array(m);
   let cachedKey = '';
   const evaluate = (p: readonly number[]): Float64Array => {
     const key = p.join(',');
@@ -466,6 +482,7 @@ function innerFit(
       const index = fixed ? assigned[i] : walkDownhill(predicted, table.count, r, g, b, assigned[i]);
       const position = fixed ? index : refinePosition(predicted, table.count, r, g, b, index, costScratch, 0);
       positions[j] = position;
+      minima[j] = fixed ? -1 : index;
       interpolateColour(predicted, table.count, position, modelValues, j * 3);
     }
     modelValues[m * 3] = fitWhiteBalance ? priorWeight * (v[1] - 1) : 0;
@@ -486,6 +503,8 @@ function innerFit(
       predicted,
       count: table.count,
       positions,
+      minima,
+      samples,
       kept,
       fixedIndex: fixedIndex ?? null,
       active,
@@ -495,6 +514,7 @@ function innerFit(
       cache: derivativeCache,
     });
   };
+  options.onInnerProblem?.({ evaluate, jacobian, initial: active.map((slot) => full[slot]), rows });
   const fit = fitLeastSquares({
     x,
     y,
@@ -541,6 +561,9 @@ interface JacobianInput {
   readonly predicted: Float32Array;
   readonly count: number;
   readonly positions: Float64Array;
+  readonly minima: Int32Array;
+  /** The samples (matching space), n × 3, indexed by `kept`. */
+  readonly samples: Float32Array;
   readonly kept: readonly number[];
   readonly fixedIndex: Int32Array | null;
   /** Full-vector slot of each fitted parameter. */
@@ -554,11 +577,13 @@ interface JacobianInput {
 
 /**
  * The innerFit model's Jacobian (rows: three per kept sample, then the prior rows; columns: the
- * active parameters). A sample's model colour is the table interpolated at the thickness that
- * best matches it, a thickness that itself moves with the parameters; its derivative is taken as
- * in variable projection with Kaufman's simplification (Kaufman 1975, BIT 15, 49–57): the
- * derivative at fixed thickness, with its component along the table's tangent there removed
- * (the thickness follows that component). Samples of known thickness (anchors) keep it whole.
+ * active parameters). A sample's model colour is the table interpolated at the position its
+ * downhill walk and parabola refinement found, a position that itself moves with the parameters:
+ * its derivative is the interpolated entries' derivatives plus the table's step across the
+ * segment times the position's own derivative (`refinedSlope`), i.e. the derivative of exactly
+ * the function `evaluate` computes, wherever the walk's minimum stays the same (variable
+ * projection, Golub & Pereyra 1973, with the thickness found by the model's own search).
+ * Samples of known thickness (anchors) keep their position.
  */
 function fillJacobian(out: Float64Array, input: JacobianInput): void {
   const { derivatives, predicted, count, positions, kept, fixedIndex, active, fullParameters, priorWeights } = input;
@@ -577,6 +602,7 @@ function fillJacobian(out: Float64Array, input: JacobianInput): void {
     return offset;
   };
   out.fill(0);
+  const slope = new Float64Array(P);
   for (let j = 0; j < kept.length; j++) {
     const position = positions[j];
     let i = Math.floor(position);
@@ -586,22 +612,15 @@ function fillJacobian(out: Float64Array, input: JacobianInput): void {
     const a = entry(i);
     const b = entry(i + 1);
     for (let k = 0; k < 3 * P; k++) at[k] = entries[a + k] + f * (entries[b + k] - entries[a + k]);
-    const fixed = fixedIndex !== null && fixedIndex[kept[j]] >= 0;
-    if (!fixed && position > 0 && position < count - 1) {
-      const t0 = predicted[(i + 1) * 3] - predicted[i * 3];
-      const t1 = predicted[(i + 1) * 3 + 1] - predicted[i * 3 + 1];
-      const t2 = predicted[(i + 1) * 3 + 2] - predicted[i * 3 + 2];
-      const tt = t0 * t0 + t1 * t1 + t2 * t2;
-      if (tt > 0) {
-        for (let k = 0; k < P; k++) {
-          const along = (t0 * at[k] + t1 * at[P + k] + t2 * at[2 * P + k]) / tt;
-          at[k] -= along * t0;
-          at[P + k] -= along * t1;
-          at[2 * P + k] -= along * t2;
-        }
+    // The position moves with the parameters where refinePosition's parabola set it: add the
+    // table's step across the segment times d(position)/d(parameters).
+    if (refinedSlope(input, j, entry, slope)) {
+      for (let c = 0; c < 3; c++) {
+        const step = predicted[(i + 1) * 3 + c] - predicted[i * 3 + c];
+        for (let k = 0; k < P; k++) at[c * P + k] += step * slope[k];
       }
     }
-    for (let c = 0; c < 3; c++) for (let a = 0; a < columns; a++) out[(j * 3 + c) * columns + a] = at[c * P + active[a]];
+    for (let c = 0; c < 3; c++) for (let col = 0; col < columns; col++) out[(j * 3 + c) * columns + col] = at[c * P + active[col]];
   }
   // Prior rows (see innerFit's model): weight·(gain − 1), weight·flare, weight·contrast,
   // weight·ln γ, weight·(saturation − 1).
@@ -617,6 +636,48 @@ function fillJacobian(out: Float64Array, input: JacobianInput): void {
     const slot = active[a];
     if (priorRow[slot] >= 0) out[(base + priorRow[slot]) * columns + a] = priorSlope[slot];
   }
+}
+
+/**
+ * d(position)/d(parameters) of sample j where refinePosition (./matchColour.ts) placed it by the
+ * parabola through the squared distances L, H, R at minimum − 1, minimum, minimum + 1:
+ * offset = ½(L − R)/(L − 2H + R), each distance's derivative 2(P − s)·∂P/∂p. Writes `slope` and
+ * returns true; false where the position does not move locally (a known thickness, the table's
+ * ends, no curvature, or the offset held at ±½).
+ */
+function refinedSlope(input: JacobianInput, j: number, entry: (index: number) => number, slope: Float64Array): boolean {
+  const { minima, predicted, count, samples, kept, cache } = input;
+  const m = minima[j];
+  if (m <= 0 || m >= count - 1) return false;
+  const s = kept[j] * 3;
+  const r = samples[s];
+  const g = samples[s + 1];
+  const b = samples[s + 2];
+  const left = distanceAt(predicted, m - 1, r, g, b);
+  const here = distanceAt(predicted, m, r, g, b);
+  const right = distanceAt(predicted, m + 1, r, g, b);
+  const curvature = left - 2 * here + right;
+  if (curvature <= 0) return false;
+  const offset = (0.5 * (left - right)) / curvature;
+  if (offset > 0.5 || offset < -0.5) return false;
+  const P = PARAMETER_COUNT;
+  const e = cache.entries;
+  const l = entry(m - 1);
+  const h = entry(m);
+  const q = entry(m + 1);
+  for (let k = 0; k < P; k++) {
+    let dLeft = 0;
+    let dHere = 0;
+    let dRight = 0;
+    for (let c = 0; c < 3; c++) {
+      const value = c === 0 ? r : c === 1 ? g : b;
+      dLeft += 2 * (predicted[(m - 1) * 3 + c] - value) * e[l + c * P + k];
+      dHere += 2 * (predicted[m * 3 + c] - value) * e[h + c * P + k];
+      dRight += 2 * (predicted[(m + 1) * 3 + c] - value) * e[q + c * P + k];
+    }
+    slope[k] = (0.5 * ((dLeft - dRight) * curvature - (left - right) * (dLeft - 2 * dHere + dRight))) / (curvature * curvature);
+  }
+  return true;
 }
 
 /** Linear interpolation of the predicted encoded colour at a fractional table position. */
