@@ -88,6 +88,8 @@ export function evenOutLight(
   /** Hold the log gain within [lo, hi] (see `logGainRangeOver`); null = as the surface gives it. */
   clamp: readonly [number, number] | null = null,
   response: CameraResponse | null = null,
+  /** Put the result back on 8-bit codes (k/255), as a camera would have recorded the evened light. */
+  eightBit = false,
 ): Float32Array {
   const out = new Float32Array(new SharedArrayBuffer(rgb.length * 4));
   const inverseResponse = createResponseInverse(response);
@@ -117,6 +119,7 @@ export function evenOutLight(
       divideRow(out, out, offset, width, inverse, flare);
       applyResponse(out.subarray(offset, offset + width * 3), width, response);
     }
+    if (eightBit) toEightBitCodes(out, offset, width * 3);
   }
   return out;
 }
@@ -142,6 +145,14 @@ function divideRow(from: Float32Array, to: Float32Array, offset: number, width: 
     to[i] = encodeFast((decodeFast(from[i]) - f0) * k + f0);
     to[i + 1] = encodeFast((decodeFast(from[i + 1]) - f1) * k + f1);
     to[i + 2] = encodeFast((decodeFast(from[i + 2]) - f2) * k + f2);
+  }
+}
+
+/** Values [offset, offset + length) rounded to the nearest 8-bit code, stored as the photo reader stores k/255. */
+function toEightBitCodes(values: Float32Array, offset: number, length: number): void {
+  for (let i = offset, end = offset + length; i < end; i++) {
+    const v = values[i];
+    values[i] = Math.round((v < 0 ? 0 : v > 1 ? 1 : v) * 255) * (1 / 255);
   }
 }
 
@@ -270,6 +281,8 @@ export interface LightFieldJob<R extends MapResult, P extends MapResult = R> {
   readonly start?: LightFieldStart | null;
   /** A subsampled copy of a large photo to find the field on. */
   readonly preview?: LightFieldPreview<P> | null;
+  /** The photo holds 8-bit codes (the full-size photo evened after a preview is kept on them). */
+  readonly eightBit?: boolean;
   /**
    * Maps the pixels measuring only the middle of the photo. When one exposure explains no part of
    * the photo (strong fall-off across a film on a dark background can make the one-exposure fit
@@ -309,7 +322,10 @@ export function mapWithLightField<R extends MapResult, P extends MapResult = R>(
     // evened by the same field) when the preview found film.
     const fittedOn = (map: P): P | null => (map.filmArea?.found === false ? null : map);
     if (!small.coefficients) return { result: mapWith(rgb, null, null, fittedOn(small.first)), field: null };
-    const result = mapWith(evenOutLight(rgb, width, height, small.coefficients, small.best.fitted.flare, small.clamp, small.best.fitted.response ?? null), small.best.fitted, null, fittedOn(small.best));
+    // An 8-bit photo evened is put back on 8-bit codes: the per-colour memo of the pixel pass
+    // (./pixelPass.ts) then serves the full-size map as it serves an evenly lit photo.
+    const evened = evenOutLight(rgb, width, height, small.coefficients, small.best.fitted.flare, small.clamp, small.best.fitted.response ?? null, job.eightBit === true);
+    const result = mapWith(evened, small.best.fitted, null, fittedOn(small.best));
     return { result, field: fieldOver(result, small.coefficients, width, height, small.rounds, 'photo', true) };
   }
   let run = alternate(rgb, width, height, mapWith, startCoefficients, startFlare, null, startResponse);

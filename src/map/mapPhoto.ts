@@ -164,6 +164,7 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
     height: photo.height,
     mapWith: (pixels, fitStart, fixed, fittedOn) => mapAt(pixels, full, fitStart ?? null, fixed ?? null, fittedOn ?? null),
     mode: options.lightField ?? 'auto',
+    eightBit: photo.bitDepth === 8 && built.camera.encoding !== 'linear',
     start: lightFieldStartOf(options, photo.width, photo.height),
     preview: preview
       ? { rgb: preview.rgb, width: preview.at.width, height: preview.at.height, mapWith: (pixels, fitStart, fixed) => mapAt(pixels, preview.at, fitStart ?? null, fixed ?? null), mapCentreWith: (pixels) => mapAt(pixels, centreOf(preview.at)) }
