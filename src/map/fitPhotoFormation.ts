@@ -506,7 +506,6 @@ function innerFit(
       minima,
       samples,
       kept,
-      fixedIndex: fixedIndex ?? null,
       active,
       fullParameters: v,
       priorWeights,
@@ -565,7 +564,6 @@ interface JacobianInput {
   /** The samples (matching space), n × 3, indexed by `kept`. */
   readonly samples: Float32Array;
   readonly kept: readonly number[];
-  readonly fixedIndex: Int32Array | null;
   /** Full-vector slot of each fitted parameter. */
   readonly active: readonly number[];
   readonly fullParameters: readonly number[];
@@ -586,7 +584,7 @@ interface JacobianInput {
  * Samples of known thickness (anchors) keep their position.
  */
 function fillJacobian(out: Float64Array, input: JacobianInput): void {
-  const { derivatives, predicted, count, positions, kept, fixedIndex, active, fullParameters, priorWeights } = input;
+  const { derivatives, predicted, count, positions, kept, active, fullParameters, priorWeights } = input;
   const P = PARAMETER_COUNT;
   const columns = active.length;
   const at = new Float64Array(3 * P);

@@ -14,7 +14,6 @@ export interface NearestEntryIndex {
   readonly predicted: Float32Array;
   readonly count: number;
   readonly stride: number;
-  readonly cells: number;
   readonly lo: Float64Array;
   readonly size: Float64Array;
   /** Entries of cell c: members[start[c] .. start[c + 1]), ascending. */
@@ -54,7 +53,7 @@ export function buildNearestEntryIndex(predicted: Float32Array, count: number, s
   const members = new Int32Array(k);
   k = 0;
   for (let t = 0; t < count; t += stride, k++) members[fill[cellOfEntry[k]]++] = t;
-  return { predicted, count, stride, cells: CELLS, lo, size, start, members };
+  return { predicted, count, stride, lo, size, start, members };
 }
 
 function axisCell(value: number, lo: number, size: number): number {
