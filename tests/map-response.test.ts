@@ -31,7 +31,7 @@ import {
   type CameraResponse,
 } from '../src/colour/toneResponse.js';
 import type { Photo } from '../src/io/photo.js';
-import { evenOutLight } from '../src/map/lightField.js';
+import { evenOutLight } from '../src/map/evenOutLight.js';
 import { mapDecodedPhoto } from '../src/map/mapPhoto.js';
 import { mapResultJson } from '../src/map/mapResultJson.js';
 import type { ExposureParameters, MapOptions, MapResult } from '../src/map/types.js';

@@ -18,6 +18,14 @@ function encoderTable(): Float64Array {
   return table;
 }
 
+/** Points per unit of the encoder table (index = clamped linear × SRGB_TABLE_SIZE) and of the decoder's (× 65535). */
+export const SRGB_TABLE_SIZE = SIZE;
+
+/** The encoder's table itself (SRGB_TABLE_SIZE + 2 values, a guard at the end), for fused hot loops. */
+export function srgbEncodeTable(): Float64Array {
+  return encoderTable();
+}
+
 /** Returns a function linear (clamped to 0..1) → encoded 0..1, using the shared table. */
 export function createSrgbEncoder(): (linear: number) => number {
   const t = encoderTable();
@@ -31,18 +39,23 @@ export function createSrgbEncoder(): (linear: number) => number {
 
 let decodeTable: Float64Array | null = null;
 
+/** The decoder's table (index = clamped encoded × 65535; exact at every 8- and 16-bit code), for fused hot loops. */
+export function srgbDecodeTable(): Float64Array {
+  if (!decodeTable) {
+    decodeTable = new Float64Array(SIZE + 2);
+    for (let i = 0; i <= SIZE; i++) decodeTable[i] = decodeSrgb(i / 65535 > 1 ? 1 : i / 65535);
+    decodeTable[SIZE + 1] = decodeTable[SIZE];
+  }
+  return decodeTable;
+}
+
 /**
  * The inverse for hot loops: encoded 0..1 (clamped) → linear, the IEC 61966-2-1 decoding tabulated
  * at 65 537 points and read with linear interpolation (exact at every 8- and 16-bit code, whose
  * values k/255 and k/65535 fall on table points since 65 535 = 255 · 257).
  */
 export function createSrgbDecoder(): (encoded: number) => number {
-  if (!decodeTable) {
-    decodeTable = new Float64Array(SIZE + 2);
-    for (let i = 0; i <= SIZE; i++) decodeTable[i] = decodeSrgb(i / 65535 > 1 ? 1 : i / 65535);
-    decodeTable[SIZE + 1] = decodeTable[SIZE];
-  }
-  const t = decodeTable;
+  const t = srgbDecodeTable();
   return (encoded) => {
     const v = encoded > 0 ? (encoded < 1 ? encoded : 1) * 65535 : 0;
     const i = v | 0;

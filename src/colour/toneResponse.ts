@@ -101,7 +101,7 @@ export function applyResponse(values: Float32Array | Float64Array, count: number
   }
 }
 
-const TONE_TABLE_SIZE = 1024;
+export const TONE_TABLE_SIZE = 1024;
 const toneTable = new Float64Array(TONE_TABLE_SIZE + 2);
 /** ln(j / TONE_TABLE_SIZE), so that filling the table costs an exp per sample instead of a power. */
 const LOG_GRID = Float64Array.from({ length: TONE_TABLE_SIZE + 1 }, (_, j) => Math.log(j / TONE_TABLE_SIZE));
@@ -135,13 +135,23 @@ function toneFromTable(encoded: number): number {
   return toneTable[i] + f * (toneTable[i + 1] - toneTable[i]);
 }
 
+/**
+ * The tables of a response for fused hot loops (../map/evenOutLight.ts): T on TONE_TABLE_SIZE + 1
+ * points (a copy of applyResponse's table; read the first cell with toneAt, as it does) and T⁻¹
+ * on INVERSE_SIZE + 1 points (createResponseInverse's), each with a guard at the end.
+ */
+export function responseTables(response: CameraResponse): { readonly tone: Float64Array; readonly inverseTone: Float64Array } {
+  fillToneTable(response.contrast, response.gamma);
+  return { tone: toneTable.slice(), inverseTone: inverseToneTable(response.contrast, response.gamma) };
+}
+
 /** T of each value in place, read from the table applyResponse uses for large tables (for its accuracy test). */
 export function applyTabulatedTone(values: Float64Array, contrast: number, gamma: number): void {
   fillToneTable(contrast, gamma);
   for (let i = 0; i < values.length; i++) values[i] = toneFromTable(values[i]);
 }
 
-const INVERSE_SIZE = 4096;
+export const INVERSE_SIZE = 4096;
 
 /**
  * The inverse of a response, for undoing it on pixels: `invert(r, g, b, out, offset)` writes the

@@ -8,11 +8,14 @@
  * uneven light, a wrong light or stack give several times more.
  */
 import { LINEAR_SRGB_TO_XYZ, SRGB_WHITE_XYZ } from '../colour/srgb.js';
-import { decodeSrgbCoded } from '../colour/srgbDecode8.js';
+import { createSrgbDecoder } from '../colour/srgbEncoderTable.js';
 import { deltaE2000 } from '../colour/deltaE.js';
 import { LAB_EPSILON, LAB_KAPPA } from '../colour/lab.js';
 import { percentileSelect } from './statistics.js';
 import { type FitQuality, PixelStatus } from './types.js';
+
+/** sRGB decoding from the shared table (../colour/srgbEncoderTable.ts: exact at 8- and 16-bit codes, within 1e-7 between). */
+const decodeFast = createSrgbDecoder();
 
 const MAX_SAMPLES = 20_000;
 /** Verdict thresholds (ΔE2000 median, 95th percentile; unmatched share). */
@@ -100,9 +103,9 @@ export function poorFitWarning(quality: FitQuality): string {
 
 /** Encoded sRGB (or linear) → CIELAB relative to the D65 white (Y_white = 1). */
 function encodedToLab(r: number, g: number, b: number, encoded: boolean, out: Float64Array): void {
-  const lr = encoded ? decodeSrgbCoded(clamp(r)) : clamp(r);
-  const lg = encoded ? decodeSrgbCoded(clamp(g)) : clamp(g);
-  const lb = encoded ? decodeSrgbCoded(clamp(b)) : clamp(b);
+  const lr = encoded ? decodeFast(clamp(r)) : clamp(r);
+  const lg = encoded ? decodeFast(clamp(g)) : clamp(g);
+  const lb = encoded ? decodeFast(clamp(b)) : clamp(b);
   const m = LINEAR_SRGB_TO_XYZ;
   const x = m[0] * lr + m[1] * lg + m[2] * lb;
   const y = m[3] * lr + m[4] * lg + m[5] * lb;

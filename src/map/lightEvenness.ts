@@ -14,11 +14,14 @@
  * partly hides its own shortfall, so the range found is a lower bound of the real one.
  */
 import { choleskySolve } from '../fit/normalEquations.js';
-import { decodeSrgbCoded } from '../colour/srgbDecode8.js';
+import { createSrgbDecoder } from '../colour/srgbEncoderTable.js';
 import { PixelStatus } from './types.js';
 import { selectKth } from './statistics.js';
 import { modelColourAt, type PhotoAndModel } from './fitQuality.js';
 import { type CameraResponse, createResponseInverse } from '../colour/toneResponse.js';
+
+/** sRGB decoding from the shared table (../colour/srgbEncoderTable.ts: exact at 8- and 16-bit codes, within 1e-7 between). */
+const decodeFast = createSrgbDecoder();
 
 export interface LightEvenness {
   /** Lowest and highest relative gain of the fitted surface over the film (median 1). */
@@ -58,7 +61,7 @@ const MIN_MODEL_LUMINANCE = 0.04;
 const TERMS = 7;
 
 function linearOf(value: number, encoded: boolean): number {
-  return encoded ? decodeSrgbCoded(value < 0 ? 0 : value > 1 ? 1 : value) : value;
+  return encoded ? decodeFast(value < 0 ? 0 : value > 1 ? 1 : value) : value;
 }
 
 function luminance(r: number, g: number, b: number, encoded: boolean): number {

@@ -15,9 +15,9 @@
  * lamp and lens rarely change between frames) and refines it the same way; a calibration's field
  * (a fixed inspection station, fitted on known regions spread over its photo) is applied as it is.
  */
-import { createSrgbDecoder, createSrgbEncoder } from '../colour/srgbEncoderTable.js';
 import { relativeGainAt } from './lightEvenness.js';
-import { applyResponse, type CameraResponse, createResponseInverse, type ResponseInverse } from '../colour/toneResponse.js';
+import { evenOutLight } from './evenOutLight.js';
+import type { CameraResponse } from '../colour/toneResponse.js';
 import type { ExposureField, ExposureParameters, MapResult } from './types.js';
 
 export type { ExposureField } from './types.js';
@@ -72,98 +72,6 @@ function logGainRangeOver(result: MapResult, coefficients: readonly number[], wi
 
 /** Log-gain margin beyond the range seen over the film (2 %). */
 const CLAMP_MARGIN = 0.02;
-
-/**
- * The photo with the field's gain divided out in linear light (a copy in shared memory). With a
- * camera response (picture style), each pixel is taken back through its inverse first and the
- * response is applied again after (../colour/toneResponse.ts), so the gain is divided out where
- * it acted: in linear light.
- */
-export function evenOutLight(
-  rgb: Float32Array,
-  width: number,
-  height: number,
-  logGainCoefficients: readonly number[],
-  flare: readonly number[],
-  /** Hold the log gain within [lo, hi] (see `logGainRangeOver`); null = as the surface gives it. */
-  clamp: readonly [number, number] | null = null,
-  response: CameraResponse | null = null,
-  /** Put the result back on 8-bit codes (k/255), as a camera would have recorded the evened light. */
-  eightBit = false,
-): Float32Array {
-  const out = new Float32Array(new SharedArrayBuffer(rgb.length * 4));
-  const inverseResponse = createResponseInverse(response);
-  const c = logGainCoefficients;
-  const half = Math.max(width, height) / 2;
-  // log gain = a(u) + b(v) + c4·u·v + c6·(u² + v²)²: the u and v parts once per column and row.
-  const us = new Float64Array(width);
-  const colTerm = new Float64Array(width);
-  for (let x = 0; x < width; x++) {
-    const u = (x + 0.5 - width / 2) / half;
-    us[x] = u;
-    colTerm[x] = c[1] * u + c[3] * u * u;
-  }
-  const r4 = c[6] ?? 0;
-  const inverse = new Float64Array(width);
-  const lo = clamp ? clamp[0] : -Infinity;
-  const hi = clamp ? clamp[1] : Infinity;
-  // Each loop is its own small function (a long function with nested loops is compiled loop by
-  // loop and falls back to the interpreter between them).
-  for (let y = 0; y < height; y++) {
-    const v = (y + 0.5 - height / 2) / half;
-    inverseGainRow(us, colTerm, c[0] + c[2] * v + c[5] * v * v, c[4] * v, v, r4, lo, hi, inverse);
-    const offset = y * width * 3;
-    if (inverseResponse.identity) divideRow(rgb, out, offset, width, inverse, flare);
-    else {
-      invertRow(inverseResponse, rgb, out, offset, width);
-      divideRow(out, out, offset, width, inverse, flare);
-      applyResponse(out.subarray(offset, offset + width * 3), width, response);
-    }
-    if (eightBit) toEightBitCodes(out, offset, width * 3);
-  }
-  return out;
-}
-
-/** exp(−log gain) along one row, the log gain held within [lo, hi]. */
-function inverseGainRow(us: Float64Array, colTerm: Float64Array, rowTerm: number, uvTerm: number, v: number, r4: number, lo: number, hi: number, out: Float64Array): void {
-  for (let x = 0; x < us.length; x++) {
-    const u = us[x];
-    const r2 = u * u + v * v;
-    let logGain = rowTerm + colTerm[x] + uvTerm * u + r4 * r2 * r2;
-    logGain = logGain < lo ? lo : logGain > hi ? hi : logGain;
-    out[x] = Math.exp(-logGain);
-  }
-}
-
-/** One row divided by its gains in linear light, flare kept: encode((decode(v) − f)·inverse + f). */
-function divideRow(from: Float32Array, to: Float32Array, offset: number, width: number, inverse: Float64Array, flare: readonly number[]): void {
-  const f0 = flare[0];
-  const f1 = flare[1];
-  const f2 = flare[2];
-  for (let x = 0, i = offset; x < width; x++, i += 3) {
-    const k = inverse[x];
-    to[i] = encodeFast((decodeFast(from[i]) - f0) * k + f0);
-    to[i + 1] = encodeFast((decodeFast(from[i + 1]) - f1) * k + f1);
-    to[i + 2] = encodeFast((decodeFast(from[i + 2]) - f2) * k + f2);
-  }
-}
-
-/** Values [offset, offset + length) rounded to the nearest 8-bit code, stored as the photo reader stores k/255. */
-function toEightBitCodes(values: Float32Array, offset: number, length: number): void {
-  for (let i = offset, end = offset + length; i < end; i++) {
-    const v = values[i];
-    values[i] = Math.round((v < 0 ? 0 : v > 1 ? 1 : v) * 255) * (1 / 255);
-  }
-}
-
-/** One row taken back through the camera response's inverse. */
-function invertRow(inverseResponse: ResponseInverse, from: Float32Array, to: Float32Array, offset: number, width: number): void {
-  for (let x = 0, i = offset; x < width; x++, i += 3) inverseResponse.invert(from[i], from[i + 1], from[i + 2], to, i);
-}
-
-/** Tabulated sRGB transfer functions (../colour/srgbEncoderTable.ts; they clamp to 0..1). */
-const encodeFast = createSrgbEncoder();
-const decodeFast = createSrgbDecoder();
 
 export interface LightFieldStart {
   /** Log-gain coefficients to start from (a series' previous frame) or to apply as they are (a calibration). */
