@@ -63,11 +63,12 @@ export function evenOutLight(
   const f2 = flare[2];
   const quantise = eightBit ? 255 : 0;
   const triple = new Float64Array(3);
+  const linearTriple = new Float64Array(3);
   for (let y = 0; y < height; y++) {
     const v = (y + 0.5 - height / 2) / half;
     inverseGainRow(us, colTerm, c[0] + c[2] * v + c[5] * v * v, c[4] * v, v, r4, lo, hi, stride, inverse);
     const offset = y * width * 3;
-    if (tables) styledRow(rgb, out, offset, width, inverse, f0, f1, f2, decode, encode, tables.inverseTone, tables.tone, 1 / saturation, saturation, contrast, gamma, quantise, triple);
+    if (tables) styledRow(rgb, out, offset, width, inverse, f0, f1, f2, decode, encode, tables.inverseTone, tables.tone, 1 / saturation, saturation, contrast, gamma, quantise, triple, linearTriple);
     else plainRow(rgb, out, offset, width, inverse, f0, f1, f2, decode, encode, quantise);
   }
   return out;
@@ -184,29 +185,37 @@ function styledRow(
   gamma: number,
   levels: number,
   styled: Float64Array,
+  linear: Float64Array,
 ): void {
   let doneAt = NaN;
   for (let x = 0, i = offset; x < width; x++, i += 3) {
     const k = inverse[x];
-    if (x > 0 && from[i] === from[i - 3] && from[i + 1] === from[i - 2] && from[i + 2] === from[i - 1] && Math.abs(k - doneAt) <= REUSE_GAIN * doneAt) {
+    const repeated = x > 0 && from[i] === from[i - 3] && from[i + 1] === from[i - 2] && from[i + 2] === from[i - 1];
+    if (repeated && Math.abs(k - doneAt) <= REUSE_GAIN * doneAt) {
       to[i] = to[i - 3];
       to[i + 1] = to[i - 2];
       to[i + 2] = to[i - 1];
       continue;
     }
     doneAt = k;
-    const luma = LR * from[i] + LG * from[i + 1] + LB * from[i + 2];
+    // The linear values before the gain depend on the colour alone: a repeated colour keeps them.
+    if (!repeated) {
+      const luma = LR * from[i] + LG * from[i + 1] + LB * from[i + 2];
+      for (let c = 0; c < 3; c++) {
+        const s = luma + inverseSaturation * (from[i + c] - luma);
+        let t = s > 0 ? (s < 1 ? s : 1) * INVERSE_SIZE : 0;
+        let j = t | 0;
+        const e = inverseTone[j] + (t - j) * (inverseTone[j + 1] - inverseTone[j]);
+        t = e > 0 ? (e < 1 ? e : 1) * DECODE_SCALE : 0;
+        j = t | 0;
+        linear[c] = decode[j] + (t - j) * (decode[j + 1] - decode[j]);
+      }
+    }
     for (let c = 0; c < 3; c++) {
       const f = c === 0 ? f0 : c === 1 ? f1 : f2;
-      const s = luma + inverseSaturation * (from[i + c] - luma);
-      let t = s > 0 ? (s < 1 ? s : 1) * INVERSE_SIZE : 0;
+      const divided = (linear[c] - f) * k + f;
+      let t = divided > 0 ? (divided < 1 ? divided : 1) * SRGB_TABLE_SIZE : 0;
       let j = t | 0;
-      const e = inverseTone[j] + (t - j) * (inverseTone[j + 1] - inverseTone[j]);
-      t = e > 0 ? (e < 1 ? e : 1) * DECODE_SCALE : 0;
-      j = t | 0;
-      const linear = (decode[j] + (t - j) * (decode[j + 1] - decode[j]) - f) * k + f;
-      t = linear > 0 ? (linear < 1 ? linear : 1) * SRGB_TABLE_SIZE : 0;
-      j = t | 0;
       const encoded = encode[j] + (t - j) * (encode[j + 1] - encode[j]);
       t = encoded * TONE_TABLE_SIZE;
       j = t | 0;

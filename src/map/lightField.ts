@@ -92,6 +92,11 @@ export interface LightFieldPreview<P extends MapResult> {
   readonly mapWith: (pixels: Float32Array, fitStart?: ExposureParameters | null, fixed?: ExposureParameters | null) => P;
   /** The same, measuring only the middle of the photo (see `mapWithLightField`). */
   readonly mapCentreWith?: (pixels: Float32Array) => P;
+  /**
+   * A coarser copy for the alternation's rounds, after the first map on this one: the rounds only
+   * measure the light, a smooth surface of seven numbers, and each costs a map (mapPhoto.ts).
+   */
+  readonly rounds?: PhotoToMap<P> | null;
 }
 
 interface Alternation<R extends MapResult> {
@@ -101,6 +106,14 @@ interface Alternation<R extends MapResult> {
   /** The log-gain range the best map was evened with (null: not clamped). */
   readonly clamp: [number, number] | null;
   readonly rounds: number;
+}
+
+/** A photo (or a subsampled copy) and its mapper. */
+export interface PhotoToMap<R extends MapResult> {
+  readonly rgb: Float32Array;
+  readonly width: number;
+  readonly height: number;
+  readonly mapWith: (pixels: Float32Array, fitStart?: ExposureParameters | null, fixed?: ExposureParameters | null) => R;
 }
 
 /** The alternation on one photo (full size, or a preview): first map, then rounds while uneven. */
@@ -113,7 +126,11 @@ function alternate<R extends MapResult>(
   startFlare: readonly number[],
   fitStart: ExposureParameters | null = null,
   startResponse: CameraResponse | null = null,
+  /** A coarser copy of the same photo for the rounds (see LightFieldPreview.rounds); null = the photo itself. */
+  roundsOn: PhotoToMap<R> | null = null,
 ): Alternation<R> {
+  const self: PhotoToMap<R> = { rgb, width, height, mapWith };
+  let on: PhotoToMap<R> = roundsOn ?? self;
   const first = mapWith(start ? evenOutLight(rgb, width, height, start, startFlare, null, startResponse) : rgb, fitStart);
   if (!first.lightEvenness || first.filmArea?.found === false) return { first, best: first, coefficients: start ? [...start] : null, clamp: null, rounds: 0 };
   if (!start && ratioOf(first) <= START_RATIO) return { first, best: first, coefficients: null, clamp: null, rounds: 0 };
@@ -127,13 +144,22 @@ function alternate<R extends MapResult>(
   while (rounds < MAX_ROUNDS && current.lightEvenness && ratioOf(current) > SETTLED_RATIO) {
     const step = current.lightEvenness.logGainCoefficients;
     for (let k = 0; k < total.length; k++) total[k] += OVER_RELAXATION * (step[k] ?? 0);
-    const range = logGainRangeOver(current, total, width, height);
+    // (The field's coordinates are fractions of the photo: the same on every copy of it.)
+    const range = logGainRangeOver(current, total, current.width, current.height);
     // Each round starts its photo-formation fit from the last (the photo changed only by the field).
     // The camera response starts again from where the photo's started (a previous frame's or a
     // calibration's, else none): uneven light spreads each hue over many brightnesses, so the first
     // map may find enough colours to fit a response that the evened photo does not support (the
     // fall-off then passes for a tone curve, and would be held as one).
-    current = mapWith(evenOutLight(rgb, width, height, total, current.fitted.flare, range, current.fitted.response ?? null), { ...current.fitted, response: startResponse });
+    const fitStartOfRound = { ...current.fitted, response: startResponse };
+    const flare = current.fitted.flare;
+    const response = current.fitted.response ?? null;
+    current = on.mapWith(evenOutLight(on.rgb, on.width, on.height, total, flare, range, response), fitStartOfRound);
+    if (on !== self && (!current.lightEvenness || current.filmArea?.found === false)) {
+      // The coarser copy lost the film (a small film, a few of its pixels): the rounds go on at full detail.
+      on = self;
+      current = on.mapWith(evenOutLight(on.rgb, on.width, on.height, total, flare, range, response), fitStartOfRound);
+    }
     rounds++;
     if (ratioOf(current) < ratioOf(best)) {
       best = current;
@@ -222,7 +248,7 @@ export function mapWithLightField<R extends MapResult, P extends MapResult = R>(
   const startResponse = start?.response ?? null;
   if (mode === 'off') return { result: mapWith(rgb), field: null };
   if (preview) {
-    let small = alternate(preview.rgb, preview.width, preview.height, preview.mapWith, startCoefficients, startFlare, null, startResponse);
+    let small = alternate(preview.rgb, preview.width, preview.height, preview.mapWith, startCoefficients, startFlare, null, startResponse, preview.rounds ?? null);
     if (!small.coefficients && small.first.filmArea?.found === false && preview.mapCentreWith) {
       small = fromCentre(preview.rgb, preview.width, preview.height, preview.mapWith, preview.mapCentreWith, startFlare) ?? small;
     }
