@@ -15,6 +15,7 @@ import type * as MapPhotoModule from '../src/map/mapPhoto.js';
 import type * as ReadPhotoModule from '../src/io/readPhoto.js';
 import type * as OpticsModule from '../src/optics/index.js';
 import type * as PixelThreadsModule from '../src/map/pixelThreads.js';
+import type * as EvenOutLightModule from '../src/map/evenOutLight.js';
 import { mapDecodedPhoto as mapFromSources } from '../src/map/mapPhoto.js';
 import { readPhoto as readFromSources } from '../src/io/readPhoto.js';
 import { resolveStack } from '../src/optics/index.js';
@@ -59,6 +60,24 @@ describe('threaded pixel pass', () => {
     // The helpers really ran (the compiled worker file was found and started).
     const { helperThreadCount } = (await import(dist('map/pixelThreads.js'))) as typeof PixelThreadsModule;
     expect(helperThreadCount()).toBe(2);
+  });
+
+  it('evening a large photo by a light field: 1, 2 and 3 threads give byte-identical photos, with and without a picture style', async () => {
+    const { evenOutLight } = (await import(dist('map/evenOutLight.js'))) as typeof EvenOutLightModule;
+    const { readPhoto } = (await import(dist('io/readPhoto.js'))) as typeof ReadPhotoModule;
+    const decoded = await readPhoto(photo);
+    // A 35 % fall-off with vignetting (log-gain coefficients of our own choosing).
+    const field = [0.05, -0.3, 0.08, -0.05, 0.03, -0.04, -0.15];
+    for (const response of [null, { contrast: 0.3, gamma: 0.95, saturation: 1.2 }]) {
+      const one = evenOutLight(decoded.rgb, W, H, field, [0.01, 0.01, 0.01], [-0.4, 0.4], response, true, 1);
+      let moved = 0;
+      for (let i = 0; i < one.length; i++) if (one[i] !== decoded.rgb[i]) moved++;
+      expect(moved).toBeGreaterThan(0.5 * one.length);
+      for (const threads of [2, 3]) {
+        const many = evenOutLight(decoded.rgb, W, H, field, [0.01, 0.01, 0.01], [-0.4, 0.4], response, true, threads);
+        expect(bytes(many).equals(bytes(one)), `${threads} threads, ${response ? 'styled' : 'plain'}`).toBe(true);
+      }
+    }
   });
 
   it('from the TypeScript sources (no compiled helper file) threads fall back to one, with the same map', async () => {

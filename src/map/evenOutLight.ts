@@ -11,6 +11,7 @@
  * interpolation), with no call per value: a 12-MP photo is evened in a fraction of a second.
  */
 import { SRGB_TABLE_SIZE, srgbDecodeTable, srgbEncodeTable } from '../colour/srgbEncoderTable.js';
+import { evenRowsThreaded, sharedCopy } from './pixelThreads.js';
 import { type CameraResponse, INVERSE_SIZE, isIdentityResponse, LUMA_BT601, responseTables, TONE_TABLE_SIZE, toneAt } from '../colour/toneResponse.js';
 
 const DECODE_SCALE = 65535;
@@ -18,10 +19,28 @@ const LR = LUMA_BT601[0];
 const LG = LUMA_BT601[1];
 const LB = LUMA_BT601[2];
 
+/** What evening needs besides the output (the photo's arrays in shared memory when threaded). */
+export interface EvenLightInput {
+  readonly rgb: Float32Array;
+  readonly width: number;
+  readonly height: number;
+  /** The field's (./lightEvenness.ts: a quadratic in position plus r⁴, in fractions of the photo's half long side about its centre). */
+  readonly logGainCoefficients: readonly number[];
+  readonly flare: readonly number[];
+  /** Hold the log gain within [lo, hi] (the range seen over the film); null = as the surface gives it. */
+  readonly clamp: readonly [number, number] | null;
+  readonly response: CameraResponse | null;
+  /** Put the result back on 8-bit codes (k/255), as a camera would have recorded the evened light. */
+  readonly eightBit: boolean;
+}
+
+/** Photos with fewer pixels are evened on one thread (starting helpers would cost more than it saves). */
+const MIN_THREADED_PIXELS = 1_000_000;
+
 /**
  * The photo with the field's gain divided out (a copy in shared memory, for the mapper's threads).
- * `logGainCoefficients` are the field's (./lightEvenness.ts: a quadratic in position plus r⁴, in
- * fractions of the photo's half long side about its centre).
+ * With `threads` > 1, a large photo's rows are shared with the pixel pass's helper threads
+ * (./pixelThreads.ts); every row is computed alone, so the result is the same whatever the count.
  */
 export function evenOutLight(
   rgb: Float32Array,
@@ -29,14 +48,25 @@ export function evenOutLight(
   height: number,
   logGainCoefficients: readonly number[],
   flare: readonly number[],
-  /** Hold the log gain within [lo, hi] (the range seen over the film); null = as the surface gives it. */
   clamp: readonly [number, number] | null = null,
   response: CameraResponse | null = null,
-  /** Put the result back on 8-bit codes (k/255), as a camera would have recorded the evened light. */
   eightBit = false,
+  threads = 1,
 ): Float32Array {
   const out = new Float32Array(new SharedArrayBuffer(rgb.length * 4));
-  const c = logGainCoefficients;
+  if (threads > 1 && width * height >= MIN_THREADED_PIXELS) {
+    const input: EvenLightInput = { rgb: sharedCopy(rgb), width, height, logGainCoefficients: [...logGainCoefficients], flare: [...flare], clamp, response, eightBit };
+    evenRowsThreaded(input, out, threads, (y0, y1) => evenOutLightRows(input, out, y0, y1));
+  } else {
+    evenOutLightRows({ rgb, width, height, logGainCoefficients, flare, clamp, response, eightBit }, out, 0, height);
+  }
+  return out;
+}
+
+/** Rows [y0, y1) of the evened photo into `out`; returns the rows done. */
+export function evenOutLightRows(input: EvenLightInput, out: Float32Array, y0: number, y1: number): number {
+  const { rgb, width, height, flare, clamp, response } = input;
+  const c = input.logGainCoefficients;
   const half = Math.max(width, height) / 2;
   // log gain = a(u) + b(v) + c4·u·v + c6·(u² + v²)²: the u and v parts once per column and row.
   const us = new Float64Array(width);
@@ -61,17 +91,17 @@ export function evenOutLight(
   const f0 = flare[0];
   const f1 = flare[1];
   const f2 = flare[2];
-  const quantise = eightBit ? 255 : 0;
+  const quantise = input.eightBit ? 255 : 0;
   const triple = new Float64Array(3);
   const linearTriple = new Float64Array(3);
-  for (let y = 0; y < height; y++) {
+  for (let y = y0; y < y1; y++) {
     const v = (y + 0.5 - height / 2) / half;
     inverseGainRow(us, colTerm, c[0] + c[2] * v + c[5] * v * v, c[4] * v, v, r4, lo, hi, stride, inverse);
     const offset = y * width * 3;
     if (tables) styledRow(rgb, out, offset, width, inverse, f0, f1, f2, decode, encode, tables.inverseTone, tables.tone, 1 / saturation, saturation, contrast, gamma, quantise, triple, linearTriple);
     else plainRow(rgb, out, offset, width, inverse, f0, f1, f2, decode, encode, quantise);
   }
-  return out;
+  return y1 - y0;
 }
 
 /**

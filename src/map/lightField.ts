@@ -217,6 +217,8 @@ export interface LightFieldJob<R extends MapResult, P extends MapResult = R> {
   readonly preview?: LightFieldPreview<P> | null;
   /** The photo holds 8-bit codes (the full-size photo evened after a preview is kept on them). */
   readonly eightBit?: boolean;
+  /** Threads to even the full-size photo on (./evenOutLight.ts; the result is the same whatever the count); default 1. */
+  readonly threads?: number;
   /**
    * Maps the pixels measuring only the middle of the photo. When one exposure explains no part of
    * the photo (strong fall-off across a film on a dark background can make the one-exposure fit
@@ -258,7 +260,7 @@ export function mapWithLightField<R extends MapResult, P extends MapResult = R>(
     if (!small.coefficients) return { result: mapWith(rgb, null, null, fittedOn(small.first)), field: null };
     // An 8-bit photo evened is put back on 8-bit codes: the per-colour memo of the pixel pass
     // (./pixelPass.ts) then serves the full-size map as it serves an evenly lit photo.
-    const evened = evenOutLight(rgb, width, height, small.coefficients, small.best.fitted.flare, small.clamp, small.best.fitted.response ?? null, job.eightBit === true);
+    const evened = evenOutLight(rgb, width, height, small.coefficients, small.best.fitted.flare, small.clamp, small.best.fitted.response ?? null, job.eightBit === true, job.threads ?? 1);
     const result = mapWith(evened, small.best.fitted, null, fittedOn(small.best));
     return { result, field: fieldOver(result, small.coefficients, width, height, small.rounds, 'photo', true) };
   }

@@ -166,6 +166,7 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
     mapWith: (pixels, fitStart, fixed, fittedOn) => mapAt(pixels, full, fitStart ?? null, fixed ?? null, fittedOn ?? null),
     mode: options.lightField ?? 'auto',
     eightBit: photo.bitDepth === 8 && built.camera.encoding !== 'linear',
+    threads: options.threads ?? defaultThreads(),
     start: lightFieldStartOf(options, photo.width, photo.height),
     preview: preview
       ? {

@@ -1,5 +1,6 @@
 /**
- * Runs the mapper's pixel pass (./pixelPass.ts) on chunks of rows in parallel: the calling
+ * Runs the mapper's pixel pass (./pixelPass.ts), and the evening of a photo by a light field
+ * (./evenOutLight.ts), on chunks of rows in parallel: the calling
  * thread and helper worker threads (./pixelWorker.ts, `node:worker_threads`) each take the next
  * chunk from a shared counter until none is left. The call stays synchronous, so `mapPixels` keeps its plain signature: tasks are
  * posted to the helpers and the caller blocks in `Atomics.wait` on a small shared control block
@@ -18,6 +19,7 @@ import { availableParallelism } from 'node:os';
 import { fileURLToPath } from 'node:url';
 import { MessageChannel, receiveMessageOnPort, Worker, type MessagePort } from 'node:worker_threads';
 import type { PixelPassCounts, PixelPassInput, PixelPassOutput, ScoreInput } from './pixelPass.js';
+import type { EvenLightInput } from './evenOutLight.js';
 
 /** Slots of the shared control block, and the states of its `state` slot. */
 export const CONTROL = { state: 0, first: 1, second: 2, starting: 0, ready: 1, busy: 2, done: 3, failed: 4 } as const;
@@ -38,7 +40,8 @@ export interface ChunkQueue {
 }
 export type BandTask =
   | { kind: 'match'; input: SharedPassInput; output: PixelPassOutput; queue: ChunkQueue }
-  | { kind: 'score'; input: ScoreInput; output: PixelPassOutput; queue: ChunkQueue };
+  | { kind: 'score'; input: ScoreInput; output: PixelPassOutput; queue: ChunkQueue }
+  | { kind: 'even'; input: EvenLightInput; output: Float32Array; queue: ChunkQueue };
 
 /** Rows [y0, y1) of the next chunk of the queue, or null when every chunk is taken. */
 export function nextChunk(queue: ChunkQueue, counter: Int32Array): [number, number] | null {
@@ -161,6 +164,11 @@ export function scorePixelsThreaded(
   local: (y0: number, y1: number) => number,
 ): number {
   return runBands(threads, height, (queue) => ({ kind: 'score', input, output, queue }), local, (control) => control[CONTROL.first], (a, b) => a + b);
+}
+
+/** The light field divided out of a photo (./evenOutLight.ts), rows shared on up to `threads` threads. */
+export function evenRowsThreaded(input: EvenLightInput, output: Float32Array, threads: number, local: (y0: number, y1: number) => number): void {
+  runBands(threads, input.height, (queue) => ({ kind: 'even', input, output, queue }), local, (control) => control[CONTROL.first], (a, b) => a + b);
 }
 
 /** A typed array of the same values in a SharedArrayBuffer (the array itself when it is one). */

@@ -1,5 +1,5 @@
 /**
- * Worker-thread entry of the mapper's pixel pass (see ./pixelThreads.ts). Receives tasks whose
+ * Worker-thread entry of the mapper's pixel pass and of evening a photo by a light field (see ./pixelThreads.ts). Receives tasks whose
  * large arrays live in SharedArrayBuffers, runs `matchPixelRows` or `scorePixelRows` on chunks of
  * rows taken from the shared queue until none is left, writes the counts into the shared control block and wakes the waiting main thread. Each
  * match task builds its own colour cube (a deterministic function of the predicted table) and
@@ -11,6 +11,7 @@ import { createCandidateCube } from './candidateCube.js';
 import { createMatchScratch } from './matchColour.js';
 import { createColourMemo, matchPixelRows, scorePixelRows, type PixelPassInput, type ScoreInput } from './pixelPass.js';
 import { CONTROL, nextChunk, type BandTask } from './pixelThreads.js';
+import { evenOutLightRows } from './evenOutLight.js';
 
 const { control: controlBuffer, replies } = workerData as { control: SharedArrayBuffer; replies: MessagePort };
 const control = new Int32Array(controlBuffer);
@@ -40,6 +41,10 @@ parentPort?.on('message', (task: BandTask) => {
       }
       control[CONTROL.first] = unresolved;
       control[CONTROL.second] = discontinuous;
+    } else if (task.kind === 'even') {
+      let rows = 0;
+      for (let chunk = nextChunk(task.queue, counter); chunk; chunk = nextChunk(task.queue, counter)) rows += evenOutLightRows(task.input, task.output, chunk[0], chunk[1]);
+      control[CONTROL.first] = rows;
     } else {
       let poor = 0;
       for (let rows = nextChunk(task.queue, counter); rows; rows = nextChunk(task.queue, counter)) poor += scorePixelRows(task.input as ScoreInput, task.output, rows[0], rows[1]);
