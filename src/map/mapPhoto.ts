@@ -163,7 +163,13 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
     rgb,
     width: photo.width,
     height: photo.height,
-    mapWith: (pixels, fitStart, fixed, fittedOn) => mapAt(pixels, full, fitStart ?? null, fixed ?? null, fittedOn ?? null),
+    // The full map of a large photo also takes its preview's film area as a prior (as a series
+    // frame takes the previous frame's): where the preview placed a dark region in the film (black
+    // film at the border), the full map keeps it there (filmArea.ts, followPriorFilm). The full
+    // map's finer grid sees a black front's blurred edge as colours no thickness gives, which
+    // under uneven light hid a 9 % black-film band at the top of the 12 MP demo frame as "dark
+    // surroundings" (and its rupture risk with it).
+    mapWith: (pixels, fitStart, fixed, fittedOn) => mapAt(pixels, withPreviewPrior(full, fittedOn ?? null), fitStart ?? null, fixed ?? null, fittedOn ?? null),
     mode: options.lightField ?? 'auto',
     eightBit: photo.bitDepth === 8 && built.camera.encoding !== 'linear',
     threads: options.threads ?? defaultThreads(),
@@ -352,6 +358,26 @@ function centreOf(at: FrameGeometry): FrameGeometry {
   const y1 = at.height - y0;
   for (let y = y0; y < y1; y++) for (let x = x0; x < x1; x++) film[y * at.width + x] = at.film[y * at.width + x];
   return { ...at, film, anchors: at.anchors.filter((a) => a.x >= x0 && a.x < x1 && a.y >= y0 && a.y < y1) };
+}
+
+/**
+ * The frame with a preview map's pixel statuses, scaled to its size by nearest pixel, as its prior
+ * film area; unchanged when there is no preview map or the frame has a prior already (a series).
+ */
+function withPreviewPrior(at: FrameGeometry, preview: MapResult | null): FrameGeometry {
+  if (!preview || at.priorStatus) return at;
+  const { width, height } = at;
+  const pw = preview.width;
+  const ph = preview.height;
+  const columns = new Int32Array(width);
+  for (let x = 0; x < width; x++) columns[x] = Math.min(pw - 1, Math.floor((x * pw) / width));
+  const prior = new Uint8Array(width * height);
+  for (let y = 0; y < height; y++) {
+    const from = Math.min(ph - 1, Math.floor((y * ph) / height)) * pw;
+    const to = y * width;
+    for (let x = 0; x < width; x++) prior[to + x] = preview.status[from + columns[x]];
+  }
+  return { ...at, priorStatus: prior };
 }
 
 /** Photos above this many pixels get their light field fitted on a subsampled preview. */
