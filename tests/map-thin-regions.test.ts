@@ -114,4 +114,80 @@ describe('thin regions on drawn discs', () => {
     // No threshold: no regions at all.
     expect(findThinRegions(thickness, status, w, h, null, null).regions).toHaveLength(0);
   });
+
+  it('findThinRegions gives the regions and labels of a plain 8-connected flood fill on random grids (U, spiral and diagonal shapes, specks, ties)', () => {
+    // A reference written here, independent of the code under test: flood fill from each
+    // unlabelled thin pixel in raster order (common practice for connected components).
+    const reference = (thickness: Float32Array, status: Uint8Array, w: number, h: number, thin: number, minArea: number) => {
+      const isThin = (i: number) => status[i] === PixelStatus.dark || (status[i] === PixelStatus.ok && thickness[i] < thin);
+      const labels = new Int32Array(w * h);
+      const regions: Array<{ id: number; areaPx: number; centroidX: number; centroidY: number; minThicknessNm: number | null; bbox: number[] }> = [];
+      let mark = -1;
+      for (let seed = 0; seed < w * h; seed++) {
+        if (labels[seed] !== 0 || !isThin(seed)) continue;
+        const members: number[] = [seed];
+        labels[seed] = mark;
+        for (let k = 0; k < members.length; k++) {
+          const x = members[k] % w;
+          const y = Math.floor(members[k] / w);
+          for (let dy = -1; dy <= 1; dy++) for (let dx = -1; dx <= 1; dx++) {
+            const nx = x + dx;
+            const ny = y + dy;
+            if (nx < 0 || ny < 0 || nx >= w || ny >= h) continue;
+            const n = ny * w + nx;
+            if (labels[n] === 0 && isThin(n)) {
+              labels[n] = mark;
+              members.push(n);
+            }
+          }
+        }
+        if (members.length < minArea) {
+          mark--;
+          continue;
+        }
+        const id = regions.length + 1;
+        let least = Infinity;
+        const xs = members.map((i) => i % w);
+        const ys = members.map((i) => Math.floor(i / w));
+        for (const i of members) {
+          labels[i] = id;
+          if (status[i] === PixelStatus.ok && thickness[i] < least) least = thickness[i];
+        }
+        const x0 = Math.min(...xs);
+        const y0 = Math.min(...ys);
+        regions.push({
+          id,
+          areaPx: members.length,
+          centroidX: xs.reduce((a, b) => a + b, 0) / members.length,
+          centroidY: ys.reduce((a, b) => a + b, 0) / members.length,
+          minThicknessNm: least === Infinity ? null : least,
+          bbox: [x0, y0, Math.max(...xs) - x0 + 1, Math.max(...ys) - y0 + 1],
+        });
+      }
+      for (let i = 0; i < labels.length; i++) if (labels[i] < 0) labels[i] = 0;
+      return { regions, labels };
+    };
+    let seed = 12345;
+    const random = () => ((seed = (seed * 1103515245 + 12345) >>> 0) / 2 ** 32);
+    for (let trial = 0; trial < 40; trial++) {
+      const w = 1 + Math.floor(random() * 70);
+      const h = 1 + Math.floor(random() * 50);
+      const density = [0.1, 0.3, 0.5, 0.6, 0.8][trial % 5];
+      const thickness = new Float32Array(w * h);
+      const status = new Uint8Array(w * h);
+      for (let i = 0; i < w * h; i++) {
+        const u = random();
+        status[i] = u < 0.05 ? PixelStatus.excluded : u < 0.1 ? PixelStatus.notFilm : u < 0.1 + density * 0.3 ? PixelStatus.dark : PixelStatus.ok;
+        thickness[i] = status[i] === PixelStatus.ok ? (random() < density ? Math.round(random() * 20) : 80 + random() * 200) : NaN;
+      }
+      // A U shape and a spiral arm joined only at the bottom (one component found from two tops).
+      if (w > 12 && h > 12) for (let y = 1; y < 11; y++) for (const x of [1, 10]) { status[y * w + x] = PixelStatus.dark; status[11 * w + x - 1 + ((y - 1) % 10)] = PixelStatus.dark; }
+      for (const minArea of [1, 5]) {
+        const got = findThinRegions(thickness, status, w, h, 50, null, minArea);
+        const want = reference(thickness, status, w, h, 50, minArea);
+        expect(got.regions.map(({ id, areaPx, centroidX, centroidY, minThicknessNm, bbox }) => ({ id, areaPx, centroidX, centroidY, minThicknessNm, bbox })), `trial ${trial} ${w}×${h}`).toEqual(want.regions);
+        expect(Buffer.from(got.labels.buffer).equals(Buffer.from(want.labels.buffer)), `labels, trial ${trial}`).toBe(true);
+      }
+    }
+  });
 });

@@ -1,8 +1,13 @@
 /**
  * Thin (rupture-risk) regions: 8-connected components of film pixels that are either measured
  * below the thin threshold or too dark to measure (thinner than the dark limit, or no film).
- * Components smaller than `minAreaPx` are ignored as noise. Labelling is a two-pass-free
- * flood fill with an explicit typed-array stack (no recursion, no allocation per pixel).
+ * Components smaller than `minAreaPx` are ignored as noise.
+ *
+ * Labelling by runs (common practice for connected components of a raster): each row's runs of
+ * thin pixels are joined to the runs of the row above that touch them (8-connectivity: overlap
+ * widened by one pixel) in a union–find over runs; each component's area, centroid, bounding box
+ * and minimum are summed from its runs. The map is read once; only thin pixels' labels are
+ * written. Region ids follow each component's first pixel in raster order, from 1.
  */
 import { PixelStatus, type ThinRegion } from './types.js';
 
@@ -10,6 +15,54 @@ export interface ThinRegionResult {
   readonly regions: ThinRegion[];
   /** Per-pixel region id (0 = none, else id). */
   readonly labels: Int32Array;
+}
+
+/** Growable run storage (start, end exclusive, row) and the union–find parent of each run. */
+class Runs {
+  start = new Int32Array(1024);
+  end = new Int32Array(1024);
+  row = new Int32Array(1024);
+  parent = new Int32Array(1024);
+  count = 0;
+
+  add(start: number, end: number, row: number): number {
+    if (this.count === this.start.length) {
+      const size = this.count * 2;
+      this.start = grow(this.start, size);
+      this.end = grow(this.end, size);
+      this.row = grow(this.row, size);
+      this.parent = grow(this.parent, size);
+    }
+    const k = this.count++;
+    this.start[k] = start;
+    this.end[k] = end;
+    this.row[k] = row;
+    this.parent[k] = k;
+    return k;
+  }
+}
+
+function grow(array: Int32Array, size: number): Int32Array {
+  const grown = new Int32Array(size);
+  grown.set(array);
+  return grown;
+}
+
+/** The root of run `k` (path halving). */
+function rootOf(parent: Int32Array, k: number): number {
+  while (parent[k] !== k) {
+    parent[k] = parent[parent[k]];
+    k = parent[k];
+  }
+  return k;
+}
+
+/** Joins two runs' components; the root is the one with the earlier first run (raster order). */
+function join(parent: Int32Array, a: number, b: number): void {
+  const ra = rootOf(parent, a);
+  const rb = rootOf(parent, b);
+  if (ra < rb) parent[rb] = ra;
+  else if (rb < ra) parent[ra] = rb;
 }
 
 export function findThinRegions(
@@ -21,99 +74,92 @@ export function findThinRegions(
   pixelSizeUm: number | null,
   minAreaPx = 5,
 ): ThinRegionResult {
-  const cells = width * height;
-  const labels = new Int32Array(cells);
+  const labels = new Int32Array(width * height);
   const regions: ThinRegion[] = [];
   if (thinBelowNm === null) return { regions, labels };
-  const isThin = (i: number): boolean =>
-    status[i] === PixelStatus.dark || (status[i] === PixelStatus.ok && thicknessNm[i] < thinBelowNm);
-  // The flood fill's stack grows with the largest region seen (doubling), not with the photo:
-  // a second photo-sized array would cost 48 MB on a 12-MP photo.
-  let stack = new Int32Array(Math.min(cells, 1 << 16));
-  let nextId = 1;
-  for (let seed = 0; seed < cells; seed++) {
-    if (labels[seed] !== 0 || !isThin(seed)) continue;
-    const id = nextId;
-    let top = 0;
-    stack[top++] = seed;
-    labels[seed] = id;
-    let area = 0;
-    let sumX = 0;
-    let sumY = 0;
-    let minThickness = Infinity;
-    let x0 = width;
-    let y0 = height;
-    let x1 = -1;
-    let y1 = -1;
-    while (top > 0) {
-      const i = stack[--top];
-      const x = i % width;
-      const y = (i - x) / width;
-      area++;
-      sumX += x;
-      sumY += y;
-      if (status[i] === PixelStatus.ok && thicknessNm[i] < minThickness) minThickness = thicknessNm[i];
-      if (x < x0) x0 = x;
-      if (x > x1) x1 = x;
-      if (y < y0) y0 = y;
-      if (y > y1) y1 = y;
-      for (let dy = -1; dy <= 1; dy++) {
-        const ny = y + dy;
-        if (ny < 0 || ny >= height) continue;
-        for (let dx = -1; dx <= 1; dx++) {
-          const nx = x + dx;
-          if ((dx === 0 && dy === 0) || nx < 0 || nx >= width) continue;
-          const n = ny * width + nx;
-          if (labels[n] === 0 && isThin(n)) {
-            labels[n] = id;
-            if (top === stack.length) {
-              const grown = new Int32Array(Math.min(cells, stack.length * 2));
-              grown.set(stack);
-              stack = grown;
-            }
-            stack[top++] = n;
-          }
-        }
-      }
+  const runs = new Runs();
+  let previousFirst = 0;
+  let previousEnd = 0;
+  for (let y = 0; y < height; y++) {
+    const rowStart = y * width;
+    const first = runs.count;
+    let above = previousFirst;
+    let x = 0;
+    while (x < width) {
+      while (x < width && !isThin(thicknessNm, status, rowStart + x, thinBelowNm)) x++;
+      if (x === width) break;
+      const start = x;
+      while (x < width && isThin(thicknessNm, status, rowStart + x, thinBelowNm)) x++;
+      const k = runs.add(start, x, y);
+      // Runs of the row above touching [start − 1, x]: skip those ending before start − 1.
+      while (above < previousEnd && runs.end[above] < start) above++;
+      for (let a = above; a < previousEnd && runs.start[a] <= x; a++) join(runs.parent, a, k);
     }
-    if (area < minAreaPx) {
-      relabel(labels, seed, id, -1, width, height);
-      continue;
+    previousFirst = first;
+    previousEnd = runs.count;
+  }
+  // Components in the order of their first run (a root is its component's first run).
+  const { start, end, row, parent, count } = runs;
+  const slotOf = new Int32Array(count).fill(-1);
+  const area: number[] = [];
+  const sumX: number[] = [];
+  const sumY: number[] = [];
+  const minThickness: number[] = [];
+  const box: number[] = [];
+  for (let k = 0; k < count; k++) {
+    const root = rootOf(parent, k);
+    let slot = slotOf[root];
+    if (slot < 0) {
+      slot = slotOf[root] = area.length;
+      area.push(0);
+      sumX.push(0);
+      sumY.push(0);
+      minThickness.push(Infinity);
+      box.push(width, height, -1, -1);
     }
-    nextId++;
+    const s = start[k];
+    const e = end[k];
+    const y = row[k];
+    const length = e - s;
+    area[slot] += length;
+    sumX[slot] += ((s + e - 1) * length) / 2;
+    sumY[slot] += y * length;
+    let least = minThickness[slot];
+    for (let i = y * width + s, stop = y * width + e; i < stop; i++) {
+      if (status[i] === PixelStatus.ok && thicknessNm[i] < least) least = thicknessNm[i];
+    }
+    minThickness[slot] = least;
+    const b = slot * 4;
+    if (s < box[b]) box[b] = s;
+    if (y < box[b + 1]) box[b + 1] = y;
+    if (e - 1 > box[b + 2]) box[b + 2] = e - 1;
+    if (y > box[b + 3]) box[b + 3] = y;
+  }
+  // Kept components are numbered from 1 in that order; too small ones get no id.
+  const idOf = new Int32Array(area.length);
+  for (let slot = 0; slot < area.length; slot++) {
+    if (area[slot] < minAreaPx) continue;
+    const id = regions.length + 1;
+    idOf[slot] = id;
+    const b = slot * 4;
     regions.push({
       id,
-      areaPx: area,
-      areaUm2: pixelSizeUm === null ? null : area * pixelSizeUm * pixelSizeUm,
-      centroidX: sumX / area,
-      centroidY: sumY / area,
-      minThicknessNm: minThickness === Infinity ? null : minThickness,
-      bbox: [x0, y0, x1 - x0 + 1, y1 - y0 + 1],
+      areaPx: area[slot],
+      areaUm2: pixelSizeUm === null ? null : area[slot] * pixelSizeUm * pixelSizeUm,
+      centroidX: sumX[slot] / area[slot],
+      centroidY: sumY[slot] / area[slot],
+      minThicknessNm: minThickness[slot] === Infinity ? null : minThickness[slot],
+      bbox: [box[b], box[b + 1], box[b + 2] - box[b] + 1, box[b + 3] - box[b + 1] + 1],
     });
   }
-  for (let i = 0; i < cells; i++) if (labels[i] < 0) labels[i] = 0;
+  for (let k = 0; k < count; k++) {
+    const id = idOf[slotOf[rootOf(parent, k)]];
+    if (id !== 0) labels.fill(id, row[k] * width + start[k], row[k] * width + end[k]);
+  }
   return { regions, labels };
 }
 
-/** Marks a too-small component with `to` so it is neither re-seeded nor reported. */
-function relabel(labels: Int32Array, seed: number, from: number, to: number, width: number, height: number): void {
-  const stack: number[] = [seed];
-  labels[seed] = to;
-  while (stack.length > 0) {
-    const i = stack.pop() as number;
-    const x = i % width;
-    const y = (i - x) / width;
-    for (let dy = -1; dy <= 1; dy++) {
-      for (let dx = -1; dx <= 1; dx++) {
-        const nx = x + dx;
-        const ny = y + dy;
-        if (nx < 0 || ny < 0 || nx >= width || ny >= height) continue;
-        const n = ny * width + nx;
-        if (labels[n] === from) {
-          labels[n] = to;
-          stack.push(n);
-        }
-      }
-    }
-  }
+function isThin(thicknessNm: Float32Array, status: Uint8Array, i: number, thinBelowNm: number): boolean {
+  const s = status[i];
+  return s === PixelStatus.dark || (s === PixelStatus.ok && thicknessNm[i] < thinBelowNm);
 }
