@@ -42,7 +42,7 @@ class Runs {
   }
 }
 
-function grow(array: Int32Array, size: number): Int32Array {
+function grow(array: Int32Array, size: number): Int32Array<ArrayBuffer> {
   const grown = new Int32Array(size);
   grown.set(array);
   return grown;
