@@ -21,13 +21,15 @@ import { fileURLToPath } from 'node:url';
 import sharp from 'sharp';
 import { renderDemoFrame } from '../scripts/make-demo.js';
 
+/** glibc's tunable for transparent huge pages in malloc (glibc 2.35+; ignored by older ones). */
+const HUGE_PAGES = 'glibc.malloc.hugetlb=1';
 const SELF = fileURLToPath(import.meta.url);
 const CLI = fileURLToPath(new URL('../bin/lamella.js', import.meta.url));
 
 /** One child under GNU time: CPU seconds (user + system) and peak RSS in MiB. */
-function timed(args, label) {
+function timed(args, label, env = process.env) {
   const started = performance.now();
-  const r = spawnSync('/usr/bin/time', ['-f', 'LAMELLA_TIME %U %S %M', process.execPath, ...args], { encoding: 'utf8', maxBuffer: 1 << 24 });
+  const r = spawnSync('/usr/bin/time', ['-f', 'LAMELLA_TIME %U %S %M', process.execPath, ...args], { encoding: 'utf8', maxBuffer: 1 << 24, env });
   const wallS = (performance.now() - started) / 1000;
   const match = /LAMELLA_TIME ([\d.]+) ([\d.]+) (\d+)/.exec(r.stderr);
   if (r.status !== 0 && r.status !== 1) throw new Error(`${label} failed (status ${r.status}): ${r.stderr.trim().split('\n').slice(-3).join(' ')}`);
@@ -69,6 +71,15 @@ export async function benchFloor({ width = 4000, height = 3000, smallFrames = 12
     const photo = await photoAt(dir, 'film.jpg', 8, width, height);
     const floor = timed([SELF, '--floor', photo, join(dir, 'floor.npy')], 'floor');
     const mapAll = timed([CLI, 'map', photo, '--stack', 'soap-film', '--out', join(dir, 'all'), '--quiet', '--threads', '1'], 'map');
+    // The same map with glibc's malloc asking for transparent huge pages (README, "Accuracy and
+    // speed"): for information, on Linux with glibc 2.35 or later; not a target.
+    const hugeEnv = { ...process.env, GLIBC_TUNABLES: HUGE_PAGES };
+    const huge = process.platform === 'linux'
+      ? {
+          floor: timed([SELF, '--floor', photo, join(dir, 'floor-huge.npy')], 'floor huge pages', hugeEnv),
+          map: timed([CLI, 'map', photo, '--stack', 'soap-film', '--out', join(dir, 'huge'), '--quiet', '--threads', '1'], 'map huge pages', hugeEnv),
+        }
+      : null;
     const mapLean = timed([CLI, 'map', photo, '--stack', 'soap-film', '--out', join(dir, 'lean'), '--quiet', '--threads', '1', '--outputs', 'npy,json'], 'map npy,json');
     const series = {};
     for (const [key, frames, w, h] of [['small', smallFrames, 320, 240], ['big', bigFrames, 1632, 1224]]) {
@@ -81,7 +92,7 @@ export async function benchFloor({ width = 4000, height = 3000, smallFrames = 12
       const two = key === 'big' ? timed([CLI, ...base, folder, '--out', join(dir, `${key}-w2`), '--workers', '2'], `series ${key} 2 workers`) : null;
       series[key] = { frames, width: w, height: h, perFrameS, wall1S: all.wallS, wall2S: two?.wallS ?? null };
     }
-    return { width, height, floor, mapAll, mapLean, series };
+    return { width, height, floor, mapAll, huge, mapLean, series };
   } finally {
     await rm(dir, { recursive: true, force: true });
   }
@@ -96,6 +107,9 @@ export function formatFloor(r) {
     `photo ${r.width}×${r.height} (${((r.width * r.height) / 1e6).toFixed(0)} MP), CPU seconds (user + system, all threads), one child each`,
     `floor (decode + 32³ table read per pixel + one float32 .npy): ${r.floor.cpuS.toFixed(2)} s CPU, peak ${r.floor.peakMiB.toFixed(0)} MiB`,
     `map, default outputs, --threads 1: ${r.mapAll.cpuS.toFixed(2)} s CPU = ${ratio(r.mapAll)} the floor (target ≤ 3×: ${mark(r.mapAll.cpuS <= 3 * r.floor.cpuS)}), peak ${r.mapAll.peakMiB.toFixed(0)} MiB (target ≤ 600: ${mark(r.mapAll.peakMiB <= 600)})`,
+    ...(r.huge
+      ? [`with GLIBC_TUNABLES=${HUGE_PAGES} (information, no target): floor ${r.huge.floor.cpuS.toFixed(2)} s CPU, map with default outputs ${r.huge.map.cpuS.toFixed(2)} s CPU (${(r.huge.map.cpuS / r.mapAll.cpuS).toFixed(2)}× the map without; ${(r.huge.map.cpuS / r.huge.floor.cpuS).toFixed(2)}× its floor), peak ${r.huge.map.peakMiB.toFixed(0)} MiB`]
+      : []),
     `map --outputs npy,json: ${r.mapLean.cpuS.toFixed(2)} s CPU = ${ratio(r.mapLean)} the floor (target ≤ 2×: ${mark(r.mapLean.cpuS <= 2 * r.floor.cpuS)}), peak ${r.mapLean.peakMiB.toFixed(0)} MiB`,
     `series 320×240: ${s.small.perFrameS.toFixed(3)} s CPU per frame over ${s.small.frames} frames (target ≤ 0.25: ${mark(s.small.perFrameS <= 0.25)})`,
     `series 2 MP: ${s.big.perFrameS.toFixed(3)} s CPU per frame over ${s.big.frames} frames (target ≤ 0.7: ${mark(s.big.perFrameS <= 0.7)})`,

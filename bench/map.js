@@ -30,7 +30,8 @@
 // (UNEVEN_PAIRS): the median of the pairs' ratios (cold end to end, and the warm map phase) is
 // what fitting the exposure field costs.
 // One run per size on a shared machine: expect ±20 % between runs.
-// Targets (issue): map within 4× the decode time at 12 MP, peak memory under 1 GiB, linear scaling;
+// Targets: peak memory under 1 GiB, linear scaling; the 12-MP time against the decode alone is
+// printed for information (its 4× target was replaced by issue 18's floor, bench/floor.js);
 // (issue 14) the unevenly lit 12 MP photo within 1.5× the time of the evenly lit one.
 // Run after building: `node bench/map.js` (or through bench/run.js, which calls benchMap()).
 import { spawnSync } from 'node:child_process';
@@ -283,7 +284,7 @@ export function formatMap(result) {
   const big = result.sizes[result.sizes.length - 1];
   lines.push(
     `  floor at ${big.mp} MP: decode + writing the ${big.outputMiB.toFixed(0)} MiB of outputs (temp file, fsync, rename; no mapping, no encoding) = ${(big.decodeMs + big.writeFloorMs).toFixed(0)} ms = ${((big.decodeMs + big.writeFloorMs) / big.decodeMs).toFixed(1)}× the decode time`,
-    `  end to end at ${result.sizes[result.sizes.length - 1].mp} MP: ${result.ratio12.toFixed(1)}× the decode time (${target(result.ratio12 <= 4)} ≤ 4×)`,
+    `  end to end at ${result.sizes[result.sizes.length - 1].mp} MP: ${result.ratio12.toFixed(1)}× the decode time (information: the earlier 4× target was replaced by the floor's targets below)`,
     `  peak RSS: ${result.peakMiB.toFixed(0)} MiB (${target(result.peakMiB < 1024)} < 1 GiB)`,
     `  scaling (warm totals): ${l.fixedMs.toFixed(0)} ms fixed + ${l.perMPMs.toFixed(0)} ms per MP; worst point ${(100 * l.worstResidual).toFixed(0)} % off the line (${target(l.worstResidual <= 0.15)}: linear within 15 %)`,
   );
