@@ -11,6 +11,7 @@ import sharp from 'sharp';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { decodeNpy } from '../src/io/decodeNpy.js';
 import { poolLabels, previewGrid, samplePreview } from '../src/map/previewGrid.js';
+import { findThinRegions } from '../src/map/thinRegions.js';
 import { mapPngLayout } from '../src/map/mapImages.js';
 import { resolveLight } from '../src/colour/index.js';
 import { resolveStack } from '../src/optics/index.js';
@@ -52,6 +53,33 @@ describe('the preview grid', () => {
     const pooled = poolLabels(labels, 6000, 6, grid);
     expect(pooled[1 * 2000 + 17]).toBe(9);
     expect(pooled.reduce((n, l) => n + (l ? 1 : 0), 0)).toBe(1);
+  });
+
+  it('pooling read only within the boxes of the regions gives the same preview labels as reading every block', () => {
+    // Random blobs labelled by findThinRegions on odd sizes (blocks cut at the right and bottom edges).
+    let seed = 77;
+    const random = () => ((seed = (seed * 1103515245 + 12345) >>> 0) / 2 ** 32);
+    for (const [w, h, maxSide] of [[2501, 1203, 500], [4003, 7, 1000], [999, 1001, 250]] as const) {
+      const thickness = new Float32Array(w * h).fill(500);
+      const status = new Uint8Array(w * h);
+      for (let blob = 0; blob < 40; blob++) {
+        const cx = Math.floor(random() * w);
+        const cy = Math.floor(random() * h);
+        const r = 1 + random() * 12;
+        for (let y = Math.max(0, Math.floor(cy - r)); y <= Math.min(h - 1, cy + r); y++) {
+          for (let x = Math.max(0, Math.floor(cx - r)); x <= Math.min(w - 1, cx + r); x++) if ((x - cx) ** 2 + (y - cy) ** 2 <= r * r) thickness[y * w + x] = 20;
+        }
+      }
+      const { labels, regions } = findThinRegions(thickness, status, w, h, 50, null);
+      expect(regions.length).toBeGreaterThan(5);
+      const grid = previewGrid(w, h, maxSide);
+      const everyBlock = poolLabels(labels, w, h, grid);
+      const withinBoxes = poolLabels(labels, w, h, grid, regions.map((region) => region.bbox));
+      expect(Buffer.from(withinBoxes.buffer).equals(Buffer.from(everyBlock.buffer)), `${w}×${h}`).toBe(true);
+      // A missing box loses its region's preview label: the boxes are what is read.
+      const fewer = poolLabels(labels, w, h, grid, regions.slice(1).map((region) => region.bbox));
+      expect(fewer.includes(regions[0].id)).toBe(false);
+    }
   });
 });
 

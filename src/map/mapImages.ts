@@ -413,13 +413,22 @@ export function paintFilmOutline(out: Uint8Array, status: Uint8Array, width: num
  * statuses are given, the film area's outline (thin, dashed cyan and black; under the thin
  * regions' outlines where they meet).
  */
-export async function renderFlagsPng(rgbFull: Float32Array, widthFull: number, heightFull: number, labelsFull: Int32Array, statusFull?: Uint8Array, pixelSizeUmFull: number | null = null): Promise<Buffer> {
+export async function renderFlagsPng(
+  rgbFull: Float32Array,
+  widthFull: number,
+  heightFull: number,
+  labelsFull: Int32Array,
+  statusFull?: Uint8Array,
+  pixelSizeUmFull: number | null = null,
+  /** Bounding boxes of the labelled regions (see poolLabels): a large photo's labels are read only there. */
+  regionBoxes: readonly (readonly number[])[] | null = null,
+): Promise<Buffer> {
   // A large photo is drawn on its preview grid (./previewGrid.ts); a thin region smaller than the
   // grid's step still shows (its label is pooled over each block).
   const grid = previewGrid(widthFull, heightFull);
   const { width, height } = grid;
   const rgb = samplePreview(rgbFull, grid, 3);
-  const labels = poolLabels(labelsFull, widthFull, heightFull, grid);
+  const labels = poolLabels(labelsFull, widthFull, heightFull, grid, regionBoxes);
   const status = statusFull ? samplePreview(statusFull, grid) : undefined;
   const pixelSizeUm = pixelSizeUmFull !== null ? pixelSizeUmFull * grid.step : null;
   const out = new Uint8Array(width * height * 3);

@@ -318,9 +318,10 @@ async function writeEachOutput(
   }
   if (what.flags ?? what.images) {
     if (result.photoRgb) {
-      const labels = result.thinLabels ?? findThinRegions(result.thicknessNm, result.status, width, height, options?.thinBelowNm ?? null, null).labels;
+      // The labels and the regions they number, from one labelling.
+      const thin = result.thinLabels ? { labels: result.thinLabels, regions: result.thinRegions } : findThinRegions(result.thicknessNm, result.status, width, height, options?.thinBelowNm ?? null, null);
       const flagsPath = join(outDir, `${stem}.flags.png`);
-      const flagsPng = renderFlagsPng(result.photoRgb, width, height, labels, result.status, options?.pixelSizeUm ?? null);
+      const flagsPng = renderFlagsPng(result.photoRgb, width, height, thin.labels, result.status, options?.pixelSizeUm ?? null, thin.regions.map((r) => r.bbox));
       start(flagsPath, async () => atomicWriteFile(flagsPath, await flagsPng));
     }
   }

@@ -29,15 +29,29 @@ export function previewGrid(width: number, height: number, maxSidePx = PREVIEW_M
 /**
  * Per preview pixel, a nonzero label of its `step` × `step` block of the map when the block holds
  * one (the first found, row by row), else 0: a thin region smaller than the step still shows in
- * the preview (max pooling, not point sampling, for what flags rupture risk).
+ * the preview (max pooling, not point sampling, for what flags rupture risk). `boxes`, when given,
+ * are the bounding boxes `[x, y, width, height]` of every labelled region (each nonzero label lies
+ * in its region's box): only blocks that meet a box are read, the rest of a mostly unlabelled map
+ * is never touched.
  */
-export function poolLabels(labels: Int32Array, width: number, height: number, grid: PreviewGrid): Int32Array {
+export function poolLabels(labels: Int32Array, width: number, height: number, grid: PreviewGrid, boxes: readonly (readonly number[])[] | null = null): Int32Array {
   if (grid.step === 1) return labels;
   const out = new Int32Array(grid.width * grid.height);
   const s = grid.step;
+  // Blocks to read: all, or those meeting a region's box.
+  let wanted: Uint8Array | null = null;
+  if (boxes) {
+    wanted = new Uint8Array(grid.width * grid.height);
+    for (const [x, y, w, h] of boxes) {
+      const gx1 = Math.min(grid.width - 1, Math.floor((x + w - 1) / s));
+      const gy1 = Math.min(grid.height - 1, Math.floor((y + h - 1) / s));
+      for (let gy = Math.max(0, Math.floor(y / s)); gy <= gy1; gy++) wanted.fill(1, gy * grid.width + Math.max(0, Math.floor(x / s)), gy * grid.width + gx1 + 1);
+    }
+  }
   for (let gy = 0, k = 0; gy < grid.height; gy++) {
     const y1 = Math.min(height, (gy + 1) * s);
     for (let gx = 0; gx < grid.width; gx++, k++) {
+      if (wanted && wanted[k] === 0) continue;
       const x1 = Math.min(width, (gx + 1) * s);
       let found = 0;
       for (let y = gy * s; y < y1 && found === 0; y++) {
