@@ -12,27 +12,15 @@
  */
 import { SRGB_TABLE_SIZE, srgbDecodeTable, srgbEncodeTable } from '../colour/srgbEncoderTable.js';
 import { evenRowsThreaded, sharedCopy } from './pixelThreads.js';
+import type { EvenLightInput } from './evenLightInput.js';
+
+export type { EvenLightInput } from './evenLightInput.js';
 import { type CameraResponse, INVERSE_SIZE, isIdentityResponse, LUMA_BT601, responseTables, TONE_TABLE_SIZE, toneAt } from '../colour/toneResponse.js';
 
 const DECODE_SCALE = 65535;
 const LR = LUMA_BT601[0];
 const LG = LUMA_BT601[1];
 const LB = LUMA_BT601[2];
-
-/** What evening needs besides the output (the photo's arrays in shared memory when threaded). */
-export interface EvenLightInput {
-  readonly rgb: Float32Array;
-  readonly width: number;
-  readonly height: number;
-  /** The field's (./lightEvenness.ts: a quadratic in position plus r⁴, in fractions of the photo's half long side about its centre). */
-  readonly logGainCoefficients: readonly number[];
-  readonly flare: readonly number[];
-  /** Hold the log gain within [lo, hi] (the range seen over the film); null = as the surface gives it. */
-  readonly clamp: readonly [number, number] | null;
-  readonly response: CameraResponse | null;
-  /** Put the result back on 8-bit codes (k/255), as a camera would have recorded the evened light. */
-  readonly eightBit: boolean;
-}
 
 /** Photos with fewer pixels are evened on one thread (starting helpers would cost more than it saves). */
 const MIN_THREADED_PIXELS = 1_000_000;

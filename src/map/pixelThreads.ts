@@ -19,7 +19,7 @@ import { availableParallelism } from 'node:os';
 import { fileURLToPath } from 'node:url';
 import { MessageChannel, receiveMessageOnPort, Worker, type MessagePort } from 'node:worker_threads';
 import type { PixelPassCounts, PixelPassInput, PixelPassOutput, ScoreInput } from './pixelPass.js';
-import type { EvenLightInput } from './evenOutLight.js';
+import type { EvenLightInput } from './evenLightInput.js';
 
 /** Slots of the shared control block, and the states of its `state` slot. */
 export const CONTROL = { state: 0, first: 1, second: 2, starting: 0, ready: 1, busy: 2, done: 3, failed: 4 } as const;
