@@ -17,6 +17,7 @@
 import { describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import { fitLeastSquares } from '../src/fit/index.js';
+import { fitLeastSquaresWithJacobian } from '../src/fit/fitLeastSquaresWithJacobian.js';
 import { sharedPath } from '../src/data/sharedDir.js';
 
 type Model = (b: readonly number[]) => (x: number) => number;
@@ -158,6 +159,10 @@ describe('fitLeastSquares({ jacobian }): the model\'s own derivatives instead of
         });
       }
     });
+    it(`${name}: fitLeastSquaresWithJacobian (the map's fit, without the wrapped library) gives fitLeastSquares' result to the last bit`, () => {
+      const problem = { x, y, model: testCase.model, jacobian, initial: meta.start2 };
+      expect(fitLeastSquaresWithJacobian(problem)).toEqual(fitLeastSquares(problem));
+    });
     it(`${name} from start2: certified parameters to ${testCase.parameterTolerance}, RSS to 1e-9, standard deviations to ${testCase.sdTolerance}`, () => {
       const result = fitLeastSquares({ x, y, model: testCase.model, jacobian, initial: meta.start2 });
       expect(result.converged).toBe(true);
@@ -184,6 +189,9 @@ describe('fitLeastSquares({ jacobian }): the model\'s own derivatives instead of
     };
     fitLeastSquares({ x, y, model: counted, jacobian, initial: meta.start2 });
     expect(calls).toBeLessThan(withDifferences / 4);
+  });
+  it('fitLeastSquaresWithJacobian refuses a problem without a jacobian', () => {
+    expect(() => fitLeastSquaresWithJacobian({ x: [1, 2, 3], y: [1, 2, 3], model: (b) => (x) => b[0] * x, initial: [1] })).toThrow(/needs problem\.jacobian/);
   });
   it('refuses a jacobian that is not a function', () => {
     expect(() =>

@@ -32,7 +32,7 @@
  * `fitResponse` the start's response (a series' previous frame) is held, else the identity.
  */
 import { selectKth } from './statistics.js';
-import { fitLeastSquares } from '../fit/fitLeastSquares.js';
+import { fitLeastSquaresWithJacobian } from '../fit/fitLeastSquaresWithJacobian.js';
 import { decodeSrgb } from '../colour/srgb.js';
 import { type ColourTable, predictEncodedTable } from './colourTable.js';
 import { type MatchSpace, toMatchSpace } from './matchSpace.js';
@@ -514,7 +514,7 @@ function innerFit(
     });
   };
   options.onInnerProblem?.({ evaluate, jacobian, initial: active.map((slot) => full[slot]), rows });
-  const fit = fitLeastSquares({
+  const fit = fitLeastSquaresWithJacobian({
     x,
     y,
     model: (p) => {
