@@ -15,8 +15,6 @@ import { evenRowsThreaded, sharedCopy } from './pixelThreads.js';
 import type { EvenLightInput } from './evenLightInput.js';
 import { type CameraResponse, INVERSE_SIZE, isIdentityResponse, LUMA_BT601, responseTables, TONE_TABLE_SIZE, toneAt } from '../colour/toneResponse.js';
 
-export type { EvenLightInput } from './evenLightInput.js';
-
 const DECODE_SCALE = 65535;
 const LR = LUMA_BT601[0];
 const LG = LUMA_BT601[1];

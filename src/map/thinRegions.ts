@@ -17,27 +17,35 @@ export interface ThinRegionResult {
   readonly labels: Int32Array;
 }
 
-/** Growable run storage (start, end exclusive, row) and the union–find parent of each run. */
+/**
+ * Growable run storage (start, end exclusive, row), the union–find parent of each run and the
+ * least measured thickness in it (Infinity when none of its pixels is measured).
+ */
 class Runs {
   start = new Int32Array(1024);
   end = new Int32Array(1024);
   row = new Int32Array(1024);
   parent = new Int32Array(1024);
+  least = new Float64Array(1024);
   count = 0;
 
-  add(start: number, end: number, row: number): number {
+  add(start: number, end: number, row: number, least: number): number {
     if (this.count === this.start.length) {
       const size = this.count * 2;
       this.start = grow(this.start, size);
       this.end = grow(this.end, size);
       this.row = grow(this.row, size);
       this.parent = grow(this.parent, size);
+      const least = new Float64Array(size);
+      least.set(this.least);
+      this.least = least;
     }
     const k = this.count++;
     this.start[k] = start;
     this.end[k] = end;
     this.row[k] = row;
     this.parent[k] = k;
+    this.least[k] = least;
     return k;
   }
 }
@@ -89,8 +97,16 @@ export function findThinRegions(
       while (x < width && !isThin(thicknessNm, status, rowStart + x, thinBelowNm)) x++;
       if (x === width) break;
       const start = x;
-      while (x < width && isThin(thicknessNm, status, rowStart + x, thinBelowNm)) x++;
-      const k = runs.add(start, x, y);
+      // The run (isThin, inlined), with the least thickness measured in it.
+      let least = Infinity;
+      for (; x < width; x++) {
+        const i = rowStart + x;
+        const s = status[i];
+        if (s === PixelStatus.dark) continue;
+        if (s !== PixelStatus.ok || !(thicknessNm[i] < thinBelowNm)) break;
+        if (thicknessNm[i] < least) least = thicknessNm[i];
+      }
+      const k = runs.add(start, x, y, least);
       // Runs of the row above touching [start − 1, x]: skip those ending before start − 1.
       while (above < previousEnd && runs.end[above] < start) above++;
       for (let a = above; a < previousEnd && runs.start[a] <= x; a++) join(runs.parent, a, k);
@@ -99,7 +115,7 @@ export function findThinRegions(
     previousEnd = runs.count;
   }
   // Components in the order of their first run (a root is its component's first run).
-  const { start, end, row, parent, count } = runs;
+  const { start, end, row, parent, least, count } = runs;
   const slotOf = new Int32Array(count).fill(-1);
   const area: number[] = [];
   const sumX: number[] = [];
@@ -124,11 +140,7 @@ export function findThinRegions(
     area[slot] += length;
     sumX[slot] += ((s + e - 1) * length) / 2;
     sumY[slot] += y * length;
-    let least = minThickness[slot];
-    for (let i = y * width + s, stop = y * width + e; i < stop; i++) {
-      if (status[i] === PixelStatus.ok && thicknessNm[i] < least) least = thicknessNm[i];
-    }
-    minThickness[slot] = least;
+    if (least[k] < minThickness[slot]) minThickness[slot] = least[k];
     const b = slot * 4;
     if (s < box[b]) box[b] = s;
     if (y < box[b + 1]) box[b + 1] = y;
