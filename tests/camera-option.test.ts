@@ -64,11 +64,20 @@ describe('lamella map --camera', () => {
     expect(record.settings.camera).toBe('linear');
   }, 60_000);
 
-  it('the same linear TIFF read as sRGB (the default) is clearly worse: the option matters', () => {
-    const r = lamella('map', 'linear.tif', '--stack', 'soap-film', '--light', 'D65', '--film-area', 'whole', '--out', 'wrong', '--quiet', '--no-report');
-    expect(r.status).toBe(0);
-    const wrong = errors(join(dir, 'wrong', 'linear.thickness.npy'));
-    expect(wrong.medianNm > 10 || wrong.grossShare > 0.05 || wrong.coverage < 0.9).toBe(true);
+  // Read as sRGB, this dark film (linear values of a few per cent) gives thicknesses nearly as good
+  // (measured: median 2.1 nm, gross 0.95 % against 2.2 nm and 0.12 % read as linear): over its
+  // narrow range of brightness the fitted exposure and flare absorb the sRGB curve. What the
+  // option changes beyond doubt is the photo's formation: the exposure the map reports.
+  it('the same linear TIFF read as sRGB (the default) reports an exposure an order of magnitude off: the option matters', () => {
+    const wrongRun = lamella('map', 'linear.tif', '--stack', 'soap-film', '--light', 'D65', '--film-area', 'whole', '--out', 'wrong', '--quiet', '--no-report');
+    const rightRun = lamella('map', 'linear.tif', '--stack', 'soap-film', '--light', 'D65', '--camera', 'linear', '--film-area', 'whole', '--out', 'right', '--quiet', '--no-report');
+    expect([wrongRun.status, rightRun.status]).toEqual([0, 0]);
+    const exposureOf = (folder: string): number => JSON.parse(readFileSync(join(dir, folder, 'linear.json'), 'utf8')).fitted.exposure;
+    // Rendered with --exposure 0.8.
+    expect(Math.abs(exposureOf('right') / 0.8 - 1)).toBeLessThan(0.1);
+    expect(exposureOf('wrong') / 0.8).toBeLessThan(0.2);
+    // And more of its pixels are an order off.
+    expect(errors(join(dir, 'wrong', 'linear.thickness.npy')).grossShare).toBeGreaterThan(errors(join(dir, 'right', 'linear.thickness.npy')).grossShare);
   }, 60_000);
 
   it('maps a raw camera\'s linear TIFF with its sensitivities CSV (CIE 1931 CMFs as channels)', () => {
