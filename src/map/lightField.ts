@@ -215,6 +215,12 @@ export interface LightFieldJob<R extends MapResult, P extends MapResult = R> {
   readonly start?: LightFieldStart | null;
   /** A subsampled copy of a large photo to find the field on. */
   readonly preview?: LightFieldPreview<P> | null;
+  /**
+   * Map the photo itself first and go to the preview only when that map finds the light uneven
+   * (or no film): a series frame whose previous frame was evenly lit (MapOptions.fullSizeFirst).
+   * Ignored with a `start`.
+   */
+  readonly fullSizeFirst?: boolean;
   /** The photo holds 8-bit codes (the full-size photo evened after a preview is kept on them). */
   readonly eightBit?: boolean;
   /** Threads to even the full-size photo on (./evenOutLight.ts; the result is the same whatever the count); default 1. */
@@ -249,6 +255,12 @@ export function mapWithLightField<R extends MapResult, P extends MapResult = R>(
   const startFlare = start?.flare ?? [0, 0, 0];
   const startResponse = start?.response ?? null;
   if (mode === 'off') return { result: mapWith(rgb), field: null };
+  if (preview && job.fullSizeFirst === true && !startCoefficients) {
+    // Evenly lit as the frame before was: one full-size map with its own fit. Otherwise that map is
+    // set aside and the light is found on the preview, as for any large photo.
+    const whole = mapWith(rgb);
+    if (whole.filmArea?.found !== false && (!whole.lightEvenness || ratioOf(whole) <= START_RATIO)) return { result: whole, field: null };
+  }
   if (preview) {
     let small = alternate(preview.rgb, preview.width, preview.height, preview.mapWith, startCoefficients, startFlare, null, startResponse, preview.rounds ?? null);
     if (!small.coefficients && small.first.filmArea?.found === false && preview.mapCentreWith) {

@@ -171,6 +171,7 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
     // surroundings" (and its rupture risk with it).
     mapWith: (pixels, fitStart, fixed, fittedOn) => mapAt(pixels, withPreviewPrior(full, fittedOn ?? null), fitStart ?? null, fixed ?? null, fittedOn ?? null),
     mode: options.lightField ?? 'auto',
+    fullSizeFirst: options.fullSizeFirst === true,
     eightBit: photo.bitDepth === 8 && built.camera.encoding !== 'linear',
     threads: options.threads ?? defaultThreads(),
     start: lightFieldStartOf(options, photo.width, photo.height),

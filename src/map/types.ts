@@ -168,6 +168,14 @@ export interface MapOptions {
    */
   readonly fieldStart?: readonly number[] | null;
   /**
+   * Map a large photo (over 1 MP) at full size first, and fit the light field on its preview only
+   * when that map finds the light uneven (./lightField.ts). A series sets it for a frame whose
+   * previous frame was evenly lit (no `fieldStart`): the lamp rarely changes between frames, and
+   * the preview map (about a third of a 2-MP frame's work) is then skipped. Default false: a large
+   * photo's light is measured on its preview, whose fit the full map then takes.
+   */
+  readonly fullSizeFirst?: boolean;
+  /**
    * `--expect MIN-MAX`: the thickness range the film is known to lie in (nm); orders and the fit
    * are restricted to it; pixels that fit only outside it are reported, not forced.
    */

@@ -65,6 +65,14 @@ function storedResult(stored: StoredFrame): MappedPhoto {
   };
 }
 
+/**
+ * A frame after one that was mapped with one exposure (no light field carried over): mapped at
+ * full size first (MapOptions.fullSizeFirst), its light checked there.
+ */
+function evenlyLitBefore(prior: Float32Array | null | undefined, previousField: readonly number[] | null | undefined): boolean {
+  return prior !== null && prior !== undefined && (previousField === null || previousField === undefined);
+}
+
 export async function createFrameProcessor(config: MapFrameConfig): Promise<FrameProcessor> {
   const base = mapOptionsFromConfig(config);
   let mask: { width: number; height: number; pixels: Promise<Uint8Array> } | null = null;
@@ -83,13 +91,13 @@ export async function createFrameProcessor(config: MapFrameConfig): Promise<Fram
         throw new InputError(name, `frame is ${photo.width}×${photo.height}, a different size from the previous frame`);
       }
       const pixels = maskFor(photo.width, photo.height);
-      const options = { ...base, prior, fitStart: previousFit ?? null, fieldStart: previousField ?? null, priorStatus: priorStatus ?? null };
+      const options = { ...base, prior, fitStart: previousFit ?? null, fieldStart: previousField ?? null, priorStatus: priorStatus ?? null, fullSizeFirst: evenlyLitBefore(prior, previousField) };
       return inspected(mapDecodedPhoto(photo, options, pixels ? await pixels : null, name));
     },
     map: async (framePath, prior, previousFit, previousField, priorStatus) =>
       inspected(await mapPhotoFile(
         framePath,
-        { ...base, prior, fitStart: previousFit ?? null, fieldStart: previousField ?? null, priorStatus: priorStatus ?? null },
+        { ...base, prior, fitStart: previousFit ?? null, fieldStart: previousField ?? null, priorStatus: priorStatus ?? null, fullSizeFirst: evenlyLitBefore(prior, previousField) },
         { allowDamaged: config.allowDamaged === true },
       )),
     writePreviews: async (result, framePath, dir, stem) => {
