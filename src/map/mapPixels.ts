@@ -19,6 +19,7 @@ import { markGreyExplained, predictGreyCurve } from './neutralGrey.js';
 import { priorFilmCells } from './priorFilmArea.js';
 import { fitQualityOf, poorFitWarning } from './fitQuality.js';
 import { lightEvennessOf, unevenLightWarning, UNEVEN_LIGHT_RATIO } from './lightEvenness.js';
+import { denseFringeWarning } from './denseFringes.js';
 import { estimateNoise } from './estimateNoise.js';
 import { distinctColourCount, fitPhotoFormation, type PhotoFormationFit } from './fitPhotoFormation.js';
 import { matchSpace, toMatchSpace } from './matchSpace.js';
@@ -367,6 +368,9 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
     ? lightEvennessOf({ rgb, status, thicknessNm, predictedRgb, startNm: table.startNm, stepNm: table.stepNm, width, height, encoded: table.encoding === 'srgb', response: parameters.response })
     : null;
   if (lightEvenness && lightEvenness.gainMax / lightEvenness.gainMin > UNEVEN_LIGHT_RATIO) warnings.push(unevenLightWarning(lightEvenness));
+  // Fringes denser than the photo resolves (steep film at a frame, a bead's edge): said in plain words.
+  const denseFringes = filmArea.found ? denseFringeWarning(thicknessNm, width, height, input.orderPeriodNm) : null;
+  if (denseFringes) warnings.push(denseFringes);
   if (input.expectNm && filmArea.found && reasons.poorMatch + filmArea.excludedPx.not_film_colour > 0.01 * pixels) {
     warnings.push(
       `${reasons.poorMatch + filmArea.excludedPx.not_film_colour} pixels match no thickness within --expect ${input.expectNm[0]}-${input.expectNm[1]} nm: they get no estimate (not film, or film outside the range; check the range)`,
