@@ -19,7 +19,7 @@ import { readPhotoBytes } from '../src/io/readPhoto.js';
 import { createCandidateCube } from '../src/map/candidateCube.js';
 import { createMatchScratch, MAX_WALK, walkDownhill } from '../src/map/matchColour.js';
 import { mapDecodedPhoto } from '../src/map/mapPhoto.js';
-import { createColourMemo, matchPixelRows, scorePixelRows, type PixelPassInput, type PixelPassOutput } from '../src/map/pixelPass.js';
+import { createColourMemo, matchPixelRows, releaseColourMemo, scorePixelRows, type PixelPassInput, type PixelPassOutput } from '../src/map/pixelPass.js';
 import { PixelStatus } from '../src/map/types.js';
 import { resolveStack } from '../src/optics/index.js';
 import { renderDemoFrame } from '../scripts/make-demo.js';
@@ -90,6 +90,36 @@ describe('colour memo of the pixel pass', () => {
     expect(reference.status.some((s) => s === PixelStatus.ok)).toBe(true);
     expect(reference.poor).toBeGreaterThan(0);
     expect(reference.out.alternativeCost.some((c) => Number.isFinite(c))).toBe(true);
+  });
+
+  it('gives the same arrays with a memo made from the buffers an earlier pass on another table released', () => {
+    const scene = helixScene();
+    const reference = runPass(scene, null, [[0, scene.height]]);
+    // An earlier pass on another table (the helix read 37 steps further on) fills a memo with
+    // entries of its own; its buffers are handed back and taken up by the next memo.
+    const shifted = new Float32Array(scene.predictedRgb.length);
+    for (let i = 0; i < scene.count; i++) for (let c = 0; c < 3; c++) shifted[i * 3 + c] = scene.predictedRgb[((i + 37) % scene.count) * 3 + c];
+    const earlier = createColourMemo(scene.count)!;
+    runPass({ ...scene, predictedRgb: shifted }, earlier, [[0, scene.height]]);
+    expect(earlier.entries).toBe(40);
+    const { slots, ints, reals } = earlier;
+    releaseColourMemo(earlier);
+    const reused = createColourMemo(scene.count)!;
+    expect(reused.slots).toBe(slots);
+    expect(reused.ints).toBe(ints);
+    expect(reused.reals).toBe(reals);
+    expect(reused.entries).toBe(0);
+    const run = runPass(scene, reused, [[0, scene.height]]);
+    expect(reused.entries).toBe(40);
+    expect(run.counts).toEqual(reference.counts);
+    expect(bytes(run.status).equals(bytes(reference.status))).toBe(true);
+    expect(bytes(run.out.thicknessNm).equals(bytes(reference.out.thicknessNm))).toBe(true);
+    expect(bytes(run.out.alternativeCost).equals(bytes(reference.out.alternativeCost))).toBe(true);
+    expect(bytes(run.confidence).equals(bytes(reference.confidence))).toBe(true);
+    // A memo released and not taken up again leaves the next one fresh buffers.
+    releaseColourMemo(reused);
+    expect(createColourMemo(scene.count)!.slots).toBe(slots);
+    expect(createColourMemo(scene.count)!.slots).not.toBe(slots);
   });
 
   it('scores each pixel as when scored alone, where pixels share a cost but not the margin or the noise bin', () => {

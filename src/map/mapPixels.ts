@@ -24,7 +24,7 @@ import { estimateNoise } from './estimateNoise.js';
 import { distinctColourCount, fitPhotoFormation, type PhotoFormationFit } from './fitPhotoFormation.js';
 import { matchSpace, toMatchSpace } from './matchSpace.js';
 import { createMatchScratch, matchColour } from './matchColour.js';
-import { createColourMemo, matchPixelRows, scorePixelRows } from './pixelPass.js';
+import { createColourMemo, matchPixelRows, releaseColourMemo, scorePixelRows } from './pixelPass.js';
 import { keepConsistentPixels } from './keepConsistent.js';
 import { CellClass, CellVerdict, type FilmAreaCells, findFilmArea } from './filmArea.js';
 import { sampleFitPixels } from './fitSamples.js';
@@ -325,6 +325,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   const dropped = threaded
     ? matchPixelsThreaded({ ...common, cubeLevels: CUBE_LEVELS, perCell: PER_CELL, eightBit: input.eightBit === true }, passOut, threads, matchRows)
     : matchRows(0, height);
+  releaseColourMemo(pass.memo);
   // The empirical scale of the colour residual: JPEG smooths the pixel-to-pixel noise the noise
   // profile sees, while its chroma errors and the model's own error remain.
   const medianCost = medianOfOk(confidence, status);

@@ -9,7 +9,7 @@
 import { parentPort, workerData, type MessagePort } from 'node:worker_threads';
 import { createCandidateCube } from './candidateCube.js';
 import { createMatchScratch } from './matchColour.js';
-import { createColourMemo, matchPixelRows, scorePixelRows, type PixelPassInput, type ScoreInput } from './pixelPass.js';
+import { createColourMemo, matchPixelRows, releaseColourMemo, scorePixelRows, type PixelPassInput, type ScoreInput } from './pixelPass.js';
 import { CONTROL, nextChunk, type BandTask } from './pixelThreads.js';
 import { evenOutLightRows } from './evenOutLight.js';
 
@@ -39,6 +39,7 @@ parentPort?.on('message', (task: BandTask) => {
         unresolved += counts.unresolved;
         discontinuous += counts.discontinuous;
       }
+      releaseColourMemo(input.memo);
       control[CONTROL.first] = unresolved;
       control[CONTROL.second] = discontinuous;
     } else if (task.kind === 'even') {
