@@ -63,6 +63,12 @@ export function resolveOrders(field: CandidateField, options: OrderOptions): Ord
   // Seeds best first.
   const seedOrder = sortByQualityDescending(quality);
 
+  // The options read in the loops below, read once.
+  const { maxJump, boundaryWeight, noiseCost } = options;
+  const dark = options.dark ?? null;
+  const darkPosition = options.darkPosition ?? 0;
+  const prior = options.prior ?? null;
+  const priorWeight = options.priorWeight ?? 0;
   const heap = new MaxHeap(4096);
   const value = new Float32Array(cells).fill(NaN);
   let patchCount = 0;
@@ -84,11 +90,11 @@ export function resolveOrders(field: CandidateField, options: OrderOptions): Ord
       if (chosen[j] !== NONE || from < 0) continue;
       const reference = extrapolate(from, j);
       let bestK = -1;
-      let bestGap = options.maxJump;
+      let bestGap = maxJump;
       const base = j * perCell;
       // Only candidates that fit the colour nearly as well as the best may continue the field:
       // at a real step the other side's wrong-order candidates are poor colour matches.
-      const costLimit = Math.max(4 * cost[base], cost[base] + 8 * options.noiseCost);
+      const costLimit = Math.max(4 * cost[base], cost[base] + 8 * noiseCost);
       for (let k = 0; k < count[j]; k++) {
         if (cost[base + k] > costLimit) continue;
         const gap = Math.abs(position[base + k] - reference);
@@ -147,7 +153,7 @@ export function resolveOrders(field: CandidateField, options: OrderOptions): Ord
     // Reject wrap-around across rows for horizontal steps.
     if (Math.abs(j - from) === 1 && Math.floor(beyond / width) !== Math.floor(from / width)) return vFrom;
     let slope = vFrom - value[beyond];
-    const limit = options.maxJump * 0.5;
+    const limit = maxJump * 0.5;
     if (slope > limit) slope = limit;
     else if (slope < -limit) slope = -limit;
     return vFrom + slope;
@@ -205,7 +211,6 @@ export function resolveOrders(field: CandidateField, options: OrderOptions): Ord
     bound: number,
   ): number {
     let total = 0;
-    const maxJump = options.maxJump;
     for (let o = start; o < end; o++) {
       const j = order[o];
       const base = j * perCell;
@@ -222,18 +227,24 @@ export function resolveOrders(field: CandidateField, options: OrderOptions): Ord
             k = q;
           }
         }
-        if (bestGap > maxJump) total += options.boundaryWeight;
+        if (bestGap > maxJump) total += boundaryWeight;
       }
       trial[j] = position[base + k];
       trialChosen[j] = k;
       total += cost[base + k];
       if (total >= bound) return Infinity;
     }
-    // Boundary with decided patches and with dark cells; prior; anchors.
-    const dark = options.dark;
-    const darkPosition = options.darkPosition ?? 0;
-    const prior = options.prior;
-    const priorWeight = options.priorWeight ?? 0;
+    // (The rest is its own function: most calls return above, and a function optimised on those
+    // calls alone had no type feedback for what follows, so every call reaching it fell back to
+    // the interpreter: thousands of times per frame.)
+    total = boundaryAndPriorCost(id, start, end, trial, decided, total, bound);
+    if (total === Infinity) return Infinity;
+    if (anchors) for (const anchor of anchors) if (Math.abs(trial[anchor.cell] - anchor.position) > maxJump * 0.5) total += 1e12;
+    return total;
+  }
+
+  /** evaluateVariant's boundary terms (decided patches, too-dark cells) and prior, added to `total`; Infinity once `bound` is reached. */
+  function boundaryAndPriorCost(id: number, start: number, end: number, trial: Float32Array, decided: Uint8Array, total: number, bound: number): number {
     for (let o = start; o < end; o++) {
       const j = order[o];
       const v = trial[j];
@@ -243,9 +254,9 @@ export function resolveOrders(field: CandidateField, options: OrderOptions): Ord
         if (n < 0 || n >= cells) continue;
         const other = patch[n];
         if (other >= 0 && other !== id && decided[other]) {
-          if (Math.abs(value[n] - v) > maxJump) total += options.boundaryWeight;
+          if (Math.abs(value[n] - v) > maxJump) total += boundaryWeight;
         } else if (dark && dark[n]) {
-          if (v - darkPosition > maxJump) total += 0.5 * options.boundaryWeight;
+          if (v - darkPosition > maxJump) total += 0.5 * boundaryWeight;
         }
       }
       if (prior && priorWeight > 0) {
@@ -253,9 +264,6 @@ export function resolveOrders(field: CandidateField, options: OrderOptions): Ord
         if (p === p) total += priorWeight * Math.min(1, Math.abs(v - p) / maxJump);
       }
       if (total >= bound) return Infinity;
-    }
-    for (const anchor of anchors ?? []) {
-      if (Math.abs(trial[anchor.cell] - anchor.position) > maxJump * 0.5) total += 1e12;
     }
     return total;
   }
