@@ -13,7 +13,7 @@
 // Targets (issue 18): map ≤ 3× the floor's CPU and ≤ 600 MiB; npy,json ≤ 2×; a 320×240 series
 // frame ≤ 0.25 s CPU, a 2-MP frame ≤ 0.7 s; 2 workers ≥ 1.7× the throughput of 1 on 2-MP frames.
 // Run after building: `node bench/floor.js` (or through bench/run.js).
-import { spawnSync } from 'node:child_process';
+import { spawn, spawnSync } from 'node:child_process';
 import { mkdir, mkdtemp, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -35,6 +35,21 @@ function timed(args, label, env = process.env) {
   if (r.status !== 0 && r.status !== 1) throw new Error(`${label} failed (status ${r.status}): ${r.stderr.trim().split('\n').slice(-3).join(' ')}`);
   if (!match) throw new Error(`${label}: no timing from /usr/bin/time: ${r.stderr.slice(-300)}`);
   return { cpuS: Number(match[1]) + Number(match[2]), peakMiB: Number(match[3]) / 1024, wallS };
+}
+
+/** Wall seconds of two children run at once (from the start of both to the end of the later). */
+async function wallOfPair(argsA, argsB) {
+  const started = performance.now();
+  const run = (args) =>
+    new Promise((resolve, reject) => {
+      const child = spawn(process.execPath, args, { stdio: ['ignore', 'ignore', 'pipe'] });
+      let stderr = '';
+      child.stderr.on('data', (chunk) => (stderr += chunk));
+      child.on('error', reject);
+      child.on('close', (status) => (status === 0 || status === 1 ? resolve() : reject(new Error(`pair run failed (status ${status}): ${stderr.trim().split('\n').slice(-3).join(' ')}`))));
+    });
+  await Promise.all([run(argsA), run(argsB)]);
+  return (performance.now() - started) / 1000;
 }
 
 async function floorChild(photo, out) {
@@ -90,7 +105,11 @@ export async function benchFloor({ width = 4000, height = 3000, smallFrames = 12
       const all = timed([CLI, ...base, folder, '--out', join(dir, `${key}-w1`), '--workers', '1'], `series ${key}`);
       const perFrameS = (all.cpuS - one.cpuS) / (frames - 1);
       const two = key === 'big' ? timed([CLI, ...base, folder, '--out', join(dir, `${key}-w2`), '--workers', '2'], `series ${key} 2 workers`) : null;
-      series[key] = { frames, width: w, height: h, perFrameS, wall1S: all.wallS, wall2S: two?.wallS ?? null };
+      // Two independent one-worker runs at once (information): what two processes get from this machine.
+      const pairS = key === 'big'
+        ? await wallOfPair([CLI, ...base, folder, '--out', join(dir, `${key}-pa`), '--workers', '1'], [CLI, ...base, folder, '--out', join(dir, `${key}-pb`), '--workers', '1'])
+        : null;
+      series[key] = { frames, width: w, height: h, perFrameS, wall1S: all.wallS, wall2S: two?.wallS ?? null, pairS };
     }
     return { width, height, floor, mapAll, huge, mapLean, series };
   } finally {
@@ -114,6 +133,9 @@ export function formatFloor(r) {
     `series 320×240: ${s.small.perFrameS.toFixed(3)} s CPU per frame over ${s.small.frames} frames (target ≤ 0.25: ${mark(s.small.perFrameS <= 0.25)})`,
     `series 2 MP: ${s.big.perFrameS.toFixed(3)} s CPU per frame over ${s.big.frames} frames (target ≤ 0.7: ${mark(s.big.perFrameS <= 0.7)})`,
     `series 2 MP, 2 workers against 1: ${throughput === null ? '–' : `${throughput.toFixed(2)}×`} the throughput (wall ${s.big.wall1S.toFixed(1)} s → ${s.big.wall2S?.toFixed(1)} s; target ≥ 1.7×: ${mark(throughput !== null && throughput >= 1.7)})`,
+    ...(s.big.pairS
+      ? [`(information) two independent 1-worker runs of the same frames at once: ${((2 * s.big.wall1S) / s.big.pairS).toFixed(2)}× the throughput of one alone (wall ${s.big.pairS.toFixed(1)} s for both): this machine's ceiling for two workers`]
+      : []),
   ].join('\n');
 }
 
