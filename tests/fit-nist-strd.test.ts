@@ -163,6 +163,22 @@ describe('fitLeastSquares({ jacobian }): the model\'s own derivatives instead of
       const problem = { x, y, model: testCase.model, jacobian, initial: meta.start2 };
       expect(fitLeastSquaresWithJacobian(problem)).toEqual(fitLeastSquares(problem));
     });
+    it(`${name}: with modelVector (all observations at once) the same result to the last bit, and the model is no longer called per observation`, () => {
+      let perObservation = 0;
+      const counted = (b: readonly number[]) => {
+        const f = testCase.model(b);
+        return (xi: number): number => {
+          perObservation++;
+          return f(xi);
+        };
+      };
+      const modelVector = (b: readonly number[]) => Array.from(x, testCase.model(b));
+      const plain = fitLeastSquaresWithJacobian({ x, y, model: testCase.model, jacobian, initial: meta.start2 });
+      const vectored = fitLeastSquaresWithJacobian({ x, y, model: counted, modelVector, jacobian, initial: meta.start2 });
+      expect(vectored).toEqual(plain);
+      expect(perObservation).toBe(0);
+      expect(() => fitLeastSquaresWithJacobian({ x, y, model: testCase.model, modelVector: 3 as never, jacobian, initial: meta.start2 })).toThrow(/modelVector must be a function/);
+    });
     it(`${name} from start2: certified parameters to ${testCase.parameterTolerance}, RSS to 1e-9, standard deviations to ${testCase.sdTolerance}`, () => {
       const result = fitLeastSquares({ x, y, model: testCase.model, jacobian, initial: meta.start2 });
       expect(result.converged).toBe(true);

@@ -7,6 +7,7 @@ export interface CheckedProblem {
   /** √w per observation. */
   sqrtWeights: Float64Array;
   model: LeastSquaresProblem['model'];
+  modelVector: LeastSquaresProblem['modelVector'] | null;
   initial: number[];
   lower: number[];
   upper: number[];
@@ -67,8 +68,11 @@ export function checkProblem(problem: LeastSquaresProblem): CheckedProblem {
     throw new TypeError(`restartFromInitial must be a boolean, received ${typeof problem.restartFromInitial}`);
   }
   const restartFromInitial = problem.restartFromInitial ?? true;
+  if (problem.modelVector !== undefined && typeof problem.modelVector !== 'function') {
+    throw new TypeError(`problem.modelVector must be a function, received ${typeof problem.modelVector}`);
+  }
   if (problem.jacobian !== undefined && typeof problem.jacobian !== 'function') {
     throw new TypeError(`problem.jacobian must be a function, received ${typeof problem.jacobian}`);
   }
-  return { x, y, sqrtWeights, model: problem.model, initial, lower, upper, scale, maxIterations, tolerance, restartFromInitial, jacobian: problem.jacobian ?? null };
+  return { x, y, sqrtWeights, model: problem.model, modelVector: problem.modelVector ?? null, initial, lower, upper, scale, maxIterations, tolerance, restartFromInitial, jacobian: problem.jacobian ?? null };
 }

@@ -27,64 +27,94 @@ export interface ScaledResiduals {
 const STEP = Math.cbrt(Number.EPSILON);
 
 export function scaledResiduals(problem: CheckedProblem, normalisation = 1): ScaledResiduals {
-  const { x, y, sqrtWeights, model, scale } = problem;
-  const analytic = problem.jacobian;
-  const n = x.length;
-  const p = scale.length;
-  const lowerQ = problem.lower.map((v, k) => v / scale[k]);
-  const upperQ = problem.upper.map((v, k) => v / scale[k]);
-  const plus = new Float64Array(n);
-  const minus = new Float64Array(n);
-  const toParams = (q: readonly number[]): number[] => q.map((v, k) => v * scale[k]);
+  return new ScaledResidualsOf(problem, normalisation);
+}
 
-  const predict = (q: readonly number[], out: Float64Array): void => {
-    const f = model(toParams(q));
+/**
+ * ScaledResiduals of one problem. A class, so that its code is compiled once per process: as an
+ * object of closures made per fit, V8 optimised them anew for every fit (several per frame).
+ */
+class ScaledResidualsOf implements ScaledResiduals {
+  readonly n: number;
+  readonly p: number;
+  readonly lowerQ: number[];
+  readonly upperQ: number[];
+  private readonly problem: CheckedProblem;
+  private readonly normalisation: number;
+  private readonly plus: Float64Array;
+  private readonly minus: Float64Array;
+
+  constructor(problem: CheckedProblem, normalisation: number) {
+    const { x, scale } = problem;
+    this.problem = problem;
+    this.normalisation = normalisation;
+    this.n = x.length;
+    this.p = scale.length;
+    this.lowerQ = problem.lower.map((v, k) => v / scale[k]);
+    this.upperQ = problem.upper.map((v, k) => v / scale[k]);
+    this.plus = new Float64Array(this.n);
+    this.minus = new Float64Array(this.n);
+  }
+
+  toParams(q: readonly number[]): number[] {
+    const scale = this.problem.scale;
+    return q.map((v, k) => v * scale[k]);
+  }
+
+  private predict(q: readonly number[], out: Float64Array): void {
+    const { x, sqrtWeights, model, modelVector } = this.problem;
+    const { n, normalisation } = this;
+    if (modelVector) {
+      const values = modelVector(this.toParams(q));
+      for (let i = 0; i < n; i++) out[i] = normalisation * sqrtWeights[i] * values[i];
+      return;
+    }
+    const f = model(this.toParams(q));
     for (let i = 0; i < n; i++) out[i] = normalisation * sqrtWeights[i] * f(x[i]);
-  };
+  }
 
-  return {
-    n,
-    p,
-    toParams,
-    lowerQ,
-    upperQ,
-    residuals(q, out) {
-      let rss = 0;
-      try {
-        predict(q, out);
-      } catch {
-        return NaN;
-      }
+  residuals(q: readonly number[], out: Float64Array): number {
+    const { y, sqrtWeights } = this.problem;
+    const { n, normalisation } = this;
+    let rss = 0;
+    try {
+      this.predict(q, out);
+    } catch {
+      return NaN;
+    }
+    for (let i = 0; i < n; i++) {
+      const r = normalisation * sqrtWeights[i] * y[i] - out[i];
+      out[i] = r;
+      rss += r * r;
+    }
+    return rss;
+  }
+
+  jacobian(q: readonly number[], jacobian: Float64Array): void {
+    const { sqrtWeights, scale } = this.problem;
+    const analytic = this.problem.jacobian;
+    const { n, p, normalisation, plus, minus, lowerQ, upperQ } = this;
+    if (analytic) {
+      // The caller's derivatives: J_ik = c·√w_i·∂f_i/∂p_k·scale_k (p = q·scale).
+      analytic(this.toParams(q), jacobian);
       for (let i = 0; i < n; i++) {
-        const r = normalisation * sqrtWeights[i] * y[i] - out[i];
-        out[i] = r;
-        rss += r * r;
+        const row = normalisation * sqrtWeights[i];
+        for (let k = 0; k < p; k++) jacobian[i * p + k] *= row * scale[k];
       }
-      return rss;
-    },
-    jacobian(q, jacobian) {
-      if (analytic) {
-        // The caller's derivatives: J_ik = c·√w_i·∂f_i/∂p_k·scale_k (p = q·scale).
-        analytic(toParams(q), jacobian);
-        for (let i = 0; i < n; i++) {
-          const row = normalisation * sqrtWeights[i];
-          for (let k = 0; k < p; k++) jacobian[i * p + k] *= row * scale[k];
-        }
-        return;
-      }
-      const shifted = q.slice();
-      for (let k = 0; k < p; k++) {
-        const h = STEP * Math.max(Math.abs(q[k]), 1);
-        const up = Math.min(q[k] + h, upperQ[k]);
-        const down = Math.max(q[k] - h, lowerQ[k]);
-        shifted[k] = up;
-        predict(shifted, plus);
-        shifted[k] = down;
-        predict(shifted, minus);
-        shifted[k] = q[k];
-        const span = up - down;
-        for (let i = 0; i < n; i++) jacobian[i * p + k] = span > 0 ? (plus[i] - minus[i]) / span : 0;
-      }
-    },
-  };
+      return;
+    }
+    const shifted = q.slice();
+    for (let k = 0; k < p; k++) {
+      const h = STEP * Math.max(Math.abs(q[k]), 1);
+      const up = Math.min(q[k] + h, upperQ[k]);
+      const down = Math.max(q[k] - h, lowerQ[k]);
+      shifted[k] = up;
+      this.predict(shifted, plus);
+      shifted[k] = down;
+      this.predict(shifted, minus);
+      shifted[k] = q[k];
+      const span = up - down;
+      for (let i = 0; i < n; i++) jacobian[i * p + k] = span > 0 ? (plus[i] - minus[i]) / span : 0;
+    }
+  }
 }

@@ -9,6 +9,12 @@ export interface LeastSquaresProblem {
   weights?: ArrayLike<number>;
   /** Model: binds parameters once, returns the prediction for one x. */
   model: (params: readonly number[]) => (x: number) => number;
+  /**
+   * Optional: the model's prediction for every observation at once, in the order of `x` (the
+   * same numbers as `model(params)(x[i])`). When given, the solver's own loop evaluates through it
+   * (no function call per observation).
+   */
+  modelVector?: (params: readonly number[]) => ArrayLike<number>;
   initial: readonly number[];
   lower?: readonly number[];
   upper?: readonly number[];

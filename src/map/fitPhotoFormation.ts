@@ -40,7 +40,7 @@ import { distanceAt } from './candidateCube.js';
 import { refinePosition, walkDownhill } from './matchColour.js';
 import type { ExposureParameters } from './types.js';
 import { type NearestHit, buildNearestEntryIndex, nearestEntry } from './nearestEntry.js';
-import { type EntryDerivatives, PARAMETER_COUNT, predictionDerivatives } from './predictionDerivatives.js';
+import { EntryDerivativeModel, PARAMETER_COUNT } from './predictionDerivatives.js';
 import { CONTRAST_RANGE, GAMMA_RANGE, IDENTITY_RESPONSE, SATURATION_RANGE } from '../colour/toneResponse.js';
 
 export interface PhotoFormationFit {
@@ -448,71 +448,22 @@ function innerFit(
   const upperFull = [start.exposure * 20, 4, 4, 0.6, 0.6, 0.6, CONTRAST_RANGE[1], GAMMA_RANGE[1], SATURATION_RANGE[1]];
   const scaleFull = [start.exposure, 1, 1, 0.05, 0.05, 0.05, 0.1, 0.1, 0.1];
   const active = [0, ...(fitWhiteBalance ? [1, 2] : []), ...(fitFlare ? [3, 4, 5] : []), ...(fitResponse ? [6, 7, 8] : [])];
-  const expand = (p: readonly number[]): number[] => {
-    const v = full.slice();
-    active.forEach((slot, j) => (v[slot] = p[j]));
-    return v;
-  };
-  const toParameters = (v: readonly number[]): ExposureParameters => ({
-    exposure: v[0],
-    whiteBalance: [v[1], wbG, v[2]],
-    flare: [v[3], v[4], v[5]],
-    response: hasResponse ? { contrast: v[6], gamma: v[7], saturation: v[8] } : null,
+  const inner = new InnerModel({
+    options,
+    assigned,
+    kept,
+    full,
+    active,
+    wbG,
+    hasResponse,
+    fitResponse,
+    priorWeights: { wb: fitWhiteBalance ? priorWeight : 0, flare: fitFlare ? flarePriorWeight : 0, contrast: contrastPriorWeight, gamma: gammaPriorWeight, saturation: saturationPriorWeight },
+    rows,
   });
-  const predicted = new Float32Array(table.count * 3);
-  const modelValues = new Float64Array(rows);
-  const costScratch = new Float64Array(1);
-  /** Each kept sample's table position at the last evaluation (for the Jacobian). */
-  const positions = new Float64Array(m);
-  /** Each kept sample's table minimum at the last evaluation (−1: a sample of known thickness). */
-  const minima = new Int32Array(m);
-  let cachedKey = '';
-  const evaluate = (p: readonly number[]): Float64Array => {
-    const key = p.join(',');
-    if (key === cachedKey) return modelValues;
-    cachedKey = key;
-    const v = expand(p);
-    predictIn(options.space, table, toParameters(v), predicted);
-    for (let j = 0; j < m; j++) {
-      const i = kept[j];
-      const r = samples[i * 3];
-      const g = samples[i * 3 + 1];
-      const b = samples[i * 3 + 2];
-      const fixed = fixedIndex !== null && fixedIndex !== undefined && fixedIndex[i] >= 0;
-      const index = fixed ? assigned[i] : walkDownhill(predicted, table.count, r, g, b, assigned[i]);
-      const position = fixed ? index : refinePosition(predicted, table.count, r, g, b, index, costScratch, 0);
-      positions[j] = position;
-      minima[j] = fixed ? -1 : index;
-      interpolateColour(predicted, table.count, position, modelValues, j * 3);
-    }
-    modelValues[m * 3] = fitWhiteBalance ? priorWeight * (v[1] - 1) : 0;
-    modelValues[m * 3 + 1] = fitWhiteBalance ? priorWeight * (v[2] - 1) : 0;
-    for (let c = 0; c < 3; c++) modelValues[m * 3 + 2 + c] = fitFlare ? flarePriorWeight * v[3 + c] : 0;
-    modelValues[m * 3 + 5] = fitResponse ? contrastPriorWeight * v[6] : 0;
-    modelValues[m * 3 + 6] = fitResponse ? gammaPriorWeight * Math.log(v[7]) : 0;
-    modelValues[m * 3 + 7] = fitResponse ? saturationPriorWeight * (v[8] - 1) : 0;
-    return modelValues;
-  };
-  const priorWeights = { wb: fitWhiteBalance ? priorWeight : 0, flare: fitFlare ? flarePriorWeight : 0, contrast: contrastPriorWeight, gamma: gammaPriorWeight, saturation: saturationPriorWeight };
-  const derivativeCache = { entries: new Float64Array(table.count * 3 * PARAMETER_COUNT), done: new Uint8Array(table.count) };
-  const jacobian = (p: readonly number[], out: Float64Array): void => {
-    evaluate(p);
-    const v = expand(p);
-    fillJacobian(out, {
-      derivatives: predictionDerivatives(table, toParameters(v), options.space ?? null),
-      predicted,
-      count: table.count,
-      positions,
-      minima,
-      samples,
-      kept,
-      active,
-      fullParameters: v,
-      priorWeights,
-      fitResponse,
-      cache: derivativeCache,
-    });
-  };
+  const expand = (p: readonly number[]): number[] => inner.expand(p);
+  const toParameters = (v: readonly number[]): ExposureParameters => inner.toParameters(v);
+  const evaluate = (p: readonly number[]): Float64Array => inner.evaluate(p);
+  const jacobian = (p: readonly number[], out: Float64Array): void => inner.jacobian(p, out);
   options.onInnerProblem?.({ evaluate, jacobian, initial: active.map((slot) => full[slot]), rows });
   const fit = fitLeastSquaresWithJacobian({
     x,
@@ -521,6 +472,7 @@ function innerFit(
       const values = evaluate(p);
       return (row) => values[row];
     },
+    modelVector: evaluate,
     jacobian,
     initial: active.map((slot) => full[slot]),
     lower: active.map((slot) => lowerFull[slot]),
@@ -554,8 +506,136 @@ function innerFit(
   };
 }
 
+/** What innerFit's model is built from (see InnerModel). */
+interface InnerModelInput {
+  readonly options: PhotoFormationOptions;
+  /** Each sample's assigned table index (the start of its walk). */
+  readonly assigned: Int32Array;
+  /** The samples taking part (indices into the samples). */
+  readonly kept: readonly number[];
+  /** Full parameter vector at the start; `active` are the fitted slots. */
+  readonly full: readonly number[];
+  readonly active: readonly number[];
+  readonly wbG: number;
+  readonly hasResponse: boolean;
+  readonly fitResponse: boolean;
+  readonly priorWeights: { wb: number; flare: number; contrast: number; gamma: number; saturation: number };
+  readonly rows: number;
+}
+
+/**
+ * innerFit's model and Jacobian (rows: three per kept sample, then the prior rows). A class, so
+ * that its code is compiled once per process: as closures made per inner fit they were optimised
+ * anew for every fit (several per frame of a series).
+ */
+class InnerModel {
+  private readonly input: InnerModelInput;
+  private readonly table: ColourTable;
+  private readonly samples: Float32Array;
+  private readonly fixedIndex: Int32Array | null;
+  private readonly predicted: Float32Array;
+  private readonly modelValues: Float64Array;
+  private readonly costScratch = new Float64Array(1);
+  /** Each kept sample's table position at the last evaluation (for the Jacobian). */
+  private readonly positions: Float64Array;
+  /** Each kept sample's table minimum at the last evaluation (−1: a sample of known thickness). */
+  private readonly minima: Int32Array;
+  private readonly derivativeCache: { entries: Float64Array; done: Uint8Array };
+  private cachedKey = '';
+
+  constructor(input: InnerModelInput) {
+    this.input = input;
+    this.table = input.options.table;
+    this.samples = input.options.samples;
+    this.fixedIndex = input.options.fixedIndex ?? null;
+    this.predicted = new Float32Array(this.table.count * 3);
+    this.modelValues = new Float64Array(input.rows);
+    this.positions = new Float64Array(input.kept.length);
+    this.minima = new Int32Array(input.kept.length);
+    this.derivativeCache = { entries: new Float64Array(this.table.count * 3 * PARAMETER_COUNT), done: new Uint8Array(this.table.count) };
+  }
+
+  /** The full parameter vector with the fitted slots from `p`. */
+  expand(p: readonly number[]): number[] {
+    const v = this.input.full.slice();
+    this.input.active.forEach((slot, j) => (v[slot] = p[j]));
+    return v;
+  }
+
+  toParameters(v: readonly number[]): ExposureParameters {
+    return {
+      exposure: v[0],
+      whiteBalance: [v[1], this.input.wbG, v[2]],
+      flare: [v[3], v[4], v[5]],
+      response: this.input.hasResponse ? { contrast: v[6], gamma: v[7], saturation: v[8] } : null,
+    };
+  }
+
+  /** The model's value of every row at the fitted parameters `p` (kept until other parameters come). */
+  evaluate(p: readonly number[]): Float64Array {
+    const key = p.join(',');
+    if (key === this.cachedKey) return this.modelValues;
+    this.cachedKey = key;
+    const v = this.expand(p);
+    const { table, predicted } = this;
+    predictIn(this.input.options.space, table, this.toParameters(v), predicted);
+    this.placeSamples();
+    const { modelValues } = this;
+    const m = this.input.kept.length;
+    const weights = this.input.priorWeights;
+    const { fitWhiteBalance, fitFlare } = this.input.options;
+    const fitResponse = this.input.fitResponse;
+    modelValues[m * 3] = fitWhiteBalance ? weights.wb * (v[1] - 1) : 0;
+    modelValues[m * 3 + 1] = fitWhiteBalance ? weights.wb * (v[2] - 1) : 0;
+    for (let c = 0; c < 3; c++) modelValues[m * 3 + 2 + c] = fitFlare ? weights.flare * v[3 + c] : 0;
+    modelValues[m * 3 + 5] = fitResponse ? weights.contrast * v[6] : 0;
+    modelValues[m * 3 + 6] = fitResponse ? weights.gamma * Math.log(v[7]) : 0;
+    modelValues[m * 3 + 7] = fitResponse ? weights.saturation * (v[8] - 1) : 0;
+    return modelValues;
+  }
+
+  /** Each kept sample's walk and refined position on the predicted table, and its model colour. */
+  private placeSamples(): void {
+    const { table, predicted, samples, fixedIndex, costScratch, positions, minima, modelValues } = this;
+    const { kept, assigned } = this.input;
+    const m = kept.length;
+    for (let j = 0; j < m; j++) {
+      const i = kept[j];
+      const r = samples[i * 3];
+      const g = samples[i * 3 + 1];
+      const b = samples[i * 3 + 2];
+      const fixed = fixedIndex !== null && fixedIndex[i] >= 0;
+      const index = fixed ? assigned[i] : walkDownhill(predicted, table.count, r, g, b, assigned[i]);
+      const position = fixed ? index : refinePosition(predicted, table.count, r, g, b, index, costScratch, 0);
+      positions[j] = position;
+      minima[j] = fixed ? -1 : index;
+      interpolateColour(predicted, table.count, position, modelValues, j * 3);
+    }
+  }
+
+  /** The Jacobian at `p` into `out` (see fillJacobian). */
+  jacobian(p: readonly number[], out: Float64Array): void {
+    this.evaluate(p);
+    const v = this.expand(p);
+    fillJacobian(out, {
+      derivatives: new EntryDerivativeModel(this.table, this.toParameters(v), this.input.options.space ?? null),
+      predicted: this.predicted,
+      count: this.table.count,
+      positions: this.positions,
+      minima: this.minima,
+      samples: this.samples,
+      kept: this.input.kept,
+      active: this.input.active,
+      fullParameters: v,
+      priorWeights: this.input.priorWeights,
+      fitResponse: this.input.fitResponse,
+      cache: this.derivativeCache,
+    });
+  }
+}
+
 interface JacobianInput {
-  readonly derivatives: EntryDerivatives;
+  readonly derivatives: EntryDerivativeModel;
   /** The predicted table (matching space) the positions were found on. */
   readonly predicted: Float32Array;
   readonly count: number;
@@ -584,21 +664,13 @@ interface JacobianInput {
  * Samples of known thickness (anchors) keep their position.
  */
 function fillJacobian(out: Float64Array, input: JacobianInput): void {
-  const { derivatives, predicted, count, positions, kept, active, fullParameters, priorWeights } = input;
+  const { predicted, count, positions, kept, active, fullParameters, priorWeights } = input;
   const P = PARAMETER_COUNT;
   const columns = active.length;
   const at = new Float64Array(3 * P);
-  // Samples share table entries: each entry's derivatives are computed once.
-  const { entries, done } = input.cache;
-  done.fill(0);
-  const entry = (index: number): number => {
-    const offset = index * 3 * P;
-    if (!done[index]) {
-      derivatives(index, entries.subarray(offset, offset + 3 * P));
-      done[index] = 1;
-    }
-    return offset;
-  };
+  // Samples share table entries: each entry's derivatives are computed once (entryOffset).
+  const entries = input.cache.entries;
+  input.cache.done.fill(0);
   out.fill(0);
   const slope = new Float64Array(P);
   for (let j = 0; j < kept.length; j++) {
@@ -607,12 +679,12 @@ function fillJacobian(out: Float64Array, input: JacobianInput): void {
     if (i < 0) i = 0;
     if (i > count - 2) i = count - 2;
     const f = position - i;
-    const a = entry(i);
-    const b = entry(i + 1);
+    const a = entryOffset(input, i);
+    const b = entryOffset(input, i + 1);
     for (let k = 0; k < 3 * P; k++) at[k] = entries[a + k] + f * (entries[b + k] - entries[a + k]);
     // The position moves with the parameters where refinePosition's parabola set it: add the
     // table's step across the segment times d(position)/d(parameters).
-    if (refinedSlope(input, j, entry, slope)) {
+    if (refinedSlope(input, j, slope)) {
       for (let c = 0; c < 3; c++) {
         const step = predicted[(i + 1) * 3 + c] - predicted[i * 3 + c];
         for (let k = 0; k < P; k++) at[c * P + k] += step * slope[k];
@@ -636,6 +708,17 @@ function fillJacobian(out: Float64Array, input: JacobianInput): void {
   }
 }
 
+/** Offset of entry `index`'s derivatives in the cache, computed on first need (fillJacobian). */
+function entryOffset(input: JacobianInput, index: number): number {
+  const { entries, done } = input.cache;
+  const offset = index * 3 * PARAMETER_COUNT;
+  if (!done[index]) {
+    input.derivatives.fill(index, entries.subarray(offset, offset + 3 * PARAMETER_COUNT));
+    done[index] = 1;
+  }
+  return offset;
+}
+
 /**
  * d(position)/d(parameters) of sample j where refinePosition (./matchColour.ts) placed it by the
  * parabola through the squared distances L, H, R at minimum − 1, minimum, minimum + 1:
@@ -643,7 +726,7 @@ function fillJacobian(out: Float64Array, input: JacobianInput): void {
  * returns true; false where the position does not move locally (a known thickness, the table's
  * ends, no curvature, or the offset held at ±½).
  */
-function refinedSlope(input: JacobianInput, j: number, entry: (index: number) => number, slope: Float64Array): boolean {
+function refinedSlope(input: JacobianInput, j: number, slope: Float64Array): boolean {
   const { minima, predicted, count, samples, kept, cache } = input;
   const m = minima[j];
   if (m <= 0 || m >= count - 1) return false;
@@ -660,9 +743,9 @@ function refinedSlope(input: JacobianInput, j: number, entry: (index: number) =>
   if (offset > 0.5 || offset < -0.5) return false;
   const P = PARAMETER_COUNT;
   const e = cache.entries;
-  const l = entry(m - 1);
-  const h = entry(m);
-  const q = entry(m + 1);
+  const l = entryOffset(input, m - 1);
+  const h = entryOffset(input, m);
+  const q = entryOffset(input, m + 1);
   for (let k = 0; k < P; k++) {
     let dLeft = 0;
     let dHere = 0;

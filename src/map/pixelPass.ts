@@ -124,9 +124,19 @@ let spare: { pageOf: Int32Array; slots: Int32Array; ints: Int32Array; reals: Flo
 /** A memo for a pass over `count` table entries (null when indices do not fit its pools). */
 export function createColourMemo(count: number): ColourMemo | null {
   if (count > 0x3fffffff) return null;
-  const buffers = spare ?? { pageOf: new Int32Array(32 * 32 * 32).fill(-1), slots: new Int32Array(0), ints: new Int32Array(0), reals: new Float64Array(0) };
+  const buffers = spare;
   spare = null;
-  return { ...buffers, pages: 0, entries: 0, level: new Float32Array(256).fill(NaN) };
+  // One literal, in the interface's order, whichever buffers it takes: memos of one shape keep
+  // the pass's optimised code (a second shape deoptimised it, "wrong map").
+  return {
+    pageOf: buffers ? buffers.pageOf : new Int32Array(32 * 32 * 32).fill(-1),
+    slots: buffers ? buffers.slots : new Int32Array(0),
+    pages: 0,
+    ints: buffers ? buffers.ints : new Int32Array(0),
+    reals: buffers ? buffers.reals : new Float64Array(0),
+    entries: 0,
+    level: new Float32Array(256).fill(NaN),
+  };
 }
 
 /**

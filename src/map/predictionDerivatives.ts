@@ -19,6 +19,7 @@
  * gamma, saturation (the green gain is fixed: the exposure absorbs it).
  */
 import { whiteBalanceMatrix } from '../colour/exposureModel.js';
+import type { Matrix3 } from '../colour/matrix3.js';
 import { LUMA_BT601 } from '../colour/toneResponse.js';
 import type { ColourTable } from './colourTable.js';
 import type { MatchSpace } from './matchSpace.js';
@@ -35,27 +36,56 @@ function encodeSlope(linear: number): number {
 }
 
 export function predictionDerivatives(table: ColourTable, parameters: ExposureParameters, space: MatchSpace | null): EntryDerivatives {
-  const w = whiteBalanceMatrix(parameters.whiteBalance, table.encoding);
-  const dWdR = whiteBalanceMatrix([1, 0, 0], table.encoding);
-  const dWdB = whiteBalanceMatrix([0, 0, 1], table.encoding);
-  const exposure = parameters.exposure;
-  const flare = parameters.flare;
-  const srgb = table.encoding === 'srgb';
-  const response = srgb ? parameters.response ?? null : null;
-  const contrast = response ? response.contrast : 0;
-  const gamma = response ? response.gamma : 1;
-  const saturation = response ? response.saturation : 1;
-  const m = space ? space.matrix : null;
-  const linear = table.rgbLinear;
+  const model = new EntryDerivativeModel(table, parameters, space);
+  return (index, out) => model.fill(index, out);
+}
+
+/**
+ * The derivatives of every entry of one predicted table (see the module's comment), for given
+ * parameters: `fill(index, out)` as EntryDerivatives. A class, so that its code is compiled once
+ * per process: a closure made per Jacobian was optimised anew each time (many times per frame).
+ */
+export class EntryDerivativeModel {
+  private readonly w: Matrix3;
+  private readonly dWdR: Matrix3;
+  private readonly dWdB: Matrix3;
+  private readonly exposure: number;
+  private readonly flare: readonly number[];
+  private readonly srgb: boolean;
+  private readonly hasResponse: boolean;
+  private readonly contrast: number;
+  private readonly gamma: number;
+  private readonly saturation: number;
+  private readonly m: Float64Array | null;
+  private readonly linear: Float64Array;
   // Per channel: d enc/d p (first six columns), then the response's chain.
-  const dEnc = new Float64Array(3 * PARAMETER_COUNT);
-  const tone = new Float64Array(3);
-  const toneSlope = new Float64Array(3);
-  const dToneContrast = new Float64Array(3);
-  const dToneGamma = new Float64Array(3);
-  const outputLive = new Uint8Array(3);
-  const plain = new Float64Array(3 * PARAMETER_COUNT);
-  return (index, out) => {
+  private readonly dEnc = new Float64Array(3 * PARAMETER_COUNT);
+  private readonly tone = new Float64Array(3);
+  private readonly toneSlope = new Float64Array(3);
+  private readonly dToneContrast = new Float64Array(3);
+  private readonly dToneGamma = new Float64Array(3);
+  private readonly outputLive = new Uint8Array(3);
+  private readonly plain = new Float64Array(3 * PARAMETER_COUNT);
+
+  constructor(table: ColourTable, parameters: ExposureParameters, space: MatchSpace | null) {
+    this.w = whiteBalanceMatrix(parameters.whiteBalance, table.encoding);
+    this.dWdR = whiteBalanceMatrix([1, 0, 0], table.encoding);
+    this.dWdB = whiteBalanceMatrix([0, 0, 1], table.encoding);
+    this.exposure = parameters.exposure;
+    this.flare = parameters.flare;
+    this.srgb = table.encoding === 'srgb';
+    const response = this.srgb ? parameters.response ?? null : null;
+    this.hasResponse = response !== null;
+    this.contrast = response ? response.contrast : 0;
+    this.gamma = response ? response.gamma : 1;
+    this.saturation = response ? response.saturation : 1;
+    this.m = space ? space.matrix : null;
+    this.linear = table.rgbLinear;
+  }
+
+  /** Fills `out` (3 × PARAMETER_COUNT, row-major: channel, parameter) for table entry `index`. */
+  fill(index: number, out: Float64Array): void {
+    const { w, dWdR, dWdB, exposure, flare, srgb, linear, dEnc, tone, m, plain } = this;
     const o = index * 3;
     const r = linear[o];
     const g = linear[o + 1];
@@ -74,7 +104,7 @@ export function predictionDerivatives(table: ColourTable, parameters: ExposurePa
       dEnc[row + 2] = slope * exposure * (dWdB[c * 3] * r + dWdB[c * 3 + 1] * g + dWdB[c * 3 + 2] * b);
       dEnc[row + 3 + c] = slope;
     }
-    if (srgb && response) responseChain(out, dEnc, tone, toneSlope, dToneContrast, dToneGamma, outputLive, contrast, gamma, saturation);
+    if (srgb && this.hasResponse) responseChain(out, dEnc, tone, this.toneSlope, this.dToneContrast, this.dToneGamma, this.outputLive, this.contrast, this.gamma, this.saturation);
     else out.set(dEnc);
     if (m) {
       plain.set(out);
@@ -84,7 +114,7 @@ export function predictionDerivatives(table: ColourTable, parameters: ExposurePa
         }
       }
     }
-  };
+  }
 }
 
 function encodeValue(linear: number): number {

@@ -49,46 +49,97 @@ export interface OrderResult {
 const NONE = 255;
 
 export function resolveOrders(field: CandidateField, options: OrderOptions): OrderResult {
-  const { width, height, perCell, count, position, cost } = field;
-  const cells = width * height;
-  const chosen = new Uint8Array(cells).fill(NONE);
-  const patch = new Int32Array(cells).fill(-1);
-  const parent = new Int32Array(cells).fill(-1);
-  const quality = cellQuality(field, options.noiseCost);
-  const order = new Int32Array(cells);
-  let ordered = 0;
-  const seeds: number[] = [];
-  const patchStart: number[] = [];
+  const resolver = new OrderResolver(field, options);
+  resolver.grow();
+  resolver.choosePatchVariants();
+  return { position: resolver.value, chosen: resolver.chosen, patch: resolver.patch, patchCount: resolver.patchCount };
+}
 
-  // Seeds best first.
-  const seedOrder = sortByQualityDescending(quality);
+/**
+ * The state of one resolution and its steps. A class rather than functions nested in
+ * `resolveOrders`: nested functions are new closures on every call, and V8 optimised each anew
+ * for every frame of a series (and kept deoptimising one whose feedback was incomplete); a
+ * class's methods are compiled once per process.
+ */
+class OrderResolver {
+  readonly width: number;
+  readonly cells: number;
+  readonly perCell: number;
+  readonly count: Uint8Array;
+  readonly position: Float32Array;
+  readonly cost: Float32Array;
+  readonly chosen: Uint8Array;
+  readonly patch: Int32Array;
+  readonly parent: Int32Array;
+  readonly quality: Float32Array;
+  readonly order: Int32Array;
+  readonly value: Float32Array;
+  readonly patchStart: number[] = [];
+  readonly heap = new MaxHeap(4096);
+  ordered = 0;
+  patchCount = 0;
+  // The options read in the loops, read once.
+  readonly maxJump: number;
+  readonly boundaryWeight: number;
+  readonly noiseCost: number;
+  readonly dark: Uint8Array | null;
+  readonly darkPosition: number;
+  readonly prior: Float32Array | null;
+  readonly priorWeight: number;
+  readonly anchors: ReadonlyArray<{ readonly cell: number; readonly position: number }>;
 
-  // The options read in the loops below, read once.
-  const { maxJump, boundaryWeight, noiseCost } = options;
-  const dark = options.dark ?? null;
-  const darkPosition = options.darkPosition ?? 0;
-  const prior = options.prior ?? null;
-  const priorWeight = options.priorWeight ?? 0;
-  const heap = new MaxHeap(4096);
-  const value = new Float32Array(cells).fill(NaN);
-  let patchCount = 0;
-  for (let s = 0; s < cells; s++) {
-    const seed = seedOrder[s];
-    if (chosen[seed] !== NONE || count[seed] === 0) continue;
-    const id = patchCount++;
-    seeds.push(seed);
-    patchStart.push(ordered);
-    chosen[seed] = 0;
-    value[seed] = position[seed * perCell];
-    patch[seed] = id;
-    order[ordered++] = seed;
-    pushNeighbours(seed);
+  constructor(field: CandidateField, options: OrderOptions) {
+    this.width = field.width;
+    this.cells = field.width * field.height;
+    this.perCell = field.perCell;
+    this.count = field.count;
+    this.position = field.position;
+    this.cost = field.cost;
+    this.chosen = new Uint8Array(this.cells).fill(NONE);
+    this.patch = new Int32Array(this.cells).fill(-1);
+    this.parent = new Int32Array(this.cells).fill(-1);
+    this.quality = cellQuality(field, options.noiseCost);
+    this.order = new Int32Array(this.cells);
+    this.value = new Float32Array(this.cells).fill(NaN);
+    this.maxJump = options.maxJump;
+    this.boundaryWeight = options.boundaryWeight;
+    this.noiseCost = options.noiseCost;
+    this.dark = options.dark ?? null;
+    this.darkPosition = options.darkPosition ?? 0;
+    this.prior = options.prior ?? null;
+    this.priorWeight = options.priorWeight ?? 0;
+    this.anchors = options.anchors ?? [];
+  }
+
+  /** Step 1: patches grown best first from seeds taken best first. */
+  grow(): void {
+    const { cells, count, chosen, patch, order, value, position, perCell } = this;
+    // Seeds best first.
+    const seedOrder = sortByQualityDescending(this.quality);
+    for (let s = 0; s < cells; s++) {
+      const seed = seedOrder[s];
+      if (chosen[seed] !== NONE || count[seed] === 0) continue;
+      const id = this.patchCount++;
+      this.patchStart.push(this.ordered);
+      chosen[seed] = 0;
+      value[seed] = position[seed * perCell];
+      patch[seed] = id;
+      order[this.ordered++] = seed;
+      this.pushNeighbours(seed);
+      this.growPatch(id);
+    }
+    this.patchStart.push(this.ordered);
+  }
+
+  /** Grows patch `id` from the cells on the heap until no candidate continues it. */
+  growPatch(id: number): void {
+    const { heap, chosen, count, cost, position, perCell, patch, parent, order, value, maxJump, noiseCost } = this;
     while (heap.size > 0) {
       const item = heap.pop();
       const j = item >> 2;
-      const from = neighbourOf(j, item & 3);
+      const from = this.neighbourOf(j, item & 3);
       if (chosen[j] !== NONE || from < 0) continue;
-      const reference = extrapolate(from, j);
+      const reference = this.extrapolate(from, j);
       let bestK = -1;
       let bestGap = maxJump;
       const base = j * perCell;
@@ -108,66 +159,66 @@ export function resolveOrders(field: CandidateField, options: OrderOptions): Ord
       value[j] = position[base + bestK];
       patch[j] = id;
       parent[j] = from;
-      order[ordered++] = j;
-      pushNeighbours(j);
+      order[this.ordered++] = j;
+      this.pushNeighbours(j);
     }
   }
-  patchStart.push(ordered);
 
-  choosePatchVariants();
-  return { position: value, chosen, patch, patchCount };
-
-  function pushNeighbours(i: number): void {
+  pushNeighbours(i: number): void {
+    const { width, cells } = this;
     const x = i % width;
     // Direction code d: the popped item's `from` is the neighbour of j in direction d.
-    if (x + 1 < width) pushIfOpen(i + 1, 0);
-    if (x > 0) pushIfOpen(i - 1, 1);
-    if (i + width < cells) pushIfOpen(i + width, 2);
-    if (i - width >= 0) pushIfOpen(i - width, 3);
+    if (x + 1 < width) this.pushIfOpen(i + 1, 0);
+    if (x > 0) this.pushIfOpen(i - 1, 1);
+    if (i + width < cells) this.pushIfOpen(i + width, 2);
+    if (i - width >= 0) this.pushIfOpen(i - width, 3);
   }
 
-  function pushIfOpen(j: number, direction: number): void {
-    if (chosen[j] !== NONE || count[j] === 0) return;
-    heap.push((j << 2) | direction, quality[j]);
+  pushIfOpen(j: number, direction: number): void {
+    if (this.chosen[j] !== NONE || this.count[j] === 0) return;
+    this.heap.push((j << 2) | direction, this.quality[j]);
   }
 
   /** The labelled cell that pushed j: direction 0 means j = from + 1, etc. */
-  function neighbourOf(j: number, direction: number): number {
+  neighbourOf(j: number, direction: number): number {
     switch (direction) {
       case 0:
         return j - 1;
       case 1:
         return j + 1;
       case 2:
-        return j - width;
+        return j - this.width;
       default:
-        return j + width;
+        return j + this.width;
     }
   }
 
   /** Reference for j from its labelled neighbour `from`, continuing the local slope. */
-  function extrapolate(from: number, j: number): number {
+  extrapolate(from: number, j: number): number {
+    const { cells, patch, value, width } = this;
     const beyond = 2 * from - j;
     const vFrom = value[from];
     if (beyond < 0 || beyond >= cells || patch[beyond] !== patch[from]) return vFrom;
     // Reject wrap-around across rows for horizontal steps.
     if (Math.abs(j - from) === 1 && Math.floor(beyond / width) !== Math.floor(from / width)) return vFrom;
     let slope = vFrom - value[beyond];
-    const limit = maxJump * 0.5;
+    const limit = this.maxJump * 0.5;
     if (slope > limit) slope = limit;
     else if (slope < -limit) slope = -limit;
     return vFrom + slope;
   }
 
-  function choosePatchVariants(): void {
+  /** Step 2: each patch (largest first) takes the variant of lowest total cost. */
+  choosePatchVariants(): void {
+    const { patchStart, patchCount, cells, order, count, value, chosen } = this;
     const sizes = patchStart.slice(0, -1).map((start, id) => ({ id, size: patchStart[id + 1] - start }));
     sizes.sort((a, b) => b.size - a.size);
     const decided = new Uint8Array(patchCount);
     const trial = new Float32Array(cells);
     const trialChosen = new Uint8Array(cells);
     const anchorsByPatch = new Map<number, Array<{ cell: number; position: number }>>();
-    for (const anchor of options.anchors ?? []) {
-      const id = patch[anchor.cell];
+    for (const anchor of this.anchors) {
+      const id = this.patch[anchor.cell];
       if (id < 0) continue;
       const list = anchorsByPatch.get(id) ?? [];
       list.push(anchor);
@@ -179,15 +230,16 @@ export function resolveOrders(field: CandidateField, options: OrderOptions): Ord
       const seed = order[start];
       let bestTotal = Infinity;
       let bestVariant = 0;
+      const anchors = anchorsByPatch.get(id) ?? null;
       for (let k = 0; k < count[seed]; k++) {
-        const total = evaluateVariant(id, start, end, k, trial, trialChosen, decided, anchorsByPatch.get(id), bestTotal);
+        const total = this.evaluateVariant(id, start, end, k, trial, trialChosen, decided, anchors, bestTotal);
         if (total < bestTotal) {
           bestTotal = total;
           bestVariant = k;
         }
       }
       if (bestVariant !== 0 || chosen[seed] !== 0) {
-        evaluateVariant(id, start, end, bestVariant, trial, trialChosen, decided, anchorsByPatch.get(id), Infinity);
+        this.evaluateVariant(id, start, end, bestVariant, trial, trialChosen, decided, anchors, Infinity);
         for (let o = start; o < end; o++) {
           const j = order[o];
           value[j] = trial[j];
@@ -198,7 +250,13 @@ export function resolveOrders(field: CandidateField, options: OrderOptions): Ord
     }
   }
 
-  function evaluateVariant(
+  /**
+   * Total cost of patch `id` re-propagated from its seed's candidate `seedK` (into `trial`,
+   * `trialChosen`): colour costs, breaks inside it, then its boundary, prior and anchors.
+   * `bound` is the total to beat: every term is ≥ 0, so once the running total reaches it the
+   * variant has lost (Infinity).
+   */
+  evaluateVariant(
     id: number,
     start: number,
     end: number,
@@ -206,10 +264,20 @@ export function resolveOrders(field: CandidateField, options: OrderOptions): Ord
     trial: Float32Array,
     trialChosen: Uint8Array,
     decided: Uint8Array,
-    anchors: Array<{ cell: number; position: number }> | undefined,
-    /** Total to beat: every term is ≥ 0, so once the running total reaches it the variant has lost. */
+    anchors: Array<{ cell: number; position: number }> | null,
     bound: number,
   ): number {
+    let total = this.propagateVariant(start, end, seedK, trial, trialChosen, bound);
+    if (total === Infinity) return Infinity;
+    total = this.boundaryAndPriorCost(id, start, end, trial, decided, total, bound);
+    if (total === Infinity) return Infinity;
+    if (anchors) for (const anchor of anchors) if (Math.abs(trial[anchor.cell] - anchor.position) > this.maxJump * 0.5) total += 1e12;
+    return total;
+  }
+
+  /** The patch re-propagated in its growth order from candidate `seedK` of its seed: colour costs and breaks (Infinity once `bound` is reached). */
+  propagateVariant(start: number, end: number, seedK: number, trial: Float32Array, trialChosen: Uint8Array, bound: number): number {
+    const { order, perCell, parent, count, position, cost, maxJump, boundaryWeight } = this;
     let total = 0;
     for (let o = start; o < end; o++) {
       const j = order[o];
@@ -234,17 +302,12 @@ export function resolveOrders(field: CandidateField, options: OrderOptions): Ord
       total += cost[base + k];
       if (total >= bound) return Infinity;
     }
-    // (The rest is its own function: most calls return above, and a function optimised on those
-    // calls alone had no type feedback for what follows, so every call reaching it fell back to
-    // the interpreter: thousands of times per frame.)
-    total = boundaryAndPriorCost(id, start, end, trial, decided, total, bound);
-    if (total === Infinity) return Infinity;
-    if (anchors) for (const anchor of anchors) if (Math.abs(trial[anchor.cell] - anchor.position) > maxJump * 0.5) total += 1e12;
     return total;
   }
 
-  /** evaluateVariant's boundary terms (decided patches, too-dark cells) and prior, added to `total`; Infinity once `bound` is reached. */
-  function boundaryAndPriorCost(id: number, start: number, end: number, trial: Float32Array, decided: Uint8Array, total: number, bound: number): number {
+  /** The boundary terms (decided patches, too-dark cells) and the prior of a variant, added to `total`; Infinity once `bound` is reached. */
+  boundaryAndPriorCost(id: number, start: number, end: number, trial: Float32Array, decided: Uint8Array, total: number, bound: number): number {
+    const { order, width, cells, patch, value, dark, darkPosition, prior, priorWeight, maxJump, boundaryWeight } = this;
     for (let o = start; o < end; o++) {
       const j = order[o];
       const v = trial[j];
