@@ -167,36 +167,48 @@ export interface ResponseInverse {
 }
 
 export function createResponseInverse(response: CameraResponse | null | undefined): ResponseInverse {
-  if (!response || isIdentityResponse(response)) {
-    return {
-      identity: true,
-      invert: (r, g, b, out, offset) => {
-        out[offset] = r;
-        out[offset + 1] = g;
-        out[offset + 2] = b;
-      },
-      invertTone: (value) => value,
-    };
+  if (!response || isIdentityResponse(response)) return IDENTITY_INVERSE;
+  return new StyledInverse(inverseToneTable(response.contrast, response.gamma), 1 / response.saturation);
+}
+
+/**
+ * The inverses as classes (their code compiled once per process; closures made per photo were
+ * compiled again for every photo of a series).
+ */
+class IdentityInverse implements ResponseInverse {
+  readonly identity = true;
+  invert(r: number, g: number, b: number, out: Float32Array | Float64Array, offset: number): void {
+    out[offset] = r;
+    out[offset + 1] = g;
+    out[offset + 2] = b;
   }
-  const { contrast, gamma, saturation } = response;
-  const table = inverseToneTable(contrast, gamma);
-  const invertTone = (value: number): number => {
+  invertTone(value: number): number {
+    return value;
+  }
+}
+
+const IDENTITY_INVERSE = new IdentityInverse();
+
+class StyledInverse implements ResponseInverse {
+  readonly identity = false;
+  constructor(
+    private readonly table: Float64Array,
+    private readonly inverseSaturation: number,
+  ) {}
+  invertTone(value: number): number {
+    const table = this.table;
     const v = value > 0 ? (value < 1 ? value : 1) * INVERSE_SIZE : 0;
     const i = v | 0;
     const f = v - i;
     return table[i] + f * (table[i + 1] - table[i]);
-  };
-  const inverseSaturation = 1 / saturation;
-  return {
-    identity: false,
-    invertTone,
-    invert: (r, g, b, out, offset) => {
-      const y = LUMA_BT601[0] * r + LUMA_BT601[1] * g + LUMA_BT601[2] * b;
-      out[offset] = invertTone(y + inverseSaturation * (r - y));
-      out[offset + 1] = invertTone(y + inverseSaturation * (g - y));
-      out[offset + 2] = invertTone(y + inverseSaturation * (b - y));
-    },
-  };
+  }
+  invert(r: number, g: number, b: number, out: Float32Array | Float64Array, offset: number): void {
+    const y = LUMA_BT601[0] * r + LUMA_BT601[1] * g + LUMA_BT601[2] * b;
+    const s = this.inverseSaturation;
+    out[offset] = this.invertTone(y + s * (r - y));
+    out[offset + 1] = this.invertTone(y + s * (g - y));
+    out[offset + 2] = this.invertTone(y + s * (b - y));
+  }
 }
 
 /** The last few inverse tables (a series' frames and a photo's light-field rounds share one). */

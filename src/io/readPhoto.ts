@@ -36,6 +36,56 @@ export async function readPhotoBytes(bytes: Uint8Array, name: string, options: R
   return decodePhoto(Buffer.isBuffer(bytes) ? bytes : Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength), name, options);
 }
 
+/** 8-bit RGB into `rgb` (the common case, in a tight loop through a table of the 256 levels); true when every pixel is grey (r = g = b). */
+function expandRgb8(samples: Uint8Array, rgb: Float32Array, pixelCount: number, scale: number): boolean {
+  const level = new Float32Array(256);
+  for (let v = 0; v < 256; v++) level[v] = v * scale;
+  let differ = 0;
+  for (let i = 0, n = pixelCount * 3; i < n; i += 3) {
+    const r = samples[i];
+    const g = samples[i + 1];
+    const b = samples[i + 2];
+    differ |= (r ^ g) | (g ^ b);
+    rgb[i] = level[r];
+    rgb[i + 1] = level[g];
+    rgb[i + 2] = level[b];
+  }
+  return differ === 0;
+}
+
+/** Any other layout (grey, alpha, 16 bit) into `rgb` and `alpha`; true when every opaque pixel is grey. */
+function expandSamples(
+  samples: Uint8Array | Uint16Array,
+  rgb: Float32Array,
+  alpha: Float32Array | undefined,
+  pixelCount: number,
+  channels: number,
+  colourChannels: number,
+  hasAlpha: boolean,
+  scale: number,
+): boolean {
+  let allEqual = true;
+  for (let i = 0, s = 0, o = 0; i < pixelCount; i++, s += channels, o += 3) {
+    if (colourChannels === 1) {
+      const v = samples[s] * scale;
+      rgb[o] = v;
+      rgb[o + 1] = v;
+      rgb[o + 2] = v;
+    } else {
+      const r = samples[s];
+      const g = samples[s + 1];
+      const b = samples[s + 2];
+      // Transparent pixels say nothing about colour (they are often black or white).
+      if (allEqual && (r !== g || g !== b) && (!hasAlpha || samples[s + colourChannels] * scale >= 0.5)) allEqual = false;
+      rgb[o] = r * scale;
+      rgb[o + 1] = g * scale;
+      rgb[o + 2] = b * scale;
+    }
+    if (alpha) alpha[i] = samples[s + colourChannels] * scale;
+  }
+  return allEqual;
+}
+
 async function decodePhoto(bytes: Buffer | string, path: string, options: ReadPhotoOptions): Promise<Photo> {
   const maxPixels = checkMaxPixels(options.maxPixels);
   const page = options.page ?? 0;
@@ -99,40 +149,11 @@ async function decodePhoto(bytes: Buffer | string, path: string, options: ReadPh
   // In a SharedArrayBuffer, so that the mapper's pixel threads read it without a copy.
   const rgb = new Float32Array(new SharedArrayBuffer(pixelCount * 3 * 4));
   const alpha = hasAlpha ? new Float32Array(pixelCount) : undefined;
-  let allEqual = true;
-  if (!is16 && channels === 3) {
-    // The common case (8-bit RGB) in a tight loop through a table of the 256 levels.
-    const level = new Float32Array(256);
-    for (let v = 0; v < 256; v++) level[v] = v * scale;
-    let differ = 0;
-    for (let i = 0, n = pixelCount * 3; i < n; i += 3) {
-      const r = samples[i];
-      const g = samples[i + 1];
-      const b = samples[i + 2];
-      differ |= (r ^ g) | (g ^ b);
-      rgb[i] = level[r];
-      rgb[i + 1] = level[g];
-      rgb[i + 2] = level[b];
-    }
-    allEqual = differ === 0;
-  } else for (let i = 0, s = 0, o = 0; i < pixelCount; i++, s += channels, o += 3) {
-    if (colourChannels === 1) {
-      const v = samples[s] * scale;
-      rgb[o] = v;
-      rgb[o + 1] = v;
-      rgb[o + 2] = v;
-    } else {
-      const r = samples[s];
-      const g = samples[s + 1];
-      const b = samples[s + 2];
-      // Transparent pixels say nothing about colour (they are often black or white).
-      if (allEqual && (r !== g || g !== b) && (!hasAlpha || samples[s + colourChannels] * scale >= 0.5)) allEqual = false;
-      rgb[o] = r * scale;
-      rgb[o + 1] = g * scale;
-      rgb[o + 2] = b * scale;
-    }
-    if (alpha) alpha[i] = samples[s + colourChannels] * scale;
-  }
+  // The loops are functions of their own: in this long async function V8 compiled them on the
+  // fly (on-stack replacement) for every photo of a series, with all of decodePhoto around them.
+  const allEqual = !is16 && channels === 3
+    ? expandRgb8(samples as Uint8Array, rgb, pixelCount, scale)
+    : expandSamples(samples, rgb, alpha, pixelCount, channels, colourChannels, hasAlpha, scale);
   const orientation = typeof meta.orientation === 'number' && meta.orientation >= 1 && meta.orientation <= 8 ? meta.orientation : 1;
   const photo: Photo = {
     width,

@@ -199,7 +199,24 @@ function coldProbe(options: PhotoFormationOptions): ExposureParameters | null {
     if (fixedIndex && options.fixedIndex) fixedIndex[j] = options.fixedIndex[i] < 0 ? -1 : Math.min(Math.round(options.fixedIndex[i] / stride), lastIndex);
   }
   const table = stride > 1 ? coarserTable(options.table, stride) : options.table;
-  const subset: PhotoFormationOptions = { ...options, table, samples, samplesRgb, fixedIndex, start: null, rough: true };
+  // One literal of every field (not a spread: a spread gave the options a new shape on every
+  // frame, and the fit's compiled code was thrown away and compiled again).
+  const subset: PhotoFormationOptions = {
+    table,
+    samples,
+    fitWhiteBalance: options.fitWhiteBalance,
+    fitFlare: options.fitFlare,
+    noiseSigma: options.noiseSigma,
+    initialWhiteBalance: options.initialWhiteBalance,
+    fixedIndex,
+    space: options.space,
+    samplesRgb,
+    start: null,
+    ownFit: options.ownFit,
+    rough: true,
+    fitResponse: options.fitResponse,
+    onInnerProblem: options.onInnerProblem,
+  };
   return fitFrom(subset, coldStart(subset, samples, samplesRgb)).parameters;
 }
 
@@ -302,36 +319,61 @@ function scanExposure(
 ): number {
   const n = samples.length / 3;
   const stride = Math.max(1, Math.floor(n / SCAN_SAMPLES));
-  const predicted = new Float32Array(table.count * 3);
-  const costs = new Float64Array(Math.ceil(n / stride));
-  const hit: NearestHit = { index: 0, distance: 0 };
-  let bestExposure = 1;
-  let bestCost = Infinity;
-  // Geometric grid 0.1…63 in steps of ×1.26 (28 values), then a finer pass around the best.
-  const candidates: number[] = [];
-  for (let s = 0; s < 29; s++) candidates.push(0.1 * Math.pow(10, s * 0.1));
-  const evaluate = (exposure: number): void => {
-    predictIn(space, table, { exposure, whiteBalance, flare }, predicted);
-    let m = 0;
-    // The best of every third entry, found through a grid index (the same value as a scan).
-    const index = buildNearestEntryIndex(predicted, table.count, 3);
-    for (let i = 0; i < n; i += stride) {
-      nearestEntry(index, samples[i * 3], samples[i * 3 + 1], samples[i * 3 + 2], hit);
-      costs[m++] = hit.distance;
-    }
-    const sorted = costs.subarray(0, m).sort();
-    let sum = 0;
-    const keepCount = Math.max(1, Math.floor(0.8 * m));
-    for (let i = 0; i < keepCount; i++) sum += sorted[i];
-    if (sum < bestCost) {
-      bestCost = sum;
-      bestExposure = exposure;
-    }
+  const scan: ExposureScan = {
+    table,
+    samples,
+    whiteBalance,
+    flare,
+    space: space ?? null,
+    stride,
+    predicted: new Float32Array(table.count * 3),
+    costs: new Float64Array(Math.ceil(n / stride)),
+    hit: { index: 0, distance: 0 },
+    bestExposure: 1,
+    bestCost: Infinity,
   };
-  for (const exposure of candidates) evaluate(exposure);
-  const centre = bestExposure;
-  for (let s = -4; s <= 4; s++) if (s !== 0) evaluate(centre * Math.pow(10, s * 0.025));
-  return bestExposure;
+  // Geometric grid 0.1…63 in steps of ×1.26 (28 values), then a finer pass around the best.
+  for (let s = 0; s < 29; s++) scanOne(scan, 0.1 * Math.pow(10, s * 0.1));
+  const centre = scan.bestExposure;
+  for (let s = -4; s <= 4; s++) if (s !== 0) scanOne(scan, centre * Math.pow(10, s * 0.025));
+  return scan.bestExposure;
+}
+
+/** The state of one exposure scan (a plain object of one shape: scanOne is compiled once). */
+interface ExposureScan {
+  readonly table: ColourTable;
+  readonly samples: Float32Array;
+  readonly whiteBalance: readonly [number, number, number];
+  readonly flare: readonly [number, number, number];
+  readonly space: MatchSpace | null;
+  readonly stride: number;
+  readonly predicted: Float32Array;
+  readonly costs: Float64Array;
+  readonly hit: NearestHit;
+  bestExposure: number;
+  bestCost: number;
+}
+
+/** One trial exposure of the scan: its trimmed cost, kept when best so far. */
+function scanOne(scan: ExposureScan, exposure: number): void {
+  const { table, samples, predicted, costs, hit, stride } = scan;
+  const n = samples.length / 3;
+  predictIn(scan.space, table, { exposure, whiteBalance: scan.whiteBalance, flare: scan.flare }, predicted);
+  let m = 0;
+  // The best of every third entry, found through a grid index (the same value as a scan).
+  const index = buildNearestEntryIndex(predicted, table.count, 3);
+  for (let i = 0; i < n; i += stride) {
+    nearestEntry(index, samples[i * 3], samples[i * 3 + 1], samples[i * 3 + 2], hit);
+    costs[m++] = hit.distance;
+  }
+  const sorted = costs.subarray(0, m).sort();
+  let sum = 0;
+  const keepCount = Math.max(1, Math.floor(0.8 * m));
+  for (let i = 0; i < keepCount; i++) sum += sorted[i];
+  if (sum < scan.bestCost) {
+    scan.bestCost = sum;
+    scan.bestExposure = exposure;
+  }
 }
 
 function assignGlobalBest(

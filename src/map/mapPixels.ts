@@ -24,7 +24,7 @@ import { estimateNoise } from './estimateNoise.js';
 import { distinctColourCount, fitPhotoFormation, type PhotoFormationFit } from './fitPhotoFormation.js';
 import { matchSpace, toMatchSpace } from './matchSpace.js';
 import { createMatchScratch, matchColour } from './matchColour.js';
-import { createColourMemo, matchPixelRows, releaseColourMemo, scorePixelRows } from './pixelPass.js';
+import { type ColourMemo, createColourMemo, matchPixelRows, type PixelPassInput, releaseColourMemo, scorePixelRows } from './pixelPass.js';
 import { keepConsistentPixels } from './keepConsistent.js';
 import { CellClass, CellVerdict, type FilmAreaCells, findFilmArea } from './filmArea.js';
 import { sampleFitPixels } from './fitSamples.js';
@@ -147,14 +147,8 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   const threads = Math.max(1, Math.floor(input.threads ?? 1));
   const threaded = threads > 1 && pixels >= MIN_THREADED_PIXELS;
   const status = threaded ? sharedUint8(pixels) : new Uint8Array(pixels);
-  let saturatedCount = 0;
-  for (let i = 0; i < pixels; i++) {
-    if (!film[i]) status[i] = PixelStatus.excluded;
-    else if (rgb[i * 3] >= SATURATED || rgb[i * 3 + 1] >= SATURATED || rgb[i * 3 + 2] >= SATURATED) {
-      status[i] = PixelStatus.saturated;
-      saturatedCount++;
-    }
-  }
+  // (mapPixels itself holds no loop: see markExcludedAndSaturated.)
+  const saturatedCount = markExcludedAndSaturated(film, rgb, status, pixels);
   const noise = estimateNoise(rgb, width, height, film);
   const space = matchSpace(input.chromaWeight ?? 1);
   const noiseSigma = noise.sigma;
@@ -254,13 +248,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
       area = filmAreaOf(cells, gridWidth, gridHeight, block, noiseSigma, periodIndex, maxJump, table.rgbLinear, asserted, anchorCellsOf, predictGreyCurve(table, parameters, space), priorFilm);
     }
     applyFilmArea(area, status, width, height, block, gridWidth, true);
-    for (let c = 0; c < gridWidth * gridHeight; c++) {
-      if (area.verdict[c] !== CellVerdict.film) {
-        cells.usable[c] = 0;
-        cells.cellDark[c] = 0;
-        cells.field.count[c] = 0;
-      }
-    }
+    dropCellsOutsideFilm(area, cells, gridWidth * gridHeight);
   }
   if (!input.exposureFixed) {
     const currentFit = fit as PhotoFormationFit | null;
@@ -319,7 +307,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
     startNm: table.startNm,
     stepNm: table.stepNm,
   };
-  const pass = { ...common, cube: space ? createCandidateCube(CUBE_LEVELS, PER_CELL) : cells.cube, memo: input.eightBit ? createColourMemo(count) : null };
+  const pass = pixelPassInput(common, space ? createCandidateCube(CUBE_LEVELS, PER_CELL) : cells.cube, input.eightBit ? createColourMemo(count) : null);
   const passOut = { thicknessNm, cost: confidence, alternativeCost: threaded ? sharedFloat32(pixels) : new Float32Array(pixels) };
   const matchRows = (y0: number, y1: number) => matchPixelRows(pass, passOut, scratch, y0, y1);
   const dropped = threaded
@@ -405,6 +393,62 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
     fitQuality,
     lightEvenness,
   };
+}
+
+/**
+ * The pixel pass's input as one object literal (not a spread of `common`): a spread made a
+ * differently shaped object for every photo, and the pass's compiled code was thrown away
+ * ("wrong map") and compiled again each time.
+ */
+function pixelPassInput(common: Omit<PixelPassInput, 'cube' | 'memo'>, cube: CandidateCube, memo: ColourMemo | null): PixelPassInput {
+  return {
+    rgb: common.rgb,
+    width: common.width,
+    height: common.height,
+    status: common.status,
+    gridPosition: common.gridPosition,
+    block: common.block,
+    gridWidth: common.gridWidth,
+    gridHeight: common.gridHeight,
+    predictedRgb: common.predictedRgb,
+    count: common.count,
+    cube,
+    space: common.space,
+    pixelJump: common.pixelJump,
+    washoutIndex: common.washoutIndex,
+    startNm: common.startNm,
+    stepNm: common.stepNm,
+    memo,
+  };
+}
+
+/**
+ * Pixels outside the film mask become excluded, clipped ones saturated; returns how many were
+ * clipped. Loops such as this one live in small functions of their own, not in mapPixels: a loop
+ * makes V8 compile its function on the fly (on-stack replacement), and compiled code entered that
+ * way was compiled again for every photo of a series, for all of mapPixels (50–80 ms each time).
+ */
+function markExcludedAndSaturated(film: Uint8Array, rgb: Float32Array, status: Uint8Array, pixels: number): number {
+  let saturatedCount = 0;
+  for (let i = 0; i < pixels; i++) {
+    if (!film[i]) status[i] = PixelStatus.excluded;
+    else if (rgb[i * 3] >= SATURATED || rgb[i * 3 + 1] >= SATURATED || rgb[i * 3 + 2] >= SATURATED) {
+      status[i] = PixelStatus.saturated;
+      saturatedCount++;
+    }
+  }
+  return saturatedCount;
+}
+
+/** Cells the film area leaves out lose their candidates and their dark mark. */
+function dropCellsOutsideFilm(area: FilmAreaCells, cells: CellMatches, cellCount: number): void {
+  for (let c = 0; c < cellCount; c++) {
+    if (area.verdict[c] !== CellVerdict.film) {
+      cells.usable[c] = 0;
+      cells.cellDark[c] = 0;
+      cells.field.count[c] = 0;
+    }
+  }
 }
 
 /**

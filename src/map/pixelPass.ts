@@ -264,7 +264,7 @@ interface Pass {
  */
 export function matchPixelRows(input: PixelPassInput, out: PixelPassOutput, scratch: MatchScratch, y0: number, y1: number): PixelPassCounts {
   const counts: PixelPassCounts = { unresolved: 0, discontinuous: 0 };
-  const pass: Pass = { input, out, scratch, memo: input.memo, position: 0, rgbCost: 0, lastR: NaN, lastG: NaN, lastB: NaN, lastEntry: -1 };
+  const pass: Pass = { input, out, scratch, memo: input.memo, position: NaN, rgbCost: NaN, lastR: NaN, lastG: NaN, lastB: NaN, lastEntry: -1 };
   const { block, width, gridWidth, gridHeight } = input;
   const columns = block === 1 ? null : axis(width, block, gridWidth);
   const rows = block === 1 ? null : axis(input.height, block, gridHeight);
