@@ -128,10 +128,13 @@ describe('nearestEntry(): the nearest table entry, as a scan finds it', () => {
   }
   const exposures = [0.3, 1, 7.5, 60];
   for (const exposure of exposures) {
-    for (const stride of [1, 3]) {
-      it(`exposure ${exposure}, every ${stride === 1 ? '' : `${stride}rd `}entry: same index and distance for 3,000 colours`, () => {
+    // Every entry (2,001: a grid of 32 cells per axis), every 3rd (667) and every 12th (167, as in
+    // the fit's coarse exposure scan): the smaller ones on a grid of 12.
+    for (const stride of [1, 3, 12]) {
+      it(`exposure ${exposure}, every ${stride === 1 ? '' : `${stride}th `}entry: same index and distance for 3,000 colours`, () => {
         const predicted = predictEncodedTable(soap, { exposure, whiteBalance: [1, 1, 1], flare: [0.01, 0.01, 0.01] });
         const index = buildNearestEntryIndex(predicted, soap.count, stride);
+        expect(index.cells).toBe(stride === 1 ? 32 : 12);
         const next = random(Math.round(exposure * 1000) + stride);
         const hit = { index: 0, distance: 0 };
         for (let q = 0; q < 3000; q++) {

@@ -148,7 +148,9 @@ describe('map statistics', () => {
     // A seeded generator (Park & Miller 1988 minimal standard; common practice) for repeatable maps.
     let seed = 12345;
     const next = (): number => (seed = (seed * 16807) % 2147483647) / 2147483647;
-    for (const [n, spread] of [[1, 1], [2, 3], [7, 1000], [1000, 5], [20_000, 2000], [5000, 1e-3]] as const) {
+    // Up to 2^18 pixels the order statistics come from a sorted copy, above it from the two-level
+    // histogram: both are checked (the last case is a 300,010-pixel map).
+    for (const [n, spread] of [[1, 1], [2, 3], [7, 1000], [1000, 5], [20_000, 2000], [5000, 1e-3], [300_000, 800]] as const) {
       const thickness = new Float32Array(n + 10);
       const status = new Uint8Array(n + 10).fill(PixelStatus.ok);
       for (let i = 0; i < thickness.length; i++) {
@@ -166,8 +168,29 @@ describe('map statistics', () => {
       expect(stats.p05_nm! + 0).toBe(percentileSorted(sorted, 5) + 0);
       expect(stats.p95_nm! + 0).toBe(percentileSorted(sorted, 95) + 0);
       expect(stats.median_nm!).toBeCloseTo(quantileType7(values, 0.5), 9);
-      expect(stats.min_nm).toBe(Math.min(...values));
-      expect(stats.max_nm).toBe(Math.max(...values));
+      expect(stats.min_nm).toBe(values.reduce((a, b) => Math.min(a, b)));
+      expect(stats.max_nm).toBe(values.reduce((a, b) => Math.max(a, b)));
     }
+  });
+
+  it('a large map (histogram) and a small one (sorted copy) holding the same estimates give the same statistics to the last bit', () => {
+    let seed = 777;
+    const next = (): number => (seed = (seed * 16807) % 2147483647) / 2147483647;
+    const pixels = 400_000;
+    const large = new Float32Array(pixels);
+    const largeStatus = new Uint8Array(pixels).fill(PixelStatus.excluded);
+    const kept: number[] = [];
+    for (let i = 0; i < pixels; i++) {
+      large[i] = 20 + 900 * next() ** 2;
+      if (i % 3 === 0) {
+        largeStatus[i] = PixelStatus.ok;
+        kept.push(large[i]);
+      }
+    }
+    expect(pixels).toBeGreaterThan(1 << 18);
+    expect(kept.length).toBeLessThan(1 << 18);
+    const small = Float32Array.from(kept);
+    const smallStatus = new Uint8Array(small.length).fill(PixelStatus.ok);
+    expect(computeMapStatistics(large, largeStatus, 100, 0)).toEqual(computeMapStatistics(small, smallStatus, 100, 0));
   });
 });
