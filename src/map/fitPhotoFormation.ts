@@ -450,7 +450,7 @@ function innerFit(
   assigned: Int32Array,
   keep: Uint8Array,
 ): InnerResult {
-  const { table, samples, fitWhiteBalance, fitFlare, noiseSigma, fixedIndex } = options;
+  const { table, samples, fitWhiteBalance, fitFlare, noiseSigma } = options;
   const kept: number[] = [];
   for (let i = 0; i < assigned.length; i++) if (keep[i]) kept.push(i);
   const m = kept.length;
@@ -502,8 +502,6 @@ function innerFit(
     priorWeights: { wb: fitWhiteBalance ? priorWeight : 0, flare: fitFlare ? flarePriorWeight : 0, contrast: contrastPriorWeight, gamma: gammaPriorWeight, saturation: saturationPriorWeight },
     rows,
   });
-  const expand = (p: readonly number[]): number[] => inner.expand(p);
-  const toParameters = (v: readonly number[]): ExposureParameters => inner.toParameters(v);
   const evaluate = (p: readonly number[]): Float64Array => inner.evaluate(p);
   const jacobian = (p: readonly number[], out: Float64Array): void => inner.jacobian(p, out);
   options.onInnerProblem?.({ evaluate, jacobian, initial: active.map((slot) => full[slot]), rows });
@@ -528,7 +526,7 @@ function innerFit(
     restartFromInitial: false,
     parameterNames: active.map((slot) => PARAMETER_NAMES[slot]),
   });
-  const v = expand(fit.parameters);
+  const v = inner.expand(fit.parameters);
   const se = [NaN, 0, 0, 0, 0, 0, NaN, NaN, NaN];
   active.forEach((slot, j) => (se[slot] = fit.standardErrors[j]));
   const priorRss =
@@ -536,7 +534,7 @@ function innerFit(
     (fitFlare ? flarePriorWeight ** 2 * (v[3] ** 2 + v[4] ** 2 + v[5] ** 2) : 0) +
     (fitResponse ? (contrastPriorWeight * v[6]) ** 2 + (gammaPriorWeight * Math.log(v[7])) ** 2 + (saturationPriorWeight * (v[8] - 1)) ** 2 : 0);
   return {
-    parameters: toParameters(v),
+    parameters: inner.toParameters(v),
     standardErrors: { exposure: se[0], whiteBalance: [se[1], 0, se[2]], flare: [se[3], se[4], se[5]], response: [se[6], se[7], se[8]] },
     rms: Math.sqrt(Math.max(0, fit.residualSumOfSquares - priorRss) / Math.max(1, m * 3)),
     settled: fit.converged,

@@ -24,7 +24,7 @@ import { estimateNoise } from './estimateNoise.js';
 import { distinctColourCount, fitPhotoFormation, type PhotoFormationFit } from './fitPhotoFormation.js';
 import { matchSpace, toMatchSpace } from './matchSpace.js';
 import { createMatchScratch, matchColour } from './matchColour.js';
-import { type ColourMemo, createColourMemo, matchPixelRows, type PixelPassInput, releaseColourMemo, scorePixelRows } from './pixelPass.js';
+import { createColourMemo, matchPixelRows, pixelPassInput, releaseColourMemo, scorePixelRows } from './pixelPass.js';
 import { keepConsistentPixels } from './keepConsistent.js';
 import { CellClass, CellVerdict, type FilmAreaCells, findFilmArea } from './filmArea.js';
 import { sampleFitPixels } from './fitSamples.js';
@@ -392,33 +392,6 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
     filmArea,
     fitQuality,
     lightEvenness,
-  };
-}
-
-/**
- * The pixel pass's input as one object literal (not a spread of `common`): a spread made a
- * differently shaped object for every photo, and the pass's compiled code was thrown away
- * ("wrong map") and compiled again each time.
- */
-function pixelPassInput(common: Omit<PixelPassInput, 'cube' | 'memo'>, cube: CandidateCube, memo: ColourMemo | null): PixelPassInput {
-  return {
-    rgb: common.rgb,
-    width: common.width,
-    height: common.height,
-    status: common.status,
-    gridPosition: common.gridPosition,
-    block: common.block,
-    gridWidth: common.gridWidth,
-    gridHeight: common.gridHeight,
-    predictedRgb: common.predictedRgb,
-    count: common.count,
-    cube,
-    space: common.space,
-    pixelJump: common.pixelJump,
-    washoutIndex: common.washoutIndex,
-    startNm: common.startNm,
-    stepNm: common.stepNm,
-    memo,
   };
 }
 

@@ -212,6 +212,33 @@ function addEntry(memo: ColourMemo, slot: number): number {
   return e;
 }
 
+/**
+ * The pixel pass's input as one object literal, in one order, for the calling thread and the
+ * helper threads alike (not a spread: a spread made a differently shaped object for every photo,
+ * and the pass's compiled code was thrown away, "wrong map", and compiled again each time).
+ */
+export function pixelPassInput(common: Omit<PixelPassInput, 'cube' | 'memo'>, cube: CandidateCube, memo: ColourMemo | null): PixelPassInput {
+  return {
+    rgb: common.rgb,
+    width: common.width,
+    height: common.height,
+    status: common.status,
+    gridPosition: common.gridPosition,
+    block: common.block,
+    gridWidth: common.gridWidth,
+    gridHeight: common.gridHeight,
+    predictedRgb: common.predictedRgb,
+    count: common.count,
+    cube,
+    space: common.space,
+    pixelJump: common.pixelJump,
+    washoutIndex: common.washoutIndex,
+    startNm: common.startNm,
+    stepNm: common.stepNm,
+    memo,
+  };
+}
+
 /** Column (or row) interpolation weights between cell centres, computed once per band. */
 interface Axis {
   readonly lo: Int32Array;

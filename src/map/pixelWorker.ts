@@ -9,7 +9,7 @@
 import { parentPort, workerData, type MessagePort } from 'node:worker_threads';
 import { createCandidateCube } from './candidateCube.js';
 import { createMatchScratch } from './matchColour.js';
-import { createColourMemo, matchPixelRows, releaseColourMemo, scorePixelRows, type PixelPassInput, type ScoreInput } from './pixelPass.js';
+import { createColourMemo, matchPixelRows, pixelPassInput, releaseColourMemo, scorePixelRows, type ScoreInput } from './pixelPass.js';
 import { CONTROL, nextChunk, type BandTask } from './pixelThreads.js';
 import { evenOutLightRows } from './evenOutLight.js';
 
@@ -26,11 +26,7 @@ parentPort?.on('message', (task: BandTask) => {
     const counter = new Int32Array(task.queue.next);
     if (task.kind === 'match') {
       const { cubeLevels, perCell, eightBit, ...rest } = task.input;
-      const input: PixelPassInput = {
-        ...rest,
-        cube: createCandidateCube(cubeLevels, perCell),
-        memo: eightBit ? createColourMemo(rest.count) : null,
-      };
+      const input = pixelPassInput(rest, createCandidateCube(cubeLevels, perCell), eightBit ? createColourMemo(rest.count) : null);
       const scratch = createMatchScratch(perCell);
       let unresolved = 0;
       let discontinuous = 0;
