@@ -324,12 +324,50 @@ function referenceRow(input: PixelPassInput, columns: Axis, rows: Axis, y: numbe
   }
 }
 
+/**
+ * Matches the measurable pixels of one row. The common case (an exact 8-bit colour whose memo
+ * entry already holds the basin the pixel's start falls in) is written out here: the functions
+ * it calls otherwise take integers only (pixel index, entry, start), since a double passed to a
+ * function V8 does not inline is boxed in a fresh heap number, one per pixel.
+ */
 function matchRow(pass: Pass, first: number, reference: Float64Array, counts: PixelPassCounts): void {
-  const { status, width } = pass.input;
+  const input = pass.input;
+  const { status, width, rgb, count, pixelJump, washoutIndex } = input;
+  const { thicknessNm, cost, alternativeCost } = pass.out;
+  const memo = pass.memo;
   for (let x = 0; x < width; x++) {
     const i = first + x;
     if (status[i] !== PixelStatus.ok) continue;
-    const outcome = matchPixel(pass, i, reference[x]);
+    const position0 = reference[x];
+    let outcome = UNRESOLVED;
+    if (position0 === position0) {
+      // The candidate that continues the field: the basin the reference points into.
+      let start = Math.round(position0);
+      if (start < 0) start = 0;
+      else if (start >= count) start = count - 1;
+      let e = -1;
+      if (memo !== null) {
+        // Neighbouring pixels often share a colour (about 2 in 3 in a 12-MP JPEG): its entry is kept.
+        e = rgb[i * 3] === pass.lastR && rgb[i * 3 + 1] === pass.lastG && rgb[i * 3 + 2] === pass.lastB ? pass.lastEntry : lookUp(pass, memo, i);
+      }
+      if (e >= 0) {
+        // A colour with memo entry e: the same numbers, each computed once per colour and basin.
+        const o = e * INTS;
+        if (start < memo!.ints[o] || start > memo!.ints[o + 1]) rememberBasin(pass, memo!, e, i, start);
+        const reals = memo!.reals;
+        const q = e * REALS;
+        const position = reals[q];
+        if (Math.abs(position - position0) > pixelJump) outcome = DISCONTINUOUS;
+        else if (position >= washoutIndex) outcome = TOO_THICK;
+        else {
+          if (reals[q + 4] !== reals[q + 4]) rememberMargin(pass, memo!, e, i);
+          thicknessNm[i] = reals[q + 1];
+          cost[i] = reals[q + 3];
+          alternativeCost[i] = reals[q + 4];
+          continue;
+        }
+      } else outcome = matchAfresh(pass, i, x, reference, start);
+    }
     if (outcome === KEPT) continue;
     if (outcome === UNRESOLVED) {
       status[i] = PixelStatus.ambiguous;
@@ -341,28 +379,12 @@ function matchRow(pass: Pass, first: number, reference: Float64Array, counts: Pi
   }
 }
 
-/** Matches pixel i from its reference position: through the colour memo when its colour is an exact 8-bit one. */
-function matchPixel(pass: Pass, i: number, reference: number): number {
-  if (reference !== reference) return UNRESOLVED;
-  const { rgb, count } = pass.input;
+/** The memo entry of pixel i's colour, kept as the last colour looked up; −1 when it is not an exact 8-bit colour. */
+function lookUp(pass: Pass, memo: ColourMemo, i: number): number {
+  const rgb = pass.input.rgb;
   const r = rgb[i * 3];
   const g = rgb[i * 3 + 1];
   const b = rgb[i * 3 + 2];
-  // The candidate that continues the field: the basin the reference points into.
-  let start = Math.round(reference);
-  if (start < 0) start = 0;
-  else if (start >= count) start = count - 1;
-  const memo = pass.memo;
-  if (memo) {
-    // Neighbouring pixels often share a colour (about 2 in 3 in a 12-MP JPEG): its entry is kept.
-    const e = r === pass.lastR && g === pass.lastG && b === pass.lastB ? pass.lastEntry : lookUp(pass, memo, r, g, b);
-    if (e >= 0) return matchRemembered(pass, memo, e, i, r, g, b, start, reference);
-  }
-  return matchAfresh(pass, i, r, g, b, start, reference);
-}
-
-/** The memo entry of colour (r, g, b), kept as the last colour looked up; −1 when it is not an exact 8-bit colour. */
-function lookUp(pass: Pass, memo: ColourMemo, r: number, g: number, b: number): number {
   const r8 = levelOf(memo, r);
   const g8 = r8 < 0 ? -1 : levelOf(memo, g);
   const b8 = g8 < 0 ? -1 : levelOf(memo, b);
@@ -375,9 +397,13 @@ function lookUp(pass: Pass, memo: ColourMemo, r: number, g: number, b: number): 
   return e;
 }
 
-/** matchPixel without the memo: walk, refine, check, other-order search and matching-space cost. */
-function matchAfresh(pass: Pass, i: number, r: number, g: number, b: number, start: number, reference: number): number {
+/** A pixel's match without the memo: walk, refine, check, other-order search and matching-space cost. */
+function matchAfresh(pass: Pass, i: number, x: number, referenceRow: Float64Array, start: number): number {
   const input = pass.input;
+  const reference = referenceRow[x];
+  const r = input.rgb[i * 3];
+  const g = input.rgb[i * 3 + 1];
+  const b = input.rgb[i * 3 + 2];
   const position = solve(pass, r, g, b, walkDownhill(input.predictedRgb, input.count, r, g, b, start));
   if (Math.abs(position - reference) > input.pixelJump) return DISCONTINUOUS;
   if (position >= input.washoutIndex) return TOO_THICK;
@@ -400,30 +426,15 @@ function solve(pass: Pass, r: number, g: number, b: number, m: number): number {
   return position;
 }
 
-/** matchPixel for a colour with memo entry e: the same numbers, each computed once per colour and basin. */
-function matchRemembered(pass: Pass, memo: ColourMemo, e: number, i: number, r: number, g: number, b: number, start: number, reference: number): number {
-  const o = e * INTS;
-  if (start < memo.ints[o] || start > memo.ints[o + 1]) rememberBasin(pass, memo, e, r, g, b, start);
-  const reals = memo.reals;
-  const q = e * REALS;
-  const position = reals[q];
-  const input = pass.input;
-  if (Math.abs(position - reference) > input.pixelJump) return DISCONTINUOUS;
-  if (position >= input.washoutIndex) return TOO_THICK;
-  let margin = reals[q + 4];
-  if (margin !== margin) margin = rememberMargin(pass, memo, e, r, g, b);
-  pass.out.thicknessNm[i] = reals[q + 1];
-  pass.out.cost[i] = reals[q + 3];
-  pass.out.alternativeCost[i] = margin;
-  return KEPT;
-}
-
 /**
  * Walks colour e from `start`; when the walk ends at a true minimum (fewer than MAX_WALK steps)
  * the entry's basin is widened to [start, m] (same minimum) or replaced by it.
  */
-function rememberBasin(pass: Pass, memo: ColourMemo, e: number, r: number, g: number, b: number, start: number): void {
-  const { predictedRgb, count } = pass.input;
+function rememberBasin(pass: Pass, memo: ColourMemo, e: number, i: number, start: number): void {
+  const { predictedRgb, count, rgb } = pass.input;
+  const r = rgb[i * 3];
+  const g = rgb[i * 3 + 1];
+  const b = rgb[i * 3 + 2];
   const m = walkDownhill(predictedRgb, count, r, g, b, start);
   const lo = start < m ? start : m;
   const hi = start < m ? m : start;
@@ -455,15 +466,18 @@ function rememberBasin(pass: Pass, memo: ColourMemo, e: number, r: number, g: nu
   ints[o + 1] = natural ? hi : 0;
 }
 
-/** The margin output of colour e's basin (see matchPixel), computed and kept on first need. */
-function rememberMargin(pass: Pass, memo: ColourMemo, e: number, r: number, g: number, b: number): number {
+/** The margin output of colour e's basin (see matchRow), computed and kept on first need. */
+function rememberMargin(pass: Pass, memo: ColourMemo, e: number, i: number): void {
+  const rgb = pass.input.rgb;
+  const r = rgb[i * 3];
+  const g = rgb[i * 3 + 1];
+  const b = rgb[i * 3 + 2];
   const q = e * REALS;
   const alternative = otherOrderCost(pass, r, g, b, memo.reals[q], e * INTS + 3);
   const reals = memo.reals;
   const cost = reals[q + 3];
   const margin = alternative === Infinity ? Infinity : cost + (alternative - reals[q + 2]);
   reals[q + 4] = margin;
-  return margin;
 }
 
 /**
