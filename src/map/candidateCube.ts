@@ -13,6 +13,15 @@ export interface CandidateCube {
   readonly candidates: Int32Array;
   /** 1 where the cell's candidates have been computed. */
   readonly built: Uint8Array;
+  /**
+   * Per channel and level, each table entry's squared distance outside the cells' box along that
+   * channel (see `boxTerms`), computed for the table in `termsOf` when a cell first needs it.
+   */
+  terms: Float64Array | null;
+  /** 1 where that channel and level's row of `terms` has been computed. */
+  termsReady: Uint8Array | null;
+  /** The predicted table `terms` belongs to. */
+  termsOf: Float32Array | null;
 }
 
 export function cellOf(levels: number, r: number, g: number, b: number): number {
@@ -34,6 +43,9 @@ export function createCandidateCube(levels: number, perCell: number): CandidateC
     perCell,
     candidates: new Int32Array(cells * perCell).fill(-1),
     built: new Uint8Array(cells),
+    terms: null,
+    termsReady: null,
+    termsOf: null,
   };
 }
 
@@ -63,19 +75,23 @@ export function buildCell(
   const qb = cell % levels;
   const qg = ((cell - qb) / levels) % levels;
   const qr = (cell - qb - qg * levels) / (levels * levels);
-  const half = 0.5 / levels;
   const r = (qr + 0.5) / levels;
   const g = (qg + 0.5) / levels;
   const b = (qb + 0.5) / levels;
+  const terms = boxTerms(cube, predicted, count);
+  const rowR = rowOf(cube, terms, 0, qr, predicted, count);
+  const rowG = rowOf(cube, terms, 1, qg, predicted, count);
+  const rowB = rowOf(cube, terms, 2, qb, predicted, count);
   for (let i = 0; i < perCell; i++) scratchCost[i] = Infinity;
   const base = cell * perCell;
   // A pass through the box: its entry nearest the centre, and that entry's distance from the centre.
   let passIndex = -1;
   let passCentre = Infinity;
   let prev = Infinity;
-  let here = boxDistanceAt(predicted, 0, r, g, b, half);
+  // The squared distance of entry i from the cell's box (0 inside): the three channels' terms.
+  let here = terms[rowR] + terms[rowG] + terms[rowB];
   for (let i = 0; i < count; i++) {
-    const next = i + 1 < count ? boxDistanceAt(predicted, i + 1, r, g, b, half) : Infinity;
+    const next = i + 1 < count ? terms[rowR + i + 1] + terms[rowG + i + 1] + terms[rowB + i + 1] : Infinity;
     if (here === 0) {
       const centre = distanceAt(predicted, i, r, g, b);
       if (centre < passCentre) {
@@ -97,13 +113,35 @@ export function buildCell(
   cube.built[cell] = 1;
 }
 
-/** Squared distance of table entry `index` from the box of half-width `half` round (r, g, b); 0 inside. */
-function boxDistanceAt(predicted: Float32Array, index: number, r: number, g: number, b: number, half: number): number {
-  const o = index * 3;
-  const dr = Math.abs(predicted[o] - r) - half;
-  const dg = Math.abs(predicted[o + 1] - g) - half;
-  const db = Math.abs(predicted[o + 2] - b) - half;
-  return (dr > 0 ? dr * dr : 0) + (dg > 0 ? dg * dg : 0) + (db > 0 ? db * db : 0);
+/**
+ * The cube's per-channel terms for `predicted` (3 × levels rows of `count` values), allocated
+ * afresh when the cube meets another table. Row (c, q) holds, for every entry, the squared
+ * distance of channel c's value outside the interval of cells at level q (0 inside): the
+ * squared distance of an entry from a cell's box is the sum of its three rows' values, the same
+ * number, to the last bit, as computing it entry by entry (the same operations, in the same order).
+ */
+function boxTerms(cube: CandidateCube, predicted: Float32Array, count: number): Float64Array {
+  if (cube.terms !== null && cube.termsOf === predicted && cube.terms.length === 3 * cube.levels * count) return cube.terms;
+  cube.terms = new Float64Array(3 * cube.levels * count);
+  cube.termsReady = new Uint8Array(3 * cube.levels);
+  cube.termsOf = predicted;
+  return cube.terms;
+}
+
+/** The offset of row (channel, q) in `terms`, computed on first need. */
+function rowOf(cube: CandidateCube, terms: Float64Array, channel: number, q: number, predicted: Float32Array, count: number): number {
+  const row = channel * cube.levels + q;
+  const offset = row * count;
+  if (cube.termsReady![row] === 1) return offset;
+  const levels = cube.levels;
+  const half = 0.5 / levels;
+  const centre = (q + 0.5) / levels;
+  for (let i = 0; i < count; i++) {
+    const d = Math.abs(predicted[i * 3 + channel] - centre) - half;
+    terms[offset + i] = d > 0 ? d * d : 0;
+  }
+  cube.termsReady![row] = 1;
+  return offset;
 }
 
 function insertBest(
