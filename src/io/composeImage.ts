@@ -3,7 +3,7 @@
  * scale bars) on top, returning PNG bytes. Used for the map and flag previews, where the
  * picture is large and the annotations are vector graphics with text.
  */
-import sharp from 'sharp';
+import sharp from './sharp.js';
 import { checkRasterImage } from './checkRasterImage.js';
 import type { RasterImage } from './photo.js';
 import { setPngPixelSize } from './pngPixelSize.js';

@@ -4,7 +4,7 @@
  * This covers our own output and the usual "float grid" exports of image tools; compressed or
  * tiled float TIFFs are handed to the image codec by `decodeFloatTiffAny`/`readFloatTiff`.
  */
-import sharp from 'sharp';
+import sharp from './sharp.js';
 import { InputError } from '../errors.js';
 import { readInputFile } from './readInputFile.js';
 import { decodeInputError } from './decodeErrors.js';

@@ -2,7 +2,8 @@
  * Encoders from a plain RasterImage to PNG, JPEG or TIFF bytes. 16-bit data stays 16-bit in PNG
  * and TIFF; JPEG is 8-bit only. Colour images are written as sRGB, one/two channels as grey.
  */
-import sharp, { type Sharp } from 'sharp';
+import sharp from './sharp.js';
+import type { Sharp } from 'sharp';
 import { checkRasterImage } from './checkRasterImage.js';
 import type { RasterImage } from './photo.js';
 import { setPngPixelSize } from './pngPixelSize.js';

@@ -2,7 +2,7 @@
  * Renders SVG markup to PNG bytes (for reports and previews). Text is drawn with the system's
  * fonts through fontconfig; `density` sets the DPI (72 = one SVG unit per pixel).
  */
-import sharp from 'sharp';
+import sharp from './sharp.js';
 
 export async function rasteriseSvg(svg: string, options: { density?: number } = {}): Promise<Buffer> {
   if (typeof svg !== 'string' || !/<svg[\s>]/.test(svg)) {

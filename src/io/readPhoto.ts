@@ -11,7 +11,8 @@
  *   colour-managed input into Display P3, not sRGB, which would shift every value. An sRGB-tagged
  *   16-bit file is therefore read exactly; any other profile is named in `photo.warnings`.
  */
-import sharp, { type Metadata, type OutputInfo } from 'sharp';
+import sharp from './sharp.js';
+import type { Metadata, OutputInfo } from 'sharp';
 import { InputError } from '../errors.js';
 import { MAX_PIXELS } from './limits.js';
 import { parseExifTime } from './exifTime.js';

@@ -2,7 +2,8 @@
  * Reads a photo's header only (size after EXIF orientation, format, bit depth, capture time),
  * without decoding pixels: cheap enough to plan a series of thousands of frames.
  */
-import sharp, { type Metadata } from 'sharp';
+import sharp from './sharp.js';
+import type { Metadata } from 'sharp';
 import { MAX_PIXELS } from './limits.js';
 import { parseExifTime } from './exifTime.js';
 import { checkInputFile } from './readInputFile.js';

@@ -6,7 +6,8 @@
  *     file itself does not say its scale).
  * The format is sniffed from the content, not the suffix. NaN marks pixels without a value.
  */
-import sharp, { type Metadata } from 'sharp';
+import sharp from './sharp.js';
+import type { Metadata } from 'sharp';
 import { InputError } from '../errors.js';
 import { readInputFile } from './readInputFile.js';
 import { decodeNpy } from './decodeNpy.js';
