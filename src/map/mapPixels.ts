@@ -553,67 +553,83 @@ function anchorCell(
  * of film pixels (so that noise does not speckle the black film), below the dark limit's.
  */
 function markDarkPixels(rgb: Float32Array, status: Uint8Array, width: number, height: number, darkLuma: number): void {
+  if (height === 0) return;
   // Running 3×3 box sums of brightness and of the count of non-excluded pixels, from three
-  // horizontal row sums kept in a ring (no full-size temporaries).
+  // horizontal row sums kept in a ring (no full-size temporaries). The loops are functions of
+  // their own, each row's arrays passed in (V8 compiles them once, not inside this one per photo).
   const rowBrightness = [new Float64Array(width), new Float64Array(width), new Float64Array(width)];
   const rowWeight = [new Float64Array(width), new Float64Array(width), new Float64Array(width)];
   const brightness = new Float64Array(width);
   const weight = new Float64Array(width);
-  const sumRow = (y: number, slot: number): void => {
-    const outB = rowBrightness[slot];
-    const outW = rowWeight[slot];
-    const row = y * width;
-    for (let x = 0; x < width; x++) {
-      const i = row + x;
-      if (status[i] === PixelStatus.excluded) {
-        brightness[x] = 0;
-        weight[x] = 0;
-      } else {
-        const r = rgb[i * 3];
-        const g = rgb[i * 3 + 1];
-        const b = rgb[i * 3 + 2];
-        brightness[x] = r > g ? (r > b ? r : b) : g > b ? g : b;
-        weight[x] = 1;
-      }
-    }
-    for (let x = 0; x < width; x++) {
-      let l = brightness[x];
-      let w = weight[x];
-      if (x > 0) {
-        l += brightness[x - 1];
-        w += weight[x - 1];
-      }
-      if (x + 1 < width) {
-        l += brightness[x + 1];
-        w += weight[x + 1];
-      }
-      outB[x] = l;
-      outW[x] = w;
-    }
-  };
-  if (height === 0) return;
-  sumRow(0, 0);
+  sumDarkRow(rgb, status, width, 0, rowBrightness[0], rowWeight[0], brightness, weight);
   for (let y = 0; y < height; y++) {
-    if (y + 1 < height) sumRow(y + 1, (y + 1) % 3);
+    if (y + 1 < height) sumDarkRow(rgb, status, width, y + 1, rowBrightness[(y + 1) % 3], rowWeight[(y + 1) % 3], brightness, weight);
     const here = y % 3;
     const above = (y + 2) % 3;
     const below = (y + 1) % 3;
-    const row = y * width;
-    for (let x = 0; x < width; x++) {
-      const i = row + x;
-      if (status[i] !== PixelStatus.ok) continue;
-      let l = rowBrightness[here][x];
-      let w = rowWeight[here][x];
-      if (y > 0) {
-        l += rowBrightness[above][x];
-        w += rowWeight[above][x];
-      }
-      if (y + 1 < height) {
-        l += rowBrightness[below][x];
-        w += rowWeight[below][x];
-      }
-      if (l < darkLuma * w) status[i] = PixelStatus.dark;
+    markDarkRow(status, y * width, width, darkLuma, rowBrightness[here], rowWeight[here], y > 0 ? rowBrightness[above] : null, y > 0 ? rowWeight[above] : null, y + 1 < height ? rowBrightness[below] : null, y + 1 < height ? rowWeight[below] : null);
+  }
+}
+
+/** Row y's horizontal 3-sums of brightness (brightest channel) and of the count of non-excluded pixels. */
+function sumDarkRow(rgb: Float32Array, status: Uint8Array, width: number, y: number, outB: Float64Array, outW: Float64Array, brightness: Float64Array, weight: Float64Array): void {
+  const row = y * width;
+  for (let x = 0; x < width; x++) {
+    const i = row + x;
+    if (status[i] === PixelStatus.excluded) {
+      brightness[x] = 0;
+      weight[x] = 0;
+    } else {
+      const r = rgb[i * 3];
+      const g = rgb[i * 3 + 1];
+      const b = rgb[i * 3 + 2];
+      brightness[x] = r > g ? (r > b ? r : b) : g > b ? g : b;
+      weight[x] = 1;
     }
+  }
+  for (let x = 0; x < width; x++) {
+    let l = brightness[x];
+    let w = weight[x];
+    if (x > 0) {
+      l += brightness[x - 1];
+      w += weight[x - 1];
+    }
+    if (x + 1 < width) {
+      l += brightness[x + 1];
+      w += weight[x + 1];
+    }
+    outB[x] = l;
+    outW[x] = w;
+  }
+}
+
+/** Marks the row's film pixels whose 3×3 mean brightness is below the limit (rows above and below: null at the photo's edge). */
+function markDarkRow(
+  status: Uint8Array,
+  row: number,
+  width: number,
+  darkLuma: number,
+  hereB: Float64Array,
+  hereW: Float64Array,
+  aboveB: Float64Array | null,
+  aboveW: Float64Array | null,
+  belowB: Float64Array | null,
+  belowW: Float64Array | null,
+): void {
+  for (let x = 0; x < width; x++) {
+    const i = row + x;
+    if (status[i] !== PixelStatus.ok) continue;
+    let l = hereB[x];
+    let w = hereW[x];
+    if (aboveB !== null) {
+      l += aboveB[x];
+      w += aboveW![x];
+    }
+    if (belowB !== null) {
+      l += belowB[x];
+      w += belowW![x];
+    }
+    if (l < darkLuma * w) status[i] = PixelStatus.dark;
   }
 }
 
