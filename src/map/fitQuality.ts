@@ -66,11 +66,16 @@ export function fitQualityOf(input: FitQualityInput): FitQuality | null {
   const photoLab = new Float64Array(3);
   const modelLab = new Float64Array(3);
   const model = new Float64Array(3);
-  let seen = 0;
+  // Every stride-th film pixel from the first (a countdown, not a division per pixel).
+  let skip = 0;
   let n = 0;
   for (let i = 0; i < status.length; i++) {
     if (status[i] !== PixelStatus.ok) continue;
-    if (seen++ % stride !== 0) continue;
+    if (skip > 0) {
+      skip--;
+      continue;
+    }
+    skip = stride - 1;
     modelColourAt(input, thicknessNm[i], model);
     encodedToLab(rgb[i * 3], rgb[i * 3 + 1], rgb[i * 3 + 2], input.encoded, photoLab);
     encodedToLab(model[0], model[1], model[2], input.encoded, modelLab);

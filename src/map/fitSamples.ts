@@ -21,11 +21,16 @@ export function sampleFitPixels(rgb: Float32Array, status: Uint8Array, pixels: n
   const candidates = new Int32Array(Math.ceil(eligible / stride));
   const binOf = new Uint16Array(candidates.length);
   const counts = new Uint32Array(BINS * BINS * BINS);
-  let seen = 0;
+  // Every stride-th eligible pixel, from the first: a countdown, not a division per pixel.
+  let skip = 0;
   let n = 0;
   for (let i = 0; i < pixels; i++) {
     if (status[i] !== PixelStatus.ok) continue;
-    if (seen++ % stride !== 0) continue;
+    if (skip > 0) {
+      skip--;
+      continue;
+    }
+    skip = stride - 1;
     const bin = (quantise(rgb[i * 3]) * BINS + quantise(rgb[i * 3 + 1])) * BINS + quantise(rgb[i * 3 + 2]);
     candidates[n] = i;
     binOf[n] = bin;

@@ -132,10 +132,16 @@ function collectSamples(input: LightEvennessInput): { us: Float64Array; vs: Floa
   const plain = new Float64Array(6);
   const inverseResponse = createResponseInverse(input.encoded ? input.response : null);
   const half = Math.max(width, height) / 2;
-  let seen = 0;
+  // Every stride-th film pixel from the first (a countdown, not a division per pixel).
+  let skip = 0;
   let n = 0;
   for (let i = 0; i < status.length; i++) {
-    if (status[i] !== PixelStatus.ok || seen++ % stride !== 0) continue;
+    if (status[i] !== PixelStatus.ok) continue;
+    if (skip > 0) {
+      skip--;
+      continue;
+    }
+    skip = stride - 1;
     const r = rgb[i * 3];
     const g = rgb[i * 3 + 1];
     const b = rgb[i * 3 + 2];

@@ -64,11 +64,16 @@ function findScaleRange(result: MapResult): ScaleRange {
   // Percentiles of at most ~500k estimates on a regular stride (plenty for a colour bar).
   const stride = Math.max(1, Math.floor(n / 500_000));
   const values = new Float32Array(Math.ceil(n / stride));
-  let seen = 0;
+  // Every stride-th estimate from the first (a countdown, not a division per pixel).
+  let skip = 0;
   let m = 0;
   for (let i = 0; i < status.length; i++) {
     if (status[i] !== PixelStatus.ok) continue;
-    if (seen++ % stride === 0) values[m++] = thicknessNm[i];
+    if (skip > 0) skip--;
+    else {
+      values[m++] = thicknessNm[i];
+      skip = stride - 1;
+    }
   }
   const sample = values.subarray(0, m);
   return roundedRange(percentileSelect(sample, 0.5), percentileSelect(sample, 99.5));

@@ -701,11 +701,16 @@ function medianOfOk(values: Float32Array, status: Uint8Array): number {
   if (ok === 0) return 0;
   const stride = Math.max(1, Math.floor(ok / 200_000));
   const sample = new Float32Array(Math.ceil(ok / stride));
-  let seen = 0;
+  // Every stride-th film pixel from the first (a countdown, not a division per pixel).
+  let skip = 0;
   let n = 0;
   for (let i = 0; i < status.length; i++) {
     if (status[i] !== PixelStatus.ok) continue;
-    if (seen++ % stride === 0) sample[n++] = values[i];
+    if (skip > 0) skip--;
+    else {
+      sample[n++] = values[i];
+      skip = stride - 1;
+    }
   }
   return percentileSelect(sample.subarray(0, n), 50);
 }
