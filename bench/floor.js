@@ -9,6 +9,8 @@
 //           1 and 2 workers (throughput ratio), in chunks of half the frames so that each worker has one.
 // Each is one child process run under GNU time (user + system CPU seconds, all threads, and the
 // peak resident memory), so node's start-up and module loading count in every figure alike.
+// Everything is measured in rounds (3; LAMELLA_BENCH_ROUNDS=N), one round after another, and
+// each figure reported as the median over the rounds with its range.
 // Photos: the demo's invented draining soap film (scripts/make-demo.js), JPEG quality 90, 4:2:0.
 // Targets (issue 18): map ≤ 3× the floor's CPU and ≤ 600 MiB; npy,json ≤ 2×; a 320×240 series
 // frame ≤ 0.25 s CPU, a 2-MP frame ≤ 0.7 s; 2 workers ≥ 1.7× the throughput of 1 on 2-MP frames.
@@ -80,63 +82,112 @@ async function seriesFrames(dir, name, count, width, height) {
   return folder;
 }
 
-export async function benchFloor({ width = 4000, height = 3000, smallFrames = 12, bigFrames = 6 } = {}) {
+/** Rounds of every measurement, interleaved (LAMELLA_BENCH_ROUNDS overrides; at least 1). */
+const ROUNDS = Math.max(1, Math.floor(Number(process.env.LAMELLA_BENCH_ROUNDS ?? 3)) || 3);
+
+/**
+ * Every measurement `rounds` times, one round after another (floor, maps, series in each round):
+ * on a shared machine single runs vary by up to a third, and a ratio taken within one round
+ * shares that round's conditions. `formatFloor` reports each figure's median over the rounds and
+ * its range.
+ */
+export async function benchFloor({ width = 4000, height = 3000, smallFrames = 12, bigFrames = 6, rounds = ROUNDS } = {}) {
   const dir = await mkdtemp(join(tmpdir(), 'lamella-bench-floor-'));
   try {
     const photo = await photoAt(dir, 'film.jpg', 8, width, height);
-    const floor = timed([SELF, '--floor', photo, join(dir, 'floor.npy')], 'floor');
-    const mapAll = timed([CLI, 'map', photo, '--stack', 'soap-film', '--out', join(dir, 'all'), '--quiet', '--threads', '1'], 'map');
-    // The same map with glibc's malloc asking for transparent huge pages (README, "Accuracy and
-    // speed"): for information, on Linux with glibc 2.35 or later; not a target.
-    const hugeEnv = { ...process.env, GLIBC_TUNABLES: HUGE_PAGES };
-    const huge = process.platform === 'linux'
-      ? {
-          floor: timed([SELF, '--floor', photo, join(dir, 'floor-huge.npy')], 'floor huge pages', hugeEnv),
-          map: timed([CLI, 'map', photo, '--stack', 'soap-film', '--out', join(dir, 'huge'), '--quiet', '--threads', '1'], 'map huge pages', hugeEnv),
-        }
-      : null;
-    const mapLean = timed([CLI, 'map', photo, '--stack', 'soap-film', '--out', join(dir, 'lean'), '--quiet', '--threads', '1', '--outputs', 'npy,json'], 'map npy,json');
-    const series = {};
-    for (const [key, frames, w, h] of [['small', smallFrames, 320, 240], ['big', bigFrames, 1632, 1224]]) {
-      const folder = await seriesFrames(dir, key, frames, w, h);
-      // Chunks of half the frames, so that two workers have a chunk each (a chunk is the unit of work).
-      const base = ['series', '--stack', 'soap-film', '--fps', '2', '--quiet', '--no-report', '--chunk-frames', String(Math.ceil(frames / 2))];
-      const one = timed([CLI, ...base, join(folder, 'f000.jpg'), '--out', join(dir, `${key}-1f`), '--workers', '1'], `series ${key} 1 frame`);
-      const all = timed([CLI, ...base, folder, '--out', join(dir, `${key}-w1`), '--workers', '1'], `series ${key}`);
-      const perFrameS = (all.cpuS - one.cpuS) / (frames - 1);
-      const two = key === 'big' ? timed([CLI, ...base, folder, '--out', join(dir, `${key}-w2`), '--workers', '2'], `series ${key} 2 workers`) : null;
-      // Two independent one-worker runs at once (information): what two processes get from this machine.
-      const pairS = key === 'big'
-        ? await wallOfPair([CLI, ...base, folder, '--out', join(dir, `${key}-pa`), '--workers', '1'], [CLI, ...base, folder, '--out', join(dir, `${key}-pb`), '--workers', '1'])
-        : null;
-      series[key] = { frames, width: w, height: h, perFrameS, wall1S: all.wallS, wall2S: two?.wallS ?? null, pairS };
-    }
-    return { width, height, floor, mapAll, huge, mapLean, series };
+    const folders = {};
+    for (const [key, frames, w, h] of [['small', smallFrames, 320, 240], ['big', bigFrames, 1632, 1224]]) folders[key] = { folder: await seriesFrames(dir, key, frames, w, h), frames, width: w, height: h };
+    const results = [];
+    for (let round = 0; round < rounds; round++) results.push(await benchRound(dir, `r${round}`, photo, folders));
+    return { width, height, rounds: results };
   } finally {
     await rm(dir, { recursive: true, force: true });
   }
 }
 
+async function benchRound(dir, tag, photo, folders) {
+  const out = (name) => join(dir, `${tag}-${name}`);
+  const floor = timed([SELF, '--floor', photo, out('floor.npy')], 'floor');
+  const mapAll = timed([CLI, 'map', photo, '--stack', 'soap-film', '--out', out('all'), '--quiet', '--threads', '1'], 'map');
+  // The same map with glibc's malloc asking for transparent huge pages (README, "Accuracy and
+  // speed"): for information, on Linux with glibc 2.35 or later; not a target.
+  const hugeEnv = { ...process.env, GLIBC_TUNABLES: HUGE_PAGES };
+  const huge = process.platform === 'linux'
+    ? {
+        floor: timed([SELF, '--floor', photo, out('floor-huge.npy')], 'floor huge pages', hugeEnv),
+        map: timed([CLI, 'map', photo, '--stack', 'soap-film', '--out', out('huge'), '--quiet', '--threads', '1'], 'map huge pages', hugeEnv),
+      }
+    : null;
+  const mapLean = timed([CLI, 'map', photo, '--stack', 'soap-film', '--out', out('lean'), '--quiet', '--threads', '1', '--outputs', 'npy,json'], 'map npy,json');
+  const series = {};
+  for (const key of ['small', 'big']) {
+    const { folder, frames, width: w, height: h } = folders[key];
+    // Chunks of half the frames, so that two workers have a chunk each (a chunk is the unit of work).
+    const base = ['series', '--stack', 'soap-film', '--fps', '2', '--quiet', '--no-report', '--chunk-frames', String(Math.ceil(frames / 2))];
+    const one = timed([CLI, ...base, join(folder, 'f000.jpg'), '--out', out(`${key}-1f`), '--workers', '1'], `series ${key} 1 frame`);
+    const all = timed([CLI, ...base, folder, '--out', out(`${key}-w1`), '--workers', '1'], `series ${key}`);
+    const perFrameS = (all.cpuS - one.cpuS) / (frames - 1);
+    const two = key === 'big' ? timed([CLI, ...base, folder, '--out', out(`${key}-w2`), '--workers', '2'], `series ${key} 2 workers`) : null;
+    // Two independent one-worker runs at once (information): what two processes get from this machine.
+    const pairS = key === 'big'
+      ? await wallOfPair([CLI, ...base, folder, '--out', out(`${key}-pa`), '--workers', '1'], [CLI, ...base, folder, '--out', out(`${key}-pb`), '--workers', '1'])
+      : null;
+    series[key] = { frames, width: w, height: h, perFrameS, wall1S: all.wallS, wall2S: two?.wallS ?? null, pairS };
+  }
+  return { floor, mapAll, huge, mapLean, series };
+}
+
+/** Median and range of `values`. */
+function spread(values) {
+  const sorted = [...values].sort((a, b) => a - b);
+  const mid = sorted.length >> 1;
+  const median = sorted.length % 2 ? sorted[mid] : (sorted[mid - 1] + sorted[mid]) / 2;
+  return { median, min: sorted[0], max: sorted[sorted.length - 1] };
+}
+
+/** "median (min–max over N rounds)" with `digits` decimals and an optional unit. */
+function told(values, digits, unit = '') {
+  const { median, min, max } = spread(values);
+  return values.length === 1 ? `${median.toFixed(digits)}${unit}` : `${median.toFixed(digits)}${unit} (${min.toFixed(digits)}–${max.toFixed(digits)})`;
+}
+
 export function formatFloor(r) {
-  const ratio = (x) => `${(x.cpuS / r.floor.cpuS).toFixed(2)}×`;
+  const rounds = r.rounds;
   const mark = (ok) => (ok ? 'meets' : 'MISSES');
-  const s = r.series;
-  const throughput = s.big.wall2S ? s.big.wall1S / s.big.wall2S : null;
-  return [
-    `photo ${r.width}×${r.height} (${((r.width * r.height) / 1e6).toFixed(0)} MP), CPU seconds (user + system, all threads), one child each`,
-    `floor (decode + 32³ table read per pixel + one float32 .npy): ${r.floor.cpuS.toFixed(2)} s CPU, peak ${r.floor.peakMiB.toFixed(0)} MiB`,
-    `map, default outputs, --threads 1: ${r.mapAll.cpuS.toFixed(2)} s CPU = ${ratio(r.mapAll)} the floor (target ≤ 3×: ${mark(r.mapAll.cpuS <= 3 * r.floor.cpuS)}), peak ${r.mapAll.peakMiB.toFixed(0)} MiB (target ≤ 600: ${mark(r.mapAll.peakMiB <= 600)})`,
-    ...(r.huge
-      ? [`with GLIBC_TUNABLES=${HUGE_PAGES} (information, no target): floor ${r.huge.floor.cpuS.toFixed(2)} s CPU, map with default outputs ${r.huge.map.cpuS.toFixed(2)} s CPU (${(r.huge.map.cpuS / r.mapAll.cpuS).toFixed(2)}× the map without; ${(r.huge.map.cpuS / r.huge.floor.cpuS).toFixed(2)}× its floor), peak ${r.huge.map.peakMiB.toFixed(0)} MiB`]
-      : []),
-    `map --outputs npy,json: ${r.mapLean.cpuS.toFixed(2)} s CPU = ${ratio(r.mapLean)} the floor (target ≤ 2×: ${mark(r.mapLean.cpuS <= 2 * r.floor.cpuS)}), peak ${r.mapLean.peakMiB.toFixed(0)} MiB`,
-    `series 320×240: ${s.small.perFrameS.toFixed(3)} s CPU per frame over ${s.small.frames} frames (target ≤ 0.25: ${mark(s.small.perFrameS <= 0.25)})`,
-    `series 2 MP: ${s.big.perFrameS.toFixed(3)} s CPU per frame over ${s.big.frames} frames (target ≤ 0.7: ${mark(s.big.perFrameS <= 0.7)})`,
-    `series 2 MP, 2 workers against 1: ${throughput === null ? '–' : `${throughput.toFixed(2)}×`} the throughput (wall ${s.big.wall1S.toFixed(1)} s → ${s.big.wall2S?.toFixed(1)} s; target ≥ 1.7×: ${mark(throughput !== null && throughput >= 1.7)})`,
-    ...(s.big.pairS
-      ? [`(information) two independent 1-worker runs of the same frames at once: ${((2 * s.big.wall1S) / s.big.pairS).toFixed(2)}× the throughput of one alone (wall ${s.big.pairS.toFixed(1)} s for both): this machine's ceiling for two workers`]
-      : []),
-  ].join('\n');
+  const med = (values) => spread(values).median;
+  const floorS = rounds.map((x) => x.floor.cpuS);
+  const allRatio = rounds.map((x) => x.mapAll.cpuS / x.floor.cpuS);
+  const leanRatio = rounds.map((x) => x.mapLean.cpuS / x.floor.cpuS);
+  const peakAll = rounds.map((x) => x.mapAll.peakMiB);
+  const small = rounds.map((x) => x.series.small.perFrameS);
+  const big = rounds.map((x) => x.series.big.perFrameS);
+  const throughput = rounds.filter((x) => x.series.big.wall2S).map((x) => x.series.big.wall1S / x.series.big.wall2S);
+  const pair = rounds.filter((x) => x.series.big.pairS).map((x) => (2 * x.series.big.wall1S) / x.series.big.pairS);
+  const s = rounds[0].series;
+  const lines = [
+    `photo ${r.width}×${r.height} (${((r.width * r.height) / 1e6).toFixed(0)} MP), CPU seconds (user + system, all threads), one child each; ` +
+      `${rounds.length} round(s) of every measurement, one after another: each figure is the median over the rounds (range in brackets), each ratio taken within its round`,
+    `floor (decode + 32³ table read per pixel + one float32 .npy): ${told(floorS, 2, ' s')} CPU, peak ${told(rounds.map((x) => x.floor.peakMiB), 0, ' MiB')}`,
+    `map, default outputs, --threads 1: ${told(rounds.map((x) => x.mapAll.cpuS), 2, ' s')} CPU = ${told(allRatio, 2, '×')} the floor (target ≤ 3×: ${mark(med(allRatio) <= 3)}), peak ${told(peakAll, 0, ' MiB')} (target ≤ 600: ${mark(med(peakAll) <= 600)})`,
+  ];
+  if (rounds[0].huge) {
+    const hugeMap = rounds.map((x) => x.huge.map.cpuS);
+    lines.push(
+      `with GLIBC_TUNABLES=${HUGE_PAGES} (information, no target): floor ${told(rounds.map((x) => x.huge.floor.cpuS), 2, ' s')} CPU, map with default outputs ${told(hugeMap, 2, ' s')} CPU (${told(rounds.map((x) => x.huge.map.cpuS / x.mapAll.cpuS), 2, '×')} the map without; ${told(rounds.map((x) => x.huge.map.cpuS / x.huge.floor.cpuS), 2, '×')} its floor), peak ${told(rounds.map((x) => x.huge.map.peakMiB), 0, ' MiB')}`,
+    );
+  }
+  lines.push(
+    `map --outputs npy,json: ${told(rounds.map((x) => x.mapLean.cpuS), 2, ' s')} CPU = ${told(leanRatio, 2, '×')} the floor (target ≤ 2×: ${mark(med(leanRatio) <= 2)}), peak ${told(rounds.map((x) => x.mapLean.peakMiB), 0, ' MiB')}`,
+    `series 320×240: ${told(small, 3, ' s')} CPU per frame over ${s.small.frames} frames (target ≤ 0.25: ${mark(med(small) <= 0.25)})`,
+    `series 2 MP: ${told(big, 3, ' s')} CPU per frame over ${s.big.frames} frames (target ≤ 0.7: ${mark(med(big) <= 0.7)})`,
+    `series 2 MP, 2 workers against 1: ${throughput.length === 0 ? '–' : told(throughput, 2, '×')} the throughput (wall ${told(rounds.map((x) => x.series.big.wall1S), 1, ' s')} → ${told(rounds.filter((x) => x.series.big.wall2S).map((x) => x.series.big.wall2S), 1, ' s')}; target ≥ 1.7×: ${mark(throughput.length > 0 && med(throughput) >= 1.7)})`,
+  );
+  if (pair.length > 0) {
+    lines.push(
+      `(information) two independent 1-worker runs of the same frames at once: ${told(pair, 2, '×')} the throughput of one alone (wall ${told(rounds.filter((x) => x.series.big.pairS).map((x) => x.series.big.pairS), 1, ' s')} for both): this machine's ceiling for two workers`,
+    );
+  }
+  return lines.join('\n');
 }
 
 if (process.argv[2] === '--floor') await floorChild(process.argv[3], process.argv[4]);
