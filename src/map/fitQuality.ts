@@ -2,7 +2,8 @@
  * How well the fitted photo-formation model explains the film's colours: the CIEDE2000 colour
  * difference (CIE 15:2004; Sharma, Wu & Dalal 2005) between each measured film pixel and the
  * model's colour at its estimated thickness, both read as sRGB (IEC 61966-2-1) under D65, on a
- * regular sample of at most 20,000 pixels; and the share of film pixels whose colour matches no
+ * regular sample (every k-th film pixel, k = ⌊film pixels / 20,000⌋, at least 1: all of them up to
+ * 40,000 film pixels, then between 20,000 and 40,000); and the share of film pixels whose colour matches no
  * thickness. The verdict thresholds are ours, set from the invented benchmark scenes: clean JPEG
  * photos of films give medians of 0.5–1.5 and 95th percentiles of 2–5; a camera picture style,
  * uneven light, a wrong light or stack give several times more.

@@ -118,7 +118,11 @@ export function lightEvennessOf(input: LightEvennessInput): LightEvenness | null
 // Each loop is its own small function: one long function with several loops, run once per photo,
 // is compiled loop by loop and thrown back to the interpreter at the next (measured: 5× slower).
 
-/** Position and log luminance ratio of up to MAX_SAMPLES film pixels; null when too few. */
+/**
+ * Position and log luminance ratio of every k-th film pixel, k = ⌊film pixels / MAX_SAMPLES⌋ (at
+ * least 1: every film pixel up to 2 × MAX_SAMPLES of them, then between MAX_SAMPLES and
+ * 2 × MAX_SAMPLES samples); null when too few.
+ */
 function collectSamples(input: LightEvennessInput): { us: Float64Array; vs: Float64Array; logs: Float64Array; n: number } | null {
   const { rgb, status, thicknessNm, width, height } = input;
   let ok = 0;
