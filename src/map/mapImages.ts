@@ -12,7 +12,7 @@
 import { composeImagePng } from '../io/composeImage.js';
 import { colourScaleBytes, SCALE_ENTRIES } from './colourScale.js';
 import { type MapResult, PixelStatus } from './types.js';
-import { percentileSelect } from './statistics.js';
+import { okValuesOnStride, percentileSelect } from './statistics.js';
 import { escapeHtml } from '../report/escapeHtml.js';
 import { poolLabels, previewGrid, samplePreview } from './previewGrid.js';
 
@@ -57,25 +57,9 @@ export function scaleRangeOf(result: MapResult): ScaleRange {
 }
 
 function findScaleRange(result: MapResult): ScaleRange {
-  const { thicknessNm, status } = result;
-  let n = 0;
-  for (let i = 0; i < status.length; i++) if (status[i] === PixelStatus.ok) n++;
-  if (n === 0) return { minNm: 0, maxNm: 100 };
-  // Percentiles of at most ~500k estimates on a regular stride (plenty for a colour bar).
-  const stride = Math.max(1, Math.floor(n / 500_000));
-  const values = new Float32Array(Math.ceil(n / stride));
-  // Every stride-th estimate from the first (a countdown, not a division per pixel).
-  let skip = 0;
-  let m = 0;
-  for (let i = 0; i < status.length; i++) {
-    if (status[i] !== PixelStatus.ok) continue;
-    if (skip > 0) skip--;
-    else {
-      values[m++] = thicknessNm[i];
-      skip = stride - 1;
-    }
-  }
-  const sample = values.subarray(0, m);
+  // Percentiles of about 500k estimates on a regular stride (plenty for a colour bar).
+  const sample = okValuesOnStride(result.thicknessNm, result.status, 500_000);
+  if (sample.length === 0) return { minNm: 0, maxNm: 100 };
   return roundedRange(percentileSelect(sample, 0.5), percentileSelect(sample, 99.5));
 }
 

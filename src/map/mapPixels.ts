@@ -34,7 +34,7 @@ import type { MatchSpace } from './matchSpace.js';
 import type { MatchScratch } from './matchColour.js';
 import { matchPixelsThreaded, scorePixelsThreaded, sharedCopy, sharedFloat32, sharedUint8 } from './pixelThreads.js';
 import { resolveOrders } from './resolveOrders.js';
-import { percentileSelect } from './statistics.js';
+import { okValuesOnStride, percentileSelect } from './statistics.js';
 import { summariseMap } from './summariseMap.js';
 import { tableLimits } from './tableLimits.js';
 import { type CameraResponse, describeResponse, isStrongResponse } from '../colour/toneResponse.js';
@@ -694,25 +694,10 @@ function fillUnresolved(
   }
 }
 
-/** Median of the values at ok pixels (on a stride of at most ~200k samples). */
+/** Median of the values at ok pixels (on a stride of about 200k samples). */
 function medianOfOk(values: Float32Array, status: Uint8Array): number {
-  let ok = 0;
-  for (let i = 0; i < status.length; i++) if (status[i] === PixelStatus.ok) ok++;
-  if (ok === 0) return 0;
-  const stride = Math.max(1, Math.floor(ok / 200_000));
-  const sample = new Float32Array(Math.ceil(ok / stride));
-  // Every stride-th film pixel from the first (a countdown, not a division per pixel).
-  let skip = 0;
-  let n = 0;
-  for (let i = 0; i < status.length; i++) {
-    if (status[i] !== PixelStatus.ok) continue;
-    if (skip > 0) skip--;
-    else {
-      sample[n++] = values[i];
-      skip = stride - 1;
-    }
-  }
-  return percentileSelect(sample.subarray(0, n), 50);
+  const sample = okValuesOnStride(values, status, 200_000);
+  return sample.length === 0 ? 0 : percentileSelect(sample, 50);
 }
 
 /**

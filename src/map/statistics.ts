@@ -198,6 +198,31 @@ export function percentileSorted(sorted: ArrayLike<number>, percent: number): nu
 }
 
 /**
+ * The values at ok pixels on a regular stride (every k-th from the first, k = ⌊ok pixels / cap⌋,
+ * at least 1), copied into a new array; empty when no pixel is ok. For percentiles of a large map
+ * where a regular sample does (the colour bar's range, the median colour cost).
+ */
+export function okValuesOnStride(values: Float32Array, status: Uint8Array, cap: number): Float32Array {
+  let ok = 0;
+  for (let i = 0; i < status.length; i++) if (status[i] === PixelStatus.ok) ok++;
+  if (ok === 0) return new Float32Array(0);
+  const stride = Math.max(1, Math.floor(ok / cap));
+  const sample = new Float32Array(Math.ceil(ok / stride));
+  // A countdown, not a division per pixel.
+  let skip = 0;
+  let n = 0;
+  for (let i = 0; i < status.length; i++) {
+    if (status[i] !== PixelStatus.ok) continue;
+    if (skip > 0) skip--;
+    else {
+      sample[n++] = values[i];
+      skip = stride - 1;
+    }
+  }
+  return sample.subarray(0, n);
+}
+
+/**
  * Percentile (0–100), Hyndman & Fan type 7, of unsorted values by selection (Floyd & Rivest
  * style partitioning, O(n)); reorders `values` in place.
  */
