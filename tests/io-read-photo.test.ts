@@ -40,6 +40,50 @@ describe('readPhoto() pixel values and bit depth', () => {
     expect(photo.orientationApplied).toBe(1);
   });
 
+  it('8-bit RGB keeps its codes; the floats are made on first read, in shared memory, exactly code/255 as float32, and can be replaced', async () => {
+    const path = join(dir, 'codes8.png');
+    const data = [255, 0, 0, 0, 128, 255, 10, 20, 30, 7, 7, 7];
+    await raw8(data, 2, 2, 3).png().toFile(path);
+    const photo = await readPhoto(path);
+    expect(photo.codes).toBeInstanceOf(Uint8Array);
+    expect(Array.from(photo.codes!)).toEqual(data);
+    // Read twice: the same array (made once and kept).
+    expect(photo.rgb).toBe(photo.rgb);
+    expect(photo.rgb.buffer).toBeInstanceOf(SharedArrayBuffer);
+    expect(Array.from(photo.rgb)).toEqual(data.map((v) => Math.fround(v / 255)));
+    // Spread like any property (the floats come along).
+    expect({ ...photo }.rgb).toBe(photo.rgb);
+    const replaced = new Float32Array(12).fill(0.5);
+    photo.rgb = replaced;
+    expect(photo.rgb).toBe(replaced);
+  });
+
+  it('alpha and 16-bit sources are held as floats only (no codes); an 8-bit grey source, expanded to RGB, keeps codes', async () => {
+    const grey = join(dir, 'grey8-codes.png');
+    await raw8([0, 128, 255, 7], 2, 2, 1).png().toFile(grey);
+    const greyPhoto = await readPhoto(grey);
+    expect(Array.from(greyPhoto.codes!)).toEqual([0, 0, 0, 128, 128, 128, 255, 255, 255, 7, 7, 7]);
+    expect(greyPhoto.isGrey).toBe(true);
+    const alpha = join(dir, 'rgba8-codes.png');
+    await raw8([255, 0, 0, 255, 0, 128, 255, 128], 2, 1, 4).png().toFile(alpha);
+    const deep = join(dir, 'rgb16-codes.png');
+    await sharp(Uint16Array.from([0, 1, 257, 65535, 30000, 30001]), { raw: { width: 2, height: 1, channels: 3 } }).toColourspace('rgb16').png().toFile(deep);
+    for (const path of [alpha, deep]) {
+      const photo = await readPhoto(path);
+      expect(photo.codes, path).toBeUndefined();
+      expect(photo.rgb.length).toBe(photo.width * photo.height * 3);
+    }
+  });
+
+  it('an 8-bit RGB photo whose pixels are all grey is grey; one coloured pixel at the end makes it colour', async () => {
+    const allGrey = join(dir, 'allgrey-rgb.png');
+    await raw8([9, 9, 9, 200, 200, 200, 0, 0, 0, 31, 31, 31], 2, 2, 3).png().toFile(allGrey);
+    expect((await readPhoto(allGrey)).isGrey).toBe(true);
+    const lastColoured = join(dir, 'lastcoloured-rgb.png');
+    await raw8([9, 9, 9, 200, 200, 200, 0, 0, 0, 31, 31, 32], 2, 2, 3).png().toFile(lastColoured);
+    expect((await readPhoto(lastColoured)).isGrey).toBe(false);
+  });
+
   it('16-bit PNG is read at 16 bits: values are code/65535, distinct codes within one 8-bit step stay distinct', async () => {
     const path = join(dir, 'rgb16.png');
     const codes = [0, 1, 257, 65535, 30000, 30001];

@@ -23,6 +23,7 @@ import { createColourMemo, matchPixelRows, releaseColourMemo, scorePixelRows, ty
 import { PixelStatus } from '../src/map/types.js';
 import { resolveStack } from '../src/optics/index.js';
 import { renderDemoFrame } from '../scripts/make-demo.js';
+import { codePixels, floatPixels, pixelFloats } from '../src/map/photoPixels.js';
 
 function bytes(values: Float32Array | Uint8Array): Buffer {
   return Buffer.from(values.buffer, values.byteOffset, values.byteLength);
@@ -41,6 +42,13 @@ describe('colour memo of the pixel pass', () => {
     const options = { stack: resolveStack('soap-film'), angleRad: 0, light: 'D65', thinBelowNm: 50, maxThicknessNm: 2000, threads: 1 };
     const remembered = mapDecodedPhoto(photo, options, null, 'demo-frame.jpg');
     const afresh = mapDecodedPhoto({ ...photo, bitDepth: 16 }, options, null, 'demo-frame.jpg');
+    // The reader kept the JPEG's 8-bit codes, which the mapper reads (./photoPixels.ts); the same
+    // photo held as floats, its memo keyed by the values, gives the same map.
+    expect(photo.codes).toBeInstanceOf(Uint8Array);
+    const asFloats = mapDecodedPhoto({ ...photo, codes: undefined }, options, null, 'demo-frame.jpg');
+    expect(bytes(asFloats.thicknessNm).equals(bytes(remembered.thicknessNm))).toBe(true);
+    expect(bytes(asFloats.confidence).equals(bytes(remembered.confidence))).toBe(true);
+    expect(bytes(asFloats.status).equals(bytes(remembered.status))).toBe(true);
     expect(remembered.stats.coverage).toBeGreaterThan(0.8);
     expect(bytes(remembered.thicknessNm).equals(bytes(afresh.thicknessNm))).toBe(true);
     expect(bytes(remembered.confidence).equals(bytes(afresh.confidence))).toBe(true);
@@ -57,9 +65,9 @@ describe('colour memo of the pixel pass', () => {
     for (let i = 0; i < scene.width * scene.height; i++) {
       const start = Math.round(scene.gridPosition[i]);
       if (!(start >= 0)) continue;
-      const r = scene.rgb[i * 3];
-      const g = scene.rgb[i * 3 + 1];
-      const b = scene.rgb[i * 3 + 2];
+      const r = scene.rgb.values[i * 3];
+      const g = scene.rgb.values[i * 3 + 1];
+      const b = scene.rgb.values[i * 3 + 2];
       if (Math.abs(walkDownhill(scene.predictedRgb, scene.count, r, g, b, start) - start) === MAX_WALK) cut++;
       else finished++;
     }
@@ -90,6 +98,32 @@ describe('colour memo of the pixel pass', () => {
     expect(reference.status.some((s) => s === PixelStatus.ok)).toBe(true);
     expect(reference.poor).toBeGreaterThan(0);
     expect(reference.out.alternativeCost.some((c) => Number.isFinite(c))).toBe(true);
+  });
+
+  it('gives the same arrays for an 8-bit photo read as its codes as for the same photo held as floats', () => {
+    const scene = helixScene();
+    // The scene's colours put on 8-bit codes (its off-level pixels rounded to the nearest code).
+    const codes = Uint8Array.from(scene.rgb.values, (v) => Math.round(v * 255));
+    const asCodes = { ...scene, rgb: codePixels(codes) };
+    const asFloats = { ...scene, rgb: floatPixels(pixelFloats(codePixels(codes))) };
+    expect(asFloats.rgb.values[3]).toBe(Math.fround(codes[3] / 255));
+    const reference = runPass(asFloats, null, [[0, scene.height]]);
+    const floatMemo = createColourMemo(scene.count)!;
+    const codeMemo = createColourMemo(scene.count)!;
+    const viaValues = runPass(asFloats, floatMemo, [[0, scene.height]]);
+    const viaCodes = runPass(asCodes, codeMemo, [
+      [0, 37],
+      [37, scene.height],
+    ]);
+    expect(codeMemo.entries).toBe(floatMemo.entries);
+    for (const run of [viaValues, viaCodes]) {
+      expect(run.counts).toEqual(reference.counts);
+      expect(bytes(run.status).equals(bytes(reference.status))).toBe(true);
+      expect(bytes(run.out.thicknessNm).equals(bytes(reference.out.thicknessNm))).toBe(true);
+      expect(bytes(run.out.alternativeCost).equals(bytes(reference.out.alternativeCost))).toBe(true);
+      expect(bytes(run.confidence).equals(bytes(reference.confidence))).toBe(true);
+    }
+    expect(reference.status.some((s) => s === PixelStatus.ok)).toBe(true);
   });
 
   it('gives the same arrays with a memo made from the buffers an earlier pass on another table released', () => {
@@ -140,7 +174,7 @@ describe('colour memo of the pixel pass', () => {
     }
     const noise = { sigmaByLuma: new Float32Array(16).map((_, k) => 0.002 + 0.0007 * k), sigma: 0.004 };
     const score = (y0: number, y1: number, out: PixelPassOutput, status: Uint8Array) =>
-      scorePixelRows({ rgb, width: 1, status, noise, medianCost: 2e-4, modelSlack: 3 * (2 / 255) ** 2 }, out, y0, y1);
+      scorePixelRows({ rgb: floatPixels(rgb), width: 1, status, noise, medianCost: 2e-4, modelSlack: 3 * (2 / 255) ** 2 }, out, y0, y1);
     const together = { thicknessNm: new Float32Array(height), cost: cost.slice(), alternativeCost: alternativeCost.slice() };
     const togetherStatus = new Uint8Array(height);
     const poorTogether = score(0, height, together, togetherStatus);
@@ -201,7 +235,7 @@ function helixScene(): Scene {
   }
   const space = { matrix: Float64Array.from([0.8, 0.1, 0.1, 0.2, 0.6, 0.2, 0.1, 0.3, 0.6]), offset: new Float64Array(3) };
   return {
-    rgb,
+    rgb: floatPixels(rgb),
     width,
     height,
     status,

@@ -8,6 +8,7 @@ import { describe, expect, it } from 'vitest';
 import { decodeSrgb, encodeSrgb } from '../src/colour/srgb.js';
 import { type CameraResponse, LUMA_BT601, toneAt } from '../src/colour/toneResponse.js';
 import { evenOutLight } from '../src/map/evenOutLight.js';
+import { codePixels, floatPixels, pixelFloats } from '../src/map/photoPixels.js';
 
 /** The exact chain for one pixel (the reference): T⁻¹ found by bisection of the formula. */
 function exactPixel(rgb: readonly number[], gain: number, flare: readonly number[], response: CameraResponse | null): number[] {
@@ -33,6 +34,12 @@ function exactPixel(rgb: readonly number[], gain: number, flare: readonly number
   const luma2 = lr * toned[0] + lg * toned[1] + lb * toned[2];
   return toned.map((t) => clamp(luma2 + s * (t - luma2)));
 }
+
+/** evenOutLight on a photo held as floats, its result as floats (../src/map/photoPixels.ts). */
+function evenedFloats(photo: Float32Array, ...rest: DropFirst<Parameters<typeof evenOutLight>>): Float32Array {
+  return pixelFloats(evenOutLight(floatPixels(photo), ...rest));
+}
+type DropFirst<T extends unknown[]> = T extends [unknown, ...infer R] ? R : never;
 
 /** An 8-bit photo of smooth colour bands, lifted in blocks, with runs of repeated colours (as a film's photo has). */
 function bandedPhoto(width: number, height: number): Float32Array {
@@ -79,7 +86,7 @@ describe('evenOutLight against the exact formulas (IEC 61966-2-1 sRGB, the tone-
   for (const response of [null, STYLE]) {
     const name = response ? 'with a picture style' : 'without a response';
     it(`${name}: continuous output within 2e-4 of the exact chain at every pixel`, () => {
-      const evened = evenOutLight(photo, width, height, FIELD, FLARE, null, response, false);
+      const evened = evenedFloats(photo, width, height, FIELD, FLARE, null, response, false);
       let worst = 0;
       for (let y = 0; y < height; y++) {
         for (let x = 0; x < width; x++) {
@@ -96,7 +103,7 @@ describe('evenOutLight against the exact formulas (IEC 61966-2-1 sRGB, the tone-
     });
 
     it(`${name}: on 8-bit codes, every value within one code of the exact chain rounded, 99 % on it`, () => {
-      const evened = evenOutLight(photo, width, height, FIELD, FLARE, null, response, true);
+      const evened = evenedFloats(photo, width, height, FIELD, FLARE, null, response, true);
       let off = 0;
       let worst = 0;
       for (let y = 0; y < height; y++) {
@@ -118,13 +125,27 @@ describe('evenOutLight against the exact formulas (IEC 61966-2-1 sRGB, the tone-
   }
 
   it('a flat field with no flare and no response gives an 8-bit photo back unchanged', () => {
-    const evened = evenOutLight(photo, width, height, [0, 0, 0, 0, 0, 0, 0], [0, 0, 0], null, null, true);
+    const evened = evenedFloats(photo, width, height, [0, 0, 0, 0, 0, 0, 0], [0, 0, 0], null, null, true);
     expect(Array.from(evened)).toEqual(Array.from(photo));
+  });
+
+  it('an 8-bit photo read as its codes is evened to the same values as the same photo held as floats', () => {
+    const codes = Uint8Array.from(photo, (v) => Math.round(v * 255));
+    expect(pixelFloats(codePixels(codes))).toEqual(photo);
+    for (const response of [null, STYLE]) {
+      for (const eightBit of [false, true]) {
+        const fromCodes = evenOutLight(codePixels(codes), width, height, FIELD, FLARE, [-0.3, 0.3], response, eightBit);
+        const fromFloats = evenOutLight(floatPixels(photo), width, height, FIELD, FLARE, [-0.3, 0.3], response, eightBit);
+        // Put back on codes, the result is held as codes; otherwise as floats.
+        expect(fromCodes.codes !== null).toBe(eightBit);
+        expect(pixelFloats(fromCodes)).toEqual(pixelFloats(fromFloats));
+      }
+    }
   });
 
   it('the clamp holds the log gain within its range', () => {
     // Clamped to [0, 0]: no gain at all anywhere, whatever the surface says.
-    const evened = evenOutLight(photo, width, height, FIELD, [0, 0, 0], [0, 0], null, true);
+    const evened = evenedFloats(photo, width, height, FIELD, [0, 0, 0], [0, 0], null, true);
     expect(Array.from(evened)).toEqual(Array.from(photo));
   });
 });

@@ -26,6 +26,7 @@ import { resolveStack } from '../src/optics/index.js';
 import { renderMapReport } from '../src/report/index.js';
 import { mapOptionsFromConfig } from '../src/series/mapFrameProcessor.js';
 import { settingsHash } from '../src/series/settingsHash.js';
+import { floatPixels } from '../src/map/photoPixels.js';
 
 const W = 40;
 const H = 30;
@@ -64,7 +65,7 @@ function handMadeResult(extra: Partial<MapResult> = {}): MappedPhoto {
     thicknessNm,
     confidence,
     status,
-    photoRgb,
+    photoPixels: floatPixels(photoRgb),
     fitted: { exposure: 1, whiteBalance: [1, 1, 1], flare: [0, 0, 0] },
     stats: {
       mean_nm: 400, median_nm: 400, std_nm: 80, min_nm: 300, max_nm: 590, p05_nm: 310, p95_nm: 580,
@@ -227,7 +228,7 @@ describe('flags PNG: the film area outlined', () => {
     const labels = new Int32Array(W * H);
     // A thin region (invented) inside the film: 6 × 6 px at x 18..23, y 10..15.
     for (let y = 10; y < 16; y++) for (let x = 18; x < 24; x++) labels[y * W + x] = 1;
-    const img = await decode(await renderFlagsPng(result.photoRgb!, W, H, labels, result.status));
+    const img = await decode(await renderFlagsPng(result.photoPixels!, W, H, labels, result.status));
     const photo: [number, number, number] = [128, 77, 51];
     const edge = filmEdge(result.status, W, H);
     const dashes = new Set<string>();
@@ -251,7 +252,7 @@ describe('flags PNG: the film area outlined', () => {
 
   it('draws no film outline when the whole photo is film', async () => {
     const result = handMadeResult({ status: new Uint8Array(W * H) });
-    const img = await decode(await renderFlagsPng(result.photoRgb!, W, H, new Int32Array(W * H), result.status));
+    const img = await decode(await renderFlagsPng(result.photoPixels!, W, H, new Int32Array(W * H), result.status));
     for (let i = 0; i < W * H; i++) expect(pixel(img, i % W, Math.floor(i / W))).toEqual([128, 77, 51]);
   });
 });

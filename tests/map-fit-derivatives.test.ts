@@ -28,6 +28,7 @@ import { readPhotoBytes } from '../src/io/readPhoto.js';
 import { sampleFitPixels } from '../src/map/fitSamples.js';
 import { chromaWeightFor } from '../src/map/matchSpace.js';
 import { distinctColourCount, fitPhotoFormation, type InnerProblem } from '../src/map/fitPhotoFormation.js';
+import { pixelsOfPhoto } from '../src/map/photoPixels.js';
 
 const soap = buildColourTable({ stack: resolveStack('soap-film'), angleRad: 0, light: 'D65', maxThicknessNm: 2000 }).table;
 
@@ -171,7 +172,7 @@ describe('the photo-formation fit: its Jacobian is the derivative of its model',
       .toBuffer();
     const photo = await readPhotoBytes(new Uint8Array(jpeg), 'demo.jpg');
     const pixels = photo.width * photo.height;
-    const rgb = sampleFitPixels(photo.rgb, new Uint8Array(pixels), pixels, 2000, false);
+    const rgb = sampleFitPixels(pixelsOfPhoto(photo), new Uint8Array(pixels), pixels, 2000, false);
     const space = matchSpace(chromaWeightFor(photo.format, photo.chromaSubsampling))!;
     expect(space).not.toBeNull();
     const samples = toMatchSpace(space, rgb, new Float32Array(rgb.length));

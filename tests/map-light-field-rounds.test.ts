@@ -6,6 +6,7 @@
 import { describe, expect, it } from 'vitest';
 import { type LightFieldPreview, mapWithLightField } from '../src/map/lightField.js';
 import type { ExposureParameters, MapResult } from '../src/map/types.js';
+import { floatPixels, type PhotoPixels } from '../src/map/photoPixels.js';
 
 const FITTED: ExposureParameters = { exposure: 1, whiteBalance: [1, 1, 1], flare: [0, 0, 0], response: null };
 
@@ -24,8 +25,8 @@ function fakeMap(width: number, height: number, found: boolean, ratio: number, s
 }
 
 /** A photo of `width` × `height` mid-grey pixels (the doubles do not read them). */
-function grey(width: number, height: number): Float32Array {
-  return new Float32Array(width * height * 3).fill(0.5);
+function grey(width: number, height: number): PhotoPixels {
+  return floatPixels(new Float32Array(width * height * 3).fill(0.5));
 }
 
 const STEP = [0.1, -0.2, 0, 0, 0, 0, 0];

@@ -38,6 +38,7 @@ import type { ExposureParameters, MapOptions, MapResult } from '../src/map/types
 import { resolveStack } from '../src/optics/index.js';
 import { scoreMap } from './map-scenes.js';
 import { asCameraJpeg, EVERYDAY_STYLE, oxideWaferNm, soapFilmNm, stepKnown, stepWaferNm, takePhoto, type Take } from './response-scenes.js';
+import { floatPixels, pixelFloats } from '../src/map/photoPixels.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'lamella-response-'));
 
@@ -151,10 +152,10 @@ describe('the sRGB transfer function the response sits behind (IEC 61966-2-1:199
     const plain = Float32Array.from([0.2, 0.4, 0.6, 0.5, 0.5, 0.5, 0.7, 0.3, 0.25, 0.35, 0.6, 0.45]);
     rgb.set(plain);
     applyResponse(rgb, 4, response);
-    const evened = evenOutLight(rgb, 2, 2, [0, 0, 0, 0, 0, 0], [0.01, 0.01, 0.01], null, response);
+    const evened = pixelFloats(evenOutLight(floatPixels(rgb), 2, 2, [0, 0, 0, 0, 0, 0], [0.01, 0.01, 0.01], null, response));
     for (let i = 0; i < rgb.length; i++) expect(Math.abs(evened[i] - rgb[i])).toBeLessThan(5e-4);
     // A gain of 2 divided out acts in linear light, before the response.
-    const halved = evenOutLight(rgb, 2, 2, [Math.log(2), 0, 0, 0, 0, 0], [0, 0, 0], null, response);
+    const halved = pixelFloats(evenOutLight(floatPixels(rgb), 2, 2, [Math.log(2), 0, 0, 0, 0, 0], [0, 0, 0], null, response));
     const expected = Float32Array.from(plain, (v) => encodeSrgb(decodeSrgb(v) / 2));
     applyResponse(expected, 4, response);
     for (let i = 0; i < rgb.length; i++) expect(Math.abs(halved[i] - expected[i])).toBeLessThan(5e-4);

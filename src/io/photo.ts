@@ -21,6 +21,12 @@ export interface Photo {
    * allocates it in a SharedArrayBuffer (the mapper's threads read it in place).
    */
   rgb: Float32Array;
+  /**
+   * 8-bit RGB photos without alpha: the decoded codes (interleaved, 0..255), which the mapper reads
+   * in place of `rgb`. readPhoto() then makes `rgb` on first use (a 12-MP photo is 36 MB as codes,
+   * 144 MB as floats).
+   */
+  codes?: Uint8Array;
   bitDepth: 8 | 16;
   /** Decoder that read the content: 'jpeg' | 'png' | 'tiff' | 'webp' | … (sniffed, not the suffix). */
   format: string;

@@ -1,5 +1,7 @@
 /**
- * Decodes a photograph into upright, interleaved RGB floats scaled 0..1.
+ * Decodes a photograph into upright, interleaved RGB floats scaled 0..1. An 8-bit RGB photo (the
+ * common case) keeps its decoded codes as well (`photo.codes`), which the mapper reads directly;
+ * its floats are then made on first read of `photo.rgb`.
  *
  * - EXIF orientation is applied (codec auto-orient); the value applied is reported.
  * - 16-bit PNG/TIFF are read at 16 bits (values / 65535); everything else at 8 bits (/ 255).
@@ -37,21 +39,40 @@ export async function readPhotoBytes(bytes: Uint8Array, name: string, options: R
   return decodePhoto(Buffer.isBuffer(bytes) ? bytes : Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength), name, options);
 }
 
-/** 8-bit RGB into `rgb` (the common case, in a tight loop through a table of the 256 levels); true when every pixel is grey (r = g = b). */
-function expandRgb8(samples: Uint8Array, rgb: Float32Array, pixelCount: number, scale: number): boolean {
-  const level = new Float32Array(256);
-  for (let v = 0; v < 256; v++) level[v] = v * scale;
-  let differ = 0;
+/** True when every pixel of interleaved 8-bit RGB is grey (r = g = b); stops at the first that is not. */
+function allGrey8(samples: Uint8Array, pixelCount: number): boolean {
   for (let i = 0, n = pixelCount * 3; i < n; i += 3) {
-    const r = samples[i];
-    const g = samples[i + 1];
-    const b = samples[i + 2];
-    differ |= (r ^ g) | (g ^ b);
-    rgb[i] = level[r];
-    rgb[i + 1] = level[g];
-    rgb[i + 2] = level[b];
+    if (samples[i] !== samples[i + 1] || samples[i + 1] !== samples[i + 2]) return false;
   }
-  return differ === 0;
+  return true;
+}
+
+/** 8-bit RGB codes as floats 0..1 (through a table of the 256 levels), in a SharedArrayBuffer. */
+function expandRgb8(samples: Uint8Array, pixelCount: number): Float32Array {
+  const rgb = new Float32Array(new SharedArrayBuffer(pixelCount * 3 * 4));
+  const level = new Float32Array(256);
+  const scale = 1 / 255;
+  for (let v = 0; v < 256; v++) level[v] = v * scale;
+  for (let i = 0, n = pixelCount * 3; i < n; i++) rgb[i] = level[samples[i]];
+  return rgb;
+}
+
+/**
+ * Gives `photo` its codes and an `rgb` made from them on first read (and kept), or set by
+ * assignment: the mapper reads the codes (../map/photoPixels.ts), and a 12-MP photo's floats
+ * (144 MB) are made only for code that asks for them.
+ */
+function keepCodes(photo: Photo, codes: Uint8Array): void {
+  let rgb: Float32Array | null = null;
+  photo.codes = codes;
+  Object.defineProperty(photo, 'rgb', {
+    enumerable: true,
+    configurable: true,
+    get: (): Float32Array => (rgb ??= expandRgb8(codes, photo.width * photo.height)),
+    set: (value: Float32Array): void => {
+      rgb = value;
+    },
+  });
 }
 
 /** Any other layout (grey, alpha, 16 bit) into `rgb` and `alpha`; true when every opaque pixel is grey. */
@@ -147,14 +168,14 @@ async function decodePhoto(bytes: Buffer | string, path: string, options: ReadPh
   const scale = is16 ? 1 / 65535 : 1 / 255;
   const colourChannels = channels === 2 || channels === 4 ? channels - 1 : channels;
   const hasAlpha = channels === 2 || channels === 4;
-  // In a SharedArrayBuffer, so that the mapper's pixel threads read it without a copy.
-  const rgb = new Float32Array(new SharedArrayBuffer(pixelCount * 3 * 4));
+  // 8-bit RGB (the common case) keeps its codes; anything else becomes floats now. The floats
+  // live in a SharedArrayBuffer, so that the mapper's pixel threads read them without a copy.
+  const codes = !is16 && channels === 3 ? (samples as Uint8Array) : null;
+  const rgb = codes ? new Float32Array(0) : new Float32Array(new SharedArrayBuffer(pixelCount * 3 * 4));
   const alpha = hasAlpha ? new Float32Array(pixelCount) : undefined;
   // The loops are functions of their own: in this long async function V8 compiled them on the
   // fly (on-stack replacement) for every photo of a series, with all of decodePhoto around them.
-  const allEqual = !is16 && channels === 3
-    ? expandRgb8(samples as Uint8Array, rgb, pixelCount, scale)
-    : expandSamples(samples, rgb, alpha, pixelCount, channels, colourChannels, hasAlpha, scale);
+  const allEqual = codes ? allGrey8(codes, pixelCount) : expandSamples(samples, rgb, alpha, pixelCount, channels, colourChannels, hasAlpha, scale);
   const orientation = typeof meta.orientation === 'number' && meta.orientation >= 1 && meta.orientation <= 8 ? meta.orientation : 1;
   const photo: Photo = {
     width,
@@ -167,6 +188,7 @@ async function decodePhoto(bytes: Buffer | string, path: string, options: ReadPh
     orientationApplied: orientation,
     exif: parseExifTime(meta.exif),
   };
+  if (codes) keepCodes(photo, codes);
   if (typeof meta.chromaSubsampling === 'string') photo.chromaSubsampling = meta.chromaSubsampling;
   if (typeof meta.pages === 'number' && meta.pages > 1 && options.page === undefined) {
     // Only the first page is decoded; say so, since a stack of frames may hide in one file.

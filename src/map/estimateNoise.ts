@@ -10,6 +10,7 @@
  */
 import { selectKth } from './statistics.js';
 import { lumaOf } from './tableLimits.js';
+import { type PhotoPixels, valueAt } from './photoPixels.js';
 
 export const NOISE_BINS = 16;
 
@@ -20,7 +21,7 @@ export interface NoiseProfile {
   readonly sigma: number;
 }
 
-export function estimateNoise(rgb: Float32Array, width: number, height: number, film: Uint8Array): NoiseProfile {
+export function estimateNoise(rgb: PhotoPixels, width: number, height: number, film: Uint8Array): NoiseProfile {
   const floor = 1 / 255 / Math.sqrt(12); // an 8-bit photo cannot be known better than a step/√12
   const pairs = width > 2 ? (width - 2) * height : 0;
   const stride = Math.max(1, Math.floor(pairs / 400_000));
@@ -34,8 +35,8 @@ export function estimateNoise(rgb: Float32Array, width: number, height: number, 
     const i = y * width + x;
     if (!film[i - 1] || !film[i] || !film[i + 1]) continue;
     const a = i * 3;
-    diffs[n] = Math.abs(rgb[a - 2] - 2 * rgb[a + 1] + rgb[a + 4]);
-    const luma = lumaOf(rgb[a], rgb[a + 1], rgb[a + 2]);
+    diffs[n] = Math.abs(valueAt(rgb, a - 2) - 2 * valueAt(rgb, a + 1) + valueAt(rgb, a + 4));
+    const luma = lumaOf(valueAt(rgb, a), valueAt(rgb, a + 1), valueAt(rgb, a + 2));
     bins[n] = Math.min(NOISE_BINS - 1, Math.floor(luma * NOISE_BINS));
     n++;
   }

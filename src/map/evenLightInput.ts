@@ -3,10 +3,11 @@
  * own so that the pixel threads (./pixelThreads.ts) can carry it without importing the evening.
  */
 import type { CameraResponse } from '../colour/toneResponse.js';
+import type { PhotoPixels } from './photoPixels.js';
 
 /** What evening needs besides the output (the photo's arrays in shared memory when threaded). */
 export interface EvenLightInput {
-  readonly rgb: Float32Array;
+  readonly rgb: PhotoPixels;
   readonly width: number;
   readonly height: number;
   /** The field's (./lightEvenness.ts: a quadratic in position plus r⁴, in fractions of the photo's half long side about its centre). */

@@ -11,7 +11,8 @@
  * interpolation), with no call per value: a 12-MP photo is evened in a fraction of a second.
  */
 import { SRGB_TABLE_SIZE, srgbDecodeTable, srgbEncodeTable } from '../colour/srgbEncoderTable.js';
-import { evenRowsThreaded, sharedCopy } from './pixelThreads.js';
+import { evenRowsThreaded } from './pixelThreads.js';
+import { codePixels, floatPixels, type PhotoPixels, sharedPixels } from './photoPixels.js';
 import type { EvenLightInput } from './evenLightInput.js';
 import { type CameraResponse, INVERSE_SIZE, isIdentityResponse, LUMA_BT601, responseTables, TONE_TABLE_SIZE, toneAt } from '../colour/toneResponse.js';
 
@@ -24,12 +25,13 @@ const LB = LUMA_BT601[2];
 const MIN_THREADED_PIXELS = 1_000_000;
 
 /**
- * The photo with the field's gain divided out (a copy in shared memory, for the mapper's threads).
- * With `threads` > 1, a large photo's rows are shared with the pixel pass's helper threads
- * (./pixelThreads.ts); every row is computed alone, so the result is the same whatever the count.
+ * The photo with the field's gain divided out (a copy in shared memory, for the mapper's threads):
+ * on 8-bit codes with `eightBit` (./photoPixels.ts), else as floats. With `threads` > 1, a large
+ * photo's rows are shared with the pixel pass's helper threads (./pixelThreads.ts); every row is
+ * computed alone, so the result is the same whatever the count.
  */
 export function evenOutLight(
-  rgb: Float32Array,
+  rgb: PhotoPixels,
   width: number,
   height: number,
   logGainCoefficients: readonly number[],
@@ -38,10 +40,10 @@ export function evenOutLight(
   response: CameraResponse | null = null,
   eightBit = false,
   threads = 1,
-): Float32Array {
-  const out = new Float32Array(new SharedArrayBuffer(rgb.length * 4));
+): PhotoPixels {
+  const out = eightBit ? codePixels(new Uint8Array(new SharedArrayBuffer(rgb.length))) : floatPixels(new Float32Array(new SharedArrayBuffer(rgb.length * 4)));
   if (threads > 1 && width * height >= MIN_THREADED_PIXELS) {
-    const input: EvenLightInput = { rgb: sharedCopy(rgb), width, height, logGainCoefficients: [...logGainCoefficients], flare: [...flare], clamp, response, eightBit };
+    const input: EvenLightInput = { rgb: sharedPixels(rgb), width, height, logGainCoefficients: [...logGainCoefficients], flare: [...flare], clamp, response, eightBit };
     evenRowsThreaded(input, out, threads, (y0, y1) => evenOutLightRows(input, out, y0, y1));
   } else {
     evenOutLightRows({ rgb, width, height, logGainCoefficients, flare, clamp, response, eightBit }, out, 0, height);
@@ -49,8 +51,12 @@ export function evenOutLight(
   return out;
 }
 
-/** Rows [y0, y1) of the evened photo into `out`; returns the rows done. */
-export function evenOutLightRows(input: EvenLightInput, out: Float32Array, y0: number, y1: number): number {
+/**
+ * Rows [y0, y1) of the evened photo into `out`; returns the rows done. A row of codes is read
+ * through a float copy of the row, and a row put on codes is written to one first: the row loops
+ * below then read and write floats only.
+ */
+export function evenOutLightRows(input: EvenLightInput, out: PhotoPixels, y0: number, y1: number): number {
   const { rgb, width, height, flare, clamp, response } = input;
   const c = input.logGainCoefficients;
   const half = Math.max(width, height) / 2;
@@ -80,14 +86,32 @@ export function evenOutLightRows(input: EvenLightInput, out: Float32Array, y0: n
   const quantise = input.eightBit ? 255 : 0;
   const triple = new Float64Array(3);
   const linearTriple = new Float64Array(3);
+  const fromRow = rgb.codes !== null ? new Float32Array(width * 3) : null;
+  const toRow = out.codes !== null ? new Float32Array(width * 3) : null;
   for (let y = y0; y < y1; y++) {
     const v = (y + 0.5 - height / 2) / half;
     inverseGainRow(us, colTerm, c[0] + c[2] * v + c[5] * v * v, c[4] * v, v, r4, lo, hi, stride, inverse);
     const offset = y * width * 3;
-    if (tables) styledRow(rgb, out, offset, width, inverse, f0, f1, f2, decode, encode, tables.inverseTone, tables.tone, 1 / saturation, saturation, contrast, gamma, quantise, triple, linearTriple);
-    else plainRow(rgb, out, offset, width, inverse, f0, f1, f2, decode, encode, quantise);
+    if (fromRow !== null) codesToFloats(rgb.codes!, rgb.levels, offset, fromRow);
+    const from = fromRow ?? rgb.values;
+    const to = toRow ?? out.values;
+    const fromAt = fromRow !== null ? 0 : offset;
+    const toAt = toRow !== null ? 0 : offset;
+    if (tables) styledRow(from, fromAt, to, toAt, width, inverse, f0, f1, f2, decode, encode, tables.inverseTone, tables.tone, 1 / saturation, saturation, contrast, gamma, quantise, triple, linearTriple);
+    else plainRow(from, fromAt, to, toAt, width, inverse, f0, f1, f2, decode, encode, quantise);
+    if (toRow !== null) floatsToCodes(toRow, out.codes!, offset);
   }
   return y1 - y0;
+}
+
+/** One row of codes from `offset` as their values. */
+function codesToFloats(codes: Uint8Array, levels: Float32Array, offset: number, row: Float32Array): void {
+  for (let k = 0; k < row.length; k++) row[k] = levels[codes[offset + k]];
+}
+
+/** One row of values already on 8-bit levels (k/255) back to their codes from `offset`. */
+function floatsToCodes(row: Float32Array, codes: Uint8Array, offset: number): void {
+  for (let k = 0; k < row.length; k++) codes[offset + k] = Math.round(row[k] * 255);
 }
 
 /**
@@ -143,8 +167,9 @@ const REUSE_GAIN = 4e-4;
 /** One row without a response: encode((decode(v) − f)·k + f), clamped (and put on 8-bit codes). */
 function plainRow(
   from: Float32Array,
+  fromAt: number,
   to: Float32Array,
-  offset: number,
+  toAt: number,
   width: number,
   inverse: Float64Array,
   f0: number,
@@ -155,12 +180,12 @@ function plainRow(
   levels: number,
 ): void {
   let doneAt = NaN;
-  for (let x = 0, i = offset; x < width; x++, i += 3) {
+  for (let x = 0, i = fromAt, o = toAt; x < width; x++, i += 3, o += 3) {
     const k = inverse[x];
     if (x > 0 && from[i] === from[i - 3] && from[i + 1] === from[i - 2] && from[i + 2] === from[i - 1] && Math.abs(k - doneAt) <= REUSE_GAIN * doneAt) {
-      to[i] = to[i - 3];
-      to[i + 1] = to[i - 2];
-      to[i + 2] = to[i - 1];
+      to[o] = to[o - 3];
+      to[o + 1] = to[o - 2];
+      to[o + 2] = to[o - 1];
       continue;
     }
     doneAt = k;
@@ -173,7 +198,7 @@ function plainRow(
       t = linear > 0 ? (linear < 1 ? linear : 1) * SRGB_TABLE_SIZE : 0;
       j = t | 0;
       const out = encode[j] + (t - j) * (encode[j + 1] - encode[j]);
-      to[i + c] = levels === 0 ? out : Math.round(out * levels) * (1 / 255);
+      to[o + c] = levels === 0 ? out : Math.round(out * levels) * (1 / 255);
     }
   }
 }
@@ -184,8 +209,9 @@ function plainRow(
  */
 function styledRow(
   from: Float32Array,
+  fromAt: number,
   to: Float32Array,
-  offset: number,
+  toAt: number,
   width: number,
   inverse: Float64Array,
   f0: number,
@@ -204,13 +230,13 @@ function styledRow(
   linear: Float64Array,
 ): void {
   let doneAt = NaN;
-  for (let x = 0, i = offset; x < width; x++, i += 3) {
+  for (let x = 0, i = fromAt, o = toAt; x < width; x++, i += 3, o += 3) {
     const k = inverse[x];
     const repeated = x > 0 && from[i] === from[i - 3] && from[i + 1] === from[i - 2] && from[i + 2] === from[i - 1];
     if (repeated && Math.abs(k - doneAt) <= REUSE_GAIN * doneAt) {
-      to[i] = to[i - 3];
-      to[i + 1] = to[i - 2];
-      to[i + 2] = to[i - 1];
+      to[o] = to[o - 3];
+      to[o + 1] = to[o - 2];
+      to[o + 2] = to[o - 1];
       continue;
     }
     doneAt = k;
@@ -245,7 +271,7 @@ function styledRow(
     for (let c = 0; c < 3; c++) {
       const v = luma2 + saturation * (styled[c] - luma2);
       const out = v < 0 ? 0 : v > 1 ? 1 : v;
-      to[i + c] = levels === 0 ? out : Math.round(out * levels) * (1 / 255);
+      to[o + c] = levels === 0 ? out : Math.round(out * levels) * (1 / 255);
     }
   }
 }

@@ -14,6 +14,7 @@ import { deltaE2000 } from '../colour/deltaE.js';
 import { LAB_EPSILON, LAB_KAPPA } from '../colour/lab.js';
 import { percentileSelect } from './statistics.js';
 import { type FitQuality, PixelStatus } from './types.js';
+import { type PhotoPixels, valueAt } from './photoPixels.js';
 
 /** sRGB decoding from the shared table (../colour/srgbEncoderTable.ts: exact at 8- and 16-bit codes, within 1e-7 between). */
 const decodeFast = createSrgbDecoder();
@@ -26,7 +27,7 @@ export const FIT_QUALITY_POOR = { median: 4, p95: 12, unmatched: 0.2 } as const;
 /** A finished map beside its photo and its model: what checks of the model against the photo read. */
 export interface PhotoAndModel {
   /** Encoded photo colours (sRGB), n × 3. */
-  readonly rgb: Float32Array;
+  readonly rgb: PhotoPixels;
   readonly status: Uint8Array;
   readonly thicknessNm: Float32Array;
   /** Predicted encoded colour per table entry, count × 3. */
@@ -78,7 +79,7 @@ export function fitQualityOf(input: FitQualityInput): FitQuality | null {
     }
     skip = stride - 1;
     modelColourAt(input, thicknessNm[i], model);
-    encodedToLab(rgb[i * 3], rgb[i * 3 + 1], rgb[i * 3 + 2], input.encoded, photoLab);
+    encodedToLab(valueAt(rgb, i * 3), valueAt(rgb, i * 3 + 1), valueAt(rgb, i * 3 + 2), input.encoded, photoLab);
     encodedToLab(model[0], model[1], model[2], input.encoded, modelLab);
     values[n++] = deltaE2000(modelLab, photoLab);
   }

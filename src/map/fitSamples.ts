@@ -7,6 +7,7 @@
  * On a photo of one colour the result is the plain stride sample.
  */
 import { PixelStatus } from './types.js';
+import { type PhotoPixels, valueAt } from './photoPixels.js';
 
 const BINS = 16;
 const OVERSAMPLE = 8;
@@ -14,7 +15,7 @@ const OVERSAMPLE = 8;
 const MAX_BIN_SHARE = 0.15;
 
 /** Up to about `target` film pixels as n × 3 encoded colours; `balanced` false: the plain stride sample. */
-export function sampleFitPixels(rgb: Float32Array, status: Uint8Array, pixels: number, target: number, balanced = true): Float32Array {
+export function sampleFitPixels(rgb: PhotoPixels, status: Uint8Array, pixels: number, target: number, balanced = true): Float32Array {
   let eligible = 0;
   for (let i = 0; i < pixels; i++) if (status[i] === PixelStatus.ok) eligible++;
   const stride = Math.max(1, Math.floor(eligible / (balanced ? target * OVERSAMPLE : target)));
@@ -31,7 +32,7 @@ export function sampleFitPixels(rgb: Float32Array, status: Uint8Array, pixels: n
       continue;
     }
     skip = stride - 1;
-    const bin = (quantise(rgb[i * 3]) * BINS + quantise(rgb[i * 3 + 1])) * BINS + quantise(rgb[i * 3 + 2]);
+    const bin = (quantise(valueAt(rgb, i * 3)) * BINS + quantise(valueAt(rgb, i * 3 + 1))) * BINS + quantise(valueAt(rgb, i * 3 + 2));
     candidates[n] = i;
     binOf[n] = bin;
     counts[bin]++;
@@ -62,9 +63,9 @@ export function sampleFitPixels(rgb: Float32Array, status: Uint8Array, pixels: n
     kept++;
     if (m * 3 >= out.length) break;
     const i = candidates[k];
-    out[m * 3] = rgb[i * 3];
-    out[m * 3 + 1] = rgb[i * 3 + 1];
-    out[m * 3 + 2] = rgb[i * 3 + 2];
+    out[m * 3] = valueAt(rgb, i * 3);
+    out[m * 3 + 1] = valueAt(rgb, i * 3 + 1);
+    out[m * 3 + 2] = valueAt(rgb, i * 3 + 2);
     m++;
   }
   return out.subarray(0, m * 3);

@@ -19,6 +19,7 @@ import { PixelStatus } from './types.js';
 import { selectKth } from './statistics.js';
 import { modelColourAt, type PhotoAndModel } from './fitQuality.js';
 import { type CameraResponse, createResponseInverse } from '../colour/toneResponse.js';
+import { valueAt } from './photoPixels.js';
 
 /** sRGB decoding from the shared table (../colour/srgbEncoderTable.ts: exact at 8- and 16-bit codes, within 1e-7 between). */
 const decodeFast = createSrgbDecoder();
@@ -146,9 +147,9 @@ function collectSamples(input: LightEvennessInput): { us: Float64Array; vs: Floa
       continue;
     }
     skip = stride - 1;
-    const r = rgb[i * 3];
-    const g = rgb[i * 3 + 1];
-    const b = rgb[i * 3 + 2];
+    const r = valueAt(rgb, i * 3);
+    const g = valueAt(rgb, i * 3 + 1);
+    const b = valueAt(rgb, i * 3 + 2);
     if (r > 0.97 || g > 0.97 || b > 0.97) continue;
     modelColourAt(input, thicknessNm[i], model);
     inverseResponse.invert(model[0], model[1], model[2], plain, 0);

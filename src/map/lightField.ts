@@ -17,6 +17,7 @@
  */
 import { relativeGainAt } from './lightEvenness.js';
 import { evenOutLight } from './evenOutLight.js';
+import type { PhotoPixels } from './photoPixels.js';
 import type { CameraResponse } from '../colour/toneResponse.js';
 import type { ExposureField, ExposureParameters, MapResult } from './types.js';
 
@@ -86,12 +87,12 @@ export interface LightFieldStart {
 
 /** A subsampled copy of the photo to fit the field on (large photos), with its own mapper. */
 export interface LightFieldPreview<P extends MapResult> {
-  readonly rgb: Float32Array;
+  readonly rgb: PhotoPixels;
   readonly width: number;
   readonly height: number;
-  readonly mapWith: (pixels: Float32Array, fitStart?: ExposureParameters | null, fixed?: ExposureParameters | null) => P;
+  readonly mapWith: (pixels: PhotoPixels, fitStart?: ExposureParameters | null, fixed?: ExposureParameters | null) => P;
   /** The same, measuring only the middle of the photo (see `mapWithLightField`). */
-  readonly mapCentreWith?: (pixels: Float32Array) => P;
+  readonly mapCentreWith?: (pixels: PhotoPixels) => P;
   /**
    * A coarser copy for the alternation's rounds, after the first map on this one: the rounds only
    * measure the light, a smooth surface of seven numbers, and each costs a map (mapPhoto.ts).
@@ -110,18 +111,18 @@ interface Alternation<R extends MapResult> {
 
 /** A photo (or a subsampled copy) and its mapper. */
 export interface PhotoToMap<R extends MapResult> {
-  readonly rgb: Float32Array;
+  readonly rgb: PhotoPixels;
   readonly width: number;
   readonly height: number;
-  readonly mapWith: (pixels: Float32Array, fitStart?: ExposureParameters | null, fixed?: ExposureParameters | null) => R;
+  readonly mapWith: (pixels: PhotoPixels, fitStart?: ExposureParameters | null, fixed?: ExposureParameters | null) => R;
 }
 
 /** The alternation on one photo (full size, or a preview): first map, then rounds while uneven. */
 function alternate<R extends MapResult>(
-  rgb: Float32Array,
+  rgb: PhotoPixels,
   width: number,
   height: number,
-  mapWith: (pixels: Float32Array, fitStart?: ExposureParameters | null, fixed?: ExposureParameters | null) => R,
+  mapWith: (pixels: PhotoPixels, fitStart?: ExposureParameters | null, fixed?: ExposureParameters | null) => R,
   start: readonly number[] | null,
   startFlare: readonly number[],
   fitStart: ExposureParameters | null = null,
@@ -178,11 +179,11 @@ function alternate<R extends MapResult>(
  * Null when the middle shows no film either, or the whole photo still shows none.
  */
 function fromCentre<R extends MapResult>(
-  rgb: Float32Array,
+  rgb: PhotoPixels,
   width: number,
   height: number,
-  mapWith: (pixels: Float32Array, fitStart?: ExposureParameters | null, fixed?: ExposureParameters | null) => R,
-  mapCentreWith: (pixels: Float32Array) => R,
+  mapWith: (pixels: PhotoPixels, fitStart?: ExposureParameters | null, fixed?: ExposureParameters | null) => R,
+  mapCentreWith: (pixels: PhotoPixels) => R,
   startFlare: readonly number[],
 ): Alternation<R> | null {
   const centre = mapCentreWith(rgb);
@@ -201,7 +202,7 @@ function fromCentre<R extends MapResult>(
 /** The photo and how to map it, for `mapWithLightField`. */
 export interface LightFieldJob<R extends MapResult, P extends MapResult = R> {
   /** Encoded RGB, interleaved. */
-  readonly rgb: Float32Array;
+  readonly rgb: PhotoPixels;
   readonly width: number;
   readonly height: number;
   /**
@@ -209,7 +210,7 @@ export interface LightFieldJob<R extends MapResult, P extends MapResult = R> {
    * `fittedOn` is the preview's map of the same (evened) photo, whose photo-formation fit the map
    * takes as its own instead of fitting again (the preview's samples are as many and as good).
    */
-  readonly mapWith: (pixels: Float32Array, fitStart?: ExposureParameters | null, fixed?: ExposureParameters | null, fittedOn?: P | null) => R;
+  readonly mapWith: (pixels: PhotoPixels, fitStart?: ExposureParameters | null, fixed?: ExposureParameters | null, fittedOn?: P | null) => R;
   readonly mode: LightFieldMode;
   /** A previous frame's field to start from, or a calibration's to apply. */
   readonly start?: LightFieldStart | null;
@@ -231,7 +232,7 @@ export interface LightFieldJob<R extends MapResult, P extends MapResult = R> {
    * fail everywhere), the field is first found where the light varies least — the middle — then
    * refined over the whole photo; a photo that is not a film finds no film there either.
    */
-  readonly mapCentreWith?: ((pixels: Float32Array) => R) | null;
+  readonly mapCentreWith?: ((pixels: PhotoPixels) => R) | null;
 }
 
 /**

@@ -14,7 +14,8 @@ import { colourScaleBytes, SCALE_ENTRIES } from './colourScale.js';
 import { type MapResult, PixelStatus } from './types.js';
 import { okValuesOnStride, percentileSelect } from './statistics.js';
 import { escapeHtml } from '../report/escapeHtml.js';
-import { poolLabels, previewGrid, samplePreview } from './previewGrid.js';
+import { poolLabels, previewGrid, samplePhotoPreview, samplePreview } from './previewGrid.js';
+import type { PhotoPixels } from './photoPixels.js';
 
 const NO_ESTIMATE: readonly [number, number, number] = [128, 128, 128];
 const TOO_DARK: readonly [number, number, number] = [0, 0, 0];
@@ -403,7 +404,7 @@ export function paintFilmOutline(out: Uint8Array, status: Uint8Array, width: num
  * regions' outlines where they meet).
  */
 export async function renderFlagsPng(
-  rgbFull: Float32Array,
+  rgbFull: PhotoPixels,
   widthFull: number,
   heightFull: number,
   labelsFull: Int32Array,
@@ -416,7 +417,7 @@ export async function renderFlagsPng(
   // grid's step still shows (its label is pooled over each block).
   const grid = previewGrid(widthFull, heightFull);
   const { width, height } = grid;
-  const rgb = samplePreview(rgbFull, grid, 3);
+  const rgb = samplePhotoPreview(rgbFull, grid);
   const labels = poolLabels(labelsFull, widthFull, heightFull, grid, regionBoxes);
   const status = statusFull ? samplePreview(statusFull, grid) : undefined;
   const pixelSizeUm = pixelSizeUmFull !== null ? pixelSizeUmFull * grid.step : null;

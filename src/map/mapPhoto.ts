@@ -20,6 +20,7 @@ import { writeNpy } from '../io/encodeNpy.js';
 import { thicknessTiffDescription, writeFloatTiff } from '../io/encodeFloatTiff.js';
 import { atomicWriteFile } from '../io/atomicWriteFile.js';
 import type { Photo } from '../io/photo.js';
+import { floatPixels, type PhotoPixels, pixelsOfPhoto, valueAt } from './photoPixels.js';
 import { isMonochromaticLight, mapMonochromatic } from '../mono/index.js';
 import { type BuiltColourTable, buildColourTable } from './buildColourTable.js';
 import { buildFilmMask } from './filmMask.js';
@@ -38,8 +39,8 @@ export { mapResultJson } from './mapResultJson.js';
  * matches their neighbours kept are present on a fresh map, absent on one read back from disk.
  */
 export type MappedPhoto = MapResult & Partial<Pick<MapPixelsResult, 'ambiguousReasons' | 'keptByNeighbours'>> & {
-  /** The decoded photo's encoded RGB (for the flags image and the report). */
-  readonly photoRgb?: Float32Array;
+  /** The decoded photo's encoded RGB (for the flags image and the report; ./photoPixels.ts). */
+  readonly photoPixels?: PhotoPixels;
   readonly extra?: Record<string, unknown>;
   /** The coating inspection's JSON block (src/inspect), when one was asked for (a series frame's record). */
   readonly inspection?: Record<string, unknown> | null;
@@ -92,8 +93,9 @@ export async function readMask(path: string, width: number, height: number): Pro
     throw new InputError(path, `mask is ${mask.width}×${mask.height} but the photo is ${width}×${height}`);
   }
   const out = new Uint8Array(width * height);
+  const pixels = pixelsOfPhoto(mask);
   for (let i = 0; i < out.length; i++) {
-    out[i] = mask.rgb[i * 3] + mask.rgb[i * 3 + 1] + mask.rgb[i * 3 + 2] > 0 ? 1 : 0;
+    out[i] = valueAt(pixels, i * 3) + valueAt(pixels, i * 3 + 1) + valueAt(pixels, i * 3 + 2) > 0 ? 1 : 0;
   }
   return out;
 }
@@ -103,7 +105,7 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
   const lineNm = lineOfLight(options.light);
   if (lineNm !== null) {
     const result = mapMonochromatic(photo, options, lineNm, mask);
-    return { ...result, photoRgb: photo.rgb };
+    return { ...result, photoPixels: pixelsOfPhoto(photo) };
   }
   if (photo.alpha && !photo.alpha.some((a) => a >= 0.5)) {
     throw new InputError(source, 'holds no film: every pixel is transparent');
@@ -117,9 +119,9 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
   const built = colourTableFor(options);
   // A linear camera's values are sRGB-encoded once here: the table is matched in encoded units
   // (buildColourTable.ts), and the same monotone encoding on both sides leaves the model exact.
-  const rgb = built.camera.encoding === 'linear' ? encodeLinearPhoto(photo.rgb) : photo.rgb;
+  const rgb = built.camera.encoding === 'linear' ? floatPixels(encodeLinearPhoto(photo.rgb)) : pixelsOfPhoto(photo);
   const film = buildFilmMask(photo.width, photo.height, options.region, mask, photo.alpha);
-  const mapAt = (pixels: Float32Array, at: FrameGeometry, fitStart: ExposureParameters | null = null, fixed: ExposureParameters | null = null, fittedOn: MapPixelsResult | null = null) => mapPixels({
+  const mapAt = (pixels: PhotoPixels, at: FrameGeometry, fitStart: ExposureParameters | null = null, fixed: ExposureParameters | null = null, fittedOn: MapPixelsResult | null = null) => mapPixels({
     maxGridCells: at.maxGridCells,
     rgb: pixels,
     width: at.width,
@@ -199,7 +201,7 @@ export function mapDecodedPhoto(photo: Photo, options: MapOptions, mask: Uint8Ar
     ...result,
     warnings,
     exposureField: field,
-    photoRgb: rgb,
+    photoPixels: rgb,
     extra: {
       camera: built.camera.description,
       order_period_nm: built.orderPeriodNm,
@@ -318,11 +320,11 @@ async function writeEachOutput(
     start(mapPath, async () => atomicWriteFile(mapPath, await mapPng));
   }
   if (what.flags ?? what.images) {
-    if (result.photoRgb) {
+    if (result.photoPixels) {
       // The labels and the regions they number, from one labelling.
       const thin = result.thinLabels ? { labels: result.thinLabels, regions: result.thinRegions } : findThinRegions(result.thicknessNm, result.status, width, height, options?.thinBelowNm ?? null, null);
       const flagsPath = join(outDir, `${stem}.flags.png`);
-      const flagsPng = renderFlagsPng(result.photoRgb, width, height, thin.labels, result.status, options?.pixelSizeUm ?? null, thin.regions.map((r) => r.bbox));
+      const flagsPng = renderFlagsPng(result.photoPixels, width, height, thin.labels, result.status, options?.pixelSizeUm ?? null, thin.regions.map((r) => r.bbox));
       start(flagsPath, async () => atomicWriteFile(flagsPath, await flagsPng));
     }
   }
@@ -407,7 +409,7 @@ const PREVIEW_GRID_CELLS = 40_000;
  * A point-sampled copy (every k-th pixel of every k-th row, no averaging: averaging would mix the
  * colours of neighbouring thicknesses) of a large photo, its film mask, prior and anchors.
  */
-function previewOf(rgb: Float32Array, at: FrameGeometry, pixels: number): { rgb: Float32Array; at: FrameGeometry } | null {
+function previewOf(rgb: PhotoPixels, at: FrameGeometry, pixels: number): { rgb: PhotoPixels; at: FrameGeometry } | null {
   const { width, height } = at;
   if (width * height <= LIGHT_FIELD_PREVIEW_ABOVE_PX) return null;
   const k = Math.max(2, Math.round(Math.sqrt((width * height) / pixels)));
@@ -422,9 +424,9 @@ function previewOf(rgb: Float32Array, at: FrameGeometry, pixels: number): { rgb:
     for (let x = 0; x < w; x++) {
       const src = (y * k + offset) * width + (x * k + offset);
       const dst = y * w + x;
-      small[dst * 3] = rgb[src * 3];
-      small[dst * 3 + 1] = rgb[src * 3 + 1];
-      small[dst * 3 + 2] = rgb[src * 3 + 2];
+      small[dst * 3] = valueAt(rgb, src * 3);
+      small[dst * 3 + 1] = valueAt(rgb, src * 3 + 1);
+      small[dst * 3 + 2] = valueAt(rgb, src * 3 + 2);
       film[dst] = at.film[src];
       if (prior && at.prior) prior[dst] = at.prior[src];
       if (priorStatus && at.priorStatus) priorStatus[dst] = at.priorStatus[src];
@@ -433,7 +435,7 @@ function previewOf(rgb: Float32Array, at: FrameGeometry, pixels: number): { rgb:
   const anchors = at.anchors
     .map((a) => ({ ...a, x: Math.min(w - 1, Math.round((a.x - offset) / k)), y: Math.min(h - 1, Math.round((a.y - offset) / k)) }))
     .filter((a) => a.x >= 0 && a.y >= 0);
-  return { rgb: small, at: { width: w, height: h, film, prior, priorStatus, anchors, pixelSizeUm: at.pixelSizeUm === null ? null : at.pixelSizeUm * k, maxGridCells: PREVIEW_GRID_CELLS } };
+  return { rgb: floatPixels(small), at: { width: w, height: h, film, prior, priorStatus, anchors, pixelSizeUm: at.pixelSizeUm === null ? null : at.pixelSizeUm * k, maxGridCells: PREVIEW_GRID_CELLS } };
 }
 
 /**

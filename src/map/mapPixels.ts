@@ -32,16 +32,17 @@ import { brightnessOf, type TableLimits } from './tableLimits.js';
 import type { CandidateCube } from './candidateCube.js';
 import type { MatchSpace } from './matchSpace.js';
 import type { MatchScratch } from './matchColour.js';
-import { matchPixelsThreaded, scorePixelsThreaded, sharedCopy, sharedFloat32, sharedUint8 } from './pixelThreads.js';
+import { matchPixelsThreaded, scorePixelsThreaded, sharedFloat32, sharedUint8 } from './pixelThreads.js';
 import { resolveOrders } from './resolveOrders.js';
 import { okValuesOnStride, percentileSelect } from './statistics.js';
 import { summariseMap } from './summariseMap.js';
 import { tableLimits } from './tableLimits.js';
 import { type CameraResponse, describeResponse, isStrongResponse } from '../colour/toneResponse.js';
 import { type Anchor, type MapPhase, type ExposureParameters, type FilmAreaMode, type FilmAreaSummary, type MapResult, PixelStatus } from './types.js';
+import { firstCodeAtLeast, type PhotoPixels, sharedPixels, valueAt } from './photoPixels.js';
 
 export interface MapPixelsInput {
-  readonly rgb: Float32Array;
+  readonly rgb: PhotoPixels;
   readonly width: number;
   readonly height: number;
   /** 1 = film pixel to measure. */
@@ -291,7 +292,7 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
   const thicknessNm = (threaded ? sharedFloat32(pixels) : new Float32Array(pixels)).fill(NaN);
   const confidence = threaded ? sharedFloat32(pixels) : new Float32Array(pixels);
   const common = {
-    rgb: threaded ? sharedCopy(rgb) : rgb,
+    rgb: threaded ? sharedPixels(rgb) : rgb,
     width,
     height,
     status,
@@ -401,13 +402,22 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
  * makes V8 compile its function on the fly (on-stack replacement), and compiled code entered that
  * way was compiled again for every photo of a series, for all of mapPixels (50–80 ms each time).
  */
-function markExcludedAndSaturated(film: Uint8Array, rgb: Float32Array, status: Uint8Array, pixels: number): number {
+function markExcludedAndSaturated(film: Uint8Array, rgb: PhotoPixels, status: Uint8Array, pixels: number): number {
   let saturatedCount = 0;
+  const { codes, values } = rgb;
+  // On codes, a channel is clipped from this code up (the same test as on its value).
+  const clippedCode = firstCodeAtLeast(rgb.levels, SATURATED);
   for (let i = 0; i < pixels; i++) {
     if (!film[i]) status[i] = PixelStatus.excluded;
-    else if (rgb[i * 3] >= SATURATED || rgb[i * 3 + 1] >= SATURATED || rgb[i * 3 + 2] >= SATURATED) {
-      status[i] = PixelStatus.saturated;
-      saturatedCount++;
+    else {
+      const k = i * 3;
+      const clipped = codes !== null
+        ? codes[k] >= clippedCode || codes[k + 1] >= clippedCode || codes[k + 2] >= clippedCode
+        : values[k] >= SATURATED || values[k + 1] >= SATURATED || values[k + 2] >= SATURATED;
+      if (clipped) {
+        status[i] = PixelStatus.saturated;
+        saturatedCount++;
+      }
     }
   }
   return saturatedCount;
@@ -429,7 +439,7 @@ function dropCellsOutsideFilm(area: FilmAreaCells, cells: CellMatches, cellCount
  * averaged instead (denoising, and JPEG's half-resolution chroma). Returns usable flags.
  */
 function averageCells(
-  rgb: Float32Array,
+  rgb: PhotoPixels,
   status: Uint8Array,
   width: number,
   height: number,
@@ -442,6 +452,8 @@ function averageCells(
 ): Uint8Array {
   const usable = new Uint8Array(gridWidth * gridHeight);
   const radius = block === 1 ? 1 : 0;
+  // (The photo's arrays in locals: one predictable branch per pixel, see ./photoPixels.ts.)
+  const { codes, values, levels } = rgb;
   for (let gy = 0; gy < gridHeight; gy++) {
     for (let gx = 0; gx < gridWidth; gx++) {
       const c = gy * gridWidth + gx;
@@ -469,9 +481,16 @@ function averageCells(
             if (isGlare(rgb, i)) glareCount++;
           }
           if (s !== PixelStatus.ok) continue;
-          r += rgb[i * 3];
-          g += rgb[i * 3 + 1];
-          b += rgb[i * 3 + 2];
+          const k = i * 3;
+          if (codes !== null) {
+            r += levels[codes[k]];
+            g += levels[codes[k + 1]];
+            b += levels[codes[k + 2]];
+          } else {
+            r += values[k];
+            g += values[k + 1];
+            b += values[k + 2];
+          }
           n++;
         }
       }
@@ -552,7 +571,7 @@ function anchorCell(
  * Too-dark pixels: encoded brightness (brightest channel), averaged over the 3×3 neighbourhood
  * of film pixels (so that noise does not speckle the black film), below the dark limit's.
  */
-function markDarkPixels(rgb: Float32Array, status: Uint8Array, width: number, height: number, darkLuma: number): void {
+function markDarkPixels(rgb: PhotoPixels, status: Uint8Array, width: number, height: number, darkLuma: number): void {
   if (height === 0) return;
   // Running 3×3 box sums of brightness and of the count of non-excluded pixels, from three
   // horizontal row sums kept in a ring (no full-size temporaries). The loops are functions of
@@ -572,18 +591,28 @@ function markDarkPixels(rgb: Float32Array, status: Uint8Array, width: number, he
 }
 
 /** Row y's horizontal 3-sums of brightness (brightest channel) and of the count of non-excluded pixels. */
-function sumDarkRow(rgb: Float32Array, status: Uint8Array, width: number, y: number, outB: Float64Array, outW: Float64Array, brightness: Float64Array, weight: Float64Array): void {
+function sumDarkRow(rgb: PhotoPixels, status: Uint8Array, width: number, y: number, outB: Float64Array, outW: Float64Array, brightness: Float64Array, weight: Float64Array): void {
   const row = y * width;
+  const { codes, values, levels } = rgb;
   for (let x = 0; x < width; x++) {
     const i = row + x;
     if (status[i] === PixelStatus.excluded) {
       brightness[x] = 0;
       weight[x] = 0;
     } else {
-      const r = rgb[i * 3];
-      const g = rgb[i * 3 + 1];
-      const b = rgb[i * 3 + 2];
-      brightness[x] = r > g ? (r > b ? r : b) : g > b ? g : b;
+      const k = i * 3;
+      if (codes !== null) {
+        // The levels rise with the code: the brightest channel's value is the brightest code's.
+        const r = codes[k];
+        const g = codes[k + 1];
+        const b = codes[k + 2];
+        brightness[x] = levels[r > g ? (r > b ? r : b) : g > b ? g : b];
+      } else {
+        const r = values[k];
+        const g = values[k + 1];
+        const b = values[k + 2];
+        brightness[x] = r > g ? (r > b ? r : b) : g > b ? g : b;
+      }
       weight[x] = 1;
     }
   }
@@ -706,7 +735,7 @@ function medianOfOk(values: Float32Array, status: Uint8Array): number {
  * photo of few colours. Null when none.
  */
 function anchorSamples(
-  rgb: Float32Array,
+  rgb: PhotoPixels,
   status: Uint8Array,
   width: number,
   height: number,
@@ -736,7 +765,7 @@ function anchorSamples(
     const wanted = distinctColours < MIN_DISTINCT_COLOURS ? Math.max(40, regular) : Math.max(40, Math.ceil(0.03 * regular));
     for (let k = 0; k < wanted; k++) {
       const i = pixels[k % pixels.length];
-      colours.push(rgb[i * 3], rgb[i * 3 + 1], rgb[i * 3 + 2]);
+      colours.push(valueAt(rgb, i * 3), valueAt(rgb, i * 3 + 1), valueAt(rgb, i * 3 + 2));
       index.push(position);
     }
   }
@@ -773,7 +802,7 @@ const CellState = { usable: 0, dark: 1, saturated: 2, excluded: 3, mixed: 4 } as
  * colour and candidate thicknesses.
  */
 function matchCells(
-  rgb: Float32Array,
+  rgb: PhotoPixels,
   status: Uint8Array,
   width: number,
   height: number,
@@ -945,16 +974,16 @@ function applyFilmArea(
  * the clipping level. One clipped channel with the others well below is a vivid colour the
  * encoding could not hold, on film as much as anywhere.
  */
-function isGlare(rgb: Float32Array, i: number): boolean {
-  return (rgb[i * 3] >= SATURATED ? 1 : 0) + (rgb[i * 3 + 1] >= SATURATED ? 1 : 0) + (rgb[i * 3 + 2] >= SATURATED ? 1 : 0) >= 2;
+function isGlare(rgb: PhotoPixels, i: number): boolean {
+  return (valueAt(rgb, i * 3) >= SATURATED ? 1 : 0) + (valueAt(rgb, i * 3 + 1) >= SATURATED ? 1 : 0) + (valueAt(rgb, i * 3 + 2) >= SATURATED ? 1 : 0) >= 2;
 }
 
 /** Undoes what the film area and the dark test wrote (before they are decided again). */
-function resetDerivedStatus(status: Uint8Array, rgb: Float32Array): void {
+function resetDerivedStatus(status: Uint8Array, rgb: PhotoPixels): void {
   for (let i = 0; i < status.length; i++) {
     const s = status[i];
     if (s === PixelStatus.dark || s === PixelStatus.notFilm || s === PixelStatus.undecided) {
-      status[i] = rgb[i * 3] >= SATURATED || rgb[i * 3 + 1] >= SATURATED || rgb[i * 3 + 2] >= SATURATED ? PixelStatus.saturated : PixelStatus.ok;
+      status[i] = valueAt(rgb, i * 3) >= SATURATED || valueAt(rgb, i * 3 + 1) >= SATURATED || valueAt(rgb, i * 3 + 2) >= SATURATED ? PixelStatus.saturated : PixelStatus.ok;
     }
   }
 }

@@ -14,6 +14,7 @@ import type { MappedPhoto } from './mapPhoto.js';
 import { filmAreaOf, mapResultJson } from './mapResultJson.js';
 import type { MapOptions } from './types.js';
 import { relativeGainAt } from './lightEvenness.js';
+import { valueAt } from './photoPixels.js';
 
 const MAX_PICTURE_SIDE = 1200;
 
@@ -102,12 +103,13 @@ function sampledPictures(result: MappedPhoto, range: ScaleRange, step: number, o
   const picked = new Int32Array(w * h);
   for (let y = 0; y < h; y++) for (let x = 0; x < w; x++) picked[y * w + x] = y * step * width + x * step;
   const photo = new Uint8Array(w * h * 3);
-  if (result.photoRgb) {
+  const pixels = result.photoPixels;
+  if (pixels) {
     for (let k = 0; k < picked.length; k++) {
       const src = picked[k] * 3;
-      photo[k * 3] = Math.round(result.photoRgb[src] * 255);
-      photo[k * 3 + 1] = Math.round(result.photoRgb[src + 1] * 255);
-      photo[k * 3 + 2] = Math.round(result.photoRgb[src + 2] * 255);
+      photo[k * 3] = Math.round(valueAt(pixels, src) * 255);
+      photo[k * 3 + 1] = Math.round(valueAt(pixels, src + 1) * 255);
+      photo[k * 3 + 2] = Math.round(valueAt(pixels, src + 2) * 255);
     }
   }
   const status = new Uint8Array(picked.length);

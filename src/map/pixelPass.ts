@@ -30,10 +30,11 @@ import { MAX_WALK, type MatchScratch, refinePosition, walkDownhill } from './mat
 import { type NoiseProfile, NOISE_BINS } from './estimateNoise.js';
 import type { MatchSpace } from './matchSpace.js';
 import { PixelStatus } from './types.js';
+import { type PhotoPixels, valueAt } from './photoPixels.js';
 
 export interface PixelPassInput {
-  /** Encoded RGB, 0..1, interleaved. */
-  readonly rgb: Float32Array;
+  /** The photo's encoded RGB (./photoPixels.ts). */
+  readonly rgb: PhotoPixels;
   readonly width: number;
   readonly height: number;
   /** Per-pixel status; pixels that lose their estimate are set to ambiguous or tooThick. */
@@ -278,7 +279,7 @@ interface Pass {
   /** Of the last `solve`: the refined position and its RGB cost. */
   position: number;
   rgbCost: number;
-  /** The last colour looked up in the memo and its entry (NaN: none yet). */
+  /** The last colour looked up in the memo (its codes, or its values when held as floats) and its entry (NaN: none yet). */
   lastR: number;
   lastG: number;
   lastB: number;
@@ -335,6 +336,8 @@ function matchRow(pass: Pass, first: number, reference: Float64Array, counts: Pi
   const { status, width, rgb, count, pixelJump, washoutIndex } = input;
   const { thicknessNm, cost, alternativeCost } = pass.out;
   const memo = pass.memo;
+  const codes = rgb.codes;
+  const values = rgb.values;
   for (let x = 0; x < width; x++) {
     const i = first + x;
     if (status[i] !== PixelStatus.ok) continue;
@@ -348,7 +351,10 @@ function matchRow(pass: Pass, first: number, reference: Float64Array, counts: Pi
       let e = -1;
       if (memo !== null) {
         // Neighbouring pixels often share a colour (about 2 in 3 in a 12-MP JPEG): its entry is kept.
-        e = rgb[i * 3] === pass.lastR && rgb[i * 3 + 1] === pass.lastG && rgb[i * 3 + 2] === pass.lastB ? pass.lastEntry : lookUp(pass, memo, i);
+        // An 8-bit photo's colour is its codes; one held as floats is compared by value.
+        const k = i * 3;
+        if (codes !== null) e = codes[k] === pass.lastR && codes[k + 1] === pass.lastG && codes[k + 2] === pass.lastB ? pass.lastEntry : lookUpCodes(pass, memo, codes, k);
+        else e = values[k] === pass.lastR && values[k + 1] === pass.lastG && values[k + 2] === pass.lastB ? pass.lastEntry : lookUp(pass, memo, values, k);
       }
       if (e >= 0) {
         // A colour with memo entry e: the same numbers, each computed once per colour and basin.
@@ -379,12 +385,11 @@ function matchRow(pass: Pass, first: number, reference: Float64Array, counts: Pi
   }
 }
 
-/** The memo entry of pixel i's colour, kept as the last colour looked up; −1 when it is not an exact 8-bit colour. */
-function lookUp(pass: Pass, memo: ColourMemo, i: number): number {
-  const rgb = pass.input.rgb;
-  const r = rgb[i * 3];
-  const g = rgb[i * 3 + 1];
-  const b = rgb[i * 3 + 2];
+/** The memo entry of the colour at interleaved index k (held as floats), kept as the last colour looked up; −1 when it is not an exact 8-bit colour. */
+function lookUp(pass: Pass, memo: ColourMemo, values: Float32Array, k: number): number {
+  const r = values[k];
+  const g = values[k + 1];
+  const b = values[k + 2];
   const r8 = levelOf(memo, r);
   const g8 = r8 < 0 ? -1 : levelOf(memo, g);
   const b8 = g8 < 0 ? -1 : levelOf(memo, b);
@@ -397,13 +402,26 @@ function lookUp(pass: Pass, memo: ColourMemo, i: number): number {
   return e;
 }
 
+/** The memo entry of the colour at interleaved index k of an 8-bit photo's codes, kept as the last colour looked up. */
+function lookUpCodes(pass: Pass, memo: ColourMemo, codes: Uint8Array, k: number): number {
+  const r8 = codes[k];
+  const g8 = codes[k + 1];
+  const b8 = codes[k + 2];
+  const e = entryOf(memo, r8, g8, b8);
+  pass.lastR = r8;
+  pass.lastG = g8;
+  pass.lastB = b8;
+  pass.lastEntry = e;
+  return e;
+}
+
 /** A pixel's match without the memo: walk, refine, check, other-order search and matching-space cost. */
 function matchAfresh(pass: Pass, i: number, x: number, referenceRow: Float64Array, start: number): number {
   const input = pass.input;
   const reference = referenceRow[x];
-  const r = input.rgb[i * 3];
-  const g = input.rgb[i * 3 + 1];
-  const b = input.rgb[i * 3 + 2];
+  const r = valueAt(input.rgb, i * 3);
+  const g = valueAt(input.rgb, i * 3 + 1);
+  const b = valueAt(input.rgb, i * 3 + 2);
   const position = solve(pass, r, g, b, walkDownhill(input.predictedRgb, input.count, r, g, b, start));
   if (Math.abs(position - reference) > input.pixelJump) return DISCONTINUOUS;
   if (position >= input.washoutIndex) return TOO_THICK;
@@ -432,9 +450,9 @@ function solve(pass: Pass, r: number, g: number, b: number, m: number): number {
  */
 function rememberBasin(pass: Pass, memo: ColourMemo, e: number, i: number, start: number): void {
   const { predictedRgb, count, rgb } = pass.input;
-  const r = rgb[i * 3];
-  const g = rgb[i * 3 + 1];
-  const b = rgb[i * 3 + 2];
+  const r = valueAt(rgb, i * 3);
+  const g = valueAt(rgb, i * 3 + 1);
+  const b = valueAt(rgb, i * 3 + 2);
   const m = walkDownhill(predictedRgb, count, r, g, b, start);
   const lo = start < m ? start : m;
   const hi = start < m ? m : start;
@@ -469,9 +487,9 @@ function rememberBasin(pass: Pass, memo: ColourMemo, e: number, i: number, start
 /** The margin output of colour e's basin (see matchRow), computed and kept on first need. */
 function rememberMargin(pass: Pass, memo: ColourMemo, e: number, i: number): void {
   const rgb = pass.input.rgb;
-  const r = rgb[i * 3];
-  const g = rgb[i * 3 + 1];
-  const b = rgb[i * 3 + 2];
+  const r = valueAt(rgb, i * 3);
+  const g = valueAt(rgb, i * 3 + 1);
+  const b = valueAt(rgb, i * 3 + 2);
   const q = e * REALS;
   const alternative = otherOrderCost(pass, r, g, b, memo.reals[q], e * INTS + 3);
   const reals = memo.reals;
@@ -535,7 +553,7 @@ function matchingCost(input: PixelPassInput, r: number, g: number, b: number, po
 }
 
 export interface ScoreInput {
-  readonly rgb: Float32Array;
+  readonly rgb: PhotoPixels;
   readonly width: number;
   readonly status: Uint8Array;
   readonly noise: NoiseProfile;
@@ -565,9 +583,13 @@ export function scorePixelRows(input: ScoreInput, out: PixelPassOutput, y0: numb
   const costBits = new Int32Array(out.cost.buffer, out.cost.byteOffset, out.cost.length);
   const marginBits = new Int32Array(out.alternativeCost.buffer, out.alternativeCost.byteOffset, out.alternativeCost.length);
   let poor = 0;
+  const { codes, values, levels } = rgb;
   for (let i = y0 * width, end = y1 * width; i < end; i++) {
     if (status[i] !== PixelStatus.ok) continue;
-    const luma = 0.2126 * rgb[i * 3] + 0.7152 * rgb[i * 3 + 1] + 0.0722 * rgb[i * 3 + 2];
+    const k = i * 3;
+    const luma = codes !== null
+      ? 0.2126 * levels[codes[k]] + 0.7152 * levels[codes[k + 1]] + 0.0722 * levels[codes[k + 2]]
+      : 0.2126 * values[k] + 0.7152 * values[k + 1] + 0.0722 * values[k + 2];
     let bin = Math.floor(luma * NOISE_BINS);
     bin = bin < 0 ? 0 : bin > NOISE_BINS - 1 ? NOISE_BINS - 1 : bin;
     // A poor match loses its status but keeps its estimate and confidence for a second look

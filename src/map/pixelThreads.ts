@@ -8,8 +8,9 @@
  * Every pixel is computed exactly as on one thread (each thread keeps its own colour memo, which
  * changes no number), so the map is identical whatever the count.
  *
- * The large arrays (photo, status, outputs) must live in SharedArrayBuffers (`sharedCopy` makes
- * one when they do not); small ones are copied with each task. Helpers are started on first use
+ * The large arrays (photo, status, outputs) must live in SharedArrayBuffers (the photo's pixels
+ * are put in one by `sharedPixels`, ./photoPixels.ts, when they are not); small ones are copied
+ * with each task. Helpers are started on first use
  * and kept (unreferenced, so they never hold the process open). Where the compiled worker file
  * is missing (running from TypeScript sources) or a helper fails to start, the pass runs on the
  * calling thread alone.
@@ -20,6 +21,7 @@ import { fileURLToPath } from 'node:url';
 import { MessageChannel, receiveMessageOnPort, Worker, type MessagePort } from 'node:worker_threads';
 import type { PixelPassCounts, PixelPassInput, PixelPassOutput, ScoreInput } from './pixelPass.js';
 import type { EvenLightInput } from './evenLightInput.js';
+import type { PhotoPixels } from './photoPixels.js';
 
 /** Slots of the shared control block, and the states of its `state` slot. */
 export const CONTROL = { state: 0, first: 1, second: 2, starting: 0, ready: 1, busy: 2, done: 3, failed: 4 } as const;
@@ -41,7 +43,7 @@ export interface ChunkQueue {
 export type BandTask =
   | { kind: 'match'; input: SharedPassInput; output: PixelPassOutput; queue: ChunkQueue }
   | { kind: 'score'; input: ScoreInput; output: PixelPassOutput; queue: ChunkQueue }
-  | { kind: 'even'; input: EvenLightInput; output: Float32Array; queue: ChunkQueue };
+  | { kind: 'even'; input: EvenLightInput; output: PhotoPixels; queue: ChunkQueue };
 
 /** Rows [y0, y1) of the next chunk of the queue, or null when every chunk is taken. */
 export function nextChunk(queue: ChunkQueue, counter: Int32Array): [number, number] | null {
@@ -167,16 +169,8 @@ export function scorePixelsThreaded(
 }
 
 /** The light field divided out of a photo (./evenOutLight.ts), rows shared on up to `threads` threads. */
-export function evenRowsThreaded(input: EvenLightInput, output: Float32Array, threads: number, local: (y0: number, y1: number) => number): void {
+export function evenRowsThreaded(input: EvenLightInput, output: PhotoPixels, threads: number, local: (y0: number, y1: number) => number): void {
   runBands(threads, input.height, (queue) => ({ kind: 'even', input, output, queue }), local, (control) => control[CONTROL.first], (a, b) => a + b);
-}
-
-/** A typed array of the same values in a SharedArrayBuffer (the array itself when it is one). */
-export function sharedCopy<T extends Float32Array | Uint8Array>(values: T): T {
-  if (values.buffer instanceof SharedArrayBuffer) return values;
-  const out = new (values.constructor as { new (buffer: SharedArrayBuffer): T })(new SharedArrayBuffer(values.byteLength));
-  out.set(values);
-  return out;
 }
 
 /** A zero-filled Float32Array or Uint8Array of `length` in a SharedArrayBuffer. */

@@ -13,6 +13,7 @@ import type { MapFrameConfig } from './mapFrameConfig.js';
 import type { FrameProcessor, StoredFrame } from './types.js';
 import { scaleRangeOf } from '../map/mapImages.js';
 import { inspectionJson, inspectMap } from '../inspect/inspectMap.js';
+import { floatPixels, pixelsOfPhoto } from '../map/photoPixels.js';
 
 export function mapOptionsFromConfig(config: MapFrameConfig): MapOptions {
   // The film index scale goes to the mapper only (it scales the film index when building its
@@ -109,8 +110,8 @@ export async function createFrameProcessor(config: MapFrameConfig): Promise<Fram
     mapReportInput: (result, framePath) => mapReportInput(result as MappedPhoto, base, framePath),
     storedReportInput: (stored, photo, framePath) => {
       // The photo as the mapper saw it: a linear camera's values sRGB-encoded (mapPhoto.ts).
-      const photoRgb = base.camera && base.camera !== 'srgb' ? encodeLinearPhoto(photo.rgb) : photo.rgb;
-      return mapReportInput({ ...storedResult(stored), photoRgb }, { ...base, prior: null }, framePath);
+      const photoPixels = base.camera && base.camera !== 'srgb' ? floatPixels(encodeLinearPhoto(photo.rgb)) : pixelsOfPhoto(photo);
+      return mapReportInput({ ...storedResult(stored), photoPixels }, { ...base, prior: null }, framePath);
     },
     renderStoredPreview: async (stored, framePath, dir, stem, rangeNm) => {
       await writeMapOutputs(storedResult(stored), framePath, dir, stem, { images: true, json: false, npy: false, tiff: false, rangeNm }, base);
