@@ -23,6 +23,8 @@ export { photoFromInput, type PhotoInput, type PhotoInputOptions } from './api/p
 // Map results and their files.
 export { writeMapOutputs, mapResultJson, type MappedPhoto, type OutputSelection } from './map/index.js';
 export { MAP_OUTPUT_FILES, MAP_OUTPUT_NAMES, type MapOutputName } from './map/outputNames.js';
+// A map's photo (`MappedPhoto.photoPixels`): 8-bit codes or floats, read with `valueAt`.
+export { floatPixels, pixelFloats, valueAt, type PhotoPixels } from './map/photoPixels.js';
 export type { MapOptions, MapResult, MapStatistics, ExposureParameters, ThinRegion, PixelStatusCode, MapPhase, FilmAreaSummary, Anchor, FilmAreaMode } from './map/types.js';
 export { PixelStatus } from './map/types.js';
 export { readCalibrationFile, type CalibrationRecord, type CalibrateOptions } from './calibrate/index.js';
