@@ -15,7 +15,9 @@
  */
 import sharp from 'sharp';
 import { describe, expect, it } from 'vitest';
-import { createCandidateCube } from '../src/map/candidateCube.js';
+import { buildCell, createCandidateCube } from '../src/map/candidateCube.js';
+import { buildColourTable } from '../src/map/buildColourTable.js';
+import { predictEncodedTable } from '../src/map/colourTable.js';
 import { createMatchScratch, matchColour } from '../src/map/matchColour.js';
 import { readPhotoBytes } from '../src/io/readPhoto.js';
 import { mapDecodedPhoto } from '../src/map/mapPhoto.js';
@@ -101,5 +103,81 @@ describe('candidate starts of a colour-cube cell', () => {
     // The band that took a whole order too many.
     expect(bandMeasured).toBeGreaterThan(10_000);
     expect(bandGross / bandMeasured).toBeLessThan(0.02);
+  }, 120_000);
+
+  it('every cell holds exactly the candidates of a plain scan of the table (the blocks it steps over change nothing)', () => {
+    // The definition, written out as a scan of every entry: box distance per channel, summed in
+    // the order red, green, blue; passes ranked by −1/(1 + distance of their entry nearest the
+    // centre), near misses (local minima outside the box) by their box distance; the best kept.
+    const plainScan = (predicted: Float32Array, count: number, cell: number, perCell: number): number[] => {
+      const qb = cell % LEVELS;
+      const qg = ((cell - qb) / LEVELS) % LEVELS;
+      const qr = (cell - qb - qg * LEVELS) / (LEVELS * LEVELS);
+      const centre = [(qr + 0.5) / LEVELS, (qg + 0.5) / LEVELS, (qb + 0.5) / LEVELS];
+      const half = 0.5 / LEVELS;
+      const box = (i: number): number => {
+        let sum = 0;
+        for (let c = 0; c < 3; c++) {
+          const d = Math.abs(predicted[i * 3 + c] - centre[c]) - half;
+          sum += d > 0 ? d * d : 0;
+        }
+        return sum;
+      };
+      const kept: { index: number; cost: number }[] = [];
+      const offer = (index: number, cost: number): void => {
+        if (kept.length === perCell && cost >= kept[perCell - 1].cost) return;
+        let j = kept.findIndex((k) => k.cost > cost);
+        if (j < 0) j = kept.length;
+        kept.splice(j, 0, { index, cost });
+        if (kept.length > perCell) kept.pop();
+      };
+      let passIndex = -1;
+      let passCentre = Infinity;
+      for (let i = 0; i < count; i++) {
+        const here = box(i);
+        const prev = i > 0 ? box(i - 1) : Infinity;
+        const next = i + 1 < count ? box(i + 1) : Infinity;
+        if (here === 0) {
+          const dr = predicted[i * 3] - centre[0];
+          const dg = predicted[i * 3 + 1] - centre[1];
+          const db = predicted[i * 3 + 2] - centre[2];
+          const d = dr * dr + dg * dg + db * db;
+          if (d < passCentre) {
+            passCentre = d;
+            passIndex = i;
+          }
+          if (next !== 0) {
+            offer(passIndex, -1 / (1 + passCentre));
+            passIndex = -1;
+            passCentre = Infinity;
+          }
+        } else if (here <= prev && here < next) offer(i, here);
+      }
+      const out = kept.map((k) => k.index);
+      while (out.length < perCell) out.push(-1);
+      return out;
+    };
+    // Tables of our own forward model (soap film in daylight, oxide on silicon under tungsten),
+    // under two exposures: the curve's passes and near misses as the mapper meets them.
+    const soap = buildColourTable({ stack: resolveStack('soap-film'), angleRad: 0, light: 'D65', maxThicknessNm: 2000 }).table;
+    const oxide = buildColourTable({ stack: resolveStack('oxide-on-silicon'), angleRad: 0, light: 'A', maxThicknessNm: 1500 }).table;
+    const cases = [
+      { table: soap, parameters: { exposure: 1, whiteBalance: [1, 1, 1], flare: [0, 0, 0] }, perCell: PER_CELL },
+      { table: soap, parameters: { exposure: 1.6, whiteBalance: [1.1, 1, 0.9], flare: [0.01, 0.01, 0.02] }, perCell: 2 },
+      { table: oxide, parameters: { exposure: 0.8, whiteBalance: [1, 1, 1], flare: [0, 0, 0] }, perCell: PER_CELL },
+    ];
+    let candidatesSeen = 0;
+    for (const { table, parameters, perCell } of cases) {
+      const predicted = predictEncodedTable(table, parameters);
+      const cube = createCandidateCube(LEVELS, perCell);
+      const cost = new Float64Array(perCell);
+      for (let cell = 0; cell < LEVELS ** 3; cell += 7) {
+        buildCell(cube, cell, predicted, table.count, cost);
+        const built = Array.from(cube.candidates.subarray(cell * perCell, (cell + 1) * perCell));
+        expect(built, `cell ${cell}`).toEqual(plainScan(predicted, table.count, cell, perCell));
+        candidatesSeen += built.filter((c) => c >= 0).length;
+      }
+    }
+    expect(candidatesSeen).toBeGreaterThan(10_000);
   }, 120_000);
 });

@@ -20,6 +20,8 @@ export interface CandidateCube {
   terms: Float64Array | null;
   /** 1 where that channel and level's row of `terms` has been computed. */
   termsReady: Uint8Array | null;
+  /** Per row of `terms`, the least value over each block of BLOCK entries (the last block may be shorter). */
+  blockMins: Float64Array | null;
   /** The predicted table `terms` belongs to. */
   termsOf: Float32Array | null;
 }
@@ -45,6 +47,7 @@ export function createCandidateCube(levels: number, perCell: number): CandidateC
     built: new Uint8Array(cells),
     terms: null,
     termsReady: null,
+    blockMins: null,
     termsOf: null,
   };
 }
@@ -82,6 +85,11 @@ export function buildCell(
   const rowR = rowOf(cube, terms, 0, qr, predicted, count);
   const rowG = rowOf(cube, terms, 1, qg, predicted, count);
   const rowB = rowOf(cube, terms, 2, qb, predicted, count);
+  const mins = cube.blockMins!;
+  const blocks = blockCount(count);
+  const minR = (rowR / count) * blocks;
+  const minG = (rowG / count) * blocks;
+  const minB = (rowB / count) * blocks;
   for (let i = 0; i < perCell; i++) scratchCost[i] = Infinity;
   const base = cell * perCell;
   // A pass through the box: its entry nearest the centre, and that entry's distance from the centre.
@@ -91,6 +99,21 @@ export function buildCell(
   // The squared distance of entry i from the cell's box (0 inside): the three channels' terms.
   let here = terms[rowR] + terms[rowG] + terms[rowB];
   for (let i = 0; i < count; i++) {
+    if ((i & (BLOCK - 1)) === 0 && i > 0 && i + BLOCK < count) {
+      // A block none of whose entries can count is stepped over: every entry's distance is at
+      // least the sum of the three rows' least values over the block (rounding is monotone, the
+      // sum taken in the same order), so when that bound is above 0 (no pass through the box)
+      // and not below the worst kept cost (which only falls), each would be turned away.
+      const k = i / BLOCK;
+      const bound = mins[minR + k] + mins[minG + k] + mins[minB + k];
+      if (bound > 0 && bound >= scratchCost[perCell - 1]) {
+        const last = i + BLOCK - 1;
+        prev = terms[rowR + last] + terms[rowG + last] + terms[rowB + last];
+        here = terms[rowR + last + 1] + terms[rowG + last + 1] + terms[rowB + last + 1];
+        i = last;
+        continue;
+      }
+    }
     const next = i + 1 < count ? terms[rowR + i + 1] + terms[rowG + i + 1] + terms[rowB + i + 1] : Infinity;
     if (here === 0) {
       const centre = distanceAt(predicted, i, r, g, b);
@@ -124,8 +147,16 @@ function boxTerms(cube: CandidateCube, predicted: Float32Array, count: number): 
   if (cube.terms !== null && cube.termsOf === predicted && cube.terms.length === 3 * cube.levels * count) return cube.terms;
   cube.terms = new Float64Array(3 * cube.levels * count);
   cube.termsReady = new Uint8Array(3 * cube.levels);
+  cube.blockMins = new Float64Array(3 * cube.levels * blockCount(count));
   cube.termsOf = predicted;
   return cube.terms;
+}
+
+/** Entries per block of `blockMins` (a power of two). */
+const BLOCK = 16;
+
+function blockCount(count: number): number {
+  return Math.ceil(count / BLOCK);
 }
 
 /** The offset of row (channel, q) in `terms`, computed on first need. */
@@ -139,6 +170,13 @@ function rowOf(cube: CandidateCube, terms: Float64Array, channel: number, q: num
   for (let i = 0; i < count; i++) {
     const d = Math.abs(predicted[i * 3 + channel] - centre) - half;
     terms[offset + i] = d > 0 ? d * d : 0;
+  }
+  const blocks = blockCount(count);
+  const mins = cube.blockMins!;
+  for (let k = 0; k < blocks; k++) {
+    let least = Infinity;
+    for (let i = k * BLOCK, end = Math.min(count, i + BLOCK); i < end; i++) if (terms[offset + i] < least) least = terms[offset + i];
+    mins[row * blocks + k] = least;
   }
   cube.termsReady![row] = 1;
   return offset;
