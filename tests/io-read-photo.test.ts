@@ -13,6 +13,7 @@ import { join } from 'node:path';
 import sharp from 'sharp';
 import { MAX_PIXELS, parseExifTime, readPhoto, readPhotoMetadata } from '../src/io/index.js';
 import { InputError } from '../src/cli/errors.js';
+import { pixelsOfPhoto, valueAt } from '../src/map/photoPixels.js';
 
 let dir: string;
 beforeAll(async () => {
@@ -40,22 +41,31 @@ describe('readPhoto() pixel values and bit depth', () => {
     expect(photo.orientationApplied).toBe(1);
   });
 
-  it('8-bit RGB keeps its codes; the floats are made on first read, in shared memory, exactly code/255 as float32, and can be replaced', async () => {
+  it('8-bit RGB keeps its codes; the floats are made on first read, in shared memory, exactly code/255 as float32, and from then on are the photo', async () => {
     const path = join(dir, 'codes8.png');
     const data = [255, 0, 0, 0, 128, 255, 10, 20, 30, 7, 7, 7];
     await raw8(data, 2, 2, 3).png().toFile(path);
     const photo = await readPhoto(path);
     expect(photo.codes).toBeInstanceOf(Uint8Array);
     expect(Array.from(photo.codes!)).toEqual(data);
-    // Read twice: the same array (made once and kept).
-    expect(photo.rgb).toBe(photo.rgb);
-    expect(photo.rgb.buffer).toBeInstanceOf(SharedArrayBuffer);
-    expect(Array.from(photo.rgb)).toEqual(data.map((v) => Math.fround(v / 255)));
-    // Spread like any property (the floats come along).
-    expect({ ...photo }.rgb).toBe(photo.rgb);
-    const replaced = new Float32Array(12).fill(0.5);
-    photo.rgb = replaced;
-    expect(photo.rgb).toBe(replaced);
+    expect(pixelsOfPhoto(photo).codes).toBe(photo.codes);
+    // Read twice: the same array (made once and kept), and the codes are dropped: whoever holds
+    // the floats may change them, and a map must then see the change.
+    const floats = photo.rgb;
+    expect(photo.rgb).toBe(floats);
+    expect(photo.codes).toBeUndefined();
+    expect(floats.buffer).toBeInstanceOf(SharedArrayBuffer);
+    expect(Array.from(floats)).toEqual(data.map((v) => Math.fround(v / 255)));
+    floats[0] = 0.5;
+    expect(valueAt(pixelsOfPhoto(photo), 0)).toBe(0.5);
+    // Spread like any property; set like any property (codes dropped too).
+    expect({ ...photo }.rgb).toBe(floats);
+    const again = await readPhoto(path);
+    const replaced = new Float32Array(12).fill(0.25);
+    again.rgb = replaced;
+    expect(again.rgb).toBe(replaced);
+    expect(again.codes).toBeUndefined();
+    expect(valueAt(pixelsOfPhoto(again), 4)).toBe(0.25);
   });
 
   it('alpha and 16-bit sources are held as floats only (no codes); an 8-bit grey source, expanded to RGB, keeps codes', async () => {

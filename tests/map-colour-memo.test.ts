@@ -39,12 +39,14 @@ describe('colour memo of the pixel pass', () => {
       .toBuffer();
     const photo = await readPhotoBytes(new Uint8Array(jpeg), 'demo-frame.jpg');
     expect(photo.bitDepth).toBe(8);
+    // The reader kept the JPEG's 8-bit codes, which the mapper reads (../src/map/photoPixels.ts).
+    expect(photo.codes).toBeInstanceOf(Uint8Array);
     const options = { stack: resolveStack('soap-film'), angleRad: 0, light: 'D65', thinBelowNm: 50, maxThicknessNm: 2000, threads: 1 };
     const remembered = mapDecodedPhoto(photo, options, null, 'demo-frame.jpg');
     const afresh = mapDecodedPhoto({ ...photo, bitDepth: 16 }, options, null, 'demo-frame.jpg');
-    // The reader kept the JPEG's 8-bit codes, which the mapper reads (./photoPixels.ts); the same
-    // photo held as floats, its memo keyed by the values, gives the same map.
-    expect(photo.codes).toBeInstanceOf(Uint8Array);
+    // The same photo held as floats (reading them drops the codes), its memo keyed by the
+    // values, gives the same map.
+    expect(photo.codes).toBeUndefined();
     const asFloats = mapDecodedPhoto({ ...photo, codes: undefined }, options, null, 'demo-frame.jpg');
     expect(bytes(asFloats.thicknessNm).equals(bytes(remembered.thicknessNm))).toBe(true);
     expect(bytes(asFloats.confidence).equals(bytes(remembered.confidence))).toBe(true);

@@ -22,9 +22,10 @@ export interface Photo {
    */
   rgb: Float32Array;
   /**
-   * 8-bit RGB photos without alpha: the decoded codes (interleaved, 0..255), which the mapper reads
-   * in place of `rgb`. readPhoto() then makes `rgb` on first use (a 12-MP photo is 36 MB as codes,
-   * 144 MB as floats).
+   * 8-bit RGB photos without alpha, as readPhoto() returns them: the decoded codes (interleaved,
+   * 0..255), which the mapper reads in place of `rgb` (a 12-MP photo is 36 MB as codes, 144 MB as
+   * floats). readPhoto() makes `rgb` on first read; reading or setting `rgb` drops the codes, so
+   * that a map then reads the floats, changes included. Code that builds a Photo leaves it out.
    */
   codes?: Uint8Array;
   bitDepth: 8 | 16;

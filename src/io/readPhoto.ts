@@ -1,7 +1,8 @@
 /**
  * Decodes a photograph into upright, interleaved RGB floats scaled 0..1. An 8-bit RGB photo (the
- * common case) keeps its decoded codes as well (`photo.codes`), which the mapper reads directly;
- * its floats are then made on first read of `photo.rgb`.
+ * common case) keeps its decoded codes instead (`photo.codes`), which the mapper reads directly;
+ * its floats are made on first read of `photo.rgb`, and from then on they are the photo (the
+ * codes are dropped, so changes made to the floats are what a map sees).
  *
  * - EXIF orientation is applied (codec auto-orient); the value applied is reported.
  * - 16-bit PNG/TIFF are read at 16 bits (values / 65535); everything else at 8 bits (/ 255).
@@ -60,7 +61,9 @@ function expandRgb8(samples: Uint8Array, pixelCount: number): Float32Array {
 /**
  * Gives `photo` its codes and an `rgb` made from them on first read (and kept), or set by
  * assignment: the mapper reads the codes (../map/photoPixels.ts), and a 12-MP photo's floats
- * (144 MB) are made only for code that asks for them.
+ * (144 MB) are made only for code that asks for them. Whoever reads or sets `rgb` may change the
+ * floats, so from then on they are the photo: the codes are dropped (`photo.codes` is gone), and
+ * a map of the photo reads the floats as they are then.
  */
 function keepCodes(photo: Photo, codes: Uint8Array): void {
   let rgb: Float32Array | null = null;
@@ -68,9 +71,16 @@ function keepCodes(photo: Photo, codes: Uint8Array): void {
   Object.defineProperty(photo, 'rgb', {
     enumerable: true,
     configurable: true,
-    get: (): Float32Array => (rgb ??= expandRgb8(codes, photo.width * photo.height)),
+    get: (): Float32Array => {
+      if (rgb === null) {
+        rgb = expandRgb8(codes, photo.width * photo.height);
+        delete photo.codes;
+      }
+      return rgb;
+    },
     set: (value: Float32Array): void => {
       rgb = value;
+      delete photo.codes;
     },
   });
 }
