@@ -18,6 +18,7 @@ import { describe, expect, it } from 'vitest';
 import { buildCell, createCandidateCube } from '../src/map/candidateCube.js';
 import { buildColourTable } from '../src/map/buildColourTable.js';
 import { predictEncodedTable } from '../src/map/colourTable.js';
+import type { ExposureParameters } from '../src/map/types.js';
 import { createMatchScratch, matchColour } from '../src/map/matchColour.js';
 import { readPhotoBytes } from '../src/io/readPhoto.js';
 import { mapDecodedPhoto } from '../src/map/mapPhoto.js';
@@ -161,7 +162,7 @@ describe('candidate starts of a colour-cube cell', () => {
     // under two exposures: the curve's passes and near misses as the mapper meets them.
     const soap = buildColourTable({ stack: resolveStack('soap-film'), angleRad: 0, light: 'D65', maxThicknessNm: 2000 }).table;
     const oxide = buildColourTable({ stack: resolveStack('oxide-on-silicon'), angleRad: 0, light: 'A', maxThicknessNm: 1500 }).table;
-    const cases = [
+    const cases: { table: typeof soap; parameters: ExposureParameters; perCell: number }[] = [
       { table: soap, parameters: { exposure: 1, whiteBalance: [1, 1, 1], flare: [0, 0, 0] }, perCell: PER_CELL },
       { table: soap, parameters: { exposure: 1.6, whiteBalance: [1.1, 1, 0.9], flare: [0.01, 0.01, 0.02] }, perCell: 2 },
       { table: oxide, parameters: { exposure: 0.8, whiteBalance: [1, 1, 1], flare: [0, 0, 0] }, perCell: PER_CELL },

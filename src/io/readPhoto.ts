@@ -25,6 +25,7 @@ import { checkMaxPixels } from './checkMaxPixels.js';
 import { uint16View } from './typedView.js';
 import { iccDescription, isSrgbDescription } from './iccDescription.js';
 import type { Photo, ReadPhotoOptions } from './photo.js';
+import { codesToFloats } from './codeLevels.js';
 
 export async function readPhoto(path: string, options: ReadPhotoOptions = {}): Promise<Photo> {
   // A page of a stack is read from the file (a stack of a thousand frames need not sit in memory).
@@ -48,16 +49,6 @@ function allGrey8(samples: Uint8Array, pixelCount: number): boolean {
   return true;
 }
 
-/** 8-bit RGB codes as floats 0..1 (through a table of the 256 levels), in a SharedArrayBuffer. */
-function expandRgb8(samples: Uint8Array, pixelCount: number): Float32Array {
-  const rgb = new Float32Array(new SharedArrayBuffer(pixelCount * 3 * 4));
-  const level = new Float32Array(256);
-  const scale = 1 / 255;
-  for (let v = 0; v < 256; v++) level[v] = v * scale;
-  for (let i = 0, n = pixelCount * 3; i < n; i++) rgb[i] = level[samples[i]];
-  return rgb;
-}
-
 /**
  * Gives `photo` its codes and an `rgb` made from them on first read (and kept), or set by
  * assignment: the mapper reads the codes (../map/photoPixels.ts), and a 12-MP photo's floats
@@ -73,7 +64,8 @@ function keepCodes(photo: Photo, codes: Uint8Array): void {
     configurable: true,
     get: (): Float32Array => {
       if (rgb === null) {
-        rgb = expandRgb8(codes, photo.width * photo.height);
+        // In a SharedArrayBuffer, so that the mapper's pixel threads read the floats without a copy.
+        rgb = codesToFloats(codes, 0, new Float32Array(new SharedArrayBuffer(codes.length * 4)));
         delete photo.codes;
       }
       return rgb;

@@ -13,6 +13,7 @@
 import { SRGB_TABLE_SIZE, srgbDecodeTable, srgbEncodeTable } from '../colour/srgbEncoderTable.js';
 import { evenRowsThreaded } from './pixelThreads.js';
 import { codePixels, floatPixels, type PhotoPixels, sharedPixels } from './photoPixels.js';
+import { codesToFloats } from '../io/codeLevels.js';
 import type { EvenLightInput } from './evenLightInput.js';
 import { type CameraResponse, INVERSE_SIZE, isIdentityResponse, LUMA_BT601, responseTables, TONE_TABLE_SIZE, toneAt } from '../colour/toneResponse.js';
 
@@ -92,7 +93,7 @@ export function evenOutLightRows(input: EvenLightInput, out: PhotoPixels, y0: nu
     const v = (y + 0.5 - height / 2) / half;
     inverseGainRow(us, colTerm, c[0] + c[2] * v + c[5] * v * v, c[4] * v, v, r4, lo, hi, stride, inverse);
     const offset = y * width * 3;
-    if (fromRow !== null) codesToFloats(rgb.codes!, rgb.levels, offset, fromRow);
+    if (fromRow !== null) codesToFloats(rgb.codes!, offset, fromRow);
     const from = fromRow ?? rgb.values;
     const to = toRow ?? out.values;
     const fromAt = fromRow !== null ? 0 : offset;
@@ -102,11 +103,6 @@ export function evenOutLightRows(input: EvenLightInput, out: PhotoPixels, y0: nu
     if (toRow !== null) floatsToCodes(toRow, out.codes!, offset);
   }
   return y1 - y0;
-}
-
-/** One row of codes from `offset` as their values. */
-function codesToFloats(codes: Uint8Array, levels: Float32Array, offset: number, row: Float32Array): void {
-  for (let k = 0; k < row.length; k++) row[k] = levels[codes[offset + k]];
 }
 
 /** One row of values already on 8-bit levels (k/255) back to their codes from `offset`. */

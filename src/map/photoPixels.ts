@@ -1,8 +1,8 @@
 /**
  * The photo's encoded RGB as the mapper reads it. An 8-bit photo stays as its decoded codes (one
  * byte per channel) and a value is read through a table of the 256 levels, so it is exactly the
- * float the photo would have held as floats (`v / 255` rounded to float32, as ../io/readPhoto.ts
- * scales it); any other photo (16-bit, a linear camera's encoded values, a photo evened off the
+ * float the photo would have held as floats (`v / 255` rounded to float32: the reader's table,
+ * ../io/codeLevels.ts); any other photo (16-bit, a linear camera's encoded values, a photo evened off the
  * 8-bit codes) is held as floats 0..1.
  *
  * Why: a 12-MP photo is 36 MB as codes and 144 MB as floats, and on a virtual machine the first
@@ -14,25 +14,18 @@
  * (the branch is the same for every pixel, and the element kind at each read stays one).
  */
 import type { Photo } from '../io/photo.js';
+import { codesToFloats, LEVELS_8 } from '../io/codeLevels.js';
 
 export interface PhotoPixels {
   /** Interleaved 8-bit RGB codes, or null when the photo is held as floats. */
   readonly codes: Uint8Array | null;
   /** Interleaved RGB values 0..1 when `codes` is null (else empty). */
   readonly values: Float32Array;
-  /** The value of each 8-bit code (`LEVELS_8`). */
+  /** The value of each 8-bit code (`LEVELS_8`, ../io/codeLevels.ts). */
   readonly levels: Float32Array;
   /** Interleaved samples (3 × pixels). */
   readonly length: number;
 }
-
-/** Code v stands for v / 255, rounded to float32 (the same arithmetic as ../io/readPhoto.ts). */
-export const LEVELS_8: Float32Array = (() => {
-  const levels = new Float32Array(256);
-  const scale = 1 / 255;
-  for (let v = 0; v < 256; v++) levels[v] = v * scale;
-  return levels;
-})();
 
 const NO_VALUES = new Float32Array(0);
 
@@ -55,11 +48,7 @@ export function valueAt(pixels: PhotoPixels, k: number): number {
 /** The photo as floats (a copy for codes; the values themselves otherwise), for code that needs a Float32Array. */
 export function pixelFloats(pixels: PhotoPixels): Float32Array {
   const codes = pixels.codes;
-  if (codes === null) return pixels.values;
-  const out = new Float32Array(codes.length);
-  const levels = pixels.levels;
-  for (let k = 0; k < codes.length; k++) out[k] = levels[codes[k]];
-  return out;
+  return codes === null ? pixels.values : codesToFloats(codes, 0, new Float32Array(codes.length));
 }
 
 /** The same pixels in a SharedArrayBuffer (the mapper's helper threads read them in place); itself when they are already shared. */
