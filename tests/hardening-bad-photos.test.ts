@@ -78,8 +78,11 @@ describe('damaged JPEGs', () => {
   it('--allow-damaged maps what decodes: the 480-row header gives a 480-row map whose undecoded rows have no estimate', () => {
     const r = cli('map', 'tall.jpg', '--stack', 'soap-film', '--allow-damaged', '--no-report', '--quiet', '--out', 'allowed');
     expect(r.status, r.stderr).toBe(0);
-    const record = JSON.parse(readFileSync(join(dir, 'allowed', 'tall.json'), 'utf8')) as { height_px: number; width_px: number };
+    const record = JSON.parse(readFileSync(join(dir, 'allowed', 'tall.json'), 'utf8')) as { height_px: number; width_px: number; warnings: string[] };
     expect([record.width_px, record.height_px]).toEqual([320, 480]);
+    // With --quiet the record is what says the photo was damaged (common practice: a result
+    // file carries its own caveats).
+    expect(record.warnings[0]).toMatch(/^damaged image \(.*\); mapped what decodes/);
     // The .npy map: rows from the first undecoded one down are all NaN.
     const npy = readFileSync(join(dir, 'allowed', 'tall.thickness.npy'));
     const headerLength = npy.readUInt16LE(8);
@@ -90,6 +93,7 @@ describe('damaged JPEGs', () => {
     for (const y of [260, 300, 479]) expect(rowHasEstimate(y)).toBe(false);
     const warn = cli('map', 'tall.jpg', '--stack', 'soap-film', '--allow-damaged', '--no-report', '--out', 'allowed2');
     expect(warn.stderr).toMatch(/lamella: warning: tall\.jpg: damaged image \(.*premature end of data segment\); mapped what decodes, the \d+ row\(s\) from row \d+ on that did not decode have no estimate/);
+    expect(warn.stderr.split('damaged image (').length - 1).toBe(1);
   }, 120_000);
 });
 

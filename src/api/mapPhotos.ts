@@ -148,7 +148,6 @@ export async function mapPhotos(inputs: readonly string[], options: MapPhotosOpt
     try {
       phase('decode');
       const decoded = await readPhoto(photo, { maxPixels: MAP_MAX_PIXELS, allowDamaged: options.allowDamaged === true });
-      for (const warning of decoded.warnings ?? []) warn(`${photo}: ${warning}`);
       const mask = map.maskPath ? await readMask(map.maskPath, decoded.width, decoded.height) : null;
       let photoOptions = map;
       if (known.length > 0) {
@@ -178,6 +177,8 @@ export async function mapPhotos(inputs: readonly string[], options: MapPhotosOpt
         for (const warning of onPhoto.warnings) warn(`${photo}: calibration: ${warning}`);
       }
       let result = mapDecodedPhoto(decoded, { ...photoOptions, onPhase: hooks.onPhase ? phase : null }, mask, photo);
+      // The reader's warnings (a damaged file, a colour profile) come first, in the record too.
+      if (decoded.warnings?.length) result = { ...result, warnings: [...decoded.warnings, ...result.warnings] };
       if (specRange && map.expectNm) {
         // The search range came from --spec, not from an --expect the user gave: say so.
         const given = `--expect ${map.expectNm[0]}-${map.expectNm[1]} nm`;
