@@ -68,7 +68,7 @@ describe('readPhoto() pixel values and bit depth', () => {
     expect(valueAt(pixelsOfPhoto(again), 4)).toBe(0.25);
   });
 
-  it('alpha and 16-bit sources are held as floats only (no codes); an 8-bit grey source, expanded to RGB, keeps codes', async () => {
+  it('alpha sources are held as floats only (no codes); an 8-bit grey source, expanded to RGB, keeps codes', async () => {
     const grey = join(dir, 'grey8-codes.png');
     await raw8([0, 128, 255, 7], 2, 2, 1).png().toFile(grey);
     const greyPhoto = await readPhoto(grey);
@@ -76,13 +76,39 @@ describe('readPhoto() pixel values and bit depth', () => {
     expect(greyPhoto.isGrey).toBe(true);
     const alpha = join(dir, 'rgba8-codes.png');
     await raw8([255, 0, 0, 255, 0, 128, 255, 128], 2, 1, 4).png().toFile(alpha);
-    const deep = join(dir, 'rgb16-codes.png');
-    await sharp(Uint16Array.from([0, 1, 257, 65535, 30000, 30001]), { raw: { width: 2, height: 1, channels: 3 } }).toColourspace('rgb16').png().toFile(deep);
-    for (const path of [alpha, deep]) {
+    const deepAlpha = join(dir, 'rgba16-codes.png');
+    await sharp(Uint16Array.from([0, 1, 257, 65535, 30000, 30001, 40000, 65535]), { raw: { width: 2, height: 1, channels: 4 } }).toColourspace('rgb16').png().toFile(deepAlpha);
+    for (const path of [alpha, deepAlpha]) {
       const photo = await readPhoto(path);
       expect(photo.codes, path).toBeUndefined();
       expect(photo.rgb.length).toBe(photo.width * photo.height * 3);
     }
+  });
+
+  it('16-bit RGB keeps its codes (two bytes a channel); the floats, made on first read, are exactly code/65535 as float32', async () => {
+    const path = join(dir, 'rgb16-codes.png');
+    // Codes one apart within one 8-bit step (30000, 30001), both ends, and 257 (8-bit 1 widened).
+    const data = [0, 1, 257, 65535, 30000, 30001, 12345, 54321, 65534, 2, 2, 2];
+    await sharp(Uint16Array.from(data), { raw: { width: 2, height: 2, channels: 3 } }).toColourspace('rgb16').png().toFile(path);
+    const photo = await readPhoto(path);
+    expect(photo.bitDepth).toBe(16);
+    expect(photo.codes).toBeInstanceOf(Uint16Array);
+    expect(Array.from(photo.codes!)).toEqual(data);
+    const pixels = pixelsOfPhoto(photo);
+    expect(pixels.codes).toBe(photo.codes);
+    // The mapper's reads are the definition's values: code / 65535 rounded to float32.
+    for (let k = 0; k < data.length; k++) expect(valueAt(pixels, k)).toBe(Math.fround(data[k] / 65535));
+    expect(photo.isGrey).toBe(false);
+    const floats = photo.rgb;
+    expect(photo.codes).toBeUndefined();
+    expect(floats.buffer).toBeInstanceOf(SharedArrayBuffer);
+    expect(Array.from(floats)).toEqual(data.map((v) => Math.fround(v / 65535)));
+    // Grey at 16 bits is found on the codes too.
+    const grey = join(dir, 'grey-rgb16.png');
+    await sharp(Uint16Array.from([5, 5, 5, 60000, 60000, 60000]), { raw: { width: 2, height: 1, channels: 3 } }).toColourspace('rgb16').png().toFile(grey);
+    const greyPhoto = await readPhoto(grey);
+    expect(greyPhoto.codes).toBeInstanceOf(Uint16Array);
+    expect(greyPhoto.isGrey).toBe(true);
   });
 
   it('an 8-bit RGB photo whose pixels are all grey is grey; one coloured pixel at the end makes it colour', async () => {

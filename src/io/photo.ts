@@ -22,12 +22,13 @@ export interface Photo {
    */
   rgb: Float32Array;
   /**
-   * 8-bit RGB photos without alpha, as readPhoto() returns them: the decoded codes (interleaved,
-   * 0..255), which the mapper reads in place of `rgb` (a 12-MP photo is 36 MB as codes, 144 MB as
-   * floats). readPhoto() makes `rgb` on first read; reading or setting `rgb` drops the codes, so
-   * that a map then reads the floats, changes included. Code that builds a Photo leaves it out.
+   * RGB photos without alpha, as readPhoto() returns them: the decoded codes (interleaved, 0..255
+   * or, 16-bit, 0..65535), which the mapper reads in place of `rgb` (a 12-MP photo is 36 MB as
+   * 8-bit codes, 72 MB as 16-bit codes, 144 MB as floats). readPhoto() makes `rgb` on first read;
+   * reading or setting `rgb` drops the codes, so that a map then reads the floats, changes
+   * included. Code that builds a Photo leaves it out.
    */
-  codes?: Uint8Array;
+  codes?: Uint8Array | Uint16Array;
   bitDepth: 8 | 16;
   /** Decoder that read the content: 'jpeg' | 'png' | 'tiff' | 'webp' | … (sniffed, not the suffix). */
   format: string;

@@ -25,7 +25,7 @@ import { checkMaxPixels } from './checkMaxPixels.js';
 import { uint16View } from './typedView.js';
 import { iccDescription, isSrgbDescription } from './iccDescription.js';
 import type { Photo, ReadPhotoOptions } from './photo.js';
-import { codesToFloats } from './codeLevels.js';
+import { allGrey, keepCodes } from './photoCodes.js';
 
 export async function readPhoto(path: string, options: ReadPhotoOptions = {}): Promise<Photo> {
   // A page of a stack is read from the file (a stack of a thousand frames need not sit in memory).
@@ -39,42 +39,6 @@ export async function readPhoto(path: string, options: ReadPhotoOptions = {}): P
  */
 export async function readPhotoBytes(bytes: Uint8Array, name: string, options: ReadPhotoOptions = {}): Promise<Photo> {
   return decodePhoto(Buffer.isBuffer(bytes) ? bytes : Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength), name, options);
-}
-
-/** True when every pixel of interleaved 8-bit RGB is grey (r = g = b); stops at the first that is not. */
-function allGrey8(samples: Uint8Array, pixelCount: number): boolean {
-  for (let i = 0, n = pixelCount * 3; i < n; i += 3) {
-    if (samples[i] !== samples[i + 1] || samples[i + 1] !== samples[i + 2]) return false;
-  }
-  return true;
-}
-
-/**
- * Gives `photo` its codes and an `rgb` made from them on first read (and kept), or set by
- * assignment: the mapper reads the codes (../map/photoPixels.ts), and a 12-MP photo's floats
- * (144 MB) are made only for code that asks for them. Whoever reads or sets `rgb` may change the
- * floats, so from then on they are the photo: the codes are dropped (`photo.codes` is gone), and
- * a map of the photo reads the floats as they are then.
- */
-function keepCodes(photo: Photo, codes: Uint8Array): void {
-  let rgb: Float32Array | null = null;
-  photo.codes = codes;
-  Object.defineProperty(photo, 'rgb', {
-    enumerable: true,
-    configurable: true,
-    get: (): Float32Array => {
-      if (rgb === null) {
-        // In a SharedArrayBuffer, so that the mapper's pixel threads read the floats without a copy.
-        rgb = codesToFloats(codes, 0, new Float32Array(new SharedArrayBuffer(codes.length * 4)));
-        delete photo.codes;
-      }
-      return rgb;
-    },
-    set: (value: Float32Array): void => {
-      rgb = value;
-      delete photo.codes;
-    },
-  });
 }
 
 /** Any other layout (grey, alpha, 16 bit) into `rgb` and `alpha`; true when every opaque pixel is grey. */
@@ -170,14 +134,15 @@ async function decodePhoto(bytes: Buffer | string, path: string, options: ReadPh
   const scale = is16 ? 1 / 65535 : 1 / 255;
   const colourChannels = channels === 2 || channels === 4 ? channels - 1 : channels;
   const hasAlpha = channels === 2 || channels === 4;
-  // 8-bit RGB (the common case) keeps its codes; anything else becomes floats now. The floats
-  // live in a SharedArrayBuffer, so that the mapper's pixel threads read them without a copy.
-  const codes = !is16 && channels === 3 ? (samples as Uint8Array) : null;
+  // RGB without alpha (the common case), 8-bit or 16-bit, keeps its codes (./photoCodes.ts);
+  // anything else becomes floats now. The floats live in a SharedArrayBuffer, so that the mapper's
+  // pixel threads read them without a copy.
+  const codes = channels === 3 ? samples : null;
   const rgb = codes ? new Float32Array(0) : new Float32Array(new SharedArrayBuffer(pixelCount * 3 * 4));
   const alpha = hasAlpha ? new Float32Array(pixelCount) : undefined;
   // The loops are functions of their own: in this long async function V8 compiled them on the
   // fly (on-stack replacement) for every photo of a series, with all of decodePhoto around them.
-  const allEqual = codes ? allGrey8(codes, pixelCount) : expandSamples(samples, rgb, alpha, pixelCount, channels, colourChannels, hasAlpha, scale);
+  const allEqual = codes ? allGrey(codes, pixelCount) : expandSamples(samples, rgb, alpha, pixelCount, channels, colourChannels, hasAlpha, scale);
   const orientation = typeof meta.orientation === 'number' && meta.orientation >= 1 && meta.orientation <= 8 ? meta.orientation : 1;
   const photo: Photo = {
     width,

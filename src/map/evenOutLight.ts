@@ -53,9 +53,9 @@ export function evenOutLight(
 }
 
 /**
- * Rows [y0, y1) of the evened photo into `out`; returns the rows done. A row of codes is read
- * through a float copy of the row, and a row put on codes is written to one first: the row loops
- * below then read and write floats only.
+ * Rows [y0, y1) of the evened photo into `out`; returns the rows done. A row of codes (8-bit or
+ * 16-bit) is read through a float copy of the row, and a row put on 8-bit codes (`eightBit`: only
+ * an 8-bit photo's) is written to one first: the row loops below then read and write floats only.
  */
 export function evenOutLightRows(input: EvenLightInput, out: PhotoPixels, y0: number, y1: number): number {
   const { rgb, width, height, flare, clamp, response } = input;
@@ -100,7 +100,7 @@ export function evenOutLightRows(input: EvenLightInput, out: PhotoPixels, y0: nu
     const toAt = toRow !== null ? 0 : offset;
     if (tables) styledRow(from, fromAt, to, toAt, width, inverse, f0, f1, f2, decode, encode, tables.inverseTone, tables.tone, 1 / saturation, saturation, contrast, gamma, quantise, triple, linearTriple);
     else plainRow(from, fromAt, to, toAt, width, inverse, f0, f1, f2, decode, encode, quantise);
-    if (toRow !== null) floatsToCodes(toRow, out.codes!, offset);
+    if (toRow !== null) floatsToCodes(toRow, out.codes as Uint8Array, offset);
   }
   return y1 - y0;
 }

@@ -308,11 +308,13 @@ export function mapPixels(input: MapPixelsInput): MapPixelsResult {
     startNm: table.startNm,
     stepNm: table.stepNm,
   };
-  const pass = pixelPassInput(common, space ? createCandidateCube(CUBE_LEVELS, PER_CELL) : cells.cube, input.eightBit ? createColourMemo(count) : null);
+  // The memo keys colours by their 8-bit levels: 16-bit codes are matched afresh, pixel by pixel.
+  const remember = input.eightBit === true && !(input.rgb.codes instanceof Uint16Array);
+  const pass = pixelPassInput(common, space ? createCandidateCube(CUBE_LEVELS, PER_CELL) : cells.cube, remember ? createColourMemo(count) : null);
   const passOut = { thicknessNm, cost: confidence, alternativeCost: threaded ? sharedFloat32(pixels) : new Float32Array(pixels) };
   const matchRows = (y0: number, y1: number) => matchPixelRows(pass, passOut, scratch, y0, y1);
   const dropped = threaded
-    ? matchPixelsThreaded({ ...common, cubeLevels: CUBE_LEVELS, perCell: PER_CELL, eightBit: input.eightBit === true }, passOut, threads, matchRows)
+    ? matchPixelsThreaded({ ...common, cubeLevels: CUBE_LEVELS, perCell: PER_CELL, eightBit: remember }, passOut, threads, matchRows)
     : matchRows(0, height);
   releaseColourMemo(pass.memo);
   // The empirical scale of the colour residual: JPEG smooths the pixel-to-pixel noise the noise

@@ -351,9 +351,10 @@ function matchRow(pass: Pass, first: number, reference: Float64Array, counts: Pi
       let e = -1;
       if (memo !== null) {
         // Neighbouring pixels often share a colour (about 2 in 3 in a 12-MP JPEG): its entry is kept.
-        // An 8-bit photo's colour is its codes; one held as floats is compared by value.
+        // An 8-bit photo's colour is its codes (a memo is made only for 8-bit codes, never for
+        // 16-bit ones); one held as floats is compared by value.
         const k = i * 3;
-        if (codes !== null) e = codes[k] === pass.lastR && codes[k + 1] === pass.lastG && codes[k + 2] === pass.lastB ? pass.lastEntry : lookUpCodes(pass, memo, codes, k);
+        if (codes !== null) e = codes[k] === pass.lastR && codes[k + 1] === pass.lastG && codes[k + 2] === pass.lastB ? pass.lastEntry : lookUpCodes(pass, memo, codes as Uint8Array, k);
         else e = values[k] === pass.lastR && values[k + 1] === pass.lastG && values[k + 2] === pass.lastB ? pass.lastEntry : lookUp(pass, memo, values, k);
       }
       if (e >= 0) {
