@@ -36,7 +36,7 @@ beforeAll(async () => {
 });
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
-function bytes(values: Float32Array | Uint8Array): Buffer {
+function bytes(values: Float32Array | Uint8Array | Uint16Array): Buffer {
   return Buffer.from(values.buffer, values.byteOffset, values.byteLength);
 }
 
