@@ -145,9 +145,13 @@ export async function mapPhotos(inputs: readonly string[], options: MapPhotosOpt
   for (const [index, photo] of photos.entries()) {
     const stem = stems[index];
     const phase = (name: 'decode' | MapPhase | 'outputs'): void => hooks.onPhase?.(photo, index, name);
+    // The reader's warnings until the photo's result carries them to onPhoto: a photo that fails
+    // after it was read (a mask of another size, a full disk) still says it was damaged.
+    let readerWarnings: readonly string[] = [];
     try {
       phase('decode');
       const decoded = await readPhoto(photo, { maxPixels: MAP_MAX_PIXELS, allowDamaged: options.allowDamaged === true });
+      readerWarnings = decoded.warnings ?? [];
       const mask = map.maskPath ? await readMask(map.maskPath, decoded.width, decoded.height) : null;
       let photoOptions = map;
       if (known.length > 0) {
@@ -228,8 +232,10 @@ export async function mapPhotos(inputs: readonly string[], options: MapPhotosOpt
       // Thin regions lie in the film only; a photo without film has none to report.
       if (result.thinRegions.length > 0 && result.filmArea?.found !== false) withThinRegions++;
       if (inspection?.verdict && !inspection.verdict.pass) outOfSpec++;
+      readerWarnings = [];
       hooks.onPhoto?.(photo, result, record, inspection);
     } catch (error) {
+      for (const warning of readerWarnings) warn(`${photo}: ${warning}`);
       // A calibration's light field made for another photo size holds for the whole run.
       if (error instanceof FieldSizeMismatchError) throw error;
       // A point or line outside the photo is a mistake in the options, not in this photo.
