@@ -7,6 +7,9 @@
 //   series — `lamella series` over 320×240 and 2-MP frames with 1 worker (CPU per frame: the run's
 //           CPU less a one-frame run's, over the extra frames) and the 2-MP run's wall time with
 //           1 and 2 workers (throughput ratio), in chunks of half the frames so that each worker has one.
+// For information it also prints two independent 1-worker runs at once (the machine's ceiling for
+// two workers) and the bound CPU time sets on the 2-worker figure (cores × 1 worker's wall ÷ 2
+// workers' CPU: each worker warms up on its own).
 // Each is one child process run under GNU time (user + system CPU seconds, all threads, and the
 // peak resident memory), so node's start-up and module loading count in every figure alike.
 // Everything is measured in rounds (3; LAMELLA_BENCH_ROUNDS=N), one round after another, and
@@ -17,7 +20,7 @@
 // Run after building: `node bench/floor.js` (or through bench/run.js).
 import { spawn, spawnSync } from 'node:child_process';
 import { mkdir, mkdtemp, rm } from 'node:fs/promises';
-import { tmpdir } from 'node:os';
+import { availableParallelism, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import sharp from 'sharp';
@@ -132,7 +135,7 @@ async function benchRound(dir, tag, photo, folders) {
     const pairS = key === 'big'
       ? await wallOfPair([CLI, ...base, folder, '--out', out(`${key}-pa`), '--workers', '1'], [CLI, ...base, folder, '--out', out(`${key}-pb`), '--workers', '1'])
       : null;
-    series[key] = { frames, width: w, height: h, perFrameS, wall1S: all.wallS, wall2S: two?.wallS ?? null, pairS };
+    series[key] = { frames, width: w, height: h, perFrameS, wall1S: all.wallS, wall2S: two?.wallS ?? null, pairS, cpu1S: all.cpuS, cpu2S: two?.cpuS ?? null };
   }
   return { floor, mapAll, huge, mapLean, series };
 }
@@ -186,6 +189,20 @@ export function formatFloor(r) {
     lines.push(
       `(information) two independent 1-worker runs of the same frames at once: ${told(pair, 2, '×')} the throughput of one alone (wall ${told(rounds.filter((x) => x.series.big.pairS).map((x) => x.series.big.pairS), 1, ' s')} for both): this machine's ceiling for two workers`,
     );
+    // A bound from CPU time alone: on C cores, a run that used T s of CPU cannot end in less than
+    // T / C s of wall time, so 2 workers' throughput is at most C × (1 worker's wall) ÷ (2 workers'
+    // CPU) times 1 worker's. Two workers use more CPU than one on the same frames: each warms up on
+    // its own (V8 compiles the hot functions in every isolate; a worker's first 2-MP frame costs
+    // 2–3× a later one), each chunk's first frame has no previous frame, and two busy cores slow
+    // each other (memory).
+    const both = rounds.filter((x) => x.series.big.cpu2S);
+    if (both.length > 0) {
+      const cores = availableParallelism();
+      lines.push(
+        `(information) CPU of 2 workers ÷ CPU of 1 on the same ${s.big.frames} frames: ${told(both.map((x) => x.series.big.cpu2S / x.series.big.cpu1S), 2, '×')}; ` +
+          `so on ${cores} cores 2 workers can reach at most ${told(both.map((x) => (cores * x.series.big.wall1S) / x.series.big.cpu2S), 2, '×')} the throughput of 1 here`,
+      );
+    }
   }
   return lines.join('\n');
 }
