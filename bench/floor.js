@@ -193,7 +193,7 @@ export function formatFloor(r) {
     // T / C s of wall time, so 2 workers' throughput is at most C × (1 worker's wall) ÷ (2 workers'
     // CPU) times 1 worker's. Two workers use more CPU than one on the same frames: each warms up on
     // its own (V8 compiles the hot functions in every isolate; a worker's first 2-MP frame costs
-    // 2–3× a later one), each chunk's first frame has no previous frame, and two busy cores slow
+    // 2–4× a later one), each chunk's first frame has no previous frame, and two busy cores slow
     // each other (memory).
     const both = rounds.filter((x) => x.series.big.cpu2S);
     if (both.length > 0) {
