@@ -49,6 +49,13 @@ export async function run(argv: readonly string[]): Promise<number> {
   const debug = argv.includes('--debug');
   // Ctrl-C / SIGTERM: remove half-written temp files, so no partial output is left behind.
   removeTempFilesOnSignals();
+  // `lamella --version` alone needs no command module (loading all eight, the image codec with
+  // them, took about 0.3 s of the 0.45 s it cost).
+  const args = argv.slice(2);
+  if (args.length === 1 && (args[0] === '--version' || args[0] === '-V')) {
+    process.stdout.write(`${LAMELLA_VERSION}\n`);
+    return EXIT_OK;
+  }
   let program: Command;
   try {
     program = await buildProgram(commandNamed(argv));
