@@ -8,8 +8,9 @@
 //           CPU less a one-frame run's, over the extra frames) and the 2-MP run's wall time with
 //           1 and 2 workers (throughput ratio), in chunks of half the frames so that each worker has one.
 // For information it also prints two independent 1-worker runs at once (the machine's ceiling for
-// two workers) and the bound CPU time sets on the 2-worker figure (cores × 1 worker's wall ÷ 2
-// workers' CPU: each worker warms up on its own).
+// two workers), the bound CPU time sets on the 2-worker figure (cores × 1 worker's wall ÷ 2
+// workers' CPU: each worker warms up on its own), and a long series' throughput with 1 and 2
+// workers (24 frames less the 6: start-up and warm-up cancel).
 // Each is one child process run under GNU time (user + system CPU seconds, all threads, and the
 // peak resident memory), so node's start-up and module loading count in every figure alike.
 // Everything is measured in rounds (3; LAMELLA_BENCH_ROUNDS=N), one round after another, and
@@ -94,12 +95,12 @@ const ROUNDS = Math.max(1, Math.floor(Number(process.env.LAMELLA_BENCH_ROUNDS ??
  * shares that round's conditions. `formatFloor` reports each figure's median over the rounds and
  * its range.
  */
-export async function benchFloor({ width = 4000, height = 3000, smallFrames = 12, bigFrames = 6, rounds = ROUNDS } = {}) {
+export async function benchFloor({ width = 4000, height = 3000, smallFrames = 12, bigFrames = 6, longFrames = 24, rounds = ROUNDS } = {}) {
   const dir = await mkdtemp(join(tmpdir(), 'lamella-bench-floor-'));
   try {
     const photo = await photoAt(dir, 'film.jpg', 8, width, height);
     const folders = {};
-    for (const [key, frames, w, h] of [['small', smallFrames, 320, 240], ['big', bigFrames, 1632, 1224]]) folders[key] = { folder: await seriesFrames(dir, key, frames, w, h), frames, width: w, height: h };
+    for (const [key, frames, w, h] of [['small', smallFrames, 320, 240], ['big', bigFrames, 1632, 1224], ['long', longFrames, 1632, 1224]]) folders[key] = { folder: await seriesFrames(dir, key, frames, w, h), frames, width: w, height: h };
     const results = [];
     for (let round = 0; round < rounds; round++) results.push(await benchRound(dir, `r${round}`, photo, folders));
     return { width, height, rounds: results };
@@ -137,6 +138,15 @@ async function benchRound(dir, tag, photo, folders) {
       : null;
     series[key] = { frames, width: w, height: h, perFrameS, wall1S: all.wallS, wall2S: two?.wallS ?? null, pairS, cpu1S: all.cpuS, cpu2S: two?.cpuS ?? null };
   }
+  // A long series (information): the same two runs on 24 frames whose first 6 are the 6 above,
+  // in chunks of half. What the 24-frame runs take beyond the 6-frame ones is the marginal frames'
+  // time, with start-up, warm-up and each chunk's first frame cancelled out: the throughput a long
+  // series gets from 2 workers.
+  const { folder: longFolder, frames: longCount } = folders.long;
+  const longBase = ['series', '--stack', 'soap-film', '--fps', '2', '--quiet', '--no-report', '--chunk-frames', String(Math.ceil(longCount / 2))];
+  const long1 = timed([CLI, ...longBase, longFolder, '--out', out('long-w1'), '--workers', '1'], 'series long');
+  const long2 = timed([CLI, ...longBase, longFolder, '--out', out('long-w2'), '--workers', '2'], 'series long 2 workers');
+  series.long = { frames: longCount, wall1S: long1.wallS, wall2S: long2.wallS };
   return { floor, mapAll, huge, mapLean, series };
 }
 
@@ -203,6 +213,16 @@ export function formatFloor(r) {
           `so on ${cores} cores 2 workers can reach at most ${told(both.map((x) => (cores * x.series.big.wall1S) / x.series.big.cpu2S), 2, '×')} the throughput of 1 here`,
       );
     }
+  }
+  const longRounds = rounds.filter((x) => x.series.long && x.series.big.wall2S);
+  if (longRounds.length > 0) {
+    const marginal = (x) => (x.series.long.wall1S - x.series.big.wall1S) / (x.series.long.wall2S - x.series.big.wall2S);
+    const extra = longRounds[0].series.long.frames - longRounds[0].series.big.frames;
+    lines.push(
+      `(information) long series: the ${extra} frames a ${longRounds[0].series.long.frames}-frame run maps beyond the ${longRounds[0].series.big.frames} above (the same first frames; start-up and warm-up cancel): ` +
+        `1 worker ${told(longRounds.map((x) => x.series.long.wall1S - x.series.big.wall1S), 1, ' s')}, 2 workers ${told(longRounds.map((x) => x.series.long.wall2S - x.series.big.wall2S), 1, ' s')} of wall time: ` +
+        `${told(longRounds.map(marginal), 2, '×')} the throughput of 1`,
+    );
   }
   return lines.join('\n');
 }
