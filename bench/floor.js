@@ -20,7 +20,7 @@
 // frame ≤ 0.25 s CPU, a 2-MP frame ≤ 0.7 s; 2 workers ≥ 1.7× the throughput of 1 on 2-MP frames.
 // Run after building: `node bench/floor.js` (or through bench/run.js).
 import { spawn, spawnSync } from 'node:child_process';
-import { mkdir, mkdtemp, rm } from 'node:fs/promises';
+import { copyFile, mkdir, mkdtemp, rm } from 'node:fs/promises';
 import { availableParallelism, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -79,11 +79,21 @@ async function photoAt(dir, name, frame, width, height) {
   return path;
 }
 
-async function seriesFrames(dir, name, count, width, height) {
+/** `count` frames (every 4th demo frame); those already in `from` (a folder of the same size) are copied, not rendered again. */
+async function seriesFrames(dir, name, count, width, height, from = null) {
   const folder = join(dir, name);
   await mkdir(folder);
-  for (let i = 0; i < count; i++) await photoAt(folder, `f${String(i).padStart(3, '0')}.jpg`, i * 4, width, height);
+  for (let i = 0; i < count; i++) {
+    const file = `f${String(i).padStart(3, '0')}.jpg`;
+    if (from && i < from.frames) await copyFile(join(from.folder, file), join(folder, file));
+    else await photoAt(folder, file, i * 4, width, height);
+  }
   return folder;
+}
+
+/** `lamella series` arguments for `frames` frames in chunks of half, so that two workers have a chunk each (a chunk is the unit of work). */
+function seriesArgs(frames) {
+  return ['series', '--stack', 'soap-film', '--fps', '2', '--quiet', '--no-report', '--chunk-frames', String(Math.ceil(frames / 2))];
 }
 
 /** Rounds of every measurement, interleaved (LAMELLA_BENCH_ROUNDS overrides; at least 1). */
@@ -100,7 +110,10 @@ export async function benchFloor({ width = 4000, height = 3000, smallFrames = 12
   try {
     const photo = await photoAt(dir, 'film.jpg', 8, width, height);
     const folders = {};
-    for (const [key, frames, w, h] of [['small', smallFrames, 320, 240], ['big', bigFrames, 1632, 1224], ['long', longFrames, 1632, 1224]]) folders[key] = { folder: await seriesFrames(dir, key, frames, w, h), frames, width: w, height: h };
+    for (const [key, frames, w, h] of [['small', smallFrames, 320, 240], ['big', bigFrames, 1632, 1224], ['long', longFrames, 1632, 1224]]) {
+      // The long series begins with the big one's frames (copied).
+      folders[key] = { folder: await seriesFrames(dir, key, frames, w, h, key === 'long' ? folders.big : null), frames, width: w, height: h };
+    }
     const results = [];
     for (let round = 0; round < rounds; round++) results.push(await benchRound(dir, `r${round}`, photo, folders));
     return { width, height, rounds: results };
@@ -126,8 +139,7 @@ async function benchRound(dir, tag, photo, folders) {
   const series = {};
   for (const key of ['small', 'big']) {
     const { folder, frames, width: w, height: h } = folders[key];
-    // Chunks of half the frames, so that two workers have a chunk each (a chunk is the unit of work).
-    const base = ['series', '--stack', 'soap-film', '--fps', '2', '--quiet', '--no-report', '--chunk-frames', String(Math.ceil(frames / 2))];
+    const base = seriesArgs(frames);
     const one = timed([CLI, ...base, join(folder, 'f000.jpg'), '--out', out(`${key}-1f`), '--workers', '1'], `series ${key} 1 frame`);
     const all = timed([CLI, ...base, folder, '--out', out(`${key}-w1`), '--workers', '1'], `series ${key}`);
     const perFrameS = (all.cpuS - one.cpuS) / (frames - 1);
@@ -143,7 +155,7 @@ async function benchRound(dir, tag, photo, folders) {
   // time, with start-up, warm-up and each chunk's first frame cancelled out: the throughput a long
   // series gets from 2 workers.
   const { folder: longFolder, frames: longCount } = folders.long;
-  const longBase = ['series', '--stack', 'soap-film', '--fps', '2', '--quiet', '--no-report', '--chunk-frames', String(Math.ceil(longCount / 2))];
+  const longBase = seriesArgs(longCount);
   const long1 = timed([CLI, ...longBase, longFolder, '--out', out('long-w1'), '--workers', '1'], 'series long');
   const long2 = timed([CLI, ...longBase, longFolder, '--out', out('long-w2'), '--workers', '2'], 'series long 2 workers');
   series.long = { frames: longCount, wall1S: long1.wallS, wall2S: long2.wallS };
@@ -199,20 +211,20 @@ export function formatFloor(r) {
     lines.push(
       `(information) two independent 1-worker runs of the same frames at once: ${told(pair, 2, '×')} the throughput of one alone (wall ${told(rounds.filter((x) => x.series.big.pairS).map((x) => x.series.big.pairS), 1, ' s')} for both): this machine's ceiling for two workers`,
     );
-    // A bound from CPU time alone: on C cores, a run that used T s of CPU cannot end in less than
-    // T / C s of wall time, so 2 workers' throughput is at most C × (1 worker's wall) ÷ (2 workers'
-    // CPU) times 1 worker's. Two workers use more CPU than one on the same frames: each warms up on
-    // its own (V8 compiles the hot functions in every isolate; a worker's first 2-MP frame costs
-    // 2–4× a later one), each chunk's first frame has no previous frame, and two busy cores slow
-    // each other (memory).
-    const both = rounds.filter((x) => x.series.big.cpu2S);
-    if (both.length > 0) {
-      const cores = availableParallelism();
-      lines.push(
-        `(information) CPU of 2 workers ÷ CPU of 1 on the same ${s.big.frames} frames: ${told(both.map((x) => x.series.big.cpu2S / x.series.big.cpu1S), 2, '×')}; ` +
-          `so on ${cores} cores 2 workers can reach at most ${told(both.map((x) => (cores * x.series.big.wall1S) / x.series.big.cpu2S), 2, '×')} the throughput of 1 here`,
-      );
-    }
+  }
+  // A bound from CPU time alone: on C cores, a run that used T s of CPU cannot end in less than
+  // T / C s of wall time, so 2 workers' throughput is at most C × (1 worker's wall) ÷ (2 workers'
+  // CPU) times 1 worker's. Two workers use more CPU than one on the same frames: each warms up on
+  // its own (V8 compiles the hot functions in every isolate; a worker's first 2-MP frame costs
+  // 2–4× a later one), each chunk's first frame has no previous frame, and two busy cores slow
+  // each other (memory).
+  const both = rounds.filter((x) => x.series.big.cpu2S);
+  if (both.length > 0) {
+    const cores = availableParallelism();
+    lines.push(
+      `(information) CPU of 2 workers ÷ CPU of 1 on the same ${s.big.frames} frames: ${told(both.map((x) => x.series.big.cpu2S / x.series.big.cpu1S), 2, '×')}; ` +
+        `so on ${cores} cores 2 workers can reach at most ${told(both.map((x) => (cores * x.series.big.wall1S) / x.series.big.cpu2S), 2, '×')} the throughput of 1 here`,
+    );
   }
   const longRounds = rounds.filter((x) => x.series.long && x.series.big.wall2S);
   if (longRounds.length > 0) {

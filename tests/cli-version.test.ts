@@ -1,6 +1,6 @@
 /**
- * `lamella --version` (and `-V`) print the package's version and exit 0, whether the short path
- * (no command module loaded) or commander's own (another program option beside it) answers.
+ * `lamella --version` (and `-V`) print the package's version and exit 0, with no command module
+ * loaded, another program option beside it or not.
  * The version is our own (package.json); common practice for CLIs.
  */
 import { describe, expect, it } from 'vitest';

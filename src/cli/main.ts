@@ -9,11 +9,13 @@ import { removeTempFilesOnSignals } from '../io/tempFiles.js';
 import { LAMELLA_VERSION } from '../version.js';
 
 /**
- * The program with every command, or only with `only` (a command's name): loading a command's
- * module loads all it needs, and loading all eight cost about 0.1 s of CPU more than loading the
- * one that runs (measured 2026-12-05).
+ * The program with every command (`only` null), or only with the commands `only` names (a name
+ * or a list; an empty list: none, for `--version`): loading a command's module loads all it
+ * needs, and loading all eight cost about 0.1 s of CPU more than loading the one that runs, and
+ * about 0.3 s more than loading none (measured 2026-12-05).
  */
-export async function buildProgram(only: string | null = null): Promise<Command> {
+export async function buildProgram(only: string | readonly string[] | null = null): Promise<Command> {
+  const wanted = only === null ? null : typeof only === 'string' ? [only] : only;
   const program = new Command();
   program
     .name('lamella')
@@ -26,7 +28,7 @@ export async function buildProgram(only: string | null = null): Promise<Command>
     // Parse errors (unknown option, missing argument, bad choice) as one line like every other error.
     .configureOutput({ outputError: (text, write) => write(`lamella: ${oneLine(text.replace(/^error: /, ''))} (run with --help for usage)\n`) });
   for (const { name, load } of commandModules) {
-    if (only !== null && name !== only) continue;
+    if (wanted !== null && !wanted.includes(name)) continue;
     const mod = await load();
     mod.register(program);
   }
@@ -35,13 +37,17 @@ export async function buildProgram(only: string | null = null): Promise<Command>
 }
 
 /**
- * The command a full argv runs, when it names one of ours (the first argument that is not an
- * option; the program's own options take no value); null otherwise (no command, help, or an
- * unknown name, whose error suggests the nearest command from all of them).
+ * The commands a full argv needs loaded: the one it runs, when it names one of ours (the first
+ * argument that is not an option; the program's own options take no value); none for a version
+ * request without a command or help; null (all) otherwise (no command, help, or an unknown name,
+ * whose error suggests the nearest command from all of them).
  */
-function commandNamed(argv: readonly string[]): string | null {
-  const first = argv.slice(2).find((a) => !a.startsWith('-'));
-  return first !== undefined && commandModules.some((c) => c.name === first) ? first : null;
+function commandsNeeded(argv: readonly string[]): readonly string[] | null {
+  const args = argv.slice(2);
+  const first = args.find((a) => !a.startsWith('-'));
+  if (first !== undefined) return commandModules.some((c) => c.name === first) ? [first] : null;
+  const asks = (...flags: string[]): boolean => args.some((a) => flags.includes(a));
+  return asks('--version', '-V') && !asks('--help', '-h') ? [] : null;
 }
 
 /** Runs the CLI with a full argv (`process.argv`) and returns the exit status. */
@@ -49,16 +55,9 @@ export async function run(argv: readonly string[]): Promise<number> {
   const debug = argv.includes('--debug');
   // Ctrl-C / SIGTERM: remove half-written temp files, so no partial output is left behind.
   removeTempFilesOnSignals();
-  // `lamella --version` alone needs no command module (loading all eight, the image codec with
-  // them, took about 0.3 s of the 0.45 s it cost).
-  const args = argv.slice(2);
-  if (args.length === 1 && (args[0] === '--version' || args[0] === '-V')) {
-    process.stdout.write(`${LAMELLA_VERSION}\n`);
-    return EXIT_OK;
-  }
   let program: Command;
   try {
-    program = await buildProgram(commandNamed(argv));
+    program = await buildProgram(commandsNeeded(argv));
     await program.parseAsync([...argv]);
     return typeof process.exitCode === 'number' ? process.exitCode : EXIT_OK;
   } catch (error) {
